@@ -1,0 +1,234 @@
+"""Domain types of the sizing stage: what goes in, what comes out.
+
+All values carry their unit in the name.  Nothing here does I/O.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+__all__ = [
+    "Load",
+    "Stretch",
+    "CircuitSpec",
+    "Factor",
+    "CableSelection",
+    "VoltageDrop",
+    "Check",
+    "SizingResult",
+    "STATUS_ORDER",
+]
+
+#: Severity order of a circuit's status, best first (contract.md, JSON output).
+STATUS_ORDER = ("ok", "warning", "fail", "error")
+
+
+@dataclass(frozen=True)
+class Load:
+    """A load as written in the schedule: a number and its unit.
+
+    Attributes
+    ----------
+    value : float
+        The number, > 0.
+    unit : str
+        One of ``"kW"`` (input power), ``"hp"`` (shaft power), ``"kVA"``, ``"A"``.
+    """
+
+    value: float
+    unit: str
+
+    def __str__(self) -> str:
+        return f"{self.value:g} {self.unit}"
+
+
+@dataclass(frozen=True)
+class Stretch:
+    """One stretch of the route with uniform installation conditions.
+
+    A circuit's rating is the lowest over its stretches (contract.md,
+    "Lengths and grouping").  For ``calc`` there is one stretch.
+
+    Attributes
+    ----------
+    segment_id : str
+        Id of the route segment ("" for ``calc``).
+    method : str
+        IEC 60364-5-52 reference installation method letter (A1 ... G).
+    other_cables : int
+        Cables of *other* circuits sharing this stretch; this circuit's own
+        parallel cables are added by the sizing itself.
+    ambient_c : float or None
+        Air temperature for in-air methods, ground temperature for D1/D2
+        [°C]; ``None`` takes the config default.
+    soil_resistivity_k_m_w : float or None
+        Soil thermal resistivity for D1/D2 [K·m/W]; ``None`` takes the default.
+    depth_m : float or None
+        Depth of laying for D1/D2 [m]; ``None`` takes the tabulated 0.7 m.
+    length_m : float
+        Length of the stretch [m] (informative).
+    trays : int
+        Number of trays or ladders stacked in the group (methods E/F), >= 1.
+    """
+
+    segment_id: str = ""
+    method: str = "E"
+    other_cables: int = 0
+    ambient_c: float | None = None
+    soil_resistivity_k_m_w: float | None = None
+    depth_m: float | None = None
+    length_m: float = 0.0
+    trays: int = 1
+
+
+@dataclass(frozen=True)
+class CircuitSpec:
+    """Everything the sizing needs to know about one circuit.
+
+    Attributes
+    ----------
+    circuit_id : str
+    load : Load
+    voltage_v : float
+        Line-to-line for 3 phases, line-to-neutral for 1 phase [V].
+    phases : int
+        3 or 1.
+    power_factor : float
+        Running power factor, in (0, 1].
+    efficiency : float
+        Motor efficiency in (0, 1]; kW and hp are divided by it.
+    load_type : str
+        ``motor``, ``lighting``, ``general`` or ``feeder``.
+    conductor, insulation : str
+        ``Cu``/``Al`` and ``XLPE``/``PVC``.
+    cores : int or None
+        Cores of one multi-core cable; ``None``: 4 for 3 phases, 3 for 1.
+    vd_limit_pct : float or None
+        Voltage-drop limit [%]; ``None`` takes the config value for the load type.
+    fault_ka : float or None
+        Prospective short-circuit current at the source [kA].
+    design_length_m : float
+        Length for voltage drop and impedance [m].
+    stretches : tuple of Stretch
+        Installation conditions along the route; at least one.
+    extra : tuple of (str, str)
+        Further schedule fields (starter kind, device kind, ...) for later checks.
+    """
+
+    circuit_id: str
+    load: Load
+    voltage_v: float
+    phases: int = 3
+    power_factor: float = 0.85
+    efficiency: float = 1.0
+    load_type: str = "general"
+    conductor: str = "Cu"
+    insulation: str = "XLPE"
+    cores: int | None = None
+    vd_limit_pct: float | None = None
+    fault_ka: float | None = None
+    design_length_m: float = 0.0
+    stretches: tuple[Stretch, ...] = (Stretch(),)
+    extra: tuple[tuple[str, str], ...] = ()
+
+    def extra_value(self, name: str, default: str | None = None) -> str | None:
+        """Value of a further schedule field, ``default`` when blank or absent."""
+        for key, value in self.extra:
+            if key == name and value.strip():
+                return value.strip()
+        return default
+
+
+@dataclass(frozen=True)
+class Factor:
+    """A correction factor and where it was read.
+
+    Attributes
+    ----------
+    name : str
+        ``ambient``, ``ground_temperature``, ``soil``, ``grouping``, ``depth``.
+    value : float
+        The factor (dimensionless).
+    source : str
+        Standard, edition and table, e.g. ``"IEC 60364-5-52:2009 Table B.52.14"``.
+    detail : str
+        The row and column read, e.g. ``"XLPE, 40 °C"``.
+    """
+
+    name: str
+    value: float
+    source: str
+    detail: str = ""
+
+
+@dataclass(frozen=True)
+class CableSelection:
+    """The chosen cable.  ``capacity_a`` is for all parallel cables together."""
+
+    conductor: str
+    insulation: str
+    cores: int
+    csa_mm2: float
+    parallel: int
+    capacity_a: float
+    governed_by: str
+
+    def describe(self) -> str:
+        """Short text for labels, e.g. ``"2x 4C 240 mm² Cu/XLPE"``."""
+        size = f"{self.csa_mm2:g}"
+        lead = f"{self.parallel}x " if self.parallel > 1 else ""
+        return f"{lead}{self.cores}C {size} mm² {self.conductor}/{self.insulation}"
+
+
+@dataclass(frozen=True)
+class VoltageDrop:
+    """Voltage drop at the design current over the design length."""
+
+    volts: float
+    percent: float
+    limit_percent: float
+    mv_per_a_m: float
+    annex_g_percent: float
+
+
+@dataclass(frozen=True)
+class Check:
+    """One check on the chosen cable (capacity, overload, voltage drop, ...).
+
+    ``value`` and ``limit`` are in ``unit``; ``passed`` tells the outcome.
+    """
+
+    name: str
+    passed: bool
+    value: float
+    limit: float
+    unit: str
+    source: str
+    message: str = ""
+
+
+@dataclass(frozen=True)
+class SizingResult:
+    """The outcome of sizing one circuit.
+
+    ``status`` is one of :data:`STATUS_ORDER`; ``cable`` is ``None`` only for
+    ``"error"``.  ``steps`` lists the calculation in order for the report.
+    """
+
+    circuit_id: str
+    status: str
+    messages: tuple[str, ...] = ()
+    load_current_a: float | None = None
+    device_rating_a: float | None = None
+    device_kind: str = ""
+    method: str = ""
+    governing_segment: str = ""
+    cables_in_group: int = 0
+    grouping_factor: float = 1.0
+    correction_factor: float | None = None
+    factors: tuple[Factor, ...] = ()
+    required_capacity_a: float | None = None
+    cable: CableSelection | None = None
+    voltage_drop: VoltageDrop | None = None
+    checks: tuple[Check, ...] = ()
+    steps: tuple[tuple[str, str, str], ...] = field(default=(), compare=False)
