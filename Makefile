@@ -1,0 +1,32 @@
+# cablewright: every target sets up its own virtual environment on a fresh machine.
+PYTHON ?= python3
+VENV   ?= .venv
+PY     := $(VENV)/bin/python
+STAMP  := $(VENV)/.installed-stamp
+OUT    ?= demo_out
+
+.PHONY: demo test lint bench clean
+
+$(STAMP): pyproject.toml
+	$(PYTHON) -m venv $(VENV)
+	$(PY) -m pip install --quiet --upgrade pip
+	$(PY) -m pip install --quiet -e ".[test]"
+	touch $(STAMP)
+
+## make demo: the whole job on the bundled sample drawing, outputs in ./demo_out
+demo: $(STAMP)
+	$(VENV)/bin/cablewright demo --out $(OUT)
+
+## make test: the full test suite (unit, doctests, published-value checks)
+test: $(STAMP)
+	$(PY) -m pytest -q
+
+lint: $(STAMP)
+	$(PY) -m ruff check .
+
+## make bench: the benchmark scripts (figures in benchmarks/RESULTS.md)
+bench: $(STAMP)
+	$(PY) benchmarks/bench_sizing.py
+
+clean:
+	rm -rf $(VENV) $(OUT) .pytest_cache

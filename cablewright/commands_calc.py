@@ -1,0 +1,73 @@
+"""``cablewright calc``: one circuit, no drawing."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from cablewright.annotate.jsonout import document
+from cablewright.annotate.model import CircuitOutcome
+from cablewright.extract.errors import CableRouteError, CircuitInputError
+from cablewright.sizing.fields import spec_from_fields
+from cablewright.sizing.model import SizingResult, Stretch
+from cablewright.sizing.select import size_circuit
+
+from .config import load_settings
+from .console import calc_steps
+
+__all__ = ["run"]
+
+
+def _float(name: str, text: str | None) -> float | None:
+    if text is None:
+        return None
+    try:
+        return float(str(text).replace(",", "."))
+    except ValueError:
+        raise CircuitInputError(f"--{name} {text!r} is not a number") from None
+
+
+def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
+    settings = load_settings(args.config)
+    length_m = 0.0
+    try:
+        length_m = _float("length", args.length) or 0.0
+        group = _float("group", args.group)
+        if group is None or group < 1 or group != int(group):
+            raise CircuitInputError(f"--group {args.group!r} must be a whole number >= 1")
+        method = str(args.method).strip().upper()
+        stretch = Stretch(
+            segment_id="", method=method, other_cables=int(group) - 1,
+            ambient_c=_float("ambient", args.ambient),
+            soil_resistivity_k_m_w=_float("soil", args.soil),
+            length_m=length_m,
+        )
+        fields = {
+            "load": args.load, "voltage": args.voltage, "phases": args.phases,
+            "power_factor": args.power_factor, "efficiency": args.efficiency,
+            "load_type": args.load_type, "conductor": args.conductor,
+            "insulation": args.insulation, "cores": args.cores,
+            "vd_limit_pct": args.vd_limit_pct, "fault_ka": args.fault_ka,
+        }
+        spec = spec_from_fields(args.id, fields, settings.sizing, length_m, (stretch,))
+    except CableRouteError as exc:
+        if type(exc).__name__ == "ConfigError":
+            raise
+        return SizingResult(args.id, "error", (str(exc),)), length_m
+    return size_circuit(spec, settings.sizing), length_m
+
+
+def run(args: argparse.Namespace) -> int:
+    """Size the circuit described by the arguments; 0 pass, 1 fail or error, 2 bad config."""
+    result, length_m = _result(args)
+    outcome = CircuitOutcome(args.id, "", "", result.status, result.messages, sizing=result)
+    if args.json:
+        print(json.dumps(document([outcome], kind="calc"), indent=2, ensure_ascii=False))
+    else:
+        print(calc_steps(result, length_m))
+    if result.status == "error":
+        for message in result.messages:
+            print(f"cablewright: error: {message}", file=sys.stderr)
+        return 1
+    return 0 if result.status in ("ok", "warning") else 1

@@ -1,0 +1,66 @@
+"""Terminal output: step-by-step calculation of one circuit, and summary tables."""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+from cablewright.sizing.model import SizingResult
+
+__all__ = ["CAUTION", "calc_steps", "format_table"]
+
+CAUTION = (
+    "Design aid only: check every result with a qualified person against local wiring rules, "
+    "the cable maker's data and the installation as built."
+)
+
+
+def format_table(headers: list[str], rows: Iterable[list[str]]) -> str:
+    """A plain text table with aligned columns."""
+    rows = [list(map(str, r)) for r in rows]
+    widths = [len(h) for h in headers]
+    for row in rows:
+        for i, cell in enumerate(row):
+            widths[i] = max(widths[i], len(cell))
+    line = "  ".join(h.ljust(w) for h, w in zip(headers, widths))
+    rule = "  ".join("-" * w for w in widths)
+    body = ["  ".join(c.ljust(w) for c, w in zip(row, widths)) for row in rows]
+    return "\n".join([line, rule, *body])
+
+
+def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
+    """The calculation of one circuit, step by step, with the source of each value."""
+    rows: list[list[str]] = []
+    if result.load_current_a is not None:
+        rows.append(["design current Ib", f"{result.load_current_a:.1f} A", "IEC 60050-131, P = k U I cos phi"])
+    if result.device_rating_a is not None:
+        rows.append(["device rating In", f"{result.device_rating_a:g} A ({result.device_kind})",
+                     "smallest standard rating >= 1.25 Ib (common practice)"])
+    if result.method:
+        rows.append(["reference method", result.method, "IEC 60364-5-52:2009 Table B.52.1"])
+    for factor in result.factors:
+        rows.append([f"factor: {factor.name}", f"{factor.value:.3f}", f"{factor.source} ({factor.detail})"])
+    if result.correction_factor is not None:
+        rows.append(["correction (product)", f"{result.correction_factor:.3f}", ""])
+    if result.required_capacity_a is not None:
+        rows.append(["required tabulated capacity", f"{result.required_capacity_a:.1f} A",
+                     "max(In, I2/1.45) / correction, IEC 60364-4-43 433.1"])
+    if result.cable is not None:
+        cable = result.cable
+        rows.append(["cable", cable.describe(), f"governed by {cable.governed_by}"])
+        rows.append(["corrected capacity Iz", f"{cable.capacity_a:.1f} A", "IEC 60364-5-52:2009 Annex B"])
+    if result.voltage_drop is not None:
+        vd = result.voltage_drop
+        where = f" over {length_m:g} m" if length_m else ""
+        rows.append(["voltage drop", f"{vd.volts:.2f} V = {vd.percent:.2f} %{where} (limit {vd.limit_percent:g} %)",
+                     "IEC 60228 R at max temperature + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"])
+        rows.append(["  Annex G simplified", f"{vd.annex_g_percent:.2f} %", "IEC 60364-5-52:2009 Annex G"])
+    for check in result.checks:
+        mark = "pass" if check.passed else "FAIL"
+        rows.append([f"check: {check.name}", f"{mark}  {check.value:.3g} vs {check.limit:.3g} {check.unit}",
+                     check.source])
+    text = [f"circuit {result.circuit_id}: {result.status.upper()}", format_table(["step", "value", "source"], rows)]
+    for message in result.messages:
+        text.append(f"  - {message}")
+    text.append("")
+    text.append(CAUTION)
+    return "\n".join(text)

@@ -1,0 +1,387 @@
+"""Cable selection: device, cross-section, parallel cables, checks.
+
+The procedure of IEC 60364-4-43 433.1 and IEC 60364-5-52 clause 523:
+
+1. Ib from the load (:mod:`.load`), In from Ib (:mod:`.device`);
+2. on every stretch of the route, Iz = n x It x (temperature, soil, grouping
+   factors); the stretch with the lowest Iz governs;
+3. the smallest cross-section with Iz >= max(In, I2/1.45) (433.1);
+4. raised until every upsizing check passes (voltage drop, and any check
+   registered in :data:`UPSIZE_CHECKS`);
+5. parallel cables (equal sizes, each counted in the grouping,
+   IEC 60364-5-52:2009 523.7) only where no single cable will do.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+from functools import lru_cache
+
+from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
+
+from .capacity_tables import sizes_for, tabulated_capacity
+from .config import SizingConfig
+from .correction_tables import (
+    ambient_air_factor,
+    grouping_factor,
+    ground_temperature_factor,
+    soil_resistivity_factor,
+)
+from .device import DeviceSelection, required_iz_a, select_device
+from .load import design_current_a
+from .model import (
+    CableSelection,
+    Check,
+    CircuitSpec,
+    Factor,
+    SizingResult,
+    Stretch,
+    VoltageDrop,
+)
+from .voltage_drop import (
+    MAX_CONDUCTOR_TEMPERATURE_C,
+    annex_g_drop_percent,
+    drop_percent,
+    voltage_drop_v,
+)
+
+__all__ = [
+    "GROUND_METHODS",
+    "AIR_METHODS",
+    "Candidate",
+    "SizingContext",
+    "UpsizeCheck",
+    "UPSIZE_CHECKS",
+    "loaded_conductors",
+    "stretch_rating",
+    "size_circuit",
+]
+
+#: Reference methods in the ground (IEC 60364-5-52:2009 Table B.52.1): rated
+#: at 20 °C ground, 2.5 K·m/W soil, 0.7 m deep.
+GROUND_METHODS = frozenset({"D1", "D2"})
+#: Reference methods in air, rated at 30 °C (IEC 60364-5-52:2009 B.52.2 ff).
+AIR_METHODS = frozenset({"A1", "A2", "B1", "B2", "C", "E", "F", "G"})
+CONDUCTORS = ("Cu", "Al")
+INSULATIONS = ("XLPE", "PVC")
+
+
+def loaded_conductors(phases: int) -> int:
+    """Loaded conductors of a circuit: 3 for 3 phases, 2 for 1 phase.
+
+    The neutral of a balanced 3-phase circuit carries no load
+    (IEC 60364-5-52:2009 523.6.3; harmonics per Annex E are not considered).
+    """
+    return 3 if phases == 3 else 2
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A cable under test: size, parallel count, its Iz and governing stretch."""
+
+    csa_mm2: float
+    parallel: int
+    capacity_a: float
+    stretch_index: int
+
+
+@dataclass(frozen=True)
+class SizingContext:
+    """What the checks need besides the spec and the candidate."""
+
+    design_current_a: float
+    device: DeviceSelection
+    required_iz_a: float
+    voltage_v: float
+    cores: int
+    vd_limit_pct: float
+    conductor_temp_c: float
+
+
+#: A check on a candidate: returns a :class:`Check` (``passed`` False raises the size).
+UpsizeCheck = Callable[[CircuitSpec, Candidate, SizingContext, SizingConfig], Check]
+
+
+def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> VoltageDrop:
+    volts = voltage_drop_v(
+        ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
+        spec.power_factor, cand.parallel, ctx.conductor_temp_c,
+    )
+    percent = drop_percent(volts, ctx.voltage_v)
+    per_a_m = 1000.0 * volts / (ctx.design_current_a * spec.design_length_m) if spec.design_length_m > 0 else 0.0
+    annex_g = annex_g_drop_percent(
+        ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
+        spec.power_factor, ctx.voltage_v, cand.parallel,
+    )
+    return VoltageDrop(volts, percent, ctx.vd_limit_pct, per_a_m, annex_g)
+
+
+def check_voltage_drop(
+    spec: CircuitSpec, cand: Candidate, ctx: SizingContext, config: SizingConfig
+) -> Check:
+    """Voltage drop at Ib over the design length within its limit (IEC 60364-5-52 525, Annex G)."""
+    vd = _voltage_drop(spec, cand, ctx)
+    passed = vd.percent <= vd.limit_percent + 1e-9
+    message = "" if passed else (
+        f"voltage drop {vd.percent:.2f} % exceeds the {vd.limit_percent:g} % limit"
+    )
+    return Check("voltage_drop", passed, vd.percent, vd.limit_percent, "%",
+                 "IEC 60364-5-52:2009 525 and Annex G", message)
+
+
+#: Checks that raise the cross-section when they fail, run in this order.
+#: Each may be extended (e.g. short circuit, motor start); keys are the
+#: ``governed_by`` names of contract.md.
+UPSIZE_CHECKS: dict[str, UpsizeCheck] = {"voltage_drop": check_voltage_drop}
+
+
+@lru_cache(maxsize=4096)
+def _environment_factors(
+    method: str, insulation: str, ambient_c: float, soil_k_m_w: float
+) -> tuple[Factor, ...]:
+    if method in GROUND_METHODS:
+        return (
+            ground_temperature_factor(ambient_c, insulation),
+            soil_resistivity_factor(soil_k_m_w, method),
+        )
+    return (ambient_air_factor(ambient_c, insulation),)
+
+
+@lru_cache(maxsize=4096)
+def _grouping(method: str, cables: int, trays: int) -> Factor:
+    return grouping_factor(method, cables, trays=trays)
+
+
+def stretch_factors(
+    stretch: Stretch, spec: CircuitSpec, parallel: int, config: SizingConfig
+) -> tuple[Factor, ...]:
+    """Correction factors on one stretch for ``parallel`` cables of this circuit.
+
+    Temperature (Table B.52.14 in air, B.52.15 in the ground), soil
+    resistivity (B.52.16, ground only) and grouping (B.52.17 to B.52.21) of
+    IEC 60364-5-52:2009, counting ``stretch.other_cables + parallel`` cables.
+    """
+    method = _method_for(stretch.method, spec)
+    if method in GROUND_METHODS:
+        ambient = config.ground_c if stretch.ambient_c is None else stretch.ambient_c
+        soil = (config.soil_resistivity_k_m_w if stretch.soil_resistivity_k_m_w is None
+                else stretch.soil_resistivity_k_m_w)
+    else:
+        ambient = config.ambient_air_c if stretch.ambient_c is None else stretch.ambient_c
+        soil = config.soil_resistivity_k_m_w
+    env = _environment_factors(method, spec.insulation, float(ambient), float(soil))
+    cables = stretch.other_cables + parallel
+    return env + (_grouping(method, cables, stretch.trays),)
+
+
+def _method_for(method: str, spec: CircuitSpec) -> str:
+    # Single-core cables on trays in free air are method F, multi-core E
+    # (IEC 60364-5-52:2009 Table B.52.1, items 31 to 34).
+    if method == "E" and spec.cores == 1:
+        return "F"
+    return method
+
+
+def stretch_rating(
+    stretch: Stretch, spec: CircuitSpec, csa_mm2: float, parallel: int, config: SizingConfig
+) -> tuple[float, float, tuple[Factor, ...]]:
+    """Iz of ``parallel`` cables on one stretch: (Iz [A], product of factors, factors)."""
+    method = _method_for(stretch.method, spec)
+    tab = tabulated_capacity(method, spec.conductor, spec.insulation,
+                             loaded_conductors(spec.phases), csa_mm2)
+    factors = stretch_factors(stretch, spec, parallel, config)
+    total = math.prod(f.value for f in factors)
+    return parallel * tab.current_a * total, total, factors
+
+
+def _validate(spec: CircuitSpec) -> None:
+    if spec.conductor not in CONDUCTORS:
+        raise UnknownKeyError(f"conductor {spec.conductor!r} is unknown: use Cu or Al")
+    if spec.insulation not in INSULATIONS:
+        raise UnknownKeyError(f"insulation {spec.insulation!r} is unknown: use XLPE or PVC")
+    if spec.phases not in (1, 3):
+        raise CircuitInputError(f"phases must be 1 or 3, not {spec.phases}")
+    if spec.design_length_m < 0 or not math.isfinite(spec.design_length_m):
+        raise CircuitInputError(f"length {spec.design_length_m} m must be zero or more")
+    if not spec.stretches:
+        raise CircuitInputError("no installation method given")
+
+
+def _candidate_sizes(spec: CircuitSpec, config: SizingConfig) -> tuple[float, ...]:
+    """Cross-sections every stretch's table lists, within the config's bounds."""
+    loaded = loaded_conductors(spec.phases)
+    common: set[float] | None = None
+    for stretch in spec.stretches:
+        sizes = set(sizes_for(_method_for(stretch.method, spec), spec.conductor, spec.insulation, loaded))
+        common = sizes if common is None else common & sizes
+    upper = config.max_single_csa_mm2 or math.inf
+    return tuple(sorted(s for s in (common or ()) if s <= upper))
+
+
+def _rating(spec: CircuitSpec, csa: float, parallel: int, config: SizingConfig) -> Candidate:
+    best: Candidate | None = None
+    for index, stretch in enumerate(spec.stretches):
+        iz, _, _ = stretch_rating(stretch, spec, csa, parallel, config)
+        if best is None or iz < best.capacity_a:
+            best = Candidate(csa, parallel, iz, index)
+    assert best is not None
+    return best
+
+
+def _first_passing(spec, sizes, parallel, need_a, config):
+    for csa in sizes:
+        cand = _rating(spec, csa, parallel, config)
+        if cand.capacity_a >= need_a - 1e-9:
+            return cand
+    return None
+
+
+def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> SizingResult:
+    """Size one circuit: device, cable, parallel count, checks.
+
+    Parameters
+    ----------
+    spec : CircuitSpec
+        The load, the supply and the installation stretches.
+    config : SizingConfig, optional
+        Defaults of contract.md when omitted.
+
+    Returns
+    -------
+    SizingResult
+        ``status`` ``ok`` when every check passes, ``fail`` when a cable was
+        chosen but a check fails, ``error`` (with a message) when the circuit
+        cannot be sized.  Never raises for a bad circuit.
+
+    Examples
+    --------
+    >>> from cablewright.sizing.model import Load, CircuitSpec, Stretch
+    >>> spec = CircuitSpec("P-1", Load(55, "kW"), 400, design_length_m=60,
+    ...                    stretches=(Stretch(method="E", other_cables=0),))
+    >>> r = size_circuit(spec)
+    >>> r.device_rating_a, r.cable.csa_mm2, r.status
+    (125, 35, 'ok')
+
+    References
+    ----------
+    .. [1] IEC 60364-4-43:2008, 433.1.
+    .. [2] IEC 60364-5-52:2009, 523 and Annex B.
+    """
+    config = config or SizingConfig()
+    try:
+        return _size(spec, config)
+    except CableRouteError as exc:
+        return SizingResult(spec.circuit_id, "error", (str(exc),))
+
+
+def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
+    _validate(spec)
+    cores = spec.cores or (4 if spec.phases == 3 else 3)
+    spec = replace(spec, cores=cores) if spec.cores != cores else spec
+    ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
+    device = select_device(ib, config.device_kind, config.device_margin, config.standard_ratings_a)
+    need = required_iz_a(device)
+    limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
+    temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp)
+
+    sizes = _candidate_sizes(spec, config)
+    minimum = config.min_csa_mm2.get(spec.conductor, 0.0)
+    allowed = tuple(s for s in sizes if s >= minimum - 1e-9)
+    if not allowed:
+        raise CircuitInputError(
+            f"no cross-section of the tables for method(s) "
+            f"{', '.join(sorted({s.method for s in spec.stretches}))} is allowed by the config"
+        )
+
+    first_ok: tuple[Candidate, str] | None = None
+    for parallel in range(1, config.max_parallel + 1):
+        cand = _first_passing(spec, allowed, parallel, need, config)
+        if cand is None:
+            continue
+        governed = "capacity"
+        if cand.csa_mm2 == allowed[0] and allowed[0] > sizes[0]:
+            below = _rating(spec, sizes[0], parallel, config)
+            if below.capacity_a >= need:
+                governed = "minimum"
+        if first_ok is None:
+            first_ok = (cand, governed)
+        upsized = _apply_upsize_checks(spec, cand, ctx, config, allowed, governed)
+        if upsized is not None:
+            return _result(spec, upsized[0], upsized[1], ctx, config)
+    if first_ok is None:
+        largest = allowed[-1]
+        raise CircuitInputError(
+            f"design current {ib:.1f} A needs Iz >= {need:.1f} A: beyond {config.max_parallel} "
+            f"parallel cables of {largest:g} mm² under these conditions; split the load, "
+            "change the route or raise max_parallel in the config"
+        ) from None
+    return _result(spec, first_ok[0], first_ok[1], ctx, config)
+
+
+def _apply_upsize_checks(spec, cand, ctx, config, allowed, governed):
+    """Raise ``cand`` through ``allowed`` until every upsize check passes, or None."""
+    index = allowed.index(cand.csa_mm2)
+    while True:
+        failing = None
+        for name, check in UPSIZE_CHECKS.items():
+            if not check(spec, cand, ctx, config).passed:
+                failing = name
+                break
+        if failing is None:
+            return cand, governed
+        index += 1
+        if index >= len(allowed):
+            return None
+        cand = _rating(spec, allowed[index], cand.parallel, config)
+        governed = failing
+
+
+def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContext,
+            config: SizingConfig) -> SizingResult:
+    stretch = spec.stretches[cand.stretch_index]
+    method = _method_for(stretch.method, spec)
+    iz, total, factors = stretch_rating(stretch, spec, cand.csa_mm2, cand.parallel, config)
+    checks = [
+        Check("design_current", ctx.design_current_a <= ctx.device.rating_a, ctx.design_current_a,
+              ctx.device.rating_a, "A", "IEC 60364-4-43:2008 433.1 (433.1): Ib <= In"),
+        Check("capacity", ctx.device.rating_a <= iz + 1e-9, ctx.device.rating_a, iz, "A",
+              "IEC 60364-4-43:2008 433.1 (433.1): In <= Iz"),
+        Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
+              f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
+    ]
+    for check in UPSIZE_CHECKS.values():
+        checks.append(check(spec, cand, ctx, config))
+    messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
+    status = "fail" if messages else "ok"
+    if spec.design_length_m <= 0:
+        messages.append("no length given: voltage drop not checked")
+        status = "warning" if status == "ok" else status
+    if cand.parallel > 1:
+        messages.append(
+            f"{cand.parallel} cables in parallel: equal length, cross-section and route "
+            "required (IEC 60364-5-52:2009 523.7)"
+        )
+    grouping = next((f for f in factors if f.name == "grouping"), None)
+    cable = CableSelection(spec.conductor, spec.insulation, ctx.cores, cand.csa_mm2,
+                           cand.parallel, iz, governed)
+    return SizingResult(
+        circuit_id=spec.circuit_id,
+        status=status,
+        messages=tuple(messages),
+        load_current_a=ctx.design_current_a,
+        device_rating_a=ctx.device.rating_a,
+        device_kind=ctx.device.kind,
+        method=method,
+        governing_segment=stretch.segment_id,
+        cables_in_group=stretch.other_cables + cand.parallel,
+        grouping_factor=grouping.value if grouping else 1.0,
+        correction_factor=total,
+        factors=factors,
+        required_capacity_a=ctx.required_iz_a / total,
+        cable=cable,
+        voltage_drop=_voltage_drop(spec, cand, ctx),
+        checks=tuple(checks),
+    )

@@ -1,0 +1,53 @@
+"""The one-way flow extract -> sizing -> annotate -> cablewright (DEVELOPERS.md)."""
+
+from __future__ import annotations
+
+import ast
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+ORDER = ["extract", "sizing", "annotate", "cablewright"]
+
+
+def _imports(path: Path) -> set[str]:
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    names: set[str] = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            names.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom) and node.module and node.level == 0:
+            names.add(node.module)
+    return names
+
+
+def _stage_of(module: str) -> str | None:
+    parts = module.split(".")
+    if parts[0] != "cablewright":
+        return None
+    if len(parts) > 1 and parts[1] in ORDER[:3]:
+        return parts[1]
+    return "cablewright"
+
+
+@pytest.mark.parametrize("stage", ORDER[:3])
+def test_stage_imports_only_earlier_stages(stage):
+    allowed = set(ORDER[: ORDER.index(stage) + 1])
+    files = sorted((ROOT / stage).rglob("*.py"))
+    assert files, f"no modules in {stage}/"
+    for path in files:
+        for module in _imports(path):
+            target = _stage_of(module)
+            assert target is None or target in allowed, f"{path.relative_to(ROOT)} imports {module}"
+
+
+def test_sizing_touches_no_cad_library_or_files():
+    for path in sorted((ROOT / "sizing").rglob("*.py")):
+        modules = _imports(path)
+        for banned in ("ezdxf", "ifcopenshell", "openpyxl", "shapely"):
+            assert not any(m == banned or m.startswith(banned + ".") for m in modules), (
+                f"{path.name} imports {banned}"
+            )
+        source = path.read_text(encoding="utf-8")
+        assert "open(" not in source.replace("_open(", ""), f"{path.name} opens a file"
