@@ -1,0 +1,264 @@
+"""Route every circuit over the network: shortest path by length.
+
+One shortest-path tree is grown per source tag (``networkx.single_source_dijkstra``)
+and every circuit from that source reads its path from the tree; circuits with a
+``via`` are routed leg by leg.  A circuit that cannot be routed gets a one-line
+message and never stops the others.
+"""
+
+from __future__ import annotations
+
+import difflib
+import logging
+from collections import defaultdict
+from collections.abc import Iterable, Sequence
+
+import networkx as nx
+
+from .model import CircuitRoute, DrawingConfig, Point3, ScheduleRow
+from .network import Network, equipment_node
+
+__all__ = ["route_circuits", "design_length_m", "WEIGHT"]
+
+logger = logging.getLogger(__name__)
+
+#: Edge attribute used as the path weight.
+WEIGHT = "length_m"
+
+
+def design_length_m(routed_length_m: float, config: DrawingConfig) -> float:
+    """Length used for voltage drop and impedance.
+
+    ``L_design = L_routed * (1 + slack_fraction) + 2 * end_allowance_m``
+
+    Parameters
+    ----------
+    routed_length_m : float
+        Tails plus path along the routes, [m].
+    config : DrawingConfig
+        ``slack_fraction`` [-] and ``end_allowance_m`` [m] (5 % and 1.5 m, common practice).
+
+    Returns
+    -------
+    float
+        Design length, [m].
+
+    Examples
+    --------
+    >>> round(design_length_m(100.0, DrawingConfig()), 6)
+    108.0
+
+    References
+    ----------
+    .. [1] contract.md, "Lengths and grouping" (allowances are common practice).
+    """
+    return routed_length_m * (1.0 + config.slack_fraction) + 2.0 * config.end_allowance_m
+
+
+def _suggest(tag: str, known: Iterable[str]) -> str:
+    close = difflib.get_close_matches(tag, list(known), n=3, cutoff=0.6)
+    if not close:
+        close = [k for k in known if k.upper() == tag.upper()]
+    return f" (did you mean {', '.join(close)}?)" if close else ""
+
+
+class _Fail(Exception):
+    pass
+
+
+def _path_points(network: Network, path: Sequence[str]) -> tuple[list[Point3], list[str], float, float]:
+    """Points, segment ids, source tail and load tail of a node path."""
+    g = network.graph
+    pts: list[Point3] = []
+    segs: list[str] = []
+    for u, v in zip(path[:-1], path[1:], strict=False):
+        data = g.edges[u, v]
+        if data["kind"] == "tail":
+            a = g.nodes[u]["pos_m"]
+            b = g.nodes[v]["pos_m"]
+            seq: Sequence[Point3] = [a, b]
+        else:
+            sid = data["segment_id"]
+            segs.append(sid)
+            seg_pts = network.segments[sid].points_m
+            seq = seg_pts if network.segment_ends[sid][0] == u else seg_pts[::-1]
+        pts.extend(seq if not pts else seq[1:])
+    first = g.edges[path[0], path[1]]["length_m"] if len(path) > 1 else 0.0
+    last = g.edges[path[-2], path[-1]]["length_m"] if len(path) > 1 else 0.0
+    return pts, segs, first, last
+
+
+def _via_nodes(network: Network, via: str, where: str) -> list[tuple[str, str | None]]:
+    """Ways to pass a via: [(node, None)] for equipment, [(u, v), ...] for route pieces."""
+    if via in network.tails:
+        return [(network.tails[via].node, None)]
+    if via in network.tag_failures:
+        raise _Fail(f"{where}: via {via}: {network.tag_failures[via]}")
+    seg_ids: Sequence[str] = ()
+    if via in network.segments:
+        seg_ids = (via,)
+    elif via in network.source_segments:
+        seg_ids = network.source_segments[via]
+    options = []
+    for sid in seg_ids:
+        u, v = network.segment_ends[sid]
+        g = network.graph
+        if u != v and g.has_edge(u, v) and g.edges[u, v]["segment_id"] == sid:
+            options.append((u, v))
+    if not options:
+        known = list(network.tails) + list(network.segments) + list(network.source_segments)
+        raise _Fail(
+            f"{where}: via {via} is neither an equipment tag nor a route piece of the "
+            f"drawing{_suggest(via, known)}; correct the via column"
+        )
+    return options
+
+
+def _leg(g: nx.Graph, a: str, b: str, cache: dict) -> tuple[float, list[str]]:
+    """Shortest path a -> b, reusing a cached single-source tree from a when there is one."""
+    if a in cache:
+        dist, paths = cache[a]
+        if b in dist:
+            return dist[b], paths[b]
+        raise nx.NetworkXNoPath(f"no path {a} -> {b}")
+    return nx.single_source_dijkstra(g, a, b, weight=WEIGHT)
+
+
+def _route_via(
+    network: Network, src: str, dst: str, vias: list[str], where: str, cache: dict
+) -> list[str]:
+    """Node path src -> via1 -> ... -> dst (each via passed by its best option)."""
+    g = network.graph
+    # dynamic programming over the options of each via, legs by Dijkstra
+    states: dict[str, tuple[float, list[str]]] = {src: (0.0, [src])}
+    for via in vias:
+        new: dict[str, tuple[float, list[str]]] = {}
+        for u, v in _via_nodes(network, via, where):
+            ends = [(u, [u])] if v is None else [(v, [u, v]), (u, [v, u])]
+            for end, through in ends:
+                for node, (d0, p0) in states.items():
+                    try:
+                        d1, p1 = _leg(g, node, through[0], cache)
+                    except nx.NetworkXNoPath:
+                        continue
+                    extra = g.edges[through[0], through[1]][WEIGHT] if len(through) == 2 else 0.0
+                    total = d0 + d1 + extra
+                    if end not in new or total < new[end][0]:
+                        new[end] = (total, p0 + p1[1:] + through[1:])
+        if not new:
+            raise _Fail(f"{where}: no route passes via {via}; check the drawing joints")
+        states = new
+    best: tuple[float, list[str]] | None = None
+    for node, (d0, p0) in states.items():
+        try:
+            d1, p1 = _leg(g, node, dst, cache)
+        except nx.NetworkXNoPath:
+            continue
+        if best is None or d0 + d1 < best[0]:
+            best = (d0 + d1, p0 + p1[1:])
+    if best is None:
+        raise nx.NetworkXNoPath(where)
+    return best[1]
+
+
+def route_circuits(
+    network: Network,
+    rows: Sequence[ScheduleRow],
+    config: DrawingConfig | None = None,
+) -> tuple[dict[str, CircuitRoute], dict[str, str]]:
+    """Route every circuit of the schedule over the network.
+
+    Parameters
+    ----------
+    network : Network
+        From :func:`~cablewright.extract.network.build_network`.
+    rows : sequence of ScheduleRow
+        The schedule; optional column ``via`` (an equipment tag, segment id or
+        route-piece handle the route must pass; several separated by ``;``).
+    config : DrawingConfig, optional
+        Allowances for the design length.
+
+    Returns
+    -------
+    routes : dict
+        Circuit id -> :class:`CircuitRoute`.
+    failures : dict
+        Circuit id -> one-line message (unknown tag, tail too long, no path).
+
+    Notes
+    -----
+    One ``single_source_dijkstra`` per distinct source tag: O(S (E + V log V)).
+
+    References
+    ----------
+    .. [1] contract.md, "Lengths and grouping": shortest path between the two tails.
+    """
+    config = config or DrawingConfig()
+    g = network.graph
+    routes: dict[str, CircuitRoute] = {}
+    failures: dict[str, str] = {}
+    known_tags = list(network.equipment)
+
+    def tag_problem(tag: str, role: str, row: ScheduleRow) -> str | None:
+        if not tag:
+            return f"{row.where}: circuit {row.circuit_id}: the '{role}' cell is blank; give the {role} tag"
+        if tag in network.tag_failures:
+            return f"{row.where}: circuit {row.circuit_id}: {network.tag_failures[tag]}"
+        if tag not in network.tails:
+            return (
+                f"{row.where}: circuit {row.circuit_id}: {role} tag {tag} is not in the drawing"
+                f"{_suggest(tag, known_tags)}; correct the schedule or tag the block"
+            )
+        return None
+
+    by_source: dict[str, list[ScheduleRow]] = defaultdict(list)
+    for row in rows:
+        problem = tag_problem(row.from_tag, "from", row) or tag_problem(row.to_tag, "to", row)
+        if problem is None and row.from_tag == row.to_tag:
+            problem = f"{row.where}: circuit {row.circuit_id}: from and to are both {row.from_tag}"
+        if problem:
+            failures[row.circuit_id] = problem
+            continue
+        by_source[row.from_tag].append(row)
+
+    cache: dict[str, tuple[dict, dict]] = {}
+    for src_tag in sorted(by_source):
+        src = equipment_node(src_tag)
+        dist, paths = nx.single_source_dijkstra(g, src, weight=WEIGHT)
+        cache = {src: (dist, paths)}
+        for row in by_source[src_tag]:
+            dst = equipment_node(row.to_tag)
+            where = f"{row.where}: circuit {row.circuit_id}"
+            via_text = row.get("via")
+            try:
+                if via_text:
+                    vias = [v.strip() for v in via_text.replace(",", ";").split(";") if v.strip()]
+                    path = _route_via(network, src, dst, vias, where, cache)
+                else:
+                    if dst not in paths:
+                        raise nx.NetworkXNoPath(where)
+                    path = paths[dst]
+            except nx.NetworkXNoPath:
+                failures[row.circuit_id] = (
+                    f"{where}: no route joins {row.from_tag} to {row.to_tag}; "
+                    "check the drawing for a gap between their routes"
+                )
+                continue
+            except _Fail as exc:
+                failures[row.circuit_id] = str(exc)
+                continue
+            pts, segs, src_tail, dst_tail = _path_points(network, path)
+            routed = float(sum(g.edges[u, v][WEIGHT] for u, v in zip(path[:-1], path[1:], strict=False)))
+            routes[row.circuit_id] = CircuitRoute(
+                circuit_id=row.circuit_id,
+                from_tag=row.from_tag,
+                to_tag=row.to_tag,
+                routed_length_m=routed,
+                design_length_m=design_length_m(routed, config),
+                source_tail_m=float(src_tail),
+                load_tail_m=float(dst_tail),
+                segment_ids=tuple(segs),
+                points_m=tuple(pts),
+            )
+    logger.info("routed %d circuits, %d failed", len(routes), len(failures))
+    return routes, failures
