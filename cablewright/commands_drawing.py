@@ -1,0 +1,142 @@
+"""``cablewright size``, ``routes`` and ``demo``: the drawing commands."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from collections.abc import Callable
+from contextlib import contextmanager
+from pathlib import Path
+
+from cablewright.annotate.jsonout import document
+from cablewright.annotate.model import CircuitOutcome
+
+from .config import load_settings
+from .console import CAUTION, format_table
+from .outputs import write_outputs
+from .pipeline import measure_drawing, route_outcomes, size_measurement
+
+__all__ = ["run_size", "run_routes", "run_demo", "SAMPLE_DIR"]
+
+SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
+SAMPLE_DRAWING = "pumping_station.dxf"
+SAMPLE_CIRCUITS = "pumping_station_circuits.csv"
+
+
+@contextmanager
+def _progress(total: int, quiet: bool, label: str):
+    """A tqdm bar on a terminal (stderr), nothing when quiet or not a terminal."""
+    if quiet or total < 1 or not sys.stderr.isatty():
+        yield None
+        return
+    from tqdm import tqdm
+
+    with tqdm(total=total, desc=label, unit="circuit", file=sys.stderr, leave=False) as bar:
+        yield bar.update
+
+
+def _exit_code(outcomes: list[CircuitOutcome], passing: tuple[str, ...]) -> int:
+    return 0 if all(o.status in passing for o in outcomes) else 1
+
+
+def _report_errors(outcomes: list[CircuitOutcome]) -> None:
+    for outcome in outcomes:
+        if outcome.status == "error":
+            for message in outcome.messages:
+                print(f"cablewright: circuit {outcome.circuit_id}: {message}", file=sys.stderr)
+
+
+def _issues(measurement) -> None:
+    for issue in measurement.issues:
+        where = f" [{issue.source_id}]" if issue.source_id else ""
+        print(f"cablewright: warning: {issue.message}{where}", file=sys.stderr)
+
+
+def _fmt(value, digits: int = 1) -> str:
+    return "-" if value is None else f"{value:.{digits}f}"
+
+
+def run_routes(args: argparse.Namespace) -> int:
+    """Measure only: routed length and group count per circuit."""
+    settings = load_settings(args.config)
+    measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover)
+    outcomes, _ = route_outcomes(measurement)
+    _issues(measurement)
+    _report_errors(outcomes)
+    if args.json:
+        print(json.dumps(document(outcomes, kind="routes"), indent=2, ensure_ascii=False))
+    else:
+        rows = []
+        for o in outcomes:
+            route, group = o.route, o.group
+            busiest = max(group.segment_counts, key=lambda s: (s[2], s[1]))[0] if group and group.segment_counts else "-"
+            rows.append([
+                o.circuit_id, o.from_tag, o.to_tag,
+                _fmt(route.routed_length_m if route else None),
+                _fmt(route.design_length_m if route else None),
+                str(group.circuits_in_group) if group else "-",
+                busiest, o.status,
+            ])
+        print(format_table(["circuit", "from", "to", "routed [m]", "design [m]", "group", "busiest segment", "status"], rows))
+    return _exit_code(outcomes, ("ok", "warning"))
+
+
+def _default_out(drawing: Path) -> Path:
+    return drawing.with_name(f"{drawing.stem}_cablewright")
+
+
+def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = None) -> int:
+    """The whole job: measure, size, write the annotated DXF, schedule and report."""
+    settings = load_settings(args.config)
+    drawing = Path(args.drawing)
+    measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+    _issues(measurement)
+    with _progress(len(measurement.rows), args.json, "sizing") as tick:
+        job = size_measurement(measurement, settings, tick)
+    out_dir = Path(args.out) if args.out else _default_out(drawing)
+    written = write_outputs(job, drawing, out_dir, settings, quiet=args.json)
+    _report_errors(job.outcomes)
+    if args.json:
+        print(json.dumps(document(job.outcomes, kind="size"), indent=2, ensure_ascii=False))
+    else:
+        rows = []
+        for o in job.outcomes:
+            s = o.sizing
+            rows.append([
+                o.circuit_id, o.from_tag, o.to_tag,
+                _fmt(o.route.routed_length_m if o.route else None),
+                _fmt(s.load_current_a if s else None),
+                f"{s.device_rating_a:g}" if s and s.device_rating_a else "-",
+                s.cable.describe() if s and s.cable else "-",
+                _fmt(s.voltage_drop.percent if s and s.voltage_drop else None, 2),
+                o.status,
+            ])
+        print(format_table(["circuit", "from", "to", "routed [m]", "Ib [A]", "In [A]", "cable", "VD [%]", "status"], rows))
+        counts = {k: sum(1 for o in job.outcomes if o.status == k) for k in ("ok", "warning", "fail", "error")}
+        print(f"\n{len(job.outcomes)} circuits: " + ", ".join(f"{v} {k}" for k, v in counts.items()))
+        print("outputs:")
+        for path in written:
+            print(f"  {path}")
+        print(CAUTION)
+    return _exit_code(job.outcomes, ("ok", "warning"))
+
+
+def run_demo(args: argparse.Namespace) -> int:
+    """``size`` on the bundled sample drawing."""
+    drawing = SAMPLE_DIR / SAMPLE_DRAWING
+    circuits = SAMPLE_DIR / SAMPLE_CIRCUITS
+    if not drawing.exists():
+        from cablewright.extract.errors import DrawingReadError
+
+        raise DrawingReadError(
+            f"{drawing}: the sample drawing is missing; run "
+            "'python sample_drawings/generate_pumping_station.py' from the repository"
+        )
+    out = Path(args.out) if args.out else Path.cwd() / "cablewright-demo"
+    size_args = argparse.Namespace(drawing=str(drawing), circuits=str(circuits), config=None,
+                                   out=str(out), json=False, debug=args.debug, recover=False)
+    code = run_size(size_args)
+    print(f"\ndemo outputs are in {out}")
+    # A sample with failing circuits on purpose still counts as a successful demo run.
+    return 0 if code in (0, 1) else code

@@ -1,0 +1,107 @@
+"""Write every output of ``size`` into the output folder, all or nothing.
+
+The files are first written into a hidden staging folder inside the output
+folder, then renamed into place one by one (contract.md: an interrupted run
+leaves no half-written file).
+"""
+
+from __future__ import annotations
+
+import logging
+import os
+import shutil
+import tempfile
+from pathlib import Path
+
+from cablewright.extract.errors import DrawingReadError
+from cablewright.extract.model import UNIT_TO_M
+
+from .config import Settings
+from .console import CAUTION
+
+__all__ = ["write_outputs", "output_names"]
+
+log = logging.getLogger(__name__)
+
+
+def output_names(drawing: Path) -> dict[str, str]:
+    """File names of the outputs for ``drawing``."""
+    return {
+        "dxf": f"{drawing.stem}_annotated.dxf",
+        "csv": "schedule.csv",
+        "xlsx": "schedule.xlsx",
+        "json": "schedule.json",
+        "html": "report.html",
+        "png": "preview.png",
+    }
+
+
+def _annotate_config(settings: Settings):
+    from dataclasses import fields, replace
+
+    from cablewright.annotate.dxf_writer import AnnotateConfig
+    from cablewright.extract.errors import ConfigError
+
+    base = AnnotateConfig()
+    known = {f.name for f in fields(AnnotateConfig)}
+    for key in settings.annotate:
+        if key not in known:
+            raise ConfigError(f"{settings.source}: unknown key {key!r} in [annotate]; known: {', '.join(sorted(known))}")
+    return replace(base, **settings.annotate)
+
+
+def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False) -> list[Path]:
+    """Write the annotated DXF, schedule (csv, xlsx, json), preview and report.
+
+    Returns the final paths.  Raises :class:`DrawingReadError` when the folder
+    cannot be written; nothing partial is left behind.
+    """
+    from cablewright.annotate.dxf_writer import write_annotated_dxf
+    from cablewright.annotate.preview import render_preview_png
+    from cablewright.annotate.report import write_report_html
+    from cablewright.annotate.schedule_files import (
+        write_schedule_csv,
+        write_schedule_json,
+        write_schedule_xlsx,
+    )
+
+    names = output_names(drawing)
+    measurement = job.measurement
+    out_dir = Path(out_dir)
+    try:
+        out_dir.mkdir(parents=True, exist_ok=True)
+        stage = Path(tempfile.mkdtemp(prefix=".cablewright-", dir=out_dir))
+    except OSError as exc:
+        raise DrawingReadError(f"{out_dir}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+    try:
+        config = _annotate_config(settings)
+        units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
+        dxf_input = drawing
+        if drawing.suffix.lower() != ".dxf":
+            dxf_input = _plan_view_for(measurement, stage)
+        write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes, measurement.segments,
+                            job.per_segment, measurement.equipment, units_per_m, config)
+        write_schedule_csv(stage / names["csv"], job.outcomes)
+        write_schedule_xlsx(stage / names["xlsx"], job.outcomes)
+        write_schedule_json(stage / names["json"], job.outcomes)
+        png = render_preview_png(stage / names["dxf"])
+        (stage / names["png"]).write_bytes(png)
+        write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
+                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION)
+        final = []
+        for key in ("dxf", "csv", "xlsx", "json", "png", "html"):
+            target = out_dir / names[key]
+            os.replace(stage / names[key], target)
+            final.append(target)
+        return final
+    finally:
+        shutil.rmtree(stage, ignore_errors=True)
+
+
+def _plan_view_for(measurement, stage: Path) -> Path:
+    """A plan-view DXF of the route network, for models that are not DXF (IFC)."""
+    from cablewright.extract.plan_view import write_plan_view
+
+    path = stage / "_plan_view.dxf"
+    write_plan_view(measurement, path)
+    return path

@@ -1,0 +1,188 @@
+"""The pipeline joining extract -> sizing -> annotate.
+
+:func:`measure_drawing` reads the drawing and routes every circuit;
+:func:`size_measurement` sizes them, iterating the grouping until the
+parallel-cable counts are stable (each parallel cable counts in the group,
+IEC 60364-5-52:2009 523.7 and contract.md "Lengths and grouping").
+"""
+
+from __future__ import annotations
+
+import logging
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+
+from cablewright.annotate.model import CircuitOutcome
+from cablewright.extract import grouping as extract_grouping
+from cablewright.extract.errors import CableRouteError
+from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
+from cablewright.sizing.fields import spec_from_fields
+from cablewright.sizing.model import SizingResult, Stretch
+from cablewright.sizing.select import size_circuit
+
+from .config import Settings
+
+__all__ = [
+    "JobResult",
+    "drawing_config",
+    "measure_drawing",
+    "route_outcomes",
+    "size_measurement",
+    "MAX_GROUPING_ROUNDS",
+]
+
+log = logging.getLogger(__name__)
+
+#: Rounds of re-sizing while parallel counts change the grouping.
+MAX_GROUPING_ROUNDS = 10
+
+
+@dataclass
+class JobResult:
+    """Everything one ``size`` run produced."""
+
+    measurement: Measurement
+    outcomes: list[CircuitOutcome]
+    per_segment: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    parallel: dict[str, int] = field(default_factory=dict)
+    rounds: int = 0
+
+
+def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
+    """The extract stage's config from the ``[drawing]`` and ``[routes]`` sections."""
+    from cablewright.extract.errors import ConfigError
+
+    base = DrawingConfig()
+    values = dict(settings.drawing)
+    layers = dict(base.route_layers)
+    for name, kind in dict(values.pop("route_layers", {})).items():
+        layers[name.upper()] = _layer_kind(name, kind, settings.source)
+    patterns = {p: _layer_kind(p, k, settings.source) for p, k in dict(values.pop("layer_patterns", {})).items()}
+    known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor"}
+    for key in values:
+        if key not in known:
+            raise ConfigError(f"{settings.source}: unknown key {key!r} in [drawing]; known: {', '.join(sorted(known))}")
+    route_values = dict(settings.routes)
+    for key in route_values:
+        if key not in ("slack_fraction", "end_allowance_m"):
+            raise ConfigError(f"{settings.source}: unknown key {key!r} in [routes]; known: slack_fraction, end_allowance_m")
+    return replace(base, route_layers=layers, extra_layer_patterns=patterns, recover=recover,
+                   **values, **route_values)
+
+
+def _layer_kind(name: str, kind, source: str) -> tuple[str, str]:
+    from cablewright.extract.errors import ConfigError
+    from cablewright.extract.model import CONTAINMENTS
+
+    if not (isinstance(kind, (list, tuple)) and len(kind) == 2 and kind[0] in CONTAINMENTS):
+        raise ConfigError(
+            f"{source}: route layer {name!r} must be [containment, method] with containment one of "
+            f"{', '.join(CONTAINMENTS)}"
+        )
+    return str(kind[0]), str(kind[1]).upper()
+
+
+def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
+                    recover: bool = False) -> Measurement:
+    """Extract the network and equipment and route every circuit of the schedule."""
+    from cablewright.extract import measure
+
+    return measure(drawing, circuits, drawing_config(settings, recover))
+
+
+def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None = None
+                   ) -> tuple[list[CircuitOutcome], dict[str, tuple[str, ...]]]:
+    """Outcomes of ``routes``: lengths and grouping only, schedule order kept."""
+    per_segment = extract_grouping.circuits_per_segment(measurement.routes, parallel)
+    groups = extract_grouping.group_summary(measurement.routes, per_segment, parallel)
+    outcomes = []
+    for row in measurement.rows:
+        cid = row.circuit_id
+        route = measurement.routes.get(cid)
+        if route is None:
+            message = measurement.failures.get(cid, "circuit could not be routed")
+            outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "error", (message,)))
+            continue
+        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "ok", (), route, groups.get(cid)))
+    return outcomes, per_segment
+
+
+def _fields(row: ScheduleRow) -> dict[str, str | None]:
+    return {key: (value if value.strip() else None) for key, value in row.fields}
+
+
+def _stretches(measurement: Measurement, route, own: int, cables_on: Mapping[str, int]) -> tuple[Stretch, ...]:
+    """One stretch per installation method: the most crowded segment of each.
+
+    The grouping factor falls as the count rises, so for one method only the
+    segment with the most cables can govern; the first such segment is kept.
+    """
+    best: dict[str, Stretch] = {}
+    for seg_id in route.segment_ids:
+        segment = measurement.segments.get(seg_id)
+        if segment is None:
+            continue
+        others = cables_on.get(seg_id, own) - own
+        current = best.get(segment.method)
+        if current is None or others > current.other_cables:
+            best[segment.method] = Stretch(seg_id, segment.method, others, length_m=segment.length_m)
+    if not best:  # a route made of tails only: clipped direct, alone (common practice)
+        return (Stretch("", "C", 0),)
+    return tuple(best.values())
+
+
+def size_measurement(
+    measurement: Measurement,
+    settings: Settings,
+    progress: Callable[[int], None] | None = None,
+) -> JobResult:
+    """Size every routed circuit; unrouted or bad circuits become ``error`` outcomes."""
+    config = settings.sizing
+    specs: dict[str, object] = {}
+    errors: dict[str, str] = {}
+    rows = {row.circuit_id: row for row in measurement.rows}
+    for row in measurement.rows:
+        cid = row.circuit_id
+        route = measurement.routes.get(cid)
+        if route is None:
+            errors[cid] = measurement.failures.get(cid, "circuit could not be routed")
+            continue
+        try:
+            specs[cid] = spec_from_fields(cid, _fields(row), config, route.design_length_m)
+        except CableRouteError as exc:
+            errors[cid] = f"{row.where}: {exc}"
+
+    routed = {cid: measurement.routes[cid] for cid in specs}
+    parallel = {cid: 1 for cid in specs}
+    results: dict[str, SizingResult] = {}
+    rounds = 0
+    for rounds in range(1, MAX_GROUPING_ROUNDS + 1):
+        per_segment = extract_grouping.circuits_per_segment(routed, parallel)
+        cables_on = {seg: sum(parallel[c] for c in cids) for seg, cids in per_segment.items()}
+        for cid, spec in specs.items():
+            stretches = _stretches(measurement, routed[cid], parallel[cid], cables_on)
+            results[cid] = size_circuit(replace(spec, stretches=stretches), config)
+            if progress is not None and rounds == 1:
+                progress(1)
+        new = {cid: (r.cable.parallel if r.cable else parallel[cid]) for cid, r in results.items()}
+        if new == parallel:
+            break
+        parallel = {cid: max(parallel[cid], new[cid]) for cid in parallel}
+    else:
+        log.warning("grouping did not settle after %d rounds; results use the last round", rounds)
+
+    per_segment = extract_grouping.circuits_per_segment(routed, parallel)
+    groups = extract_grouping.group_summary(routed, per_segment, parallel)
+    outcomes: list[CircuitOutcome] = []
+    for cid, row in rows.items():
+        if cid in errors:
+            outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "error", (errors[cid],),
+                                           measurement.routes.get(cid), None, None))
+            if progress is not None:
+                progress(1)
+            continue
+        result = results[cid]
+        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, result.status, result.messages,
+                                       routed[cid], groups.get(cid), result))
+    return JobResult(measurement, outcomes, per_segment, parallel, rounds)
