@@ -503,7 +503,8 @@ del _table, _col, _method, _loaded, _key
 
 def _check_key(kind: str, value: str, known: tuple[str, ...]) -> None:
     if value not in known:
-        close = difflib.get_close_matches(str(value), known, n=3)
+        lower = {k.lower(): k for k in known}
+        close = [lower[c] for c in difflib.get_close_matches(str(value).lower(), lower, n=3)]
         hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
         raise UnknownKeyError(
             f"unknown {kind} {value!r} for IEC 60364-5-52:2009 Annex B capacity tables; "

@@ -371,7 +371,8 @@ _INSULATION_ALIAS = {"PVC": "PVC", "XLPE": "XLPE", "EPR": "XLPE"}
 
 def _unknown(kind: str, value: object, known, where: str) -> UnknownKeyError:
     names = [str(k) for k in known]
-    close = difflib.get_close_matches(str(value), names, n=3)
+    lower = {k.lower(): k for k in names}
+    close = [lower[c] for c in difflib.get_close_matches(str(value).lower(), lower, n=3)]
     hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
     return UnknownKeyError(f"unknown {kind} {value!r} for {where}; known: "
                            f"{', '.join(names)}{hint}")
