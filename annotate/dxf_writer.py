@@ -1,0 +1,890 @@
+"""Write the annotated DXF: cable labels, group tags, device notes, schedule and cautions.
+
+The input drawing is read with ezdxf and never written to; everything we add goes
+on layers of our own (see :class:`AnnotateConfig`) and carries extended data
+(XDATA) under our application id, so a later run finds and removes it first and
+the label count stays the same (contract.md, "The annotated DXF").  The file is
+written to a temporary name and renamed into place (:mod:`.atomic`).
+
+What is added (default layer names):
+
+========================  ===============================================
+``CW-CABLE-LABEL``        one TEXT per sized circuit: ``"P-101: 4C 70 mm² Cu/XLPE"``,
+                          along its route, never upside down
+``CW-GROUP-TAG``          one MTEXT per shared route segment (2+ circuits):
+                          circuit and cable count, then the circuit ids
+``CW-DEVICE-NOTE``        at each load a note with a leader line:
+                          ``"P-101: 125 A"``
+``CW-SCHEDULE``           a table (circuit, from, to, cable, device, length,
+                          status) beside the drawing's extents
+``CW-NOTES``              the cautions text; notes for circuits not sized
+========================  ===============================================
+
+Text height follows the drawing's scale: the extents are fitted on a sheet
+(default A1 landscape, usable 800 mm x 560 mm), the scale is rounded up to a
+usual drawing scale and the text is ``paper_text_height_mm`` at that scale
+(common practice: 2.5 mm lettering on plotted drawings).
+
+References
+----------
+.. [1] ezdxf documentation: ``Drawing.saveas``, ``DXFEntity.set_xdata``,
+   ``ezdxf.bbox.extents``, ``ezdxf.fonts``.
+.. [2] ISO 3098-0:1997, lettering heights 1.8, 2.5, 3.5, 5, 7 mm (the series the
+   default 2.5 mm is taken from; from memory).
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+import os
+import textwrap
+from collections import defaultdict
+from collections.abc import Callable, Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import ezdxf
+from cablewright.extract.errors import DrawingReadError
+from ezdxf import bbox as ezbbox
+from ezdxf.enums import TextEntityAlignment
+from ezdxf.fonts import fonts
+from ezdxf.tools.text import estimate_mtext_content_extents
+from shapely.geometry import Point
+from shapely.ops import nearest_points
+
+from .atomic import atomic_path
+from .layout import (
+    LabelIndex,
+    Placement,
+    Stretch,
+    place_along,
+    place_near_point,
+    rank_stretches,
+    route_obstacles,
+    straight_stretches,
+)
+from .model import CircuitOutcome
+
+__all__ = [
+    "CAUTIONS",
+    "USUAL_SCALES",
+    "AnnotateConfig",
+    "AnnotationSummary",
+    "write_annotated_dxf",
+    "remove_old_marks",
+    "text_height_m_for_extents",
+    "label_text",
+]
+
+log = logging.getLogger(__name__)
+
+#: The cautions written on the drawing and in the report (DEVELOPERS.md, "Safety").
+CAUTIONS = (
+    "Design aid only: results must be checked by a qualified person against local "
+    "wiring rules, the cable maker's data and the installation as built."
+)
+
+#: Usual drawing scale denominators (1:n), common practice in building and plant drawings.
+USUAL_SCALES = (1, 2, 5, 10, 20, 25, 50, 100, 200, 250, 500, 1000, 2000, 2500, 5000, 10000)
+
+ProgressHook = Callable[[int], None]
+
+
+@dataclass(frozen=True)
+class AnnotateConfig:
+    """How the annotated drawing looks.  Every name may be changed.
+
+    Attributes
+    ----------
+    label_layer, group_layer, device_layer, schedule_layer, notes_layer : str
+        Our layers.  When the input already has a layer of that name that is not
+        ours, ``-2``, ``-3`` ... is appended.
+    appid : str
+        XDATA application id marking every entity (and layer) we add.
+    text_style : str
+        Text style we create (font ``font``; ``txt`` for DXF R12).
+    font : str
+        Font file of the text style, also used to measure labels.
+    text_height_m : float or None
+        Fixed text height in model space [m]; ``None`` derives it from the
+        extents (see :func:`text_height_m_for_extents`).
+    paper_text_height_mm : float
+        Plotted text height [mm] (2.5 mm, ISO 3098 series, common practice).
+    sheet_mm : (float, float)
+        Usable sheet width and height the extents are fitted on [mm]
+        (A1 landscape, 841 x 594 mm less margins).
+    min_text_height_m, max_text_height_m : float
+        Clamp of the derived height [m].
+    colors : mapping
+        ACI colour per layer role (``label``, ``group``, ``device``,
+        ``schedule``, ``notes``).
+    group_tags, device_notes, schedule, error_notes : bool
+        Switch each kind of mark on or off (labels are always written).
+    schedule_rows_per_panel : int
+        Rows in one column of the schedule table before a new column starts.
+    ids_per_line : int
+        Circuit ids per line in a group tag.
+    cautions : str
+        Text of the cautions note.
+    """
+
+    label_layer: str = "CW-CABLE-LABEL"
+    group_layer: str = "CW-GROUP-TAG"
+    device_layer: str = "CW-DEVICE-NOTE"
+    schedule_layer: str = "CW-SCHEDULE"
+    notes_layer: str = "CW-NOTES"
+    appid: str = "CABLEWRIGHT"
+    text_style: str = "CW-TEXT"
+    font: str = "arial.ttf"
+    text_height_m: float | None = None
+    paper_text_height_mm: float = 2.5
+    sheet_mm: tuple[float, float] = (800.0, 560.0)
+    min_text_height_m: float = 0.002
+    max_text_height_m: float = 10.0
+    colors: Mapping[str, int] = field(
+        default_factory=lambda: {
+            "label": 5,
+            "group": 6,
+            "device": 94,
+            "schedule": 7,
+            "notes": 1,
+        }
+    )
+    group_tags: bool = True
+    device_notes: bool = True
+    schedule: bool = True
+    error_notes: bool = True
+    schedule_rows_per_panel: int = 60
+    ids_per_line: int = 4
+    cautions: str = CAUTIONS
+
+
+@dataclass(frozen=True)
+class AnnotationSummary:
+    """What :func:`write_annotated_dxf` wrote.
+
+    Attributes
+    ----------
+    output_path : pathlib.Path
+    labels : int
+        Cable labels (one per sized circuit).
+    group_tags, device_notes, error_notes, schedule_rows : int
+    removed : int
+        Entities of an earlier run removed from the input.
+    overlapping : int
+        Labels and notes that found no free spot (placed anyway, flagged).
+    text_height : float
+        Text height used [drawing units].
+    layers : mapping
+        Role -> layer name actually used.
+    unlabelled : tuple of str
+        Sized circuits that got no label (no route geometry), with the reason.
+    """
+
+    output_path: Path
+    labels: int
+    group_tags: int
+    device_notes: int
+    error_notes: int
+    schedule_rows: int
+    removed: int
+    overlapping: int
+    text_height: float
+    layers: Mapping[str, str]
+    unlabelled: tuple[str, ...] = ()
+
+
+def text_height_m_for_extents(
+    width_m: float,
+    height_m: float,
+    *,
+    paper_text_height_mm: float = 2.5,
+    sheet_mm: tuple[float, float] = (800.0, 560.0),
+    min_m: float = 0.002,
+    max_m: float = 10.0,
+) -> float:
+    """Model-space text height for a drawing of the given extents.
+
+    The scale that fits the extents on the sheet is rounded up to the next
+    usual scale (:data:`USUAL_SCALES`); the text height is the paper height
+    times that scale, clamped to ``[min_m, max_m]``::
+
+        n = next_usual(max(1000 W / sheet_w, 1000 H / sheet_h))
+        h = paper_text_height_mm * n / 1000
+
+    Parameters
+    ----------
+    width_m, height_m : float
+        Extents of the drawing [m].
+    paper_text_height_mm : float
+        Plotted text height [mm].
+    sheet_mm : (float, float)
+        Usable sheet size [mm].
+    min_m, max_m : float
+        Clamp [m].
+
+    Returns
+    -------
+    float
+        Text height [m].
+
+    Examples
+    --------
+    A 60 m x 30 m plant room fits A1 at 1:100 (60 m / 0.8 m = 75 -> 100):
+
+    >>> text_height_m_for_extents(60.0, 30.0)
+    0.25
+    """
+    need = max(1000.0 * width_m / sheet_mm[0], 1000.0 * height_m / sheet_mm[1], 1.0)
+    scale = next((s for s in USUAL_SCALES if s >= need - 1e-9), None)
+    if scale is None:
+        scale = need
+    return min(max(paper_text_height_mm * scale / 1000.0, min_m), max_m)
+
+
+def label_text(outcome: CircuitOutcome) -> str:
+    """The cable label of a sized circuit, e.g. ``"P-101: 4C 70 mm² Cu/XLPE"``."""
+    sizing = outcome.sizing
+    if sizing is None or sizing.cable is None:
+        raise ValueError(f"circuit {outcome.circuit_id} has no cable to label")
+    text = f"{outcome.circuit_id}: {sizing.cable.describe()}"
+    if outcome.status == "fail":
+        text += " [FAIL]"
+    return _clean(text)
+
+
+def _clean(text: str) -> str:
+    """One line of TEXT content: no line breaks, no control characters."""
+    return " ".join(str(text).split())
+
+
+def _mtext_escape(text: str) -> str:
+    return _clean(text).replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
+
+
+def _rating_text(value: float) -> str:
+    return f"{value:g}"
+
+
+# -- layers, appid, removal ---------------------------------------------------------
+
+
+def _is_ours(entity: Any, appid: str) -> bool:
+    try:
+        return bool(entity.has_xdata(appid))
+    except (AttributeError, ezdxf.DXFValueError):
+        return False
+
+
+def remove_old_marks(doc: Any, config: AnnotateConfig = AnnotateConfig()) -> int:
+    """Delete what an earlier run added: entities with our XDATA or on our layers.
+
+    Parameters
+    ----------
+    doc : ezdxf.document.Drawing
+    config : AnnotateConfig
+
+    Returns
+    -------
+    int
+        Entities deleted.
+    """
+    appid = config.appid
+    if not doc.appids.has_entry(appid):
+        return 0
+    our_layers = {layer.dxf.name.upper() for layer in doc.layers if _is_ours(layer, appid)}
+    removed = 0
+    for layout in doc.layouts:
+        doomed = [
+            e for e in layout if _is_ours(e, appid) or e.dxf.get("layer", "0").upper() in our_layers
+        ]
+        for entity in doomed:
+            layout.delete_entity(entity)
+            removed += 1
+    return removed
+
+
+def _our_layer(doc: Any, wanted: str, color: int, appid: str) -> str:
+    """Our layer named ``wanted`` (or ``wanted-2``...), created and marked if missing."""
+    for n in range(1, 100):
+        name = wanted if n == 1 else f"{wanted}-{n}"
+        if not doc.layers.has_entry(name):
+            layer = doc.layers.add(name, color=color)
+            layer.set_xdata(appid, [(1000, "cablewright layer")])
+            return name
+        if _is_ours(doc.layers.get(name), appid):
+            return name
+        if n == 1:
+            log.warning(
+                "the drawing already has a layer %s; using %s-2 or next free", wanted, wanted
+            )
+    raise DrawingReadError(
+        f"no free layer name like {wanted!r} in the drawing; set another name in the config"
+    )
+
+
+# -- geometry helpers -----------------------------------------------------------
+
+
+def _scaled(points: Iterable[Sequence[float]], k: float) -> list[tuple[float, float, float]]:
+    return [
+        (float(p[0]) * k, float(p[1]) * k, (float(p[2]) if len(p) > 2 else 0.0) * k) for p in points
+    ]
+
+
+def _extents(
+    msp: Any, extra: Iterable[tuple[float, float, float]]
+) -> tuple[float, float, float, float]:
+    """(xmin, ymin, xmax, ymax) of the modelspace entities and ``extra`` points."""
+    xs: list[float] = []
+    ys: list[float] = []
+    try:
+        box = ezbbox.extents(msp, fast=True)
+        if box.has_data:
+            xs += [box.extmin.x, box.extmax.x]
+            ys += [box.extmin.y, box.extmax.y]
+    except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
+        log.warning("could not measure the drawing's extents (%s); using route points", exc)
+    for p in extra:
+        xs.append(p[0])
+        ys.append(p[1])
+    xs = [x for x in xs if math.isfinite(x)]
+    ys = [y for y in ys if math.isfinite(y)]
+    if not xs or not ys:
+        return (0.0, 0.0, 1.0, 1.0)
+    return (min(xs), min(ys), max(xs), max(ys))
+
+
+class _Writer:
+    """Adds our entities to one modelspace; keeps the style, layers and xdata in one place."""
+
+    def __init__(self, doc: Any, config: AnnotateConfig, height: float) -> None:
+        self.doc = doc
+        self.msp = doc.modelspace()
+        self.config = config
+        self.height = height
+        self.r12 = doc.dxfversion <= "AC1009"
+        if not doc.appids.has_entry(config.appid):
+            doc.appids.new(config.appid)
+        font = "txt" if self.r12 else config.font
+        if not doc.styles.has_entry(config.text_style):
+            doc.styles.new(config.text_style, dxfattribs={"font": font})
+        self.font = fonts.make_font(font, height)
+        colors = dict(AnnotateConfig().colors)
+        colors.update(config.colors)
+        self.layers = {
+            "label": _our_layer(doc, config.label_layer, colors["label"], config.appid),
+            "group": _our_layer(doc, config.group_layer, colors["group"], config.appid),
+            "device": _our_layer(doc, config.device_layer, colors["device"], config.appid),
+            "schedule": _our_layer(doc, config.schedule_layer, colors["schedule"], config.appid),
+            "notes": _our_layer(doc, config.notes_layer, colors["notes"], config.appid),
+        }
+
+    # measuring -------------------------------------------------------------
+    def text_width(self, text: str, height: float | None = None) -> float:
+        h = self.height if height is None else height
+        return self.font.text_width(text) * h / self.height
+
+    def line_box(self, text: str) -> tuple[float, float]:
+        """Box of a one-line TEXT label with a margin: (width, height)."""
+        h = self.height
+        return self.text_width(text) + 0.4 * h, 1.7 * h
+
+    def block_box(self, lines: Sequence[str]) -> tuple[float, float]:
+        """Box of a multi-line note with a margin: (width, height)."""
+        h = self.height
+        width = max(self.text_width(line) for line in lines)
+        if self.r12:
+            return width + 0.4 * h, (len(lines) - 1) * 1.667 * h + 1.7 * h
+        content = "\\P".join(_mtext_escape(line) for line in lines)
+        w, hh = estimate_mtext_content_extents(content, self.font, 0.0, 1.0)
+        return max(w, width) + 0.4 * h, hh + 0.7 * h
+
+    # writing ---------------------------------------------------------------
+    def _tag(self, entity: Any, kind: str, ref: str) -> Any:
+        entity.set_xdata(self.config.appid, [(1000, kind), (1000, ref[:200])])
+        return entity
+
+    def text(
+        self,
+        content: str,
+        x: float,
+        y: float,
+        z: float,
+        *,
+        role: str,
+        kind: str,
+        ref: str,
+        rotation: float = 0.0,
+        align: TextEntityAlignment = TextEntityAlignment.MIDDLE_CENTER,
+        color: int | None = None,
+        height: float | None = None,
+    ) -> Any:
+        attribs: dict[str, Any] = {
+            "layer": self.layers[role],
+            "style": self.config.text_style,
+            "rotation": rotation,
+        }
+        if color is not None:
+            attribs["color"] = color
+        entity = self.msp.add_text(
+            _clean(content), height=self.height if height is None else height, dxfattribs=attribs
+        )
+        entity.set_placement((x, y, z), align=align)
+        return self._tag(entity, kind, ref)
+
+    def block(
+        self,
+        lines: Sequence[str],
+        place: Placement,
+        *,
+        role: str,
+        kind: str,
+        ref: str,
+        color: int | None = None,
+        left: bool = False,
+    ) -> list[Any]:
+        """A multi-line note centred on the placement: MTEXT, or TEXT lines for R12.
+
+        ``left`` aligns the lines on the left edge of the box instead of centring them.
+        """
+        if not self.r12:
+            attribs: dict[str, Any] = {
+                "layer": self.layers[role],
+                "style": self.config.text_style,
+                "char_height": self.height,
+                "attachment_point": 1 if left else 5,  # top left / middle centre
+                "insert": (
+                    (
+                        place.x - place.width / 2.0 + 0.2 * self.height,
+                        place.y + place.height / 2.0 - 0.35 * self.height,
+                        place.z,
+                    )
+                    if left
+                    else (place.x, place.y, place.z)
+                ),
+                "rotation": place.rotation_deg,
+                "width": 0.0,
+            }
+            if color is not None:
+                attribs["color"] = color
+            content = "\\P".join(_mtext_escape(line) for line in lines)
+            return [self._tag(self.msp.add_mtext(content, dxfattribs=attribs), kind, ref)]
+        a = math.radians(place.rotation_deg)
+        vx, vy = -math.sin(a), math.cos(a)
+        pitch = 1.667 * self.height
+        top = (len(lines) - 1) * pitch / 2.0
+        ux, uy = math.cos(a), math.sin(a)
+        shift = -place.width / 2.0 + 0.2 * self.height if left else 0.0
+        out = []
+        for i, line in enumerate(lines):
+            d = top - i * pitch
+            out.append(
+                self.text(
+                    line,
+                    place.x + vx * d + ux * shift,
+                    place.y + vy * d + uy * shift,
+                    place.z,
+                    role=role,
+                    kind=kind,
+                    ref=ref,
+                    rotation=place.rotation_deg,
+                    color=color,
+                    align=TextEntityAlignment.MIDDLE_LEFT
+                    if left
+                    else TextEntityAlignment.MIDDLE_CENTER,
+                )
+            )
+        return out
+
+    def line(
+        self,
+        a: Sequence[float],
+        b: Sequence[float],
+        *,
+        role: str,
+        kind: str,
+        ref: str,
+        color: int | None = None,
+    ) -> Any:
+        attribs: dict[str, Any] = {"layer": self.layers[role]}
+        if color is not None:
+            attribs["color"] = color
+        entity = self.msp.add_line(tuple(a), tuple(b), dxfattribs=attribs)
+        return self._tag(entity, kind, ref)
+
+    def leader(
+        self,
+        place: Placement,
+        z: float,
+        *,
+        role: str,
+        kind: str,
+        ref: str,
+        color: int | None = None,
+    ) -> None:
+        """A straight leader from the anchor point to the nearest edge of the note."""
+        anchor = Point(place.anchor)
+        _, near = nearest_points(anchor, place.polygon.exterior)
+        self.line(
+            (place.anchor[0], place.anchor[1], z),
+            (near.x, near.y, z),
+            role=role,
+            kind=kind,
+            ref=ref,
+            color=color,
+        )
+
+
+# -- the marks ----------------------------------------------------------------
+
+
+def _route_stretches(
+    outcome: CircuitOutcome,
+    segments: Mapping[str, Any],
+    per_segment: Mapping[str, Sequence[str]],
+    k: float,
+    from_count: Mapping[str, int],
+    to_count: Mapping[str, int],
+) -> list[Stretch]:
+    route = outcome.route
+    stretches: list[Stretch] = []
+    for seg_id in getattr(route, "segment_ids", ()) or ():
+        seg = segments.get(seg_id)
+        if seg is None or len(seg.points_m) < 2:
+            continue
+        crowd = max(1, len(per_segment.get(seg_id, ())))
+        stretches += straight_stretches(_scaled(seg.points_m, k), crowd=crowd, key=seg_id)
+    pts = _scaled(getattr(route, "points_m", ()) or (), k)
+    if not stretches and len(pts) >= 2:
+        return straight_stretches(pts, crowd=1, key="route")
+    if len(pts) >= 2:
+        # tails: a source tail is shared by every circuit from that source
+        if (getattr(route, "source_tail_m", 0.0) or 0.0) > 0.0:
+            stretches += straight_stretches(
+                pts[:2], crowd=max(1, from_count.get(outcome.from_tag, 1)), key="source-tail"
+            )
+        if (getattr(route, "load_tail_m", 0.0) or 0.0) > 0.0:
+            stretches += straight_stretches(
+                pts[-2:], crowd=max(1, to_count.get(outcome.to_tag, 1)), key="load-tail"
+            )
+    return stretches
+
+
+def _segment_cables(
+    outcomes: Sequence[CircuitOutcome], per_segment: Mapping[str, Sequence[str]]
+) -> dict[str, int]:
+    """Cables per segment: from the grouping where given, else one per circuit (parallel counted)."""
+    parallel = {
+        o.circuit_id: (o.sizing.cable.parallel if o.sizing and o.sizing.cable else 1)
+        for o in outcomes
+    }
+    cables: dict[str, int] = {
+        seg: sum(parallel.get(c, 1) for c in circuits) for seg, circuits in per_segment.items()
+    }
+    for o in outcomes:
+        for seg, _circuits, n_cables in getattr(o.group, "segment_counts", ()) or ():
+            if seg in cables:
+                cables[seg] = max(cables[seg], int(n_cables))
+    return cables
+
+
+def _schedule_table(
+    w: _Writer, outcomes: Sequence[CircuitOutcome], x0: float, y_top: float, z: float
+) -> int:
+    """Cautions, title and the schedule table, top left at (x0, y_top)."""
+    h = w.height
+    config = w.config
+    # cautions, wrapped to about the table's width
+    caution_lines = ["CAUTION"] + textwrap.wrap(config.cautions, 60)
+    bw, bh = w.block_box(caution_lines)
+    note = Placement(x0 + bw / 2.0, y_top - bh / 2.0, z, 0.0, bw, bh, None, False)  # type: ignore[arg-type]
+    w.block(caution_lines, note, role="notes", kind="cautions", ref="cautions", left=True)
+    y = y_top - bh - 2.0 * h  # title baseline: a gap, then 1.4 h title letters
+    w.text(
+        "CABLE SCHEDULE (cablewright)",
+        x0,
+        y,
+        z,
+        role="schedule",
+        kind="schedule",
+        ref="title",
+        align=TextEntityAlignment.BOTTOM_LEFT,
+        height=1.4 * h,
+    )
+    y -= 0.6 * h
+    header = ("circuit", "from", "to", "cable", "device", "length", "status")
+    rows = []
+    for o in outcomes:
+        s = o.sizing
+        cable = s.cable.describe() if s is not None and s.cable is not None else "-"
+        device = (
+            f"{_rating_text(s.device_rating_a)} A"
+            if s is not None and s.device_rating_a is not None
+            else "-"
+        )
+        length = (
+            f"{o.route.routed_length_m:.1f} m"
+            if o.route is not None and getattr(o.route, "routed_length_m", None) is not None
+            else "-"
+        )
+        rows.append(
+            tuple(
+                _clean(v)
+                for v in (o.circuit_id, o.from_tag, o.to_tag, cable, device, length, o.status)
+            )
+        )
+    widths = [
+        max(w.text_width(r[i]) for r in [header, *rows]) + 1.2 * h for i in range(len(header))
+    ]
+    table_w = sum(widths)
+    row_h = 1.8 * h
+    per_panel = max(1, config.schedule_rows_per_panel)
+    panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
+    for p, panel in enumerate(panels):
+        px = x0 + p * (table_w + 3.0 * h)
+        lines = [header, *panel]
+        for r, row in enumerate(lines):
+            yc = y - (r + 0.5) * row_h
+            cx = px
+            for c, value in enumerate(row):
+                w.text(
+                    value,
+                    cx + 0.6 * h,
+                    yc,
+                    z,
+                    role="schedule",
+                    kind="schedule",
+                    ref=row[0] if r else "header",
+                    align=TextEntityAlignment.MIDDLE_LEFT,
+                )
+                cx += widths[c]
+        bottom = y - len(lines) * row_h
+        for r in range(len(lines) + 1):
+            yy = y - r * row_h
+            w.line((px, yy, z), (px + table_w, yy, z), role="schedule", kind="schedule", ref="grid")
+        cx = px
+        for c in range(len(header) + 1):
+            w.line((cx, y, z), (cx, bottom, z), role="schedule", kind="schedule", ref="grid")
+            if c < len(header):
+                cx += widths[c]
+    return len(rows)
+
+
+def write_annotated_dxf(
+    input_path: str | os.PathLike[str],
+    output_path: str | os.PathLike[str],
+    outcomes: Sequence[CircuitOutcome],
+    segments: Mapping[str, Any],
+    per_segment: Mapping[str, Sequence[str]],
+    equipment: Mapping[str, Any],
+    units_per_m: float,
+    config: AnnotateConfig = AnnotateConfig(),
+    progress: ProgressHook | None = None,
+) -> AnnotationSummary:
+    """Write a copy of the drawing with cable labels, group tags, notes and schedule.
+
+    Parameters
+    ----------
+    input_path : path-like
+        The drawing (DXF).  Only read.
+    output_path : path-like
+        Where the annotated copy goes; written atomically.  Must differ from
+        ``input_path``.
+    outcomes : sequence of CircuitOutcome
+        Every circuit; those with a cable get a label, ``error`` ones a note.
+    segments : mapping
+        Segment id -> RouteSegment (``points_m`` in metres, world).
+    per_segment : mapping
+        Segment id -> circuit ids routed through it.
+    equipment : mapping
+        Tag -> Equipment (``position_m`` in metres, world).
+    units_per_m : float
+        Drawing units per metre (1000 for a drawing in mm) [1/m].
+    config : AnnotateConfig
+        Layer names, text height, what to add.
+    progress : callable, optional
+        Called with ``1`` after each cable label is placed (one call per
+        labelled circuit), e.g. ``tqdm.update``.
+
+    Returns
+    -------
+    AnnotationSummary
+
+    Raises
+    ------
+    DrawingReadError
+        The input cannot be read, or the output would overwrite it.
+    """
+    src = Path(input_path)
+    dst = Path(output_path)
+    if not units_per_m > 0.0:
+        raise ValueError(f"units_per_m must be > 0, got {units_per_m!r}")
+    if dst.exists() and src.resolve() == dst.resolve():
+        raise DrawingReadError(
+            f"{dst}: the annotated drawing would overwrite the input; choose another output folder"
+        )
+    try:
+        doc = ezdxf.readfile(src)
+    except OSError as exc:
+        raise DrawingReadError(f"{src}: cannot read the drawing ({exc}); check the path") from exc
+    except ezdxf.DXFStructureError as exc:
+        raise DrawingReadError(
+            f"{src}: the drawing is damaged ({exc}); repair it in CAD or re-export it"
+        ) from exc
+
+    removed = remove_old_marks(doc, config)
+    if removed:
+        log.info("%s: removed %d marks of an earlier run", src, removed)
+    msp = doc.modelspace()
+    k = float(units_per_m)
+
+    route_pts = [p for seg in segments.values() for p in _scaled(seg.points_m, k)]
+    route_pts += [_scaled([e.position_m], k)[0] for e in equipment.values()]
+    xmin, ymin, xmax, ymax = _extents(msp, route_pts)
+    if config.text_height_m is not None:
+        h_m = float(config.text_height_m)
+    else:
+        h_m = text_height_m_for_extents(
+            (xmax - xmin) / k,
+            (ymax - ymin) / k,
+            paper_text_height_mm=config.paper_text_height_mm,
+            sheet_mm=config.sheet_mm,
+            min_m=config.min_text_height_m,
+            max_m=config.max_text_height_m,
+        )
+    h = h_m * k
+    w = _Writer(doc, config, h)
+    index = LabelIndex(
+        cell=8.0 * h, obstacles=route_obstacles(_scaled(s.points_m, k) for s in segments.values())
+    )
+
+    from_count: dict[str, int] = defaultdict(int)
+    to_count: dict[str, int] = defaultdict(int)
+    for o in outcomes:
+        if o.route is not None:
+            from_count[o.from_tag] += 1
+            to_count[o.to_tag] += 1
+
+    labels = overlapping = 0
+    unlabelled: list[str] = []
+    for o in outcomes:
+        if o.status == "error" or o.sizing is None or o.sizing.cable is None:
+            continue
+        stretches = _route_stretches(o, segments, per_segment, k, from_count, to_count)
+        if not stretches:
+            unlabelled.append(f"{o.circuit_id}: no route geometry to put a label on")
+            log.warning(
+                "circuit %s: sized but has no route geometry; no label on the drawing", o.circuit_id
+            )
+            continue
+        text = label_text(o)
+        bw, bh = w.line_box(text)
+        place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+        overlapping += place.overlaps
+        w.text(
+            text,
+            place.x,
+            place.y,
+            place.z,
+            role="label",
+            kind="cable-label",
+            ref=o.circuit_id,
+            rotation=place.rotation_deg,
+            color=1 if o.status == "fail" else None,
+        )
+        labels += 1
+        if progress is not None:
+            progress(1)
+
+    group_tags = 0
+    if config.group_tags:
+        cables = _segment_cables(outcomes, per_segment)
+        for seg_id in sorted(per_segment, key=lambda s: (len(s), s)):
+            circuits = list(per_segment[seg_id])
+            seg = segments.get(seg_id)
+            if len(circuits) < 2 or seg is None or len(seg.points_m) < 2:
+                continue
+            n_cables = cables.get(seg_id, len(circuits))
+            lines = [f"{seg_id}: {len(circuits)} circuits, {n_cables} cables"]
+            step = max(1, config.ids_per_line)
+            lines += [", ".join(circuits[i : i + step]) for i in range(0, len(circuits), step)]
+            lines = [_clean(line) for line in lines]
+            bw, bh = w.block_box(lines)
+            stretches = straight_stretches(
+                _scaled(seg.points_m, k), crowd=len(circuits), key=seg_id
+            )
+            if not stretches:
+                continue
+            place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+            overlapping += place.overlaps
+            w.block(lines, place, role="group", kind="group-tag", ref=seg_id)
+            group_tags += 1
+
+    device_notes = error_notes = 0
+    notes_by_load: dict[str, list[str]] = defaultdict(list)
+    errors_by_tag: dict[str, list[str]] = defaultdict(list)
+    for o in outcomes:
+        s = o.sizing
+        if o.status != "error" and s is not None and s.device_rating_a is not None:
+            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {_rating_text(s.device_rating_a)} A")
+        elif o.status == "error":
+            tag = o.to_tag if o.to_tag in equipment else o.from_tag
+            errors_by_tag[tag].append(f"{o.circuit_id}: NOT SIZED, see report")
+    if config.device_notes:
+        for tag, lines in notes_by_load.items():
+            eq = equipment.get(tag)
+            if eq is None:
+                continue
+            x, y, z = _scaled([eq.position_m], k)[0]
+            bw, bh = w.block_box(lines)
+            place = place_near_point(index, x, y, z, bw, bh)
+            overlapping += place.overlaps
+            w.block(lines, place, role="device", kind="device-note", ref=tag)
+            w.leader(place, z, role="device", kind="device-leader", ref=tag)
+            device_notes += 1
+    if config.error_notes:
+        for tag, lines in errors_by_tag.items():
+            eq = equipment.get(tag)
+            if eq is None:
+                continue
+            x, y, z = _scaled([eq.position_m], k)[0]
+            bw, bh = w.block_box(lines)
+            place = place_near_point(index, x, y, z, bw, bh)
+            overlapping += place.overlaps
+            w.block(lines, place, role="notes", kind="error-note", ref=tag)
+            w.leader(place, z, role="notes", kind="error-leader", ref=tag)
+            error_notes += 1
+
+    # everything placed so far widens the extents the schedule sits beside
+    for poly in index.boxes:
+        bx0, by0, bx1, by1 = poly.bounds
+        xmin, ymin, xmax, ymax = min(xmin, bx0), min(ymin, by0), max(xmax, bx1), max(ymax, by1)
+    schedule_rows = 0
+    if config.schedule:
+        schedule_rows = _schedule_table(w, outcomes, xmax + 10.0 * h, ymax, 0.0)
+
+    if overlapping:
+        log.warning(
+            "%s: %d labels or notes found no free spot and overlap others", dst, overlapping
+        )
+    with atomic_path(dst) as tmp:
+        doc.saveas(tmp)
+    log.info(
+        "%s: %d cable labels, %d group tags, %d device notes", dst, labels, group_tags, device_notes
+    )
+    return AnnotationSummary(
+        output_path=dst,
+        labels=labels,
+        group_tags=group_tags,
+        device_notes=device_notes,
+        error_notes=error_notes,
+        schedule_rows=schedule_rows,
+        removed=removed,
+        overlapping=overlapping,
+        text_height=h,
+        layers=dict(w.layers),
+        unlabelled=tuple(unlabelled),
+    )
