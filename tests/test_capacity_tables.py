@@ -8,7 +8,6 @@ names its table, column and row.
 from __future__ import annotations
 
 import pytest
-
 from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing import capacity_tables as ct
 
