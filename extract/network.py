@@ -488,7 +488,7 @@ def build_network(
 
     # ---------------------------------------------------------------- graph
     g = nx.Graph()
-    for nd in nodes_sorted:
+    for nd in sorted({nd for ends_ in segment_ends.values() for nd in ends_}, key=node_key):
         g.add_node(nd, pos_m=node_pos[nd])
     for sid, seg in segments.items():
         u, v = segment_ends[sid]
@@ -525,7 +525,10 @@ def build_network(
 
     # ---------------------------------------------------------------- drawing issues
     issues.extend(_near_misses(polys, ends, adj, node, tail_nodes, seg_tree, sa, sb, s_owner, verts, config))
-    for comp in nx.connected_components(g.subgraph(nodes_sorted)):
+    piece_graph = nx.Graph()
+    piece_graph.add_nodes_from(nodes_sorted)
+    piece_graph.add_edges_from((u, v) for u, v, _, _, _ in pieces)
+    for comp in nx.connected_components(piece_graph):
         if comp & tail_nodes:
             continue
         srcs = sorted({s for nd in comp for n in adj[nd] for s in _piece_sources(pieces, n, polys, gap_pieces_start)})
