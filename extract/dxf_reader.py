@@ -73,23 +73,28 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
         raise DrawingReadError(f"{path}: is a folder, not a DXF file; give the drawing file")
     if path.stat().st_size == 0:
         raise DrawingReadError(f"{path}: file is empty; export the drawing again as DXF")
-    read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError)
     try:
-        return ezdxf.readfile(str(path)), []
+        with path.open("rb") as f:
+            f.read(1)
     except OSError as exc:
         raise DrawingReadError(f"{path}: cannot be opened ({exc}); check the path and permissions") from exc
-    except read_errors as exc:
+    read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError, OSError)
+    try:
+        return ezdxf.readfile(str(path)), []
+    except read_errors as exc:  # ezdxf raises OSError for "not a DXF file"
         first_error = exc
     # The normal reader failed: is it a damaged DXF that recover mode can read?
     try:
         doc, auditor = recover.readfile(str(path))
-    except read_errors + (OSError,) as exc:
+    except read_errors as exc:
         raise DrawingReadError(
-            f"{path}: not a readable DXF file ({first_error}); export the drawing again as DXF"
+            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
+            f"({first_error}); export the drawing again as DXF"
         ) from exc
     if len(doc.modelspace()) == 0:
         raise DrawingReadError(
-            f"{path}: not a readable DXF file ({first_error}); export the drawing again as DXF"
+            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
+            f"({first_error}); export the drawing again as DXF"
         )
     if not config.recover:
         raise DrawingReadError(
@@ -97,7 +102,14 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
             "missing routes would give wrong lengths. Repair or re-export the drawing, or use "
             "--recover to measure what can be read"
         )
-    issues = [Issue("recovered", f"{path}: damaged file read in recover mode ({first_error})")]
+    issues = [
+        Issue(
+            "recovered",
+            f"{path}: damaged file read in recover mode ({first_error}); "
+            f"{len(doc.modelspace())} model-space entities could be read, anything past the "
+            "damage is lost - check the routes against the drawing",
+        )
+    ]
     for err in auditor.errors:
         handle = getattr(getattr(err, "entity", None), "dxf", None)
         sid = getattr(handle, "handle", "") or ""
