@@ -22,6 +22,12 @@ def _min_csa() -> dict[str, float]:
     return {"Cu": 1.5, "Al": 16.0}
 
 
+def _starters() -> dict[str, tuple[float, float]]:
+    # Starting current multiple of In and starting cos φ per starter kind:
+    # common practice (typical motor and starter data), see motor_start.py.
+    return {"dol": (7.0, 0.3), "star_delta": (2.5, 0.35), "soft": (3.5, 0.4), "drive": (1.2, 0.9)}
+
+
 @dataclass(frozen=True)
 class SizingConfig:
     """Settings of the sizing stage.
@@ -58,6 +64,49 @@ class SizingConfig:
     conductor_temp_for_vd : str
         ``"max"``: voltage drop at the insulation's maximum operating
         temperature (IEC 60364-5-52 Table 52.1), the conservative reading.
+    default_fault_ka : float or None
+        Prospective three-phase fault current at a circuit's source when the
+        schedule's ``fault_ka`` is blank [kA]; ``None`` (default): the
+        short-circuit check is made only where a fault level is given.
+    clearing_time_s : float
+        Clearing time of the device for the adiabatic check [s]; 0.1 s, an
+        assumption standing for an instantaneous trip (IEC 60364-4-43:2008
+        434.5.2; current-limiting devices: compare k²S² with the maker's I²t).
+    c_max, c_min : float
+        Voltage factors for LV, IEC 60909-0:2016 Table 1 (1.05 for +6 %
+        tolerance systems, 1.10 for +10 %; cmin 0.95).
+    pe_rule : str
+        Protective conductor: ``table`` (IEC 60364-5-54:2011 Table 54.2) or
+        ``adiabatic`` (543.1.2).
+    earthing : str
+        ``TN`` (default) or ``TT``/``IT``; schedule column ``earthing`` wins.
+        Disconnection is checked for TN only.
+    ze_ohm : float or None
+        Earth-fault loop impedance upstream of every circuit [Ω]; schedule
+        column ``ze_ohm`` wins; ``None`` derives 2 x ZQ from the fault level
+        (common practice), or, with no fault level either, takes 0 (the
+        circuit's own loop only: an optimistic bound, said in the check).
+    breaker_curve : str
+        ``B``/``C``/``D`` (IEC 60898-1); schedule column ``curve`` wins.
+    magnetic_a : float or None
+        Instantaneous setting of adjustable breakers [A]; schedule column
+        ``magnetic_a`` wins; ``None`` uses the curve.
+    disconnection_voltage_factor : float
+        c in Zs Ia <= c U0: 1.0 as IEC 60364-4-41:2005 411.4.4 is written.
+    disconnection_upsize : bool
+        False: a circuit that does not disconnect in time fails with advice;
+        True: the cross-section is raised instead (``governed_by``
+        ``disconnection``).
+    motor_start_dip_pct : float
+        Limit of the voltage dip at a motor's terminals while starting [%];
+        15 % (common practice: 10 % to 15 %).
+    default_starter : str
+        Starter when the schedule's ``starter`` is blank: ``dol``.
+    starters : dict
+        Starter kind -> (starting current multiple of In, starting cos φ);
+        common practice, see :data:`.motor_start.DEFAULT_STARTERS`.
+    motor_start_include_source : bool
+        Add the source impedance (from the fault level) to the dip.
     """
 
     device_kind: str = "breaker"
@@ -75,6 +124,21 @@ class SizingConfig:
     max_parallel: int = 8
     max_single_csa_mm2: float | None = None
     conductor_temp_for_vd: str = "max"
+    default_fault_ka: float | None = None
+    clearing_time_s: float = 0.1
+    c_max: float = 1.05
+    c_min: float = 0.95
+    pe_rule: str = "table"
+    earthing: str = "TN"
+    ze_ohm: float | None = None
+    breaker_curve: str = "C"
+    magnetic_a: float | None = None
+    disconnection_voltage_factor: float = 1.0
+    disconnection_upsize: bool = False
+    motor_start_dip_pct: float = 15.0
+    default_starter: str = "dol"
+    starters: dict[str, tuple[float, float]] = field(default_factory=_starters)
+    motor_start_include_source: bool = True
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)

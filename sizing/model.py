@@ -213,6 +213,14 @@ class SizingResult:
 
     ``status`` is one of :data:`STATUS_ORDER`; ``cable`` is ``None`` only for
     ``"error"``.  ``steps`` lists the calculation in order for the report.
+
+    The further numbers of :func:`.checks.result_extras` (``None`` where not
+    computed): ``protective_conductor_mm2`` (IEC 60364-5-54 543.1),
+    ``max_length_m`` (longest length that still disconnects on an earth
+    fault, IEC 60364-4-41 411.4.4), ``earth_fault_loop_ohm`` (Zs at the load
+    end), ``fault_current_ka_source``, ``fault_current_ka_load_end`` (maximum,
+    IEC 60909-0 cmax, 20 °C), ``fault_current_ka_load_end_min`` (cmin,
+    end-of-fault temperature), ``motor_start_dip_pct``.
     """
 
     circuit_id: str
@@ -232,3 +240,10 @@ class SizingResult:
     voltage_drop: VoltageDrop | None = None
     checks: tuple[Check, ...] = ()
     steps: tuple[tuple[str, str, str], ...] = field(default=(), compare=False)
+    protective_conductor_mm2: float | None = None
+    max_length_m: float | None = None
+    earth_fault_loop_ohm: float | None = None
+    fault_current_ka_source: float | None = None
+    fault_current_ka_load_end: float | None = None
+    fault_current_ka_load_end_min: float | None = None
+    motor_start_dip_pct: float | None = None

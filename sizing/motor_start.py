@@ -15,7 +15,9 @@ References
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import Any
 
 from cablewright.extract.errors import UnknownKeyError
 
@@ -70,19 +72,37 @@ _ALIASES = {
 }
 
 
-def starter_data(kind: str, table: dict[str, StarterData] | None = None) -> StarterData:
+def starter_data(kind: str, table: Mapping[str, Any] | None = None) -> StarterData:
     """Starting data of a starter kind (schedule column ``starter``).
+
+    Parameters
+    ----------
+    kind : str
+        ``dol``, ``star_delta``, ``soft`` or ``drive`` (a few spellings accepted).
+    table : mapping, optional
+        Kind -> :class:`StarterData` or (current multiple, cos φ) from the
+        config; kinds missing fall back to :data:`DEFAULT_STARTERS`.
 
     Examples
     --------
     >>> starter_data("DOL").current_multiple
     7.0
+    >>> starter_data("soft", {"soft": (3.0, 0.45)}).current_multiple
+    3.0
     """
     key = _ALIASES.get(str(kind).strip().lower())
-    table = table or DEFAULT_STARTERS
-    if key is None or key not in table:
+    if key is None:
         raise UnknownKeyError(f"starter {kind!r} is unknown: use one of {', '.join(STARTERS)}")
-    return table[key]
+    value = (table or {}).get(key)
+    if value is None:
+        return DEFAULT_STARTERS[key]
+    if isinstance(value, StarterData):
+        return value
+    multiple, pf = (float(v) for v in value)
+    default = DEFAULT_STARTERS[key]
+    if (multiple, pf) == (default.current_multiple, default.power_factor):
+        return default
+    return StarterData(multiple, pf, f"{key} {multiple:g} In, cos φ {pf:g} (config)")
 
 
 def starting_dip_percent(

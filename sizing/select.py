@@ -22,13 +22,15 @@ from functools import lru_cache
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import sizes_for, tabulated_capacity
+from .checks import REPORT_CHECKS, UPSIZE_EXTRA_CHECKS, is_applicable, result_extras
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
-    grouping_factor,
     ground_temperature_factor,
+    grouping_factor,
     soil_resistivity_factor,
 )
+from .depth import REFERENCE_DEPTH_M, depth_factor_for_method
 from .device import DeviceSelection, required_iz_a, select_device
 from .load import design_current_a
 from .model import (
@@ -134,18 +136,22 @@ def check_voltage_drop(
 #: Checks that raise the cross-section when they fail, run in this order.
 #: Each may be extended (e.g. short circuit, motor start); keys are the
 #: ``governed_by`` names of contract.md.
-UPSIZE_CHECKS: dict[str, UpsizeCheck] = {"voltage_drop": check_voltage_drop}
+UPSIZE_CHECKS: dict[str, UpsizeCheck] = {"voltage_drop": check_voltage_drop, **UPSIZE_EXTRA_CHECKS}
 
 
 @lru_cache(maxsize=4096)
 def _environment_factors(
-    method: str, insulation: str, ambient_c: float, soil_k_m_w: float
+    method: str, insulation: str, ambient_c: float, soil_k_m_w: float,
+    depth_m: float = REFERENCE_DEPTH_M,
 ) -> tuple[Factor, ...]:
     if method in GROUND_METHODS:
-        return (
+        factors = (
             ground_temperature_factor(ambient_c, insulation),
             soil_resistivity_factor(soil_k_m_w, method),
         )
+        if abs(depth_m - REFERENCE_DEPTH_M) > 1e-9:
+            factors += (depth_factor_for_method(method, depth_m),)
+        return factors
     return (ambient_air_factor(ambient_c, insulation),)
 
 
@@ -161,17 +167,21 @@ def stretch_factors(
 
     Temperature (Table B.52.14 in air, B.52.15 in the ground), soil
     resistivity (B.52.16, ground only) and grouping (B.52.17 to B.52.21) of
-    IEC 60364-5-52:2009, counting ``stretch.other_cables + parallel`` cables.
+    IEC 60364-5-52:2009, counting ``stretch.other_cables + parallel`` cables;
+    in the ground also the depth of laying when it differs from the 0.7 m of
+    the tables (:mod:`.depth`, from IEC 60287-2-1:2015).
     """
     method = _method_for(stretch.method, spec)
+    depth = REFERENCE_DEPTH_M
     if method in GROUND_METHODS:
+        depth = config.depth_m if stretch.depth_m is None else stretch.depth_m
         ambient = config.ground_c if stretch.ambient_c is None else stretch.ambient_c
         soil = (config.soil_resistivity_k_m_w if stretch.soil_resistivity_k_m_w is None
                 else stretch.soil_resistivity_k_m_w)
     else:
         ambient = config.ambient_air_c if stretch.ambient_c is None else stretch.ambient_c
         soil = config.soil_resistivity_k_m_w
-    env = _environment_factors(method, spec.insulation, float(ambient), float(soil))
+    env = _environment_factors(method, spec.insulation, float(ambient), float(soil), float(depth))
     cables = stretch.other_cables + parallel
     return env + (_grouping(method, cables, stretch.trays),)
 
@@ -352,8 +362,10 @@ def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContex
         Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
               f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
     ]
-    for check in UPSIZE_CHECKS.values():
-        checks.append(check(spec, cand, ctx, config))
+    for check in {**UPSIZE_CHECKS, **REPORT_CHECKS}.values():
+        outcome = check(spec, cand, ctx, config)
+        if is_applicable(outcome):
+            checks.append(outcome)
     messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
     status = "fail" if messages else "ok"
     if spec.design_length_m <= 0:
@@ -384,4 +396,5 @@ def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContex
         cable=cable,
         voltage_drop=_voltage_drop(spec, cand, ctx),
         checks=tuple(checks),
+        **result_extras(spec, cand, ctx, config),
     )
