@@ -94,6 +94,11 @@ class Network:
         Source id of a route piece -> ids of the segments made from it.
     segment_ends : dict
         Segment id -> (node, node) at its first and last point.
+    segment_nodes : dict
+        Segment id -> graph nodes it runs through: ``(u, v)``, or ``(u, "M<id>", v)`` for a
+        segment parallel to a shorter one between the same nodes (split in two halves,
+        edge attribute ``half=True``, since a Graph holds one edge per node pair).
+        Loops (a segment back to its own node) are not in the graph.
     """
 
     graph: nx.Graph
@@ -104,6 +109,7 @@ class Network:
     issues: list[Issue] = field(default_factory=list)
     source_segments: dict[str, tuple[str, ...]] = field(default_factory=dict)
     segment_ends: dict[str, tuple[str, str]] = field(default_factory=dict)
+    segment_nodes: dict[str, tuple[str, ...]] = field(default_factory=dict)
 
 
 class _UnionFind:
@@ -490,22 +496,27 @@ def build_network(
     g = nx.Graph()
     for nd in sorted({nd for ends_ in segment_ends.values() for nd in ends_}, key=node_key):
         g.add_node(nd, pos_m=node_pos[nd])
+    segment_nodes: dict[str, tuple[str, ...]] = {}
     for sid, seg in segments.items():
         u, v = segment_ends[sid]
         if u == v:
-            continue
-        if g.has_edge(u, v) and g.edges[u, v]["length_m"] <= seg.length_m:
-            continue
-        g.add_edge(
-            u,
-            v,
-            length_m=seg.length_m,
+            continue  # a loop back to its own node: never on a shortest path
+        attrs = dict(
             kind=seg.containment,
             containment=seg.containment,
             method=seg.method,
             segment_id=sid,
             source_id=seg.source_ids[0] if seg.source_ids else "",
         )
+        if not g.has_edge(u, v):
+            g.add_edge(u, v, length_m=seg.length_m, half=False, **attrs)
+            segment_nodes[sid] = (u, v)
+        else:  # a parallel segment: keep it, through a middle node (a Graph has no multi-edges)
+            mid = "M" + sid
+            g.add_node(mid, pos_m=seg.points_m[len(seg.points_m) // 2])
+            g.add_edge(u, mid, length_m=seg.length_m / 2, half=True, **attrs)
+            g.add_edge(mid, v, length_m=seg.length_m / 2, half=True, **attrs)
+            segment_nodes[sid] = (u, mid, v)
     tails: dict[str, Tail] = {}
     for tag, (pid, dist, start, end) in tail_pid.items():
         eq = eq_map[tag]
@@ -516,6 +527,7 @@ def build_network(
             nd,
             length_m=dist,
             kind="tail",
+            half=False,
             containment="tail",
             method="",
             segment_id="",
@@ -554,6 +566,7 @@ def build_network(
         issues=issues,
         source_segments={k: tuple(v) for k, v in source_segments.items()},
         segment_ends=segment_ends,
+        segment_nodes=segment_nodes,
     )
 
 

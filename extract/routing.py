@@ -79,6 +79,8 @@ def _path_points(network: Network, path: Sequence[str]) -> tuple[list[Point3], l
             seq: Sequence[Point3] = [a, b]
         else:
             sid = data["segment_id"]
+            if data.get("half") and u.startswith("M"):
+                continue  # second half of a split parallel segment: already added
             segs.append(sid)
             seg_pts = network.segments[sid].points_m
             seq = seg_pts if network.segment_ends[sid][0] == u else seg_pts[::-1]
@@ -88,10 +90,10 @@ def _path_points(network: Network, path: Sequence[str]) -> tuple[list[Point3], l
     return pts, segs, first, last
 
 
-def _via_nodes(network: Network, via: str, where: str) -> list[tuple[str, str | None]]:
-    """Ways to pass a via: [(node, None)] for equipment, [(u, v), ...] for route pieces."""
+def _via_nodes(network: Network, via: str, where: str) -> list[tuple[str, ...]]:
+    """Ways to pass a via: [(node,)] for equipment, node runs of segments for route pieces."""
     if via in network.tails:
-        return [(network.tails[via].node, None)]
+        return [(network.tails[via].node,)]
     if via in network.tag_failures:
         raise _Fail(f"{where}: via {via}: {network.tag_failures[via]}")
     seg_ids: Sequence[str] = ()
@@ -99,12 +101,7 @@ def _via_nodes(network: Network, via: str, where: str) -> list[tuple[str, str | 
         seg_ids = (via,)
     elif via in network.source_segments:
         seg_ids = network.source_segments[via]
-    options = []
-    for sid in seg_ids:
-        u, v = network.segment_ends[sid]
-        g = network.graph
-        if u != v and g.has_edge(u, v) and g.edges[u, v]["segment_id"] == sid:
-            options.append((u, v))
+    options = [network.segment_nodes[sid] for sid in seg_ids if sid in network.segment_nodes]
     if not options:
         known = list(network.tails) + list(network.segments) + list(network.source_segments)
         raise _Fail(
@@ -133,18 +130,20 @@ def _route_via(
     states: dict[str, tuple[float, list[str]]] = {src: (0.0, [src])}
     for via in vias:
         new: dict[str, tuple[float, list[str]]] = {}
-        for u, v in _via_nodes(network, via, where):
-            ends = [(u, [u])] if v is None else [(v, [u, v]), (u, [v, u])]
-            for end, through in ends:
+        for run in _via_nodes(network, via, where):
+            for through in [run] if len(run) == 1 else [run, run[::-1]]:
+                end = through[-1]
+                extra = sum(
+                    g.edges[a, b][WEIGHT] for a, b in zip(through[:-1], through[1:], strict=False)
+                )
                 for node, (d0, p0) in states.items():
                     try:
                         d1, p1 = _leg(g, node, through[0], cache)
                     except nx.NetworkXNoPath:
                         continue
-                    extra = g.edges[through[0], through[1]][WEIGHT] if len(through) == 2 else 0.0
                     total = d0 + d1 + extra
                     if end not in new or total < new[end][0]:
-                        new[end] = (total, p0 + p1[1:] + through[1:])
+                        new[end] = (total, p0 + p1[1:] + list(through[1:]))
         if not new:
             raise _Fail(f"{where}: no route passes via {via}; check the drawing joints")
         states = new

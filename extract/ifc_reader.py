@@ -1,0 +1,840 @@
+"""Read an IFC model: cable carriers as route polylines, equipment, circuit groups.
+
+contract.md, "IFC input":
+
+* route pieces are ``IfcCableCarrierSegment``, ``IfcCableCarrierFitting`` and
+  ``IfcCableSegment`` (and ``IfcDuctSegment``/``IfcPipeSegment`` used as cable ducts,
+  see :class:`IfcConfig`); a piece's path is its 'Axis' curve, else its body's
+  extrusion; a fitting without an axis joins its ports through its placement origin;
+* connectivity comes from ports (``IfcDistributionPort`` joined by
+  ``IfcRelConnectsPorts``, taken as undirected, duplicates ignored); connected ports
+  farther apart than the snap tolerance get a short joining piece between them, so
+  the network builder joins them; pieces with no connected port rely on the drawing
+  rules (snap, tee) and are reported;
+* methods: tray and ladder segments E, trunking and conduit segments B2, our property
+  set ``CW_Routing`` overrides; carriers wholly below ground are ducts in the ground (D1);
+* equipment is matched by ``Tag``, then ``Name``; its insertion point is the origin
+  of its ObjectPlacement.
+
+Everything leaves this module in metres, as the same types the DXF reader produces,
+so network building, routing and grouping are shared.
+
+References
+----------
+.. [1] contract.md, "IFC input", "Drawing conventions".
+.. [2] ISO 16739-1:2018 (IFC4 ADD2 TC1): IfcCableCarrierSegmentTypeEnum,
+   IfcDistributionPort, IfcRelConnectsPorts, IfcRelNests, IfcDistributionCircuit.
+.. [3] IEC 60364-5-52:2009, Table B.52.1 (reference methods E, B2, C, D1, D2).
+"""
+
+from __future__ import annotations
+
+import logging
+import os
+from collections import Counter, defaultdict
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from .errors import DrawingReadError, Issue, ScheduleError
+from .model import (
+    CONTAINMENTS,
+    DEFAULT_ROUTE_LAYERS,
+    UNIT_TO_M,
+    DrawingConfig,
+    Equipment,
+    Measurement,
+    RoutePolyline,
+    ScheduleRow,
+)
+
+__all__ = [
+    "SUPPORTED_SCHEMAS",
+    "CARRIER_KINDS",
+    "REFERENCE_METHODS",
+    "ROUTING_PSET",
+    "EQUIPMENT_PSET",
+    "CIRCUIT_PSET",
+    "SIZING_PSET",
+    "IfcConfig",
+    "IfcContent",
+    "open_model",
+    "read_ifc",
+    "route_layer",
+    "measure_ifc",
+]
+
+logger = logging.getLogger(__name__)
+
+#: IFC schemas read (``ifcopenshell.file.schema``).
+SUPPORTED_SCHEMAS = ("IFC2X3", "IFC4", "IFC4X3")
+
+#: ``IfcCableCarrierSegment.PredefinedType`` -> (containment, reference method), per
+#: contract.md "IFC input" (methods per IEC 60364-5-52:2009, Table B.52.1).
+CARRIER_KINDS: Mapping[str, tuple[str, str]] = {
+    "CABLETRAYSEGMENT": ("tray", "E"),
+    "CABLELADDERSEGMENT": ("ladder", "E"),
+    "CABLETRUNKINGSEGMENT": ("conduit", "B2"),
+    "CONDUITSEGMENT": ("conduit", "B2"),
+}
+
+#: Reference methods of IEC 60364-5-52:2009, Table B.52.1, accepted in ``CW_Routing``.
+REFERENCE_METHODS = ("A1", "A2", "B1", "B2", "C", "D1", "D2", "E", "F", "G")
+
+#: Our property set on a route piece: ``Containment`` (one of CONTAINMENTS) and/or
+#: ``ReferenceMethod`` (IEC 60364-5-52 letter) override the class's default.
+ROUTING_PSET = "CW_Routing"
+#: Our property set on equipment: properties named like schedule columns.
+EQUIPMENT_PSET = "CW_Equipment"
+#: Our property set on an IfcDistributionCircuit / IfcElectricalCircuit: schedule
+#: columns (``load``, ``power_factor``, ...; ``from``/``to`` optional).
+CIRCUIT_PSET = "CW_Circuit"
+#: Property set our IFC writer puts on the cables it adds; such cables are results,
+#: not routes, and the reader skips them.
+SIZING_PSET = "CW_CableSizing"
+
+_ROUTE_CLASSES = ("IfcCableCarrierSegment", "IfcCableCarrierFitting", "IfcCableSegment")
+_DUCT_CLASSES = ("IfcDuctSegment", "IfcPipeSegment")
+_FITTING = "IfcCableCarrierFitting"
+
+_LAYER_OF = {kind[0]: layer for layer, kind in DEFAULT_ROUTE_LAYERS.items()}
+
+
+def route_layer(containment: str) -> str:
+    """The contract's route layer for a containment kind (``"tray"`` -> ``"ROUTE-TRAY"``)."""
+    return _LAYER_OF.get(containment, "ROUTE-" + containment.upper())
+
+
+@dataclass(frozen=True)
+class IfcConfig:
+    """How to read an IFC model (defaults from contract.md, "IFC input").
+
+    Attributes
+    ----------
+    tag_sources : tuple of str
+        Element attributes tried in turn for the equipment tag.
+    below_ground_z_m : float
+        A carrier whose highest point lies below this world z is in the ground, [m]
+        (-0.3 m, common practice: below a floor slab / finished ground).
+    below_ground_kind : (containment, method)
+        Carriers in the ground: ducts in the ground, D1 (IEC 60364-5-52:2009, B.52.1).
+    buried_cable_kind : (containment, method)
+        A bare ``IfcCableSegment`` in the ground: direct in the ground, D2.
+    cable_segment_kind : (containment, method)
+        A bare ``IfcCableSegment`` above ground: clipped direct, C.
+    default_kind : (containment, method)
+        A carrier of no known type, and a fitting with no carrier next to it: tray, E.
+    equipment_classes : tuple of str
+        IFC classes (subtypes included) read as equipment.
+    source_classes : tuple of str
+        Equipment classes that feed circuits (used to tell a circuit group's source).
+    """
+
+    tag_sources: tuple[str, ...] = ("Tag", "Name")
+    below_ground_z_m: float = -0.3
+    below_ground_kind: tuple[str, str] = ("duct", "D1")
+    buried_cable_kind: tuple[str, str] = ("buried", "D2")
+    cable_segment_kind: tuple[str, str] = ("clipped", "C")
+    default_kind: tuple[str, str] = ("tray", "E")
+    equipment_classes: tuple[str, ...] = (
+        "IfcElectricDistributionBoard",
+        "IfcElectricDistributionPoint",
+        "IfcElectricMotor",
+        "IfcElectricAppliance",
+        "IfcElectricFlowStorageDevice",
+        "IfcElectricGenerator",
+        "IfcTransformer",
+        "IfcLightFixture",
+        "IfcLamp",
+        "IfcOutlet",
+        "IfcAudioVisualAppliance",
+        "IfcCommunicationsAppliance",
+        "IfcMotorConnection",
+        "IfcSwitchingDevice",
+        "IfcProtectiveDevice",
+        "IfcPump",
+        "IfcFan",
+        "IfcCompressor",
+        "IfcUnitaryEquipment",
+    )
+    source_classes: tuple[str, ...] = (
+        "IfcElectricDistributionBoard",
+        "IfcElectricDistributionPoint",
+        "IfcElectricGenerator",
+        "IfcTransformer",
+    )
+
+
+@dataclass(frozen=True)
+class IfcContent:
+    """What :func:`read_ifc` found.
+
+    Attributes
+    ----------
+    path : str
+    schema : str
+        ``"IFC2X3"``, ``"IFC4"`` or ``"IFC4X3"``.
+    model_units : str
+        The model's length unit (``"mm"``, ``"m"`` ...); everything here is in metres.
+    units : str
+        Units of the polylines and positions: always ``"m"``.
+    polylines : tuple of RoutePolyline
+        Route pieces (fitting legs and port joins included), [m].
+    equipment : tuple of Equipment
+        Tagged equipment, positions in world metres.
+    issues : tuple of Issue
+        Problems found (unreadable geometry, pieces without ports, ...).
+    port_links : int
+        Port-to-port connections between route pieces (undirected, each once).
+    port_joins : int
+        Joining pieces added between connected ports that did not touch.
+    circuit_rows : tuple of ScheduleRow
+        Circuits from IfcDistributionCircuit / IfcElectricalCircuit groups.
+    circuit_failures : mapping
+        Circuit id -> message, for groups whose source or load cannot be told.
+    """
+
+    path: str
+    schema: str
+    model_units: str
+    polylines: tuple[RoutePolyline, ...]
+    equipment: tuple[Equipment, ...]
+    issues: tuple[Issue, ...] = ()
+    port_links: int = 0
+    port_joins: int = 0
+    circuit_rows: tuple[ScheduleRow, ...] = ()
+    circuit_failures: Mapping[str, str] = field(default_factory=dict)
+    units: str = "m"
+
+
+def open_model(path: str | os.PathLike[str]) -> Any:
+    """Open an IFC file and check its schema.
+
+    Raises
+    ------
+    DrawingReadError
+        Missing, empty or unreadable file; a schema other than :data:`SUPPORTED_SCHEMAS`.
+    """
+    p = Path(path)
+    if not p.exists():
+        raise DrawingReadError(f"{p}: file not found; check the model path")
+    if p.is_dir():
+        raise DrawingReadError(f"{p}: is a folder, not an IFC file; give the model file")
+    if p.stat().st_size == 0:
+        raise DrawingReadError(f"{p}: file is empty; export the model again as IFC")
+    try:
+        import ifcopenshell
+    except ImportError as exc:  # pragma: no cover - depends on the environment
+        raise DrawingReadError(
+            f"{p}: reading IFC needs ifcopenshell; install cablewright[ifc]"
+        ) from exc
+    try:
+        model = ifcopenshell.open(str(p))
+    except (ifcopenshell.Error, OSError, RuntimeError, ValueError) as exc:
+        raise DrawingReadError(
+            f"{p}: not a readable IFC (STEP) file ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__}); "
+            "export the model again as IFC2X3, IFC4 or IFC4X3"
+        ) from exc
+    schema = str(model.schema).upper()
+    if schema not in SUPPORTED_SCHEMAS:
+        raise DrawingReadError(
+            f"{p}: IFC schema {model.schema} is not supported; export as "
+            f"{', '.join(SUPPORTED_SCHEMAS)}"
+        )
+    return model
+
+
+def _by_type(model: Any, cls: str) -> list[Any]:
+    try:
+        return list(model.by_type(cls))
+    except RuntimeError:  # class not in this schema
+        return []
+
+
+def _unit_scale(model: Any, path: Path, config: DrawingConfig) -> tuple[float, str]:
+    import ifcopenshell.util.unit as uu
+
+    has_length = False
+    for project in _by_type(model, "IfcProject"):
+        ctx = project.UnitsInContext
+        if ctx is not None:
+            has_length = any(getattr(u, "UnitType", None) == "LENGTHUNIT" for u in ctx.Units)
+    if not has_length:
+        if config.units in UNIT_TO_M:
+            return UNIT_TO_M[config.units], config.units  # type: ignore[index]
+        raise DrawingReadError(
+            f"{path}: the model states no length unit (IfcProject.UnitsInContext); "
+            "give the units in the config (units = \"mm\")"
+        )
+    scale = float(uu.calculate_unit_scale(model))
+    name = next((k for k, v in UNIT_TO_M.items() if abs(v - scale) <= 1e-12 * v), f"{scale:g} m")
+    return scale, name
+
+
+def _pset(element: Any, name: str) -> dict[str, Any]:
+    import ifcopenshell.util.element as ue
+
+    found = ue.get_pset(element, name)
+    return dict(found) if found else {}
+
+
+def _predefined(element: Any) -> str:
+    import ifcopenshell.util.element as ue
+
+    value = ue.get_predefined_type(element)
+    return str(value).upper() if value else ""
+
+
+def _gid(element: Any) -> str:
+    return str(getattr(element, "GlobalId", "") or f"#{element.id()}")
+
+
+def _label(element: Any) -> str:
+    name = getattr(element, "Name", None)
+    return f"{element.is_a()} {_gid(element)}" + (f" ({name})" if name else "")
+
+
+@dataclass
+class _Piece:
+    element: Any
+    gid: str
+    is_fitting: bool
+    polys: list[np.ndarray]  # world metres
+    origin: np.ndarray
+    kind: tuple[str, str] | None = None  # (containment, method) once known
+    override: bool = False
+
+
+def _override(element: Any, issues: list[Issue]) -> tuple[str, str] | None:
+    props = _pset(element, ROUTING_PSET)
+    if not props:
+        return None
+    containment = str(props.get("Containment") or "").strip().lower()
+    method = str(props.get("ReferenceMethod") or "").strip().upper()
+    if containment and containment not in CONTAINMENTS:
+        issues.append(Issue(
+            "bad-override",
+            f"{_label(element)}: {ROUTING_PSET}.Containment {containment!r} is not one of "
+            f"{', '.join(CONTAINMENTS)}; ignored",
+            _gid(element),
+        ))
+        containment = ""
+    if method and method not in REFERENCE_METHODS:
+        issues.append(Issue(
+            "bad-override",
+            f"{_label(element)}: {ROUTING_PSET}.ReferenceMethod {method!r} is not one of "
+            f"{', '.join(REFERENCE_METHODS)}; ignored",
+            _gid(element),
+        ))
+        method = ""
+    if not containment and not method:
+        return None
+    if not containment:
+        return ("", method)
+    if not method:
+        method = DEFAULT_ROUTE_LAYERS[route_layer(containment)][1]
+    return (containment, method)
+
+
+def _is_cable_duct(element: Any) -> bool:
+    """An IfcDuctSegment / IfcPipeSegment counts as a cable duct when it carries our
+    routing property set or has a port of an electrical system or cable type."""
+    import ifcopenshell.util.system as us
+
+    if _pset(element, ROUTING_PSET):
+        return True
+    for port in us.get_ports(element):
+        if getattr(port, "SystemType", None) in ("ELECTRICAL", "LIGHTNINGPROTECTION"):
+            return True
+        if getattr(port, "PredefinedType", None) in ("CABLE", "CABLECARRIER"):
+            return True
+    return False
+
+
+def _nearest_on(polys: list[np.ndarray], p: np.ndarray) -> np.ndarray:
+    best, best_d = polys[0][0], np.inf
+    for v in polys:
+        a, b = v[:-1], v[1:]
+        ab = b - a
+        l2 = np.einsum("ij,ij->i", ab, ab)
+        t = np.where(l2 > 0, np.einsum("ij,ij->i", p - a, ab) / np.where(l2 > 0, l2, 1.0), 0.0)
+        q = a + np.clip(t, 0.0, 1.0)[:, None] * ab
+        d = np.linalg.norm(q - p, axis=1)
+        k = int(np.argmin(d))
+        if d[k] < best_d:
+            best, best_d = q[k], float(d[k])
+    return best
+
+
+def read_ifc(
+    path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> IfcContent:
+    """Read route pieces, equipment and circuit groups from an IFC model.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The ``.ifc`` file (IFC2X3, IFC4 or IFC4X3).
+    config : DrawingConfig, optional
+        ``snap_tolerance_m`` decides which connected ports need a joining piece;
+        ``units`` is used only when the model states no length unit.
+    ifc_config : IfcConfig, optional
+        Tag attributes, below-ground level, classes read as equipment.
+
+    Returns
+    -------
+    IfcContent
+        Polylines and equipment in world metres, issues, circuits from groups.
+
+    Raises
+    ------
+    DrawingReadError
+        Unreadable file, unsupported schema, no length unit, no cable carriers.
+
+    References
+    ----------
+    .. [1] contract.md, "IFC input".
+    """
+    import ifcopenshell.util.system as us
+
+    from .ifc_geometry import (
+        UnsupportedGeometry,
+        axis_points,
+        body_axis_points,
+        transform,
+        world_matrix,
+    )
+
+    config = config or DrawingConfig()
+    ic = ifc_config or IfcConfig()
+    p = Path(path)
+    model = open_model(p)
+    scale, unit_name = _unit_scale(model, p, config)
+    issues: list[Issue] = []
+    cache: dict[int, np.ndarray] = {}
+
+    # ------------------------------------------------------------ route elements
+    elements: list[Any] = []
+    seen: set[int] = set()
+    for cls in _ROUTE_CLASSES + _DUCT_CLASSES:
+        for el in _by_type(model, cls):
+            if el.id() in seen:
+                continue
+            seen.add(el.id())
+            if cls in _DUCT_CLASSES and not _is_cable_duct(el):
+                continue
+            if el.is_a("IfcCableSegment") and _pset(el, SIZING_PSET):
+                continue  # a cable our writer added: a result, not a route
+            elements.append(el)
+    elements.sort(key=lambda e: e.id())
+
+    pieces: list[_Piece] = []
+    port_owner: dict[int, int] = {}
+    port_pos: dict[int, np.ndarray | None] = {}
+    for el in elements:
+        m = world_matrix(el, cache)
+        origin = m[:3, 3] * scale
+        ports = us.get_ports(el)
+        is_fitting = el.is_a(_FITTING)
+        polys: list[np.ndarray] = []
+        try:
+            local = axis_points(el)
+            if local is None and not is_fitting:
+                local = body_axis_points(el)
+        except UnsupportedGeometry as exc:
+            issues.append(Issue(
+                "geometry",
+                f"{p}: {_label(el)}: {exc} is not read"
+                + ("" if is_fitting else "; piece ignored")
+                + " - give it an 'Axis' polyline",
+                _gid(el),
+            ))
+            if not is_fitting:
+                continue
+            local = None
+        if local is not None:
+            polys.append(transform(m, local) * scale)
+        elif is_fitting:
+            for port in ports:
+                if port.ObjectPlacement is None:
+                    continue
+                pp = world_matrix(port, cache)[:3, 3] * scale
+                if float(np.linalg.norm(pp - origin)) > 1e-6:
+                    polys.append(np.asarray([pp, origin]))
+        else:
+            issues.append(Issue(
+                "no-geometry",
+                f"{p}: {_label(el)} has neither an 'Axis' curve nor an extruded 'Body'; "
+                "ignored - give it an axis",
+                _gid(el),
+            ))
+            continue
+        idx = len(pieces)
+        pieces.append(_Piece(el, _gid(el), is_fitting, polys, origin))
+        for port in ports:
+            port_owner[port.id()] = idx
+            port_pos[port.id()] = (
+                world_matrix(port, cache)[:3, 3] * scale if port.ObjectPlacement is not None else None
+            )
+
+    if not pieces:
+        raise DrawingReadError(
+            f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); "
+            "model the trays, ladders and conduits, or export the routes to DXF"
+        )
+
+    # ------------------------------------------------------------ port links
+    links: set[tuple[int, int]] = set()
+    link_ports: dict[tuple[int, int], tuple[int, int]] = {}
+    for rel in _by_type(model, "IfcRelConnectsPorts"):
+        a, b = rel.RelatingPort, rel.RelatedPort
+        if a is None or b is None:
+            continue
+        ia, ib = port_owner.get(a.id()), port_owner.get(b.id())
+        if ia is None or ib is None or ia == ib:
+            continue
+        key = (a.id(), b.id()) if a.id() < b.id() else (b.id(), a.id())
+        if key not in links:
+            links.add(key)
+    neighbours: dict[int, set[int]] = defaultdict(set)
+    for pa, pb in links:
+        ia, ib = port_owner[pa], port_owner[pb]
+        neighbours[ia].add(ib)
+        neighbours[ib].add(ia)
+        link_ports[(pa, pb)] = (ia, ib)
+
+    # ------------------------------------------------------------ containment and method
+    for piece in pieces:
+        el = piece.element
+        ov = _override(el, issues)
+        top_z = max((float(v[:, 2].max()) for v in piece.polys), default=float(piece.origin[2]))
+        below = top_z < ic.below_ground_z_m
+        base: tuple[str, str] | None
+        if piece.is_fitting:
+            base = None
+        elif el.is_a("IfcCableCarrierSegment"):
+            pre = _predefined(el)
+            base = CARRIER_KINDS.get(pre)
+            if base is None:
+                base = ic.default_kind
+                issues.append(Issue(
+                    "carrier-type",
+                    f"{p}: {_label(el)} has PredefinedType {pre or 'none'}; taken as "
+                    f"{base[0]} (method {base[1]}) - set {ROUTING_PSET}.Containment to say otherwise",
+                    piece.gid,
+                ))
+            if below:
+                base = ic.below_ground_kind
+        elif el.is_a("IfcCableSegment"):
+            base = ic.buried_cable_kind if below else ic.cable_segment_kind
+        else:  # a duct or pipe used for cables
+            base = ic.below_ground_kind
+        if ov is not None:
+            if ov[0]:
+                piece.kind, piece.override = ov, True
+            else:
+                piece.kind, piece.override = ((base or ic.default_kind)[0], ov[1]), True
+        else:
+            piece.kind = base
+
+    # fittings: the kind of their carriers, through port links, then by touching ends
+    for i, piece in enumerate(pieces):
+        if piece.kind is not None:
+            continue
+        found: Counter[tuple[str, str]] = Counter()
+        frontier, visited = [i], {i}
+        for _ in range(4):  # through at most a few fittings in a row
+            nxt = []
+            for j in frontier:
+                for k in sorted(neighbours.get(j, ())):
+                    if k in visited:
+                        continue
+                    visited.add(k)
+                    if pieces[k].is_fitting and not pieces[k].override:
+                        nxt.append(k)
+                    elif pieces[k].kind is not None:
+                        found[pieces[k].kind] += 1
+            if found or not nxt:
+                break
+            frontier = nxt
+        if not found:
+            found.update(_touching_kinds(pieces, i, config.snap_tolerance_m))
+        if found:
+            piece.kind = max(found.items(), key=lambda kv: (kv[1], kv[0] == ic.default_kind))[0]
+        else:
+            top_z = max((float(v[:, 2].max()) for v in piece.polys), default=float(piece.origin[2]))
+            piece.kind = ic.below_ground_kind if top_z < ic.below_ground_z_m else ic.default_kind
+
+    # ------------------------------------------------------------ polylines
+    polylines: list[RoutePolyline] = []
+    for piece in pieces:
+        containment, method = piece.kind  # type: ignore[misc]
+        layer = route_layer(containment)
+        for v in piece.polys:
+            polylines.append(RoutePolyline(
+                tuple((float(x), float(y), float(z)) for x, y, z in v),
+                layer, containment, method, piece.gid,
+            ))
+
+    joins = 0
+    tol = float(config.snap_tolerance_m)
+    for (pa, pb), (ia, ib) in sorted(link_ports.items()):
+        a_pt = _attach(pieces[ia], port_pos[pa], port_pos[pb])
+        b_pt = _attach(pieces[ib], port_pos[pb], a_pt)
+        gap = float(np.linalg.norm(a_pt - b_pt))
+        ends_a = _is_end(pieces[ia], a_pt)
+        ends_b = _is_end(pieces[ib], b_pt)
+        if gap <= 1e-6 or (gap <= tol and (ends_a or ends_b)):
+            continue  # the network builder's snap / tee rule joins them
+        containment, method = pieces[ia].kind  # type: ignore[misc]
+        polylines.append(RoutePolyline(
+            (tuple(map(float, a_pt)), tuple(map(float, b_pt))),  # type: ignore[arg-type]
+            route_layer(containment), containment, method,
+            f"{pieces[ia].gid}/{pieces[ib].gid}",
+        ))
+        joins += 1
+
+    unlinked = [pc.gid for i, pc in enumerate(pieces) if i not in neighbours]
+    if unlinked and not links:
+        issues.append(Issue(
+            "no-ports",
+            f"{p}: no connected ports on the {len(pieces)} route pieces; joined by the drawing "
+            f"rules instead (ends within {tol * 1000:.0f} mm, tees) - check the routes",
+            unlinked[0],
+        ))
+    elif unlinked:
+        shown = ", ".join(unlinked[:5]) + (f" and {len(unlinked) - 5} more" if len(unlinked) > 5 else "")
+        issues.append(Issue(
+            "no-ports",
+            f"{p}: {len(unlinked)} route piece(s) without connected ports ({shown}); joined by "
+            f"the drawing rules instead (ends within {tol * 1000:.0f} mm, tees)",
+            unlinked[0],
+        ))
+
+    equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
+    rows, failures = _read_circuits(model, p, ic, equipment)
+    logger.info(
+        "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
+        p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
+    )
+    return IfcContent(
+        path=str(p),
+        schema=str(model.schema).upper(),
+        model_units=unit_name,
+        polylines=tuple(polylines),
+        equipment=tuple(equipment),
+        issues=tuple(issues),
+        port_links=len(links),
+        port_joins=joins,
+        circuit_rows=tuple(rows),
+        circuit_failures=failures,
+    )
+
+
+def _attach(piece: _Piece, port_at: np.ndarray | None, other: np.ndarray | None) -> np.ndarray:
+    """Where a port joins its piece: the nearest point of the piece's path to the port."""
+    target = port_at if port_at is not None else other
+    if not piece.polys:
+        return port_at if port_at is not None else piece.origin
+    if target is None:
+        return piece.polys[0][0]
+    return _nearest_on(piece.polys, target)
+
+
+def _is_end(piece: _Piece, pt: np.ndarray) -> bool:
+    if not piece.polys:
+        return True
+    return any(
+        float(np.linalg.norm(v[0] - pt)) <= 1e-6 or float(np.linalg.norm(v[-1] - pt)) <= 1e-6
+        for v in piece.polys
+    )
+
+
+def _touching_kinds(pieces: list[_Piece], i: int, tol: float) -> Counter[tuple[str, str]]:
+    """Kinds of non-fitting pieces with an end within ``tol`` of fitting ``i``'s path ends."""
+    out: Counter[tuple[str, str]] = Counter()
+    fit = pieces[i]
+    pts = [v[0] for v in fit.polys] + [v[-1] for v in fit.polys] or [fit.origin]
+    pts_a = np.asarray(pts)
+    for other in pieces:
+        if other.is_fitting or other.kind is None:
+            continue
+        for v in other.polys:
+            ends = np.asarray([v[0], v[-1]])
+            d = np.linalg.norm(pts_a[:, None, :] - ends[None, :, :], axis=2)
+            if float(d.min()) <= tol:
+                out[other.kind] += 1
+                break
+    return out
+
+
+def _tag(element: Any, ic: IfcConfig) -> str:
+    for attr in ic.tag_sources:
+        value = getattr(element, attr, None)
+        if value is not None and str(value).strip():
+            return str(value).strip()
+    return ""
+
+
+def _read_equipment(
+    model: Any, p: Path, ic: IfcConfig, scale: float, cache: dict, route_ids: set[int], issues: list[Issue]
+) -> list[Equipment]:
+    from .ifc_geometry import world_matrix
+
+    out: list[Equipment] = []
+    seen: set[int] = set()
+    untagged = 0
+    for cls in ic.equipment_classes:
+        for el in _by_type(model, cls):
+            if el.id() in seen or el.id() in route_ids:
+                continue
+            seen.add(el.id())
+            tag = _tag(el, ic)
+            if not tag:
+                untagged += 1
+                continue
+            pos = world_matrix(el, cache)[:3, 3] * scale
+            attrs = tuple(
+                sorted((str(k).upper(), "" if v is None else str(v)) for k, v in _pset(el, EQUIPMENT_PSET).items()
+                       if k != "id")
+            )
+            out.append(Equipment(tag, _gid(el), (float(pos[0]), float(pos[1]), float(pos[2])), el.is_a(), attrs))
+    if untagged:
+        logger.info("%s: %d equipment element(s) have no %s; not usable in circuits", p, untagged,
+                    " or ".join(ic.tag_sources))
+    out.sort(key=lambda e: (e.tag, e.source_id))
+    return out
+
+
+def _read_circuits(
+    model: Any, p: Path, ic: IfcConfig, equipment: list[Equipment]
+) -> tuple[list[ScheduleRow], dict[str, str]]:
+    """Circuits from IfcDistributionCircuit (IFC4) / IfcElectricalCircuit (IFC2X3) groups."""
+    by_gid = {e.source_id: e for e in equipment}
+    groups = _by_type(model, "IfcDistributionCircuit") + _by_type(model, "IfcElectricalCircuit")
+    rows: list[ScheduleRow] = []
+    failures: dict[str, str] = {}
+    for n, group in enumerate(sorted(groups, key=lambda g: g.id()), start=1):
+        cid = str(group.Name or "").strip() or _gid(group)
+        where = f"{p.name} {group.is_a()} {cid}"
+        props = {str(k).strip().lower(): v for k, v in _pset(group, CIRCUIT_PSET).items() if k != "id"}
+        members = [
+            o for rel in (getattr(group, "IsGroupedBy", None) or []) for o in rel.RelatedObjects
+        ]
+        eqs = [by_gid[_gid(o)] for o in members if _gid(o) in by_gid]
+        src = str(props.get("from") or "").strip()
+        dst = str(props.get("to") or "").strip()
+        if not src:
+            cands = [e for e in eqs if any(_is_class(model, e.source_id, c) for c in ic.source_classes)]
+            src = cands[0].tag if len(cands) == 1 else ""
+        if not dst:
+            cands = [e for e in eqs if e.tag != src and not any(
+                _is_class(model, e.source_id, c) for c in ic.source_classes)]
+            dst = cands[0].tag if len(cands) == 1 else ""
+        if not src or not dst:
+            tags = ", ".join(e.tag for e in eqs) or "no tagged equipment"
+            failures[cid] = (
+                f"{where}: cannot tell the circuit's source and load from its members ({tags}); "
+                f"set 'from' and 'to' in its {CIRCUIT_PSET} property set or give --circuits"
+            )
+            continue
+        fields = {k: "" if v is None else str(v) for k, v in props.items()}
+        fields.update({"circuit": cid, "from": src, "to": dst})
+        rows.append(ScheduleRow(where, n, cid, src, dst, tuple(sorted(fields.items()))))
+    return rows, failures
+
+
+def _is_class(model: Any, gid: str, cls: str) -> bool:
+    try:
+        return bool(model.by_guid(gid).is_a(cls))
+    except RuntimeError:
+        return False
+
+
+def measure_ifc(
+    model_path: str | os.PathLike[str],
+    schedule_path: str | os.PathLike[str] | None = None,
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> Measurement:
+    """Read an IFC model and a schedule, build the network and route every circuit.
+
+    Without a schedule, the circuits come from the model's circuit groups
+    (``IfcDistributionCircuit`` / ``IfcElectricalCircuit`` with our ``CW_Circuit``
+    property set), else from equipment carrying ``CW_Equipment`` properties named like
+    the schedule's columns.
+
+    Parameters
+    ----------
+    model_path : str or path-like
+        The ``.ifc`` model.
+    schedule_path : str or path-like, optional
+        ``.csv`` or ``.xlsx`` schedule.
+    config : DrawingConfig, optional
+        Snap tolerance, maximum tail, allowances.
+    ifc_config : IfcConfig, optional
+        IFC reading options.
+
+    Returns
+    -------
+    Measurement
+        As for a DXF drawing; ``units`` is ``"m"`` (everything was converted on reading).
+
+    Raises
+    ------
+    DrawingReadError
+        The model cannot be used.
+    ScheduleError
+        No schedule given and the model holds no circuits.
+
+    References
+    ----------
+    .. [1] contract.md, "IFC input", "Lengths and grouping".
+    """
+    from .network import build_network
+    from .routing import route_circuits
+    from .schedule import read_schedule, rows_from_equipment
+
+    config = config or DrawingConfig()
+    content = read_ifc(model_path, config, ifc_config)
+    issues = list(content.issues)
+    network = build_network(content.polylines, content.equipment, config)
+    issues.extend(network.issues)
+    failures: dict[str, str] = {}
+    if schedule_path is not None:
+        rows = read_schedule(schedule_path)
+    elif content.circuit_rows or content.circuit_failures:
+        rows = list(content.circuit_rows)
+        failures.update(content.circuit_failures)
+    else:
+        try:
+            rows = rows_from_equipment(content.equipment)
+        except ScheduleError as exc:
+            raise ScheduleError(
+                f"{content.path}: no --circuits schedule given and the model has no circuit "
+                f"groups (IfcDistributionCircuit with a {CIRCUIT_PSET} property set) nor equipment "
+                f"with {EQUIPMENT_PSET} circuit properties; give the schedule with --circuits FILE"
+            ) from exc
+    routes, route_failures = route_circuits(network, rows, config)
+    failures.update(route_failures)
+    if failures:
+        # keep the schedule's order of circuits that come only from failed groups
+        known = {r.circuit_id for r in rows}
+        for n, cid in enumerate(sorted(c for c in failures if c not in known), start=len(rows) + 1):
+            rows.append(ScheduleRow(content.path, n, cid, "", ""))
+    return Measurement(
+        drawing=content.path,
+        units=content.units,
+        segments=network.segments,
+        equipment=network.equipment,
+        rows=rows,
+        routes=routes,
+        failures=failures,
+        issues=issues,
+        graph=network.graph,
+    )
