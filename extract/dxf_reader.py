@@ -422,11 +422,11 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     walker = _Walker(doc, p, config, UNIT_TO_M[units], content, config.tag_attribute.upper())
     _walk_layout(walker, iter(doc.modelspace()))
     if not content.polylines:
-        names = sorted(layer.dxf.name for layer in doc.layers)
+        names = sorted({e.dxf.layer for e in doc.modelspace()})
         wanted = ", ".join(config.route_layers)
         raise DrawingReadError(
             f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC) on a route layer "
-            f"({wanted}); layers in the drawing: {', '.join(names) or 'none'}. "
+            f"({wanted}); layers used in model space: {', '.join(names) or 'none'}. "
             "Put the cable routes on those layers or add the layer names to the config"
         )
     logger.info(

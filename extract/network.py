@@ -278,7 +278,13 @@ def build_network(
         keep = s_owner[qs] != own
         qe, qs = qe[keep], qs[keep]
         t, d = _project(ends[qe], sa[qs], sb[qs])
-        keep = d <= tol
+        # an end of the target within tolerance is an end-end join, already made
+        tj = s_owner[qs]
+        near_end = np.minimum(
+            np.linalg.norm(ends[qe] - ends[2 * tj], axis=1),
+            np.linalg.norm(ends[qe] - ends[2 * tj + 1], axis=1),
+        )
+        keep = (d <= tol) & (near_end > tol)
         best: dict[tuple[int, int], tuple[float, int, float]] = {}
         for e, s, tt, dd in zip(qe[keep], qs[keep], t[keep], d[keep], strict=False):
             j = int(s_owner[s])
@@ -286,9 +292,6 @@ def build_network(
             if key not in best or dd < best[key][0]:
                 best[key] = (float(dd), int(s), float(tt))
         for (e, j), (dd, s, tt) in sorted(best.items()):
-            # an end of j within tolerance is an end-end join, already made
-            if min(math.dist(ends[e], verts[j][0]), math.dist(ends[e], verts[j][-1])) <= tol:
-                continue
             k = int(s_k[s])
             pos = cum[j][k] + tt * seglen[j][k]
             xyz = sa[s] + tt * (sb[s] - sa[s])
@@ -353,7 +356,12 @@ def build_network(
             else:
                 dist = math.inf
             if dist > config.max_tail_m:
-                where = "no route" if math.isinf(dist) else f"the nearest route is {dist:.2f} m away"
+                # the nearest route at any distance, for the message
+                far = int(seg_tree.query_nearest(shapely.points(pos[n, :2]))[0])
+                _, d_far = _project(pos[n : n + 1], sa[far : far + 1], sb[far : far + 1])
+                c = seg_tree.query(_boxes(pos[n : n + 1, :2], float(d_far[0]) + 1e-9)[0])
+                _, d = _project(np.repeat(pos[n : n + 1], len(c), 0), sa[c], sb[c])
+                where = f"the nearest route is {float(d.min()):.2f} m away"
                 tag_failures[tag] = (
                     f"equipment {tag} ({eq.source_id}, block {eq.block_name}) at "
                     f"{_fmt(eq.position_m)}: {where}, more than the {config.max_tail_m:g} m "
