@@ -272,7 +272,7 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     ...                    stretches=(Stretch(method="E", other_cables=0),))
     >>> r = size_circuit(spec)
     >>> r.device_rating_a, r.cable.csa_mm2, r.status
-    (125, 35, 'ok')
+    (125, 25.0, 'ok')
 
     References
     ----------

@@ -88,7 +88,7 @@ def voltage_drop_v(
     100 A over 100 m of 4C 35 mm² copper, 3 phases, cos φ 0.85, at 90 °C:
 
     >>> round(voltage_drop_v(100, 100, 35, "Cu", 3, 0.85), 2)
-    9.79
+    10.57
 
     References
     ----------
@@ -145,7 +145,7 @@ def annex_g_drop_percent(
     Examples
     --------
     >>> round(annex_g_drop_percent(100, 100, 35, "Cu", 3, 0.85, 400), 2)
-    2.08
+    2.55
 
     References
     ----------

@@ -100,3 +100,38 @@ class TestDevice:
     def test_breaker_required_iz_is_in(self):
         # With I2 = 1.45 In, 433.1 condition (433.2) is met whenever Iz >= In.
         assert required_iz_a(select_device(40, "breaker", margin=1.0)) == 40
+
+
+class TestVoltageDrop:
+    def test_impedance_formula_by_hand(self):
+        # IEC 60228:2004 Table 2: 35 mm² plain copper class 2, 0.524 ohm/km at 20 °C;
+        # Annex B correction to 90 °C with alpha 0.00393: 0.524 * (1 + 0.00393 * 70) = 0.66815 ohm/km.
+        # Annex G lambda = 0.08 mohm/m.  dU = sqrt(3) Ib L (R cos + X sin), hand calculation:
+        # sqrt(3) * 100 A * 100 m * (0.00066815 * 0.85 + 0.00008 * 0.52678) = 10.567 V.
+        from cablewright.sizing.voltage_drop import voltage_drop_v
+
+        assert voltage_drop_v(100, 100, 35, "Cu", 3, 0.85, 1, 90.0) == pytest.approx(10.567, abs=0.002)
+        # two cables in parallel halve it; single phase uses b = 2 instead of sqrt(3)
+        assert voltage_drop_v(100, 100, 35, "Cu", 3, 0.85, 2, 90.0) == pytest.approx(10.567 / 2, abs=0.002)
+        assert voltage_drop_v(100, 100, 35, "Cu", 1, 0.85, 1, 90.0) == pytest.approx(10.567 * 2 / math.sqrt(3), abs=0.003)
+
+    def test_annex_g_formula(self):
+        # IEC 60364-5-52:2009 Annex G: u = b (rho1 L/S cos + lambda L sin) Ib, du = 100 u / U0,
+        # rho1 = 0.0225 ohm mm²/m (Cu), lambda = 0.08 mohm/m, b = 1 three-phase.
+        # (0.0225 * 100 / 35 * 0.85 + 0.00008 * 100 * 0.52678) * 100 = 5.8857 V; / 230.94 V = 2.549 %.
+        from cablewright.sizing.voltage_drop import annex_g_drop_percent
+
+        assert annex_g_drop_percent(100, 100, 35, "Cu", 3, 0.85, 400) == pytest.approx(2.549, abs=0.002)
+        # aluminium: rho1 = 0.036 ohm mm²/m
+        expected = (0.036 * 100 / 35 * 0.85 + 0.00008 * 100 * 0.52678) * 100 / (400 / math.sqrt(3)) * 100
+        assert annex_g_drop_percent(100, 100, 35, "Al", 3, 0.85, 400) == pytest.approx(expected, rel=1e-5)
+
+    def test_impedance_and_annex_g_agree_roughly(self):
+        # Annex G's rho1 = 1.25 rho20 stands for about 80 °C; the impedance form at 90 °C is a
+        # few per cent higher, never lower.
+        from cablewright.sizing.voltage_drop import annex_g_drop_percent, drop_percent, voltage_drop_v
+
+        for csa in (2.5, 16, 95, 240):
+            exact = drop_percent(voltage_drop_v(50, 80, csa, "Cu", 3, 0.9, 1, 90.0), 400)
+            simple = annex_g_drop_percent(50, 80, csa, "Cu", 3, 0.9, 400)
+            assert simple * 0.95 < exact < simple * 1.15
