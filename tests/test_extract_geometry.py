@@ -12,7 +12,6 @@ import random
 
 import pytest
 import shapely
-
 from cablewright.extract import (
     DrawingConfig,
     RoutePolyline,
