@@ -758,7 +758,7 @@ def write_annotated_dxf(
     h = h_m * k
     w = _Writer(doc, config, h)
     index = LabelIndex(
-        cell=8.0 * h, obstacles=route_obstacles(_scaled(s.points_m, k) for s in segments.values())
+        cell=12.0 * h, obstacles=route_obstacles(_scaled(s.points_m, k) for s in segments.values())
     )
 
     from_count: dict[str, int] = defaultdict(int)
@@ -859,9 +859,10 @@ def write_annotated_dxf(
             error_notes += 1
 
     # everything placed so far widens the extents the schedule sits beside
-    for poly in index.boxes:
-        bx0, by0, bx1, by1 = poly.bounds
-        xmin, ymin, xmax, ymax = min(xmin, bx0), min(ymin, by0), max(xmax, bx1), max(ymax, by1)
+    placed = index.bounds()
+    if placed is not None:
+        xmin, ymin = min(xmin, placed[0]), min(ymin, placed[1])
+        xmax, ymax = max(xmax, placed[2]), max(ymax, placed[3])
     schedule_rows = 0
     if config.schedule:
         schedule_rows = _schedule_table(w, outcomes, xmax + 10.0 * h, ymax, 0.0)

@@ -43,6 +43,7 @@ __all__ = [
     "place_along",
     "place_near_point",
     "route_obstacles",
+    "boxes_overlap",
 ]
 
 Point2 = tuple[float, float]
@@ -162,13 +163,59 @@ def label_polygon(
     )
 
 
+def _box(cx: float, cy: float, width: float, height: float, rotation_deg: float) -> tuple:
+    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds."""
+    a = math.radians(rotation_deg)
+    ux, uy = math.cos(a), math.sin(a)
+    hw, hh = width / 2.0, height / 2.0
+    ex = hw * abs(ux) + hh * abs(uy)
+    ey = hw * abs(uy) + hh * abs(ux)
+    return (cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
+
+
+def boxes_overlap(a: tuple, b: tuple, eps: float = 0.0) -> bool:
+    """True when two oriented boxes share area (touching does not count).
+
+    Separating axis test: two convex polygons are disjoint exactly when their
+    projections on some edge normal do not overlap; for rectangles the four edge
+    directions suffice (Gottschalk, Lin & Manocha 1996).
+
+    Examples
+    --------
+    >>> boxes_overlap(_box(0, 0, 2, 2, 0), _box(1.9, 0, 2, 2, 0))
+    True
+    >>> boxes_overlap(_box(0, 0, 2, 2, 0), _box(2.0, 0, 2, 2, 0))
+    False
+    >>> boxes_overlap(_box(0, 0, 2, 2, 45), _box(1.9, 1.9, 2, 2, 45))
+    False
+
+    References
+    ----------
+    .. [1] Gottschalk, S., Lin, M. C., Manocha, D. "OBBTree: a hierarchical
+       structure for rapid interference detection", SIGGRAPH 1996, section 4.
+    """
+    if a[8] <= b[6] + eps or b[8] <= a[6] + eps or a[9] <= b[7] + eps or b[9] <= a[7] + eps:
+        return False
+    dx, dy = b[0] - a[0], b[1] - a[1]
+    for lx, ly in ((a[2], a[3]), (-a[3], a[2]), (b[2], b[3]), (-b[3], b[2])):
+        ra = a[4] * abs(a[2] * lx + a[3] * ly) + a[5] * abs(-a[3] * lx + a[2] * ly)
+        rb = b[4] * abs(b[2] * lx + b[3] * ly) + b[5] * abs(-b[3] * lx + b[2] * ly)
+        if abs(dx * lx + dy * ly) >= ra + rb - eps:
+            return False
+    return True
+
+
 class LabelIndex:
     """Placed label boxes in a uniform grid, plus fixed obstacles in an STRtree.
+
+    Boxes are oriented rectangles; the overlap test is a separating axis test
+    (:func:`boxes_overlap`) against the boxes in the grid cells a candidate
+    covers, so each test looks at a few neighbours only.
 
     Parameters
     ----------
     cell : float
-        Grid cell size [drawing units]; a few label heights works well.
+        Grid cell size [drawing units]; about a label's length works well.
     obstacles : iterable of shapely geometries, optional
         Fixed lines (other routes) a label should rather not cross.
     """
@@ -178,52 +225,66 @@ class LabelIndex:
             raise ValueError(f"grid cell must be > 0, got {cell!r}")
         self.cell = float(cell)
         self._grid: dict[tuple[int, int], list[int]] = {}
-        self._boxes: list[Polygon] = []
+        self._boxes: list[tuple] = []
         geoms = [g for g in obstacles if g is not None and not g.is_empty]
         self._obstacles = shapely.STRtree(geoms) if geoms else None
+        self._eps = 1e-9 * self.cell
 
     def __len__(self) -> int:
         return len(self._boxes)
 
     @property
     def boxes(self) -> tuple[Polygon, ...]:
-        """Every box placed so far."""
-        return tuple(self._boxes)
+        """Every box placed so far, as shapely polygons."""
+        return tuple(_polygon(b) for b in self._boxes)
 
-    def _cells(self, poly: Polygon) -> Iterable[tuple[int, int]]:
-        minx, miny, maxx, maxy = poly.bounds
+    def bounds(self) -> tuple[float, float, float, float] | None:
+        """(xmin, ymin, xmax, ymax) of every box placed, ``None`` when empty."""
+        if not self._boxes:
+            return None
+        return (
+            min(b[6] for b in self._boxes),
+            min(b[7] for b in self._boxes),
+            max(b[8] for b in self._boxes),
+            max(b[9] for b in self._boxes),
+        )
+
+    def _cells(self, box: tuple) -> Iterable[tuple[int, int]]:
         c = self.cell
-        for i in range(math.floor(minx / c), math.floor(maxx / c) + 1):
-            for j in range(math.floor(miny / c), math.floor(maxy / c) + 1):
+        for i in range(math.floor(box[6] / c), math.floor(box[8] / c) + 1):
+            for j in range(math.floor(box[7] / c), math.floor(box[9] / c) + 1):
                 yield (i, j)
 
-    def is_free(self, poly: Polygon) -> bool:
-        """True when ``poly`` overlaps (with area) no placed box."""
+    def is_free(self, box: tuple) -> bool:
+        """True when ``box`` (see :func:`_box`) shares area with no placed box."""
         seen: set[int] = set()
-        for key in self._cells(poly):
+        boxes = self._boxes
+        for key in self._cells(box):
             for idx in self._grid.get(key, ()):
                 if idx in seen:
                     continue
                 seen.add(idx)
-                other = self._boxes[idx]
-                if poly.intersects(other) and poly.intersection(other).area > 1e-12 * max(
-                    poly.area, 1e-300
-                ):
+                if boxes_overlap(box, boxes[idx], self._eps):
                     return False
         return True
 
-    def crosses_obstacle(self, poly: Polygon) -> bool:
-        """True when ``poly`` touches one of the fixed obstacles."""
+    def crosses_obstacle(self, box: tuple) -> bool:
+        """True when ``box`` touches one of the fixed obstacles."""
         if self._obstacles is None:
             return False
-        return len(self._obstacles.query(poly, predicate="intersects")) > 0
+        return len(self._obstacles.query(_polygon(box), predicate="intersects")) > 0
 
-    def add(self, poly: Polygon) -> None:
+    def add(self, box: tuple) -> None:
         """Record a placed box."""
         idx = len(self._boxes)
-        self._boxes.append(poly)
-        for key in self._cells(poly):
+        self._boxes.append(box)
+        for key in self._cells(box):
             self._grid.setdefault(key, []).append(idx)
+
+
+def _polygon(box: tuple) -> Polygon:
+    cx, cy, ux, uy, hw, hh = box[:6]
+    return label_polygon(cx, cy, 2.0 * hw, 2.0 * hh, math.degrees(math.atan2(uy, ux)))
 
 
 def straight_stretches(
@@ -326,10 +387,10 @@ def place_along(
     *,
     gap: float | None = None,
     level_step: float | None = None,
-    max_levels: int = 6,
+    max_levels: int = 5,
     max_stretches: int = 4,
-    along_steps: int = 6,
-    fallback_levels: int = 40,
+    along_steps: int = 3,
+    fallback_levels: int = 10,
 ) -> Placement:
     """Place a label along the best free spot of ``stretches`` and record it.
 
@@ -372,7 +433,7 @@ def place_along(
     base = height / 2.0 + gap
     tried = list(stretches[:max_stretches])
 
-    def candidate(s: Stretch, t: float, off: float) -> Placement:
+    def candidate(s: Stretch, t: float, off: float) -> tuple[tuple, Placement]:
         dx, dy = s.end[0] - s.start[0], s.end[1] - s.start[1]
         n = math.hypot(dx, dy)
         ux, uy = dx / n, dy / n
@@ -382,8 +443,17 @@ def place_along(
         vx, vy = -math.sin(a), math.cos(a)
         mx, my = (s.start[0] + s.end[0]) / 2.0 + ux * t, (s.start[1] + s.end[1]) / 2.0 + uy * t
         cx, cy = mx + vx * off, my + vy * off
-        poly = label_polygon(cx, cy, width, height, rot)
-        return Placement(cx, cy, s.z, rot, width, height, poly, False, (mx, my))
+        return _box(cx, cy, width, height, rot), Placement(
+            cx,
+            cy,
+            s.z,
+            rot,
+            width,
+            height,
+            None,
+            False,
+            (mx, my),  # type: ignore[arg-type]
+        )
 
     def offsets(levels: int) -> Iterable[float]:
         for level in range(levels):
@@ -391,31 +461,44 @@ def place_along(
             yield d
             yield -d
 
-    for avoid_routes in (True, False):
-        for s in tried:
-            along = _along_offsets(s.length, width, max(width * 0.5, height), along_steps)
-            for off in offsets(max_levels):
-                for t in along:
-                    cand = candidate(s, t, off)
-                    if not index.is_free(cand.polygon):
-                        continue
-                    if avoid_routes and index.crosses_obstacle(cand.polygon):
-                        continue
-                    index.add(cand.polygon)
-                    return cand
+    def done(box: tuple, place: Placement, overlaps: bool = False) -> Placement:
+        index.add(box)
+        return Placement(
+            place.x,
+            place.y,
+            place.z,
+            place.rotation_deg,
+            width,
+            height,
+            _polygon(box),
+            overlaps,
+            place.anchor,
+        )
+
+    crossing: tuple[tuple, Placement] | None = None  # first free spot that crosses a route
+    for s in tried:
+        along = _along_offsets(s.length, width, max(width * 0.5, height), along_steps)
+        for off in offsets(max_levels):
+            for t in along:
+                box, place = candidate(s, t, off)
+                if not index.is_free(box):
+                    continue
+                if index.crosses_obstacle(box):
+                    if crossing is None:
+                        crossing = (box, place)
+                    continue
+                return done(box, place)
+    if crossing is not None:
+        return done(*crossing)
     best = tried[0]
-    cand = None
     for off in offsets(max_levels + fallback_levels):
-        cand = candidate(best, 0.0, off)
-        if index.is_free(cand.polygon):
-            index.add(cand.polygon)
-            return cand
-    assert cand is not None
-    cand = Placement(
-        cand.x, cand.y, cand.z, cand.rotation_deg, width, height, cand.polygon, True, cand.anchor
-    )
-    index.add(cand.polygon)
-    return cand
+        if abs(off) < base + max_levels * level_step - 1e-9:
+            continue  # tried above
+        box, place = candidate(best, 0.0, off)
+        if index.is_free(box):
+            return done(box, place)
+    # nothing free: beside the best stretch, flagged
+    return done(*candidate(best, 0.0, base), overlaps=True)
 
 
 def place_near_point(
@@ -427,7 +510,7 @@ def place_near_point(
     height: float,
     *,
     first_radius: float | None = None,
-    rings: int = 12,
+    rings: int = 8,
 ) -> Placement:
     """Place a horizontal note near a point (for a leader), clear of other labels.
 
@@ -454,24 +537,19 @@ def place_near_point(
     """
     r0 = height * 1.5 if first_radius is None else first_radius
     directions = [(1, 1), (1, -1), (-1, 1), (-1, -1), (0, 1), (0, -1), (1, 0), (-1, 0)]
-    cand = None
     for ring in range(rings):
         r = r0 + ring * height * 1.5
         for sx, sy in directions:
             cx = x + sx * (r + width / 2.0 if sx else 0.0)
             cy = y + sy * (r + height / 2.0 if sy else 0.0)
-            poly = label_polygon(cx, cy, width, height, 0.0)
-            cand = Placement(cx, cy, z, 0.0, width, height, poly, False, (x, y))
-            if index.is_free(poly):
-                index.add(poly)
-                return cand
-    assert cand is not None
-    first = label_polygon(x + r0 + width / 2.0, y + r0 + height / 2.0, width, height, 0.0)
-    cand = Placement(
-        x + r0 + width / 2.0, y + r0 + height / 2.0, z, 0.0, width, height, first, True, (x, y)
-    )
-    index.add(first)
-    return cand
+            box = _box(cx, cy, width, height, 0.0)
+            if index.is_free(box):
+                index.add(box)
+                return Placement(cx, cy, z, 0.0, width, height, _polygon(box), False, (x, y))
+    cx, cy = x + r0 + width / 2.0, y + r0 + height / 2.0
+    box = _box(cx, cy, width, height, 0.0)
+    index.add(box)
+    return Placement(cx, cy, z, 0.0, width, height, _polygon(box), True, (x, y))
 
 
 def route_obstacles(polylines: Iterable[Sequence[Sequence[float]]]) -> list[LineString]:
