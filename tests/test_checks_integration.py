@@ -1,0 +1,104 @@
+"""The checks beyond ampacity inside the selection (sizing/checks.py via select.py)."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from cablewright.sizing.conductor_resistance import dc_resistance_20c_ohm_per_km
+from cablewright.sizing.config import SizingConfig
+from cablewright.sizing.model import CircuitSpec, Load, Stretch
+from cablewright.sizing.protective_conductor import table_54_2_min_csa_mm2
+from cablewright.sizing.select import size_circuit
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+
+def _final(length_m=28.0, **extra):
+    # 3 kW single-phase final circuit at 230 V, clipped direct (method C).
+    extra.setdefault("ze_ohm", "0.35")
+    return CircuitSpec("L-1", Load(3, "kW"), 230, phases=1, design_length_m=length_m,
+                       stretches=(Stretch(method="C"),), extra=tuple(extra.items()))
+
+
+def _check(result, name):
+    return next(c for c in result.checks if c.name == name)
+
+
+def test_long_final_circuit_fails_disconnection_with_advice():
+    r = size_circuit(_final())
+    assert r.status == "fail"
+    assert _check(r, "capacity").passed and _check(r, "voltage_drop").passed
+    dis = _check(r, "disconnection")
+    assert not dis.passed and "residual-current device" in dis.message
+    # Independent recomputation from published values: In 20 A (contract
+    # ratings), type C Ia = 10 In (IEC 60898-1 Table 7), 0.4 s applies (Table
+    # 41.1, 230 V, <= 32 A), R of 1.5 mm² Cu 12.1 Ω/km (IEC 60228 Table 2) at
+    # (90 + 250)/2 = 170 °C with (234.5 + θ)/254.5, line + PE, X 0.08 mΩ/m each.
+    assert r.device_rating_a == 20 and r.cable.csa_mm2 == 1.5
+    r_per_m = 2 * dc_resistance_20c_ohm_per_km(1.5, "Cu") / 1000 * (234.5 + 170) / 254.5
+    z_per_m = math.hypot(r_per_m, 2 * 0.08e-3)
+    assert dis.limit == pytest.approx(230 / 200)
+    assert r.max_length_m == pytest.approx((230 / 200 - 0.35) / z_per_m, rel=1e-3)
+    assert r.max_length_m < 28.0
+
+
+def test_disconnection_upsize_option():
+    r = size_circuit(_final(), SizingConfig(disconnection_upsize=True))
+    assert r.status == "ok"
+    assert r.cable.governed_by == "disconnection" and r.cable.csa_mm2 > 1.5
+    assert r.max_length_m >= 28.0
+
+
+def test_short_circuit_raises_the_size():
+    spec = CircuitSpec("S-1", Load(3, "kW"), 230, phases=1, fault_ka=10, design_length_m=10,
+                       stretches=(Stretch(method="C"),))
+    r = size_circuit(spec)
+    need = 10000 * math.sqrt(0.1) / 143  # 434.5.2, k of Table 43A, config 0.1 s
+    assert r.cable.governed_by == "short_circuit"
+    assert r.cable.csa_mm2 >= need and r.cable.csa_mm2 == 25
+    assert r.fault_current_ka_source == 10
+    assert r.fault_current_ka_load_end_min < r.fault_current_ka_load_end < 10
+
+
+def test_result_fields_for_the_report():
+    spec = CircuitSpec("P-1", Load(55, "kW"), 400, design_length_m=60, fault_ka=6,
+                       stretches=(Stretch(method="E"),))
+    r = size_circuit(spec)
+    assert r.protective_conductor_mm2 == min(
+        r.cable.csa_mm2, max(16, table_54_2_min_csa_mm2(r.cable.csa_mm2)))
+    assert r.earth_fault_loop_ohm is not None and r.max_length_m > 0
+    names = [c.name for c in r.checks]
+    assert "motor_start" not in names  # not a motor: left out
+    assert {"short_circuit", "disconnection", "protective_conductor"} <= set(names)
+    for c in r.checks:
+        assert c.source  # every check names its source
+
+
+def test_no_fault_level_is_not_checked_but_passes():
+    spec = CircuitSpec("P-2", Load(5, "kW"), 400, design_length_m=20, stretches=(Stretch(method="E"),))
+    sc = _check(size_circuit(spec), "short_circuit")
+    assert sc.passed and sc.message.startswith("not checked")
+
+
+def test_tt_earthing_is_not_checked():
+    r = size_circuit(_final(earthing="TT"))
+    assert _check(r, "disconnection").message.startswith("not checked")
+    assert r.max_length_m is None
+
+
+@settings(max_examples=15, deadline=None)
+@given(f1=st.floats(1, 40), f2=st.floats(1, 40), t1=st.floats(0.01, 1.0), t2=st.floats(0.01, 1.0))
+def test_higher_fault_or_longer_time_never_gives_a_smaller_size(f1, f2, t1, t2):
+    lo_f, hi_f = sorted((f1, f2))
+    lo_t, hi_t = sorted((t1, t2))
+
+    def size(fault, t):
+        spec = CircuitSpec("P-3", Load(30, "kW"), 400, fault_ka=fault, design_length_m=40,
+                           stretches=(Stretch(method="E"),))
+        r = size_circuit(spec, SizingConfig(clearing_time_s=t, max_parallel=2))
+        return (r.cable.parallel, r.cable.csa_mm2)
+
+    base = size(lo_f, lo_t)
+    assert size(hi_f, lo_t) >= base
+    assert size(lo_f, hi_t) >= base
