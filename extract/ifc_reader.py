@@ -97,8 +97,33 @@ CIRCUIT_PSET = "CW_Circuit"
 SIZING_PSET = "CW_CableSizing"
 
 _ROUTE_CLASSES = ("IfcCableCarrierSegment", "IfcCableCarrierFitting", "IfcCableSegment")
-_DUCT_CLASSES = ("IfcDuctSegment", "IfcPipeSegment")
-_FITTING = "IfcCableCarrierFitting"
+#: Occurrence class (IFC4) or type class (IFC2X3, where the occurrence is a plain
+#: IfcFlowSegment / IfcFlowFitting) -> role of the piece.
+_ROLES = (
+    ("IfcCableCarrierFitting", "fitting"),
+    ("IfcCableCarrierSegment", "carrier"),
+    ("IfcCableSegment", "cable"),
+    ("IfcDuctSegment", "duct"),
+    ("IfcPipeSegment", "duct"),
+)
+
+
+def _route_role(element: Any) -> str | None:
+    """``carrier``, ``fitting``, ``cable``, ``duct`` or None for a flow segment/fitting."""
+    for cls, role in _ROLES:
+        try:
+            if element.is_a(cls):
+                return role
+        except RuntimeError:
+            continue
+    import ifcopenshell.util.element as ue
+
+    tp = ue.get_type(element)
+    if tp is not None:
+        for cls, role in _ROLES:
+            if tp.is_a(cls + "Type"):
+                return role
+    return None
 
 _LAYER_OF = {kind[0]: layer for layer, kind in DEFAULT_ROUTE_LAYERS.items()}
 
@@ -225,6 +250,12 @@ def open_model(path: str | os.PathLike[str]) -> Any:
         raise DrawingReadError(f"{p}: is a folder, not an IFC file; give the model file")
     if p.stat().st_size == 0:
         raise DrawingReadError(f"{p}: file is empty; export the model again as IFC")
+    declared = _declared_schema(p)
+    if declared is not None and not _schema_ok(declared):
+        raise DrawingReadError(
+            f"{p}: IFC schema {declared} is not supported; export as "
+            f"{', '.join(SUPPORTED_SCHEMAS)}"
+        )
     try:
         import ifcopenshell
     except ImportError as exc:  # pragma: no cover - depends on the environment
@@ -239,12 +270,30 @@ def open_model(path: str | os.PathLike[str]) -> Any:
             "export the model again as IFC2X3, IFC4 or IFC4X3"
         ) from exc
     schema = str(model.schema).upper()
-    if schema not in SUPPORTED_SCHEMAS:
+    if not _schema_ok(schema):
         raise DrawingReadError(
             f"{p}: IFC schema {model.schema} is not supported; export as "
             f"{', '.join(SUPPORTED_SCHEMAS)}"
         )
     return model
+
+
+def _schema_ok(name: str) -> bool:
+    n = name.upper()
+    return n in ("IFC2X3", "IFC4") or n.startswith("IFC4X3")
+
+
+def _declared_schema(p: Path) -> str | None:
+    """The schema named in a STEP header's FILE_SCHEMA, or None when not found."""
+    import re
+
+    try:
+        with p.open("rb") as fh:
+            head = fh.read(16384).decode("latin-1")
+    except OSError as exc:
+        raise DrawingReadError(f"{p}: cannot be opened ({exc.strerror}); check the path and permissions") from exc
+    m = re.search(r"FILE_SCHEMA\s*\(\s*\(\s*'([^']*)'", head, re.IGNORECASE)
+    return m.group(1).strip() if m else None
 
 
 def _by_type(model: Any, cls: str) -> list[Any]:
@@ -419,19 +468,20 @@ def read_ifc(
     cache: dict[int, np.ndarray] = {}
 
     # ------------------------------------------------------------ route elements
+    roles: dict[int, str] = {}
     elements: list[Any] = []
-    seen: set[int] = set()
-    for cls in _ROUTE_CLASSES + _DUCT_CLASSES:
-        for el in _by_type(model, cls):
-            if el.id() in seen:
-                continue
-            seen.add(el.id())
-            if cls in _DUCT_CLASSES and not _is_cable_duct(el):
-                continue
-            if el.is_a("IfcCableSegment") and _pset(el, SIZING_PSET):
-                continue  # a cable our writer added: a result, not a route
-            elements.append(el)
+    for el in _by_type(model, "IfcFlowSegment") + _by_type(model, "IfcFlowFitting"):
+        role = _route_role(el)
+        if role is None or el.id() in roles:
+            continue
+        if role == "duct" and not _is_cable_duct(el):
+            continue
+        if role == "cable" and _pset(el, SIZING_PSET):
+            continue  # a cable our writer added: a result, not a route
+        roles[el.id()] = role
+        elements.append(el)
     elements.sort(key=lambda e: e.id())
+    seen = set(roles)
 
     pieces: list[_Piece] = []
     port_owner: dict[int, int] = {}
@@ -440,7 +490,7 @@ def read_ifc(
         m = world_matrix(el, cache)
         origin = m[:3, 3] * scale
         ports = us.get_ports(el)
-        is_fitting = el.is_a(_FITTING)
+        is_fitting = roles[el.id()] == "fitting"
         polys: list[np.ndarray] = []
         try:
             local = axis_points(el)
@@ -517,7 +567,7 @@ def read_ifc(
         base: tuple[str, str] | None
         if piece.is_fitting:
             base = None
-        elif el.is_a("IfcCableCarrierSegment"):
+        elif roles[el.id()] == "carrier":
             pre = _predefined(el)
             base = CARRIER_KINDS.get(pre)
             if base is None:
@@ -530,7 +580,7 @@ def read_ifc(
                 ))
             if below:
                 base = ic.below_ground_kind
-        elif el.is_a("IfcCableSegment"):
+        elif roles[el.id()] == "cable":
             base = ic.buried_cable_kind if below else ic.cable_segment_kind
         else:  # a duct or pipe used for cables
             base = ic.below_ground_kind
@@ -689,21 +739,29 @@ def _read_equipment(
     out: list[Equipment] = []
     seen: set[int] = set()
     untagged = 0
-    for cls in ic.equipment_classes:
-        for el in _by_type(model, cls):
-            if el.id() in seen or el.id() in route_ids:
-                continue
-            seen.add(el.id())
-            tag = _tag(el, ic)
-            if not tag:
-                untagged += 1
-                continue
-            pos = world_matrix(el, cache)[:3, 3] * scale
-            attrs = tuple(
-                sorted((str(k).upper(), "" if v is None else str(v)) for k, v in _pset(el, EQUIPMENT_PSET).items()
-                       if k != "id")
-            )
-            out.append(Equipment(tag, _gid(el), (float(pos[0]), float(pos[1]), float(pos[2])), el.is_a(), attrs))
+    candidates = [el for cls in ic.equipment_classes for el in _by_type(model, cls)]
+    if str(model.schema).upper() == "IFC2X3":  # occurrences are generic, the type tells
+        import ifcopenshell.util.element as ue
+
+        type_names = tuple(c + "Type" for c in ic.equipment_classes)
+        for el in _by_type(model, "IfcDistributionFlowElement"):
+            tp = ue.get_type(el)
+            if tp is not None and any(_is_a(tp, t) for t in type_names):
+                candidates.append(el)
+    for el in candidates:
+        if el.id() in seen or el.id() in route_ids:
+            continue
+        seen.add(el.id())
+        tag = _tag(el, ic)
+        if not tag:
+            untagged += 1
+            continue
+        pos = world_matrix(el, cache)[:3, 3] * scale
+        attrs = tuple(
+            sorted((str(k).upper(), "" if v is None else str(v)) for k, v in _pset(el, EQUIPMENT_PSET).items()
+                   if k != "id")
+        )
+        out.append(Equipment(tag, _gid(el), (float(pos[0]), float(pos[1]), float(pos[2])), el.is_a(), attrs))
     if untagged:
         logger.info("%s: %d equipment element(s) have no %s; not usable in circuits", p, untagged,
                     " or ".join(ic.tag_sources))
@@ -749,11 +807,24 @@ def _read_circuits(
     return rows, failures
 
 
-def _is_class(model: Any, gid: str, cls: str) -> bool:
+def _is_a(inst: Any, cls: str) -> bool:
     try:
-        return bool(model.by_guid(gid).is_a(cls))
+        return bool(inst.is_a(cls))
     except RuntimeError:
         return False
+
+
+def _is_class(model: Any, gid: str, cls: str) -> bool:
+    import ifcopenshell.util.element as ue
+
+    try:
+        el = model.by_guid(gid)
+    except RuntimeError:
+        return False
+    if _is_a(el, cls):
+        return True
+    tp = ue.get_type(el)
+    return tp is not None and _is_a(tp, cls + "Type")
 
 
 def measure_ifc(

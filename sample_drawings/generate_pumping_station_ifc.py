@@ -52,6 +52,18 @@ def frame(origin: Sequence[float], x_dir: Sequence[float], z_dir: Sequence[float
     return m
 
 
+#: IFC2X3 has no specific occurrence classes for these: a generic occurrence + its type.
+_IFC2X3_OCCURRENCE = {
+    "IfcCableCarrierSegment": "IfcFlowSegment",
+    "IfcCableSegment": "IfcFlowSegment",
+    "IfcCableCarrierFitting": "IfcFlowFitting",
+    "IfcElectricMotor": "IfcEnergyConversionDevice",
+    "IfcLightFixture": "IfcFlowTerminal",
+    "IfcOutlet": "IfcFlowTerminal",
+    "IfcElectricDistributionBoard": "IfcElectricDistributionPoint",
+}
+
+
 class IfcModelBuilder:
     """Write small cable-carrier models with ifcopenshell.api (positions in world metres).
 
@@ -77,6 +89,8 @@ class IfcModelBuilder:
         self.schema = schema
         f = api.project.create_file(version=schema)
         self.f = f
+        if schema == "IFC2X3":
+            self._owner_for_ifc2x3()
         self.project = api.root.create_entity(f, ifc_class="IfcProject", name=seed)
         if unit == "mm":
             length = api.unit.add_si_unit(f, unit_type="LENGTHUNIT", prefix="MILLI")
@@ -100,6 +114,19 @@ class IfcModelBuilder:
         self._place(self.building, np.eye(4))
         self.storeys: dict[str, Any] = {}
         self.storey("Ground", 0.0)
+
+    def _owner_for_ifc2x3(self) -> None:
+        """IFC2X3 requires an owner history on every rooted entity: a fixed demo user."""
+        import ifcopenshell.api.owner.settings as owner
+
+        f = self.f
+        person = f.createIfcPerson(None, "Demo", None)
+        org = f.createIfcOrganization(None, "cablewright", None)
+        user = f.createIfcPersonAndOrganization(person, org)
+        app = f.createIfcApplication(org, "0.1", "cablewright model builder", "cablewright")
+        prev_user, prev_app = owner.get_user, owner.get_application
+        owner.get_user = lambda file: user if file is f else prev_user(file)
+        owner.get_application = lambda file: app if file is f else prev_app(file)
 
     # ------------------------------------------------------------------ basics
     def _place(self, product: Any, matrix: np.ndarray) -> None:
@@ -133,10 +160,17 @@ class IfcModelBuilder:
         import ifcopenshell.api.root
         import ifcopenshell.api.type
 
-        if self.schema == "IFC2X3" and predefined:
-            el = ifcopenshell.api.root.create_entity(self.f, ifc_class=ifc_class, name=name)
-            tp = ifcopenshell.api.root.create_entity(
-                self.f, ifc_class=ifc_class + "Type", predefined_type=predefined, name=f"{name} type")
+        if self.schema == "IFC2X3":
+            occurrence = _IFC2X3_OCCURRENCE.get(ifc_class, ifc_class)
+            el = ifcopenshell.api.root.create_entity(self.f, ifc_class=occurrence, name=name)
+            if occurrence == ifc_class and not predefined:
+                return el
+            try:
+                tp = ifcopenshell.api.root.create_entity(
+                    self.f, ifc_class=ifc_class + "Type", predefined_type=predefined or "NOTDEFINED",
+                    name=f"{name} type")
+            except RuntimeError:  # no such type in IFC2X3 (a distribution point)
+                return el
             ifcopenshell.api.type.assign_type(self.f, related_objects=[el], relating_type=tp)
             return el
         return ifcopenshell.api.root.create_entity(
@@ -170,7 +204,7 @@ class IfcModelBuilder:
             port = ifcopenshell.api.system.add_port(self.f, element=element)
             if self.schema != "IFC2X3":
                 port.PredefinedType = "CABLECARRIER"
-            port.SystemType = "ELECTRICAL" if self.schema != "IFC2X3" else None
+                port.SystemType = "ELECTRICAL"
             self._place(port, frame(w, x_dir if np.linalg.norm(x_dir) > 0 else (1, 0, 0)))
             ports.append(port)
         return ports
