@@ -11,6 +11,18 @@ from .model import CircuitOutcome
 
 __all__ = ["outcome_to_dict", "document", "dumps"]
 
+#: Results of the further checks (short circuit, earth fault, motor start), an
+#: extension of the contract's JSON: new keys, nothing renamed.
+_EXTRA_KEYS = (
+    "protective_conductor_mm2",
+    "max_length_m",
+    "earth_fault_loop_ohm",
+    "fault_current_ka_source",
+    "fault_current_ka_load_end",
+    "fault_current_ka_load_end_min",
+    "motor_start_dip_pct",
+)
+
 
 def _round(value: float | None, digits: int = 2) -> float | None:
     return None if value is None else round(float(value), digits)
@@ -103,9 +115,13 @@ def outcome_to_dict(outcome: CircuitOutcome, kind: str = "size") -> dict[str, An
             "limit_percent": _round(vd.limit_percent),
             "mv_per_a_m": _round(vd.mv_per_a_m, 3),
             "annex_g_percent": _round(vd.annex_g_percent),
+            "cumulative_percent": _round(vd.cumulative_percent),
         }
     else:
         data["voltage_drop"] = None
+    for key in _EXTRA_KEYS:
+        value = getattr(sizing, key, None)
+        data[key] = _round(value, 3) if isinstance(value, float) else value
     data["factors"] = [
         {"name": f.name, "value": _round(f.value, 3), "source": f.source, "detail": f.detail}
         for f in sizing.factors

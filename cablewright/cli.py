@@ -47,7 +47,11 @@ def build_parser() -> argparse.ArgumentParser:
 
     size = sub.add_parser("size", help="the whole job: routes, grouping, sizing, annotated DXF, schedule, report")
     _drawing_args(size)
+    size.add_argument("more_drawings", nargs="*", metavar="DRAWING",
+                      help="further drawings or folders: batch mode, each drawing's outputs in its own folder")
     size.add_argument("--out", metavar="DIR", help="output folder (default: beside the drawing)")
+    size.add_argument("--jobs", type=int, default=1, metavar="N",
+                      help="batch mode: drawings processed in parallel worker processes (default 1)")
 
     routes = sub.add_parser("routes", help="measure routed lengths and grouping only")
     _drawing_args(routes)

@@ -88,6 +88,10 @@ def _default_out(drawing: Path) -> Path:
 
 def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = None) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
+    if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
+        from .batch import run_batch
+
+        return run_batch(args)
     settings = load_settings(args.config)
     drawing = Path(args.drawing)
     measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))

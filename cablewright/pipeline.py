@@ -17,6 +17,7 @@ from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract import grouping as extract_grouping
 from cablewright.extract.errors import CableRouteError
 from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
+from cablewright.sizing.chain import SupplyCycleError, cumulative_drop_percent
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.select import size_circuit
@@ -172,6 +173,7 @@ def size_measurement(
     else:
         log.warning("grouping did not settle after %d rounds; results use the last round", rounds)
 
+    results = _with_chain_drops(results, rows)
     per_segment = extract_grouping.circuits_per_segment(routed, parallel)
     groups = extract_grouping.group_summary(routed, per_segment, parallel)
     outcomes: list[CircuitOutcome] = []
@@ -186,3 +188,35 @@ def size_measurement(
         outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, result.status, result.messages,
                                        routed[cid], groups.get(cid), result))
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
+
+
+def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow]
+                      ) -> dict[str, SizingResult]:
+    """Add the drop from the origin (IEC 60364-5-52:2009 Annex G) to every result.
+
+    A circuit whose source is the load end of another circuit (a sub-board
+    fed from the schedule) adds that feeder's drop, and so on up the chain;
+    the circuit's own limit then applies to the total.
+    """
+    own = {cid: r.voltage_drop.percent for cid, r in results.items() if r.voltage_drop is not None}
+    source_of = {cid: rows[cid].from_tag for cid in own}
+    feeder_of = {rows[cid].to_tag: cid for cid in own}
+    try:
+        cumulative = cumulative_drop_percent(own, source_of, feeder_of)
+    except SupplyCycleError as exc:
+        log.warning("%s", exc)
+        return {cid: (replace(r, status="error", messages=r.messages + (str(exc),))
+                      if cid in str(exc) else r) for cid, r in results.items()}
+    out = dict(results)
+    for cid, total in cumulative.items():
+        result = results[cid]
+        vd = replace(result.voltage_drop, cumulative_percent=total)
+        if total > vd.limit_percent + 1e-9 and total > vd.percent + 1e-9:
+            message = (f"voltage drop from the origin {total:.2f} % (own {vd.percent:.2f} % plus "
+                       f"feeders upstream) exceeds the {vd.limit_percent:g} % limit "
+                       "(IEC 60364-5-52:2009 Annex G): enlarge this circuit or its feeder")
+            status = "error" if result.status == "error" else "fail"
+            out[cid] = replace(result, voltage_drop=vd, status=status, messages=result.messages + (message,))
+        else:
+            out[cid] = replace(result, voltage_drop=vd)
+    return out

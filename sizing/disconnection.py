@@ -136,6 +136,8 @@ def max_disconnection_time_s(
     (0.4, 5.0)
     >>> max_disconnection_time_s(230, 16, final_circuit=False)
     5.0
+    >>> max_disconnection_time_s(400 / 3 ** 0.5, 16)  # 400 V system: nominal U0 230 V
+    0.4
 
     References
     ----------
@@ -145,8 +147,11 @@ def max_disconnection_time_s(
         raise UnknownKeyError(f"earthing {earthing!r} is not handled: use TN or TT")
     if not final_circuit or rating_a > 32:
         return DISTRIBUTION_TIME_S[earthing]
+    # Table 41.1 is read with the nominal U0: 400 V / sqrt(3) = 230.9 V is the
+    # nominal 230 V of IEC 60038, so U0 is rounded to 10 V before the lookup.
+    u0_nominal = round(u0_v / 10.0) * 10.0
     for low, high, times in TABLE_41_1:
-        if low < u0_v <= high:
+        if low < u0_nominal <= high:
             return times[earthing]
     raise OutOfRangeError(f"U0 {u0_v:g} V is outside Table 41.1 (above 50 V a.c.) ({TABLE_41_1_SOURCE})")
 

@@ -189,6 +189,9 @@ class VoltageDrop:
     limit_percent: float
     mv_per_a_m: float
     annex_g_percent: float
+    #: Drop from the origin of the installation: this circuit's own plus every
+    #: feeder's upstream (IEC 60364-5-52:2009 Annex G); ``None`` until known.
+    cumulative_percent: float | None = None
 
 
 @dataclass(frozen=True)

@@ -1,0 +1,100 @@
+"""Batch mode of ``size``: several drawings (or folders), in parallel worker processes.
+
+Each drawing's outputs go to a folder of their own; one drawing that fails
+never stops the others.  A drawing's schedule is ``--circuits`` when given,
+else ``<stem>_circuits.csv`` / ``.xlsx`` beside it, else its block attributes.
+"""
+
+from __future__ import annotations
+
+import argparse
+import io
+import json
+import sys
+from concurrent.futures import ProcessPoolExecutor
+from contextlib import redirect_stdout
+from dataclasses import dataclass
+from pathlib import Path
+
+from cablewright.extract.errors import CableRouteError, DrawingReadError
+
+__all__ = ["expand_drawings", "run_batch", "BatchItem"]
+
+SUFFIXES = (".dxf", ".ifc")
+
+
+@dataclass(frozen=True)
+class BatchItem:
+    """What one drawing of a batch gave: exit code, a summary line, its JSON document."""
+
+    drawing: str
+    exit_code: int
+    summary: str
+    document: dict | None = None
+
+
+def expand_drawings(paths: list[str]) -> list[Path]:
+    """Drawings named, with folders expanded to their ``.dxf``/``.ifc`` files (sorted)."""
+    drawings: list[Path] = []
+    for text in paths:
+        path = Path(text)
+        if path.is_dir():
+            drawings.extend(sorted(p for p in path.iterdir()
+                                   if p.suffix.lower() in SUFFIXES and not p.stem.endswith("_annotated")))
+        else:
+            drawings.append(path)
+    if not drawings:
+        raise DrawingReadError(f"{', '.join(paths)}: no .dxf or .ifc drawings found; name a drawing or a folder holding some")
+    return drawings
+
+
+def _schedule_beside(drawing: Path) -> str | None:
+    for suffix in (".csv", ".xlsx"):
+        candidate = drawing.with_name(f"{drawing.stem}_circuits{suffix}")
+        if candidate.exists():
+            return str(candidate)
+    return None
+
+
+def _one(drawing: str, circuits: str | None, config: str | None, out: str | None, recover: bool) -> BatchItem:
+    from .cli import _exit_code_for
+    from .commands_drawing import run_size
+
+    path = Path(drawing)
+    out_dir = str(Path(out) / path.stem) if out else None
+    args = argparse.Namespace(drawing=drawing, circuits=circuits or _schedule_beside(path), config=config,
+                              out=out_dir, json=True, debug=False, recover=recover, more_drawings=[], jobs=1)
+    buffer = io.StringIO()
+    try:
+        with redirect_stdout(buffer):
+            code = run_size(args)
+    except CableRouteError as exc:
+        return BatchItem(drawing, _exit_code_for(exc), f"{drawing}: error: {exc}")
+    except Exception as exc:  # a bug in one drawing must not stop the batch
+        return BatchItem(drawing, 2, f"{drawing}: internal error: {type(exc).__name__}: {exc}")
+    document = json.loads(buffer.getvalue())
+    statuses = [c["status"] for c in document["circuits"]]
+    counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))
+    return BatchItem(drawing, code, f"{drawing}: {len(statuses)} circuits ({counts})", document)
+
+
+def run_batch(args: argparse.Namespace) -> int:
+    """Size every drawing; return the worst exit code of the batch."""
+    drawings = expand_drawings([args.drawing, *args.more_drawings])
+    jobs = max(1, int(args.jobs or 1))
+    call = [(str(d), args.circuits, args.config, args.out, args.recover) for d in drawings]
+    if jobs == 1 or len(drawings) == 1:
+        items = [_one(*c) for c in call]
+    else:
+        with ProcessPoolExecutor(max_workers=min(jobs, len(drawings))) as pool:
+            items = list(pool.map(_one, *zip(*call)))
+    for item in items:
+        print(f"cablewright: {item.summary}", file=sys.stderr)
+    if args.json:
+        print(json.dumps({"drawings": [{"drawing": i.drawing, "exit_code": i.exit_code,
+                                        **(i.document or {"circuits": []})} for i in items]},
+                         indent=2, ensure_ascii=False))
+    else:
+        print(f"{len(items)} drawings; outputs beside each drawing" if not args.out else
+              f"{len(items)} drawings; outputs in {args.out}/<drawing name>/")
+    return max(item.exit_code for item in items)
