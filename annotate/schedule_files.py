@@ -1,0 +1,145 @@
+"""The cable schedule as CSV, XLSX and JSON: one row per circuit, the same values in each.
+
+Every row is taken from the contract's JSON object of the circuit
+(:func:`cablewright.annotate.jsonout.outcome_to_dict`), so the three files agree
+row by row and value by value (same rounding).  Units are in the column headers.
+All files are written atomically (:mod:`.atomic`).
+
+The CSV is UTF-8 with a byte-order mark (so spreadsheet programs read ``mm²``
+right), comma separated, one header row.
+
+References
+----------
+.. [1] RFC 4180, "Common Format and MIME Type for Comma-Separated Values (CSV) Files".
+.. [2] openpyxl documentation: ``Workbook``, ``Worksheet.freeze_panes``,
+   ``column_dimensions``.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+from collections.abc import Callable, Iterable, Sequence
+from pathlib import Path
+from typing import Any
+
+from .atomic import atomic_path, write_text_atomic
+from .jsonout import dumps, outcome_to_dict
+from .model import CircuitOutcome
+
+__all__ = [
+    "COLUMNS",
+    "schedule_rows",
+    "write_schedule_csv",
+    "write_schedule_xlsx",
+    "write_schedule_json",
+]
+
+
+def _get(*keys: str) -> Callable[[dict[str, Any]], Any]:
+    def getter(data: dict[str, Any]) -> Any:
+        value: Any = data
+        for key in keys:
+            if not isinstance(value, dict):
+                return None
+            value = value.get(key)
+        return value
+
+    return getter
+
+
+#: Column header -> how to read it from the circuit's JSON object.
+COLUMNS: tuple[tuple[str, Callable[[dict[str, Any]], Any]], ...] = (
+    ("circuit", _get("id")),
+    ("from", _get("from")),
+    ("to", _get("to")),
+    ("status", _get("status")),
+    ("load current [A]", _get("load_current_a")),
+    ("device [A]", _get("device_rating_a")),
+    ("method", _get("method")),
+    ("routed length [m]", _get("route", "routed_length_m")),
+    ("design length [m]", _get("route", "design_length_m")),
+    ("circuits in group", _get("grouping", "circuits_in_group")),
+    ("cables in group", _get("grouping", "cables_in_group")),
+    ("governing segment", _get("grouping", "governing_segment")),
+    ("correction factor", _get("correction_factor")),
+    ("required capacity [A]", _get("required_capacity_a")),
+    ("conductor", _get("cable", "conductor")),
+    ("insulation", _get("cable", "insulation")),
+    ("cores", _get("cable", "cores")),
+    ("csa [mm²]", _get("cable", "csa_mm2")),
+    ("parallel", _get("cable", "parallel")),
+    ("capacity [A]", _get("cable", "capacity_a")),
+    ("governed by", _get("cable", "governed_by")),
+    ("voltage drop [%]", _get("voltage_drop", "percent")),
+    ("vd limit [%]", _get("voltage_drop", "limit_percent")),
+    ("messages", lambda d: "; ".join(d.get("messages") or ())),
+)
+
+HEADERS: tuple[str, ...] = tuple(name for name, _ in COLUMNS)
+
+
+def schedule_rows(outcomes: Iterable[CircuitOutcome]) -> list[dict[str, Any]]:
+    """One dict per circuit, keyed by the column headers of :data:`COLUMNS`.
+
+    Blank cells are ``None``; numbers keep the rounding of the JSON document.
+    """
+    rows = []
+    for outcome in outcomes:
+        data = outcome_to_dict(outcome, "size")
+        rows.append({name: get(data) for name, get in COLUMNS})
+    return rows
+
+
+def _csv_cell(value: Any) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    return str(value)
+
+
+def write_schedule_csv(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
+    """Write the schedule as CSV (UTF-8 with BOM, RFC 4180 quoting); returns the path."""
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\r\n")
+    writer.writerow(HEADERS)
+    for row in schedule_rows(outcomes):
+        writer.writerow([_csv_cell(row[h]) for h in HEADERS])
+    return write_text_atomic(path, buf.getvalue(), encoding="utf-8-sig", newline="")
+
+
+def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
+    """Write the schedule as an Excel workbook; returns the path.
+
+    One sheet ``schedule``: bold header, frozen below the header, an auto-filter,
+    numbers stored as numbers, columns wide enough for their contents.
+    """
+    from openpyxl import Workbook
+    from openpyxl.styles import Alignment, Font
+    from openpyxl.utils import get_column_letter
+
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "schedule"
+    ws.append(list(HEADERS))
+    for cell in ws[1]:
+        cell.font = Font(bold=True)
+        cell.alignment = Alignment(wrap_text=False, vertical="center")
+    rows = schedule_rows(outcomes)
+    for row in rows:
+        ws.append([row[h] for h in HEADERS])
+    ws.freeze_panes = "B2"
+    ws.auto_filter.ref = f"A1:{get_column_letter(len(HEADERS))}{len(rows) + 1}"
+    for i, header in enumerate(HEADERS, start=1):
+        longest = max([len(header)] + [len(_csv_cell(r[header])) for r in rows])
+        ws.column_dimensions[get_column_letter(i)].width = min(60, max(8, longest + 2))
+    with atomic_path(path) as tmp:
+        wb.save(tmp)
+    return Path(path)
+
+
+def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
+    """Write the contract's JSON document (``{"circuits": [...]}``); returns the path."""
+    return write_text_atomic(path, dumps(outcomes, "size") + "\n", encoding="utf-8")
