@@ -299,3 +299,26 @@ def test_text_height_follows_usual_scales():
     assert text_height_m_for_extents(300.0, 100.0) == pytest.approx(1.25)
     # a fixed height wins
     assert AnnotateConfig(text_height_m=0.3).text_height_m == 0.3
+
+
+def test_routes_drawn_backwards_still_give_upright_labels(tmp_path):
+    """Segments stored end to start (right to left, top to bottom): text still reads upright."""
+    src = make_drawing(tmp_path / "in.dxf")
+    segs = {
+        sid: RouteSegment(
+            s.segment_id,
+            s.source_ids,
+            s.layer,
+            s.containment,
+            s.method,
+            s.length_m,
+            tuple(reversed(s.points_m)),
+        )
+        for sid, s in segments().items()
+    }
+    out = tmp_path / "o.dxf"
+    write_annotated_dxf(src, out, outcomes(), segs, PER_SEGMENT, equipment(), 1000.0)
+    for label in _labels(ezdxf.readfile(out)):
+        rot = label.dxf.rotation
+        # every stretch here is horizontal or vertical: upright text is 0 or 90 degrees
+        assert min(abs(rot - 0.0), abs(rot - 90.0)) == pytest.approx(0.0, abs=1e-9)
