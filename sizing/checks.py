@@ -110,8 +110,8 @@ def _line_voltage(spec: CircuitSpec) -> float:
     return spec.voltage_v if spec.phases == 3 else spec.voltage_v * math.sqrt(3.0)
 
 
-def _clearing_time_s(spec: CircuitSpec, config: SizingConfig) -> float:
-    return _extra_float(spec, "clearing_time_s", _cfg(config, "clearing_time_s", 0.1))
+def _clearing_time_s(spec: CircuitSpec, config: SizingConfig) -> float | None:
+    return _extra_float(spec, "clearing_time_s", _cfg(config, "clearing_time_s", None))
 
 
 # --------------------------------------------------------------- short circuit
@@ -121,9 +121,11 @@ def check_short_circuit(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
 
     The fault current is the source's (a fault at the cable's origin gives the
     most), the full current on each of parallel cables (conservative), for the
-    clearing time of the config (0.1 s by default: an assumption standing for
-    an instantaneous trip; current-limiting devices let through less, see the
-    maker's I²t).  ``value`` is the least cross-section, ``limit`` the chosen one.
+    device's clearing time (schedule ``clearing_time_s`` or the config); for a
+    current-limiting device give its let-through I²t (``let_through_ka2s``,
+    maker's data) instead.  With neither, the check is reported as not made:
+    a current-limiting breaker or fuse lets through far less than the
+    prospective current for a fixed time would suggest.  ``value`` is the least cross-section, ``limit`` the chosen one.
     """
     fault = _fault_ka(spec, config)
     if fault is None:
@@ -131,6 +133,21 @@ def check_short_circuit(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
                      "not checked: no fault level (schedule fault_ka or config default_fault_ka)")
     t = _clearing_time_s(spec, config)
     k = k_value(spec.conductor, spec.insulation, cand.csa_mm2)
+    let_through = _extra_float(spec, "let_through_ka2s", None)
+    if let_through is not None:
+        # t < 0.1 s or current-limiting device: k²S² >= I²t let through by the
+        # device (maker's data), IEC 60364-4-43:2008 434.5.2.
+        need = math.sqrt(let_through * 1e6) / k
+        passed = need <= cand.csa_mm2 + 1e-9
+        message = "" if passed else (
+            f"{cand.csa_mm2:g} mm² does not withstand the device's let-through "
+            f"{let_through:g} kA²s: needs {need:.1f} mm² (k²S² >= I²t, k = {k:g})")
+        return Check("short_circuit", passed, need, cand.csa_mm2, "mm²",
+                     f"{TABLE_43A_SOURCE}; I²t {let_through:g} kA²s (schedule), k {k:g}", message)
+    if t is None:
+        return Check("short_circuit", True, 0.0, cand.csa_mm2, "mm²", TABLE_43A_SOURCE,
+                     "not checked: give the device's clearing time (clearing_time_s) or its "
+                     "let-through I²t (let_through_ka2s, maker's data)")
     need = adiabatic_min_csa_mm2(fault * 1000.0, t, k)
     passed = need <= cand.csa_mm2 + 1e-9
     message = "" if passed else (

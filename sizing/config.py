@@ -68,10 +68,11 @@ class SizingConfig:
         Prospective three-phase fault current at a circuit's source when the
         schedule's ``fault_ka`` is blank [kA]; ``None`` (default): the
         short-circuit check is made only where a fault level is given.
-    clearing_time_s : float
-        Clearing time of the device for the adiabatic check [s]; 0.1 s, an
-        assumption standing for an instantaneous trip (IEC 60364-4-43:2008
-        434.5.2; current-limiting devices: compare k²S² with the maker's I²t).
+    clearing_time_s : float or None
+        Clearing time of the device for the adiabatic check [s] (IEC 60364-4-43:2008
+        434.5.2); ``None`` (default): the check is made only for circuits whose
+        schedule gives ``clearing_time_s`` or ``let_through_ka2s`` (maker's I²t
+        of a current-limiting device).
     c_max, c_min : float
         Voltage factors for LV, IEC 60909-0:2016 Table 1 (1.05 for +6 %
         tolerance systems, 1.10 for +10 %; cmin 0.95).
@@ -125,7 +126,7 @@ class SizingConfig:
     max_single_csa_mm2: float | None = None
     conductor_temp_for_vd: str = "max"
     default_fault_ka: float | None = None
-    clearing_time_s: float = 0.1
+    clearing_time_s: float | None = None
     c_max: float = 1.05
     c_min: float = 0.95
     pe_rule: str = "table"

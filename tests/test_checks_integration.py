@@ -52,9 +52,9 @@ def test_disconnection_upsize_option():
 
 def test_short_circuit_raises_the_size():
     spec = CircuitSpec("S-1", Load(3, "kW"), 230, phases=1, fault_ka=10, design_length_m=10,
-                       stretches=(Stretch(method="C"),))
+                       stretches=(Stretch(method="C"),), extra=(("clearing_time_s", "0.1"),))
     r = size_circuit(spec)
-    need = 10000 * math.sqrt(0.1) / 143  # 434.5.2, k of Table 43A, config 0.1 s
+    need = 10000 * math.sqrt(0.1) / 143  # 434.5.2, k of Table 43A, schedule 0.1 s
     assert r.cable.governed_by == "short_circuit"
     assert r.cable.csa_mm2 >= need and r.cable.csa_mm2 == 25
     assert r.fault_current_ka_source == 10
@@ -73,6 +73,23 @@ def test_result_fields_for_the_report():
     assert {"short_circuit", "disconnection", "protective_conductor"} <= set(names)
     for c in r.checks:
         assert c.source  # every check names its source
+
+
+def test_let_through_energy_sets_the_least_size():
+    # IEC 60364-4-43:2008 434.5.2: k²S² >= I²t.  A current-limiting device letting
+    # through 0.5e6 A²s with XLPE copper (k 143, Table 43A): S >= sqrt(0.5e6)/143 = 4.94 mm².
+    spec = CircuitSpec("S-2", Load(3, "kW"), 230, phases=1, fault_ka=10, design_length_m=10,
+                       stretches=(Stretch(method="C"),), extra=(("let_through_ka2s", "0.5"),))
+    r = size_circuit(spec)
+    assert _check(r, "short_circuit").value == pytest.approx(4.945, abs=0.01)
+    assert r.cable.csa_mm2 == 6 and r.cable.governed_by == "short_circuit"
+
+
+def test_fault_level_without_device_time_is_not_checked():
+    spec = CircuitSpec("S-3", Load(3, "kW"), 230, phases=1, fault_ka=10, design_length_m=10,
+                       stretches=(Stretch(method="C"),))
+    sc = _check(size_circuit(spec), "short_circuit")
+    assert sc.passed and "clearing_time_s" in sc.message
 
 
 def test_no_fault_level_is_not_checked_but_passes():
