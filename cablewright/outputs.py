@@ -100,7 +100,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
 
 def _plan_view_for(measurement, stage: Path) -> Path:
     """A plan-view DXF of the route network, for models that are not DXF (IFC)."""
-    from cablewright.extract.plan_view import write_plan_view
+    from cablewright.annotate.plan_view import write_plan_view
 
     path = stage / "_plan_view.dxf"
     write_plan_view(measurement, path)

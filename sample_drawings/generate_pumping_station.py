@@ -104,6 +104,7 @@ EQUIPMENT = {
     "MOV-1": ("VALVE", (75000.0, 33000.0, -1500.0), "VC1"),
     "SO-VC1": ("SOCKET", (74000.0, 33000.0, -1500.0), "SOVC1_A"),
     "LT-VC2": ("LIGHT", (140000.0, 33000.0, -1500.0), "VC2"),
+    "SP-1": ("MOTOR", (141000.0, 31000.0, -1500.0), "VC2"),
 }
 SKID_INSERT = (55500.0, 10000.0, 0.0)  # DOSING-SKID, rotated 90 degrees
 SKID_CHILDREN = {  # tag: local position in the skid block [mm], attach point
@@ -149,6 +150,8 @@ CIRCUITS = [
      ["MCC_A", "B1", "B", "C", "CL1", "LTDR_A", "MX_A"]),
     ("MOV-1", "MCC-1", "MOV-1", "0.75 kW", "0.8", "", V3, "3", "motor", "", "", "25",
      ["MCC_A", "B1", "B", "X43", "TE_N", "DU1", "DU2", "SOVC1_A", "VC1"]),
+    ("SP-1", "MCC-1", "SP-1", "30 kW", "0.85", "0.92", V3, "3", "motor", "", "", "25",
+     ["MCC_A", "B1", "B", "X43", "TE_N", "DU1", "DU2", "SOVC1_A", "VC1", "VC2"]),
     ("L-01", "DB-2", "LT-PH", "2.4 kW", "0.95", "", V1, "1", "lighting", "", "3", "6",
      ["TX_N", "TX_FAN", "TX_S"]),
     ("S-01", "DB-2", "SO-PH", "16 A", "0.9", "", V1, "1", "general", "", "", "6",
@@ -161,14 +164,32 @@ CIRCUITS = [
      ["TX_N", "TN1", "P103_A", "X34", "C", "CL1", "LTDR_A"]),
 ]
 COLUMNS = ["circuit", "from", "to", "load", "power_factor", "efficiency", "voltage", "phases",
-           "load_type", "conductor", "insulation", "cores", "vd_limit_pct", "fault_ka"]
+           "load_type", "conductor", "insulation", "cores", "vd_limit_pct", "fault_ka",
+           "starter", "curve", "clearing_time_s"]
+# Device data of some circuits (invented for the demo): the switchboard's feeders
+# have time-delayed (selective) breakers, so their cables must withstand the fault
+# for the delay; the large pumps start star-delta; the fan, mixer and sump pump run
+# on drives behind type B breakers; the valve actuator has a D-curve breaker, which
+# the long run to the valve chamber cannot trip in time (a fail on purpose).
+DEVICE_DATA = {
+    "F-MCC1": ("", "", "0.3"),
+    "F-DB2": ("", "", "0.2"),
+    "P-101": ("star_delta", "", ""),
+    "P-102": ("star_delta", "", ""),
+    "P-103": ("star_delta", "", ""),
+    "FAN-1": ("drive", "B", ""),
+    "MX-1": ("drive", "B", ""),
+    "SP-1": ("drive", "B", ""),
+    "MOV-1": ("dol", "D", ""),
+}
 
 
 def schedule_rows() -> list[list[str]]:
     rows = []
     for c in CIRCUITS:
         cid, src, dst, load, pf, eff, volt, ph, lt, cores, vd, fka, _ = c
-        rows.append([cid, src, dst, load, pf, eff, volt, ph, lt, "Cu", "XLPE", cores, vd, fka])
+        rows.append([cid, src, dst, load, pf, eff, volt, ph, lt, "Cu", "XLPE", cores, vd, fka,
+                     *DEVICE_DATA.get(cid, ("", "", ""))])
     return rows
 
 
