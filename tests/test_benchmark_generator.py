@@ -14,7 +14,6 @@ from pathlib import Path
 
 import ezdxf
 import pytest
-
 from cablewright.extract import build_network, read_dxf, read_schedule, route_circuits
 
 ROOT = Path(__file__).resolve().parents[1]
