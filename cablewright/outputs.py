@@ -88,8 +88,15 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION)
+        keys = ["dxf", "csv", "xlsx", "json", "png", "html"]
+        if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
+            from cablewright.annotate.ifc_writer import write_ifc_copy
+
+            names["ifc"] = f"{drawing.stem}_sized.ifc"
+            write_ifc_copy(drawing, stage / names["ifc"], job.outcomes)
+            keys.append("ifc")
         final = []
-        for key in ("dxf", "csv", "xlsx", "json", "png", "html"):
+        for key in keys:
             target = out_dir / names[key]
             os.replace(stage / names[key], target)
             final.append(target)

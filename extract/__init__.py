@@ -63,7 +63,8 @@ def measure(
     Parameters
     ----------
     drawing_path : str or path-like
-        ``.dxf`` drawing (``.ifc`` is not available yet).
+        ``.dxf`` drawing or ``.ifc`` model (IFC2X3, IFC4, IFC4X3; see
+        :func:`~cablewright.extract.ifc_reader.measure_ifc`).
     schedule_path : str or path-like, optional
         ``.csv`` or ``.xlsx`` schedule; without it the schedule is built from the
         equipment blocks' attributes (contract.md, ``--circuits``).
@@ -95,9 +96,9 @@ def measure(
             content.polylines, content.equipment, list(content.issues), content.units,
         )
     elif suffix == ".ifc":
-        raise DrawingReadError(
-            f"{p}: IFC input not available yet; export the routes and equipment to DXF"
-        )
+        from .ifc_reader import measure_ifc  # ifcopenshell only when an IFC model is given
+
+        return measure_ifc(p, schedule_path, config)
     else:
         raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
     network = build_network(polylines, equipment, config)
