@@ -78,7 +78,8 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
             f.read(1)
     except OSError as exc:
         raise DrawingReadError(f"{path}: cannot be opened ({exc}); check the path and permissions") from exc
-    read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError, OSError)
+    read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError, OSError,
+                   StopIteration, KeyError, AttributeError)
     try:
         return ezdxf.readfile(str(path)), []
     except read_errors as exc:  # ezdxf raises OSError for "not a DXF file"

@@ -86,7 +86,7 @@ def test_no_route_layers(dxf):
 def test_ifc_not_available_yet(tmp_path):
     p = tmp_path / "model.ifc"
     p.write_text("ISO-10303-21;")
-    with pytest.raises(DrawingReadError, match="IFC input not available yet"):
+    with pytest.raises(DrawingReadError, match="not a readable IFC"):
         measure(p)
 
 
