@@ -38,6 +38,29 @@ _ENV_KEYS = {"ambient_air_c", "ground_c", "soil_resistivity_k_m_w", "depth_m"}
 _SECTIONS = {"drawing", "routes", "sizing", "environment", "annotate"}
 
 
+_DEFAULTS = {f.name: getattr(SizingConfig(), f.name) for f in dataclasses.fields(SizingConfig)}
+
+
+def _check_type(path: Path, key: str, value: Any, default: Any) -> None:
+    """A value must have the type of its default (numbers may be int or float)."""
+    if default is None or isinstance(default, (dict, tuple)):
+        if isinstance(value, str) and default is None and key not in ("earthing", "breaker_curve",
+                                                                       "default_starter", "pe_rule"):
+            raise ConfigError(f"{path}: {key} = {value!r} must be a number; see cablewright/default_config.toml")
+        return
+    if isinstance(default, bool):
+        ok = isinstance(value, bool)
+    elif isinstance(default, (int, float)):
+        ok = isinstance(value, (int, float)) and not isinstance(value, bool)
+    else:
+        ok = isinstance(value, type(default))
+    if not ok:
+        raise ConfigError(
+            f"{path}: {key} = {value!r} must be a {type(default).__name__}; "
+            "see cablewright/default_config.toml"
+        )
+
+
 def _unknown(kind: str, key: str, known, path: str) -> ConfigError:
     close = difflib.get_close_matches(key, list(known), n=3)
     hint = f" (did you mean {', '.join(close)}?)" if close else ""
@@ -81,6 +104,8 @@ def load_settings(path: str | Path | None = None) -> Settings:
             merged = dict(getattr(SizingConfig(), key))
             merged.update({k: float(v) for k, v in sizing_values[key].items()})
             sizing_values[key] = merged
+    for key, value in sizing_values.items():
+        _check_type(path, key, value, _DEFAULTS.get(key))
     try:
         settings.sizing = SizingConfig(**sizing_values)
     except TypeError as exc:

@@ -77,10 +77,8 @@ def test_bad_circuit_without_json_also_exit_1(capsys, args, needle):
 @pytest.mark.parametrize("content", [
     "[sizing]\nbogus_key = 1\n",            # unknown key
     "this is [[[ not toml\n",               # does not parse
-    pytest.param("[sizing]\ndevice_margin = \"big\"\n", id="wrong-value-type", marks=pytest.mark.xfail(
-        strict=True, reason="cablewright/config.py load_settings does not check value types: "
-        "device_margin = \"big\" passes into SizingConfig and fails later in select_device as "
-        "'internal error: TypeError' without naming the file")),
+    pytest.param("[sizing]\ndevice_margin = \"big\"\n", id="wrong-value-type"),
+    pytest.param("[environment]\nambient_air_c = \"hot\"\n", id="wrong-value-type-env"),
 ])
 def test_bad_config_exit_2(tmp_path, capsys, content):
     path = tmp_path / "bad.toml"
@@ -140,3 +138,14 @@ def test_text_output_exit_code_matches_json(capsys):
     assert "Traceback" not in out_text
     status = json.loads(out_json)["circuits"][0]["status"]
     assert status.upper() in out_text
+
+
+def test_the_documented_default_config_loads_and_changes_nothing(capsys):
+    # cablewright/default_config.toml lists every default: loading it must give the same result.
+    from pathlib import Path
+
+    default = Path(__file__).resolve().parents[1] / "cablewright" / "default_config.toml"
+    code_a, out_a, _ = _run(capsys, "--load", "30 kW", "--length", "80", "--json")
+    code_b, out_b, _ = _run(capsys, "--load", "30 kW", "--length", "80", "--json", "--config", str(default))
+    assert code_a == code_b == 0
+    assert out_a == out_b
