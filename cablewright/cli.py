@@ -111,6 +111,9 @@ def main(argv: Sequence[str] | None = None) -> int:
             raise
         print(f"cablewright: error: {exc}", file=sys.stderr)
         return _exit_code_for(exc)
+    except BrokenPipeError:  # output piped into a program that stopped reading (e.g. head)
+        sys.stderr.close()
+        return EXIT_OK
     except KeyboardInterrupt:
         print("cablewright: interrupted; no output was left half-written", file=sys.stderr)
         return 130
