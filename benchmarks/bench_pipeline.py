@@ -277,9 +277,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--work", default=str(Path(tempfile.gettempdir()) / "cablewright-bench"))
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--json", dest="json_out", default=None, help="also write the figures here")
-    parser.add_argument("--full-preview-up-to", type=int, default=2000,
+    parser.add_argument("--full-preview-up-to", type=int, default=500,
                         help="above this many circuits the preview is timed on a sample of "
-                             f"{PREVIEW_SAMPLE} entities and scaled (default 2000)")
+                             f"{PREVIEW_SAMPLE} entities and scaled (default 500)")
     parser.add_argument("--sample-preview", action="store_true", help=argparse.SUPPRESS)
     parser.add_argument("--child", choices=("stages", "whole"), help=argparse.SUPPRESS)
     parser.add_argument("--drawing", help=argparse.SUPPRESS)
