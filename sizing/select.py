@@ -22,7 +22,14 @@ from functools import lru_cache
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import sizes_for, tabulated_capacity
-from .checks import REPORT_CHECKS, UPSIZE_EXTRA_CHECKS, is_applicable, result_extras
+from .checks import (
+    REPORT_CHECKS,
+    UPSIZE_EXTRA_CHECKS,
+    PreparedChecks,
+    _resistance_ohm_per_km,
+    is_applicable,
+    result_extras,
+)
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
@@ -44,6 +51,7 @@ from .model import (
 )
 from .voltage_drop import (
     MAX_CONDUCTOR_TEMPERATURE_C,
+    REACTANCE_MOHM_PER_M,
     annex_g_drop_percent,
     drop_percent,
     voltage_drop_v,
@@ -124,7 +132,10 @@ def check_voltage_drop(
     spec: CircuitSpec, cand: Candidate, ctx: SizingContext, config: SizingConfig
 ) -> Check:
     """Voltage drop at Ib over the design length within its limit (IEC 60364-5-52 525, Annex G)."""
-    vd = _voltage_drop(spec, cand, ctx)
+    return _voltage_drop_check(_voltage_drop(spec, cand, ctx))
+
+
+def _voltage_drop_check(vd: VoltageDrop) -> Check:
     passed = vd.percent <= vd.limit_percent + 1e-9
     message = "" if passed else (
         f"voltage drop {vd.percent:.2f} % exceeds the {vd.limit_percent:g} % limit"
@@ -137,6 +148,10 @@ def check_voltage_drop(
 #: Each may be extended (e.g. short circuit, motor start); keys are the
 #: ``governed_by`` names of contract.md.
 UPSIZE_CHECKS: dict[str, UpsizeCheck] = {"voltage_drop": check_voltage_drop, **UPSIZE_EXTRA_CHECKS}
+# The built-in registries, which the prepared (fast) selection evaluates
+# directly; any other registered check takes the general path.
+_BUILTIN_UPSIZE = dict(UPSIZE_CHECKS)
+_BUILTIN_REPORT = dict(REPORT_CHECKS)
 
 
 @lru_cache(maxsize=4096)
@@ -286,7 +301,186 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
         return SizingResult(spec.circuit_id, "error", (str(exc),))
 
 
+# ------------------------------------------------------------- prepared path
+# The built-in checks are prepared once per circuit (:class:`.checks.PreparedChecks`)
+# and the capacity of a circuit for a size index is read from arrays built once
+# per (methods, conductor, insulation, loaded conductors); the steps, their order
+# and every float operation are those of the general path, so the result is the same.
+
+@lru_cache(maxsize=256)
+def _column(method: str, conductor: str, insulation: str, loaded: int) -> dict[float, float]:
+    """Size -> It of one column of IEC 60364-5-52:2009 Annex B (:func:`tabulated_capacity`)."""
+    return {s: tabulated_capacity(method, conductor, insulation, loaded, s).current_a
+            for s in sizes_for(method, conductor, insulation, loaded)}
+
+
+@lru_cache(maxsize=65536)
+def _layout(methods: tuple[str, ...], conductor: str, insulation: str, loaded: int,
+            upper: float, minimum: float):
+    """Sizes, allowed sizes and tabulated currents of every stretch's column.
+
+    Returns ``(sizes, allowed, amps, amps_smallest, monotone)``: ``amps[s][i]``
+    is It of stretch ``s`` at ``allowed[i]`` (IEC 60364-5-52:2009 Annex B),
+    ``amps_smallest[s]`` It at ``sizes[0]``; ``monotone`` tells whether every
+    column rises with the size (then the least passing size is found by bisection).
+    """
+    columns = [_column(m, conductor, insulation, loaded) for m in methods]
+    common: set[float] | None = None
+    for column in columns:
+        common = set(column) if common is None else common & set(column)
+    sizes = tuple(sorted(s for s in (common or ()) if s <= upper))
+    allowed = tuple(s for s in sizes if s >= minimum - 1e-9)
+    amps = tuple(tuple(column[s] for s in allowed) for column in columns)
+    smallest = tuple(column[sizes[0]] for column in columns) if sizes else ()
+    monotone = all(a[i] <= a[i + 1] for a in amps for i in range(len(a) - 1))
+    return sizes, allowed, amps, smallest, monotone
+
+
+@lru_cache(maxsize=16384)
+def _stretch_total(method: str, insulation: str, ambient_c: float, soil_k_m_w: float,
+                   depth_m: float, cables: int, trays: int) -> tuple[float, tuple[Factor, ...]]:
+    """(product of the factors, factors) of one stretch: :func:`stretch_factors` memoised."""
+    factors = (_environment_factors(method, insulation, ambient_c, soil_k_m_w, depth_m)
+               + (_grouping(method, cables, trays),))
+    return math.prod(f.value for f in factors), factors
+
+
+def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig):
+    # The same defaults as stretch_factors.
+    depth = REFERENCE_DEPTH_M
+    if method in GROUND_METHODS:
+        depth = config.depth_m if stretch.depth_m is None else stretch.depth_m
+        ambient = config.ground_c if stretch.ambient_c is None else stretch.ambient_c
+        soil = (config.soil_resistivity_k_m_w if stretch.soil_resistivity_k_m_w is None
+                else stretch.soil_resistivity_k_m_w)
+    else:
+        ambient = config.ambient_air_c if stretch.ambient_c is None else stretch.ambient_c
+        soil = config.soil_resistivity_k_m_w
+    return method, insulation, float(ambient), float(soil), float(depth)
+
+
 def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
+    if UPSIZE_CHECKS != _BUILTIN_UPSIZE or REPORT_CHECKS != _BUILTIN_REPORT:
+        return _size_general(spec, config)
+    _validate(spec)
+    cores = spec.cores or (4 if spec.phases == 3 else 3)
+    ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
+    device = select_device(ib, config.device_kind, config.device_margin, config.standard_ratings_a)
+    need = required_iz_a(device)
+    limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
+    temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp)
+
+    conductor, insulation = spec.conductor, spec.insulation
+    stretches = spec.stretches
+    methods = tuple("F" if s.method == "E" and cores == 1 else s.method for s in stretches)
+    sizes, allowed, amps, smallest, monotone = _layout(
+        methods, conductor, insulation, loaded_conductors(spec.phases),
+        config.max_single_csa_mm2 or math.inf, config.min_csa_mm2.get(conductor, 0.0))
+    if not allowed:
+        raise CircuitInputError(
+            f"no cross-section of the tables for method(s) "
+            f"{', '.join(sorted({s.method for s in stretches}))} is allowed by the config"
+        )
+    keys = [_stretch_key(s, m, insulation, config) for s, m in zip(stretches, methods, strict=True)]
+    n_sizes, n_stretches = len(allowed), len(stretches)
+
+    # Voltage drop (voltage_drop_v, drop_percent) with its size-independent terms once.
+    pf = spec.power_factor
+    vd_a = (math.sqrt(3.0) if spec.phases == 3 else 2.0) * ib * spec.design_length_m
+    vd_x_sin = REACTANCE_MOHM_PER_M / 1000.0 * math.sqrt(max(0.0, 1.0 - pf * pf))
+    voltage = spec.voltage_v
+    vd_limit = limit + 1e-9
+    prep = PreparedChecks(spec, config, ib, device, voltage, temp)
+    short_circuit, motor, disconnection = prep.short_circuit, prep.motor_start, prep.disconnection
+    disconnection_upsize = prep.disconnection_upsize
+
+    def first_failing(csa: float, parallel: int) -> str | None:
+        # UPSIZE_CHECKS in order: voltage_drop, short_circuit, motor_start, disconnection.
+        r = _resistance_ohm_per_km(csa, conductor, temp) / 1000.0
+        if not 100.0 * (vd_a * (r * pf + vd_x_sin) / parallel) / voltage <= vd_limit:
+            return "voltage_drop"
+        if not short_circuit.passes(csa):
+            return "short_circuit"
+        if not motor.passes(csa, parallel):
+            return "motor_start"
+        if disconnection_upsize and not disconnection.passes(csa, parallel):
+            return "disconnection"
+        return None
+
+    def capacity(index: int, parallel: int, totals: list[float]) -> tuple[float, int]:
+        best, best_s = parallel * amps[0][index] * totals[0], 0
+        for s in range(1, n_stretches):
+            iz = parallel * amps[s][index] * totals[s]
+            if iz < best:
+                best, best_s = iz, s
+        return best, best_s
+
+    threshold = need - 1e-9
+    first_ok = None
+    for parallel in range(1, config.max_parallel + 1):
+        rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays)
+                 for s, k in enumerate(keys)]
+        totals = [t for t, _ in rated]
+        if monotone:
+            lo, hi = 0, n_sizes
+            while lo < hi:
+                mid = (lo + hi) // 2
+                if capacity(mid, parallel, totals)[0] >= threshold:
+                    hi = mid
+                else:
+                    lo = mid + 1
+            index = lo if lo < n_sizes else None
+        else:
+            index = next((i for i in range(n_sizes)
+                          if capacity(i, parallel, totals)[0] >= threshold), None)
+        if index is None:
+            continue
+        governed = "capacity"
+        if index == 0 and allowed[0] > sizes[0]:
+            below = min(parallel * smallest[s] * totals[s] for s in range(n_stretches))
+            if below >= need:
+                governed = "minimum"
+        if first_ok is None:
+            first_ok = (index, parallel, governed, rated, totals)
+        while True:
+            failing = first_failing(allowed[index], parallel)
+            if failing is None:
+                return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel,
+                                        governed, rated, capacity(index, parallel, totals))
+            index += 1
+            if index >= n_sizes:
+                break
+            governed = failing
+    if first_ok is None:
+        raise CircuitInputError(
+            f"design current {ib:.1f} A needs Iz >= {need:.1f} A: beyond {config.max_parallel} "
+            f"parallel cables of {allowed[-1]:g} mm² under these conditions; split the load, "
+            "change the route or raise max_parallel in the config"
+        ) from None
+    index, parallel, governed, rated, totals = first_ok
+    return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed,
+                            rated, capacity(index, parallel, totals))
+
+
+def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed, rated,
+                     rating) -> SizingResult:
+    _, stretch_index = rating
+    csa = allowed[index]
+    total, factors = rated[stretch_index]
+    iz = parallel * amps[stretch_index][index] * total
+    cand = Candidate(csa, parallel, iz, stretch_index)
+    checks = _base_checks(ctx, iz)
+    vd = _voltage_drop(spec, cand, ctx)
+    checks.append(_voltage_drop_check(vd))
+    checks.extend(prep.report(csa, parallel))
+    return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
+                     methods[stretch_index], iz, total, factors, checks, vd,
+                     prep.extras(csa, parallel))
+
+
+def _size_general(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
+    """The selection with every registered check called on Candidates."""
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     spec = replace(spec, cores=cores) if spec.cores != cores else spec
@@ -354,7 +548,17 @@ def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContex
     stretch = spec.stretches[cand.stretch_index]
     method = _method_for(stretch.method, spec)
     iz, total, factors = stretch_rating(stretch, spec, cand.csa_mm2, cand.parallel, config)
-    checks = [
+    checks = _base_checks(ctx, iz)
+    for check in {**UPSIZE_CHECKS, **REPORT_CHECKS}.values():
+        outcome = check(spec, cand, ctx, config)
+        if is_applicable(outcome):
+            checks.append(outcome)
+    return _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks,
+                     _voltage_drop(spec, cand, ctx), result_extras(spec, cand, ctx, config))
+
+
+def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
+    return [
         Check("design_current", ctx.design_current_a <= ctx.device.rating_a, ctx.design_current_a,
               ctx.device.rating_a, "A", "IEC 60364-4-43:2008 433.1 (433.1): Ib <= In"),
         Check("capacity", ctx.device.rating_a <= iz + 1e-9, ctx.device.rating_a, iz, "A",
@@ -362,10 +566,9 @@ def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContex
         Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
               f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
     ]
-    for check in {**UPSIZE_CHECKS, **REPORT_CHECKS}.values():
-        outcome = check(spec, cand, ctx, config)
-        if is_applicable(outcome):
-            checks.append(outcome)
+
+
+def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras):
     messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
     status = "fail" if messages else "ok"
     if spec.design_length_m <= 0:
@@ -394,7 +597,7 @@ def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContex
         factors=factors,
         required_capacity_a=ctx.required_iz_a / total,
         cable=cable,
-        voltage_drop=_voltage_drop(spec, cand, ctx),
+        voltage_drop=vd,
         checks=tuple(checks),
-        **result_extras(spec, cand, ctx, config),
+        **extras,
     )
