@@ -333,11 +333,12 @@ class PreparedDisconnection:
 
     __slots__ = ("text", "error", "pe", "u0", "length_m", "conductor", "insulation", "kind",
                  "rating_a", "ze", "ze_source", "curve", "magnetic", "final", "vf", "tn_error",
-                 "zs_max", "temp")
+                 "zs_max", "temp", "last")
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig, device: DeviceSelection,
                  pe: PreparedProtectiveConductor) -> None:
         self.pe = pe
+        self.last: tuple = ()
         self.text: str | None = None
         self.error: CableRouteError | None = None
         earthing = _earthing(spec, config)
@@ -398,6 +399,8 @@ class PreparedDisconnection:
             return self.text
         if self.error is not None:
             raise self.error
+        if self.last and self.last[0] == csa_mm2 and self.last[1] == parallel:
+            return self.last[2]
         pe = self.pe.pe(csa_mm2)
         try:
             res = check_disconnection_tn(
@@ -407,11 +410,14 @@ class PreparedDisconnection:
                 voltage_factor=self.vf,
             )
         except CableRouteError as exc:
-            return f"not checked: {exc}"
-        return DisconnectionResult(
-            res.passed, res.zs_ohm, res.zs_max_ohm, res.ia_a, res.time_s, res.max_length_m,
-            res.earth_fault_a,
-            f"{res.source}; Ze {self.ze:.3f} Ω ({self.ze_source}); PE {pe.csa_mm2:g} mm²")
+            out: DisconnectionResult | str = f"not checked: {exc}"
+        else:
+            out = DisconnectionResult(
+                res.passed, res.zs_ohm, res.zs_max_ohm, res.ia_a, res.time_s, res.max_length_m,
+                res.earth_fault_a,
+                f"{res.source}; Ze {self.ze:.3f} Ω ({self.ze_source}); PE {pe.csa_mm2:g} mm²")
+        self.last = (csa_mm2, parallel, out)
+        return out
 
     def check(self, csa_mm2: float, parallel: int) -> Check:
         """The full :class:`Check`."""
