@@ -44,6 +44,8 @@ __all__ = [
     "place_near_point",
     "route_obstacles",
     "boxes_overlap",
+    "oriented_box",
+    "bounds_box",
 ]
 
 Point2 = tuple[float, float]
@@ -163,6 +165,35 @@ def label_polygon(
     )
 
 
+def oriented_box(
+    cx: float, cy: float, width: float, height: float, rotation_deg: float
+) -> tuple[float, ...]:
+    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds.
+
+    This is the form :class:`LabelIndex` stores (``cx, cy, ux, uy, hw, hh,
+    xmin, ymin, xmax, ymax``).
+
+    Examples
+    --------
+    >>> [round(v, 9) for v in oriented_box(0, 0, 4, 2, 90)[6:]]
+    [-1.0, -2.0, 1.0, 2.0]
+    """
+    return _box(cx, cy, width, height, rotation_deg)
+
+
+def bounds_box(xmin: float, ymin: float, xmax: float, ymax: float) -> tuple[float, ...]:
+    """The axis-aligned box ``(xmin, ymin)-(xmax, ymax)`` as an oriented box tuple.
+
+    Examples
+    --------
+    >>> bounds_box(0, 0, 4, 2)[:6]
+    (2.0, 1.0, 1.0, 0.0, 2.0, 1.0)
+    """
+    return _box(
+        (xmin + xmax) / 2.0, (ymin + ymax) / 2.0, abs(xmax - xmin), abs(ymax - ymin), 0.0
+    )
+
+
 def _box(cx: float, cy: float, width: float, height: float, rotation_deg: float) -> tuple:
     """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds."""
     a = math.radians(rotation_deg)
@@ -206,11 +237,19 @@ def boxes_overlap(a: tuple, b: tuple, eps: float = 0.0) -> bool:
 
 
 class LabelIndex:
-    """Placed label boxes in a uniform grid, plus fixed obstacles in an STRtree.
+    """Placed label boxes in a uniform grid, plus fixed obstacles.
 
     Boxes are oriented rectangles; the overlap test is a separating axis test
     (:func:`boxes_overlap`) against the boxes in the grid cells a candidate
     covers, so each test looks at a few neighbours only.
+
+    There are two kinds of fixed obstacle:
+
+    * ``obstacles`` (route lines, in a shapely ``STRtree``): a label should
+      rather not cross them, but may when nothing else is free;
+    * ``blocked`` boxes (the drawing's own text and equipment symbols, in a
+      second grid): a label never goes on them; they count like placed labels
+      in :meth:`is_free` but not in :attr:`boxes`, :meth:`bounds` or ``len``.
 
     Parameters
     ----------
@@ -218,17 +257,38 @@ class LabelIndex:
         Grid cell size [drawing units]; about a label's length works well.
     obstacles : iterable of shapely geometries, optional
         Fixed lines (other routes) a label should rather not cross.
+    blocked : iterable of box tuples, optional
+        Fixed boxes (see :func:`oriented_box`, :func:`bounds_box`) a label
+        must not overlap.
     """
 
-    def __init__(self, cell: float, obstacles: Iterable[object] = ()) -> None:
+    def __init__(
+        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[tuple] = ()
+    ) -> None:
         if not cell > 0.0:
             raise ValueError(f"grid cell must be > 0, got {cell!r}")
         self.cell = float(cell)
         self._grid: dict[tuple[int, int], list[int]] = {}
         self._boxes: list[tuple] = []
+        self._fixed_grid: dict[tuple[int, int], list[int]] = {}
+        self._fixed: list[tuple] = []
         geoms = [g for g in obstacles if g is not None and not g.is_empty]
         self._obstacles = shapely.STRtree(geoms) if geoms else None
         self._eps = 1e-9 * self.cell
+        for box in blocked:
+            self.block(box)
+
+    @property
+    def blocked(self) -> tuple[Polygon, ...]:
+        """Every fixed box (drawing text, symbols), as shapely polygons."""
+        return tuple(_polygon(b) for b in self._fixed)
+
+    def block(self, box: tuple) -> None:
+        """Record a fixed box no label may overlap (see :func:`oriented_box`)."""
+        idx = len(self._fixed)
+        self._fixed.append(box)
+        for key in self._cells(box):
+            self._fixed_grid.setdefault(key, []).append(idx)
 
     def __len__(self) -> int:
         return len(self._boxes)
@@ -256,16 +316,19 @@ class LabelIndex:
                 yield (i, j)
 
     def is_free(self, box: tuple) -> bool:
-        """True when ``box`` (see :func:`_box`) shares area with no placed box."""
-        seen: set[int] = set()
-        boxes = self._boxes
-        for key in self._cells(box):
-            for idx in self._grid.get(key, ()):
-                if idx in seen:
-                    continue
-                seen.add(idx)
-                if boxes_overlap(box, boxes[idx], self._eps):
-                    return False
+        """True when ``box`` (see :func:`_box`) shares area with no placed or fixed box."""
+        cells = list(self._cells(box))
+        for grid, boxes in ((self._grid, self._boxes), (self._fixed_grid, self._fixed)):
+            if not grid:
+                continue
+            seen: set[int] = set()
+            for key in cells:
+                for idx in grid.get(key, ()):
+                    if idx in seen:
+                        continue
+                    seen.add(idx)
+                    if boxes_overlap(box, boxes[idx], self._eps):
+                        return False
         return True
 
     def crosses_obstacle(self, box: tuple) -> bool:

@@ -87,7 +87,7 @@ def run_batch(args: argparse.Namespace) -> int:
         items = [_one(*c) for c in call]
     else:
         with ProcessPoolExecutor(max_workers=min(jobs, len(drawings))) as pool:
-            items = list(pool.map(_one, *zip(*call)))
+            items = list(pool.map(_one, *zip(*call, strict=False)))
     for item in items:
         print(f"cablewright: {item.summary}", file=sys.stderr)
     if args.json:

@@ -21,9 +21,9 @@ def format_table(headers: list[str], rows: Iterable[list[str]]) -> str:
     for row in rows:
         for i, cell in enumerate(row):
             widths[i] = max(widths[i], len(cell))
-    line = "  ".join(h.ljust(w) for h, w in zip(headers, widths))
+    line = "  ".join(h.ljust(w) for h, w in zip(headers, widths, strict=False))
     rule = "  ".join("-" * w for w in widths)
-    body = ["  ".join(c.ljust(w) for c, w in zip(row, widths)) for row in rows]
+    body = ["  ".join(c.ljust(w) for c, w in zip(row, widths, strict=False)) for row in rows]
     return "\n".join([line, rule, *body])
 
 

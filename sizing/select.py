@@ -418,6 +418,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
 
     threshold = need - 1e-9
     first_ok = None
+    last_tried = None
     for parallel in range(1, config.max_parallel + 1):
         rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays)
                  for s, k in enumerate(keys)]
@@ -450,8 +451,13 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                                         governed, rated, capacity(index, parallel, totals))
             index += 1
             if index >= n_sizes:
+                # nothing at this count passes: remember the largest tried, so that a
+                # harder case never shows a smaller cable than an easier one
+                last_tried = (n_sizes - 1, parallel, failing, rated, totals)
                 break
             governed = failing
+    if last_tried is not None:
+        first_ok = last_tried
     if first_ok is None:
         raise CircuitInputError(
             f"design current {ib:.1f} A needs Iz >= {need:.1f} A: beyond {config.max_parallel} "
@@ -501,6 +507,7 @@ def _size_general(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         )
 
     first_ok: tuple[Candidate, str] | None = None
+    last_tried: tuple[Candidate, str] | None = None
     for parallel in range(1, config.max_parallel + 1):
         cand = _first_passing(spec, allowed, parallel, need, config)
         if cand is None:
@@ -515,6 +522,10 @@ def _size_general(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         upsized = _apply_upsize_checks(spec, cand, ctx, config, allowed, governed)
         if upsized is not None:
             return _result(spec, upsized[0], upsized[1], ctx, config)
+        largest = _rating(spec, allowed[-1], parallel, config)
+        last_tried = (largest, _first_failing_name(spec, largest, ctx, config))
+    if last_tried is not None:
+        first_ok = last_tried
     if first_ok is None:
         largest = allowed[-1]
         raise CircuitInputError(
@@ -523,6 +534,13 @@ def _size_general(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             "change the route or raise max_parallel in the config"
         ) from None
     return _result(spec, first_ok[0], first_ok[1], ctx, config)
+
+
+def _first_failing_name(spec, cand, ctx, config) -> str:
+    for name, check in UPSIZE_CHECKS.items():
+        if not check(spec, cand, ctx, config).passed:
+            return name
+    return "capacity"
 
 
 def _apply_upsize_checks(spec, cand, ctx, config, allowed, governed):

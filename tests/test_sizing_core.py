@@ -5,7 +5,6 @@ from __future__ import annotations
 import math
 
 import pytest
-
 from cablewright.extract.errors import CircuitInputError, NoCableLargeEnoughError, UnknownKeyError
 from cablewright.sizing.device import (
     STANDARD_RATINGS_A,
@@ -129,7 +128,11 @@ class TestVoltageDrop:
     def test_impedance_and_annex_g_agree_roughly(self):
         # Annex G's rho1 = 1.25 rho20 stands for about 80 °C; the impedance form at 90 °C is a
         # few per cent higher, never lower.
-        from cablewright.sizing.voltage_drop import annex_g_drop_percent, drop_percent, voltage_drop_v
+        from cablewright.sizing.voltage_drop import (
+            annex_g_drop_percent,
+            drop_percent,
+            voltage_drop_v,
+        )
 
         for csa in (2.5, 16, 95, 240):
             exact = drop_percent(voltage_drop_v(50, 80, csa, "Cu", 3, 0.9, 1, 90.0), 400)

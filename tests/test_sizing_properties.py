@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import math
 
-import pytest
 from cablewright.sizing.capacity_tables import tabulated_capacity
 from cablewright.sizing.config import SizingConfig
 from cablewright.sizing.model import CircuitSpec, Load, Stretch
@@ -137,10 +136,6 @@ def test_capacity_is_parallel_times_tabulated_times_factors(c):
     assert math.isclose(r.cable.capacity_a, r.cable.parallel * tab * product, rel_tol=1e-6)
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "select.py: when no size and parallel count up to max_parallel meets the voltage "
-    "drop, _size returns first_ok (the capacity-only choice), so a longer run gets "
-    "fewer cables than a shorter one"))
 def test_unmet_voltage_drop_falls_back_to_fewer_cables():
     """A longer run must not get fewer cables (Annex G: ΔU grows with L).
 
