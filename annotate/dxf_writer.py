@@ -59,6 +59,8 @@ from .layout import (
     LabelIndex,
     Placement,
     Stretch,
+    bounds_box,
+    oriented_box,
     place_along,
     place_near_point,
     rank_stretches,
@@ -76,6 +78,8 @@ __all__ = [
     "remove_old_marks",
     "text_height_m_for_extents",
     "label_text",
+    "group_runs",
+    "group_tag_lines",
 ]
 
 log = logging.getLogger(__name__)
@@ -126,8 +130,36 @@ class AnnotateConfig:
         Rows in one column of the schedule table before a new column starts.
     ids_per_line : int
         Circuit ids per line in a group tag.
+    group_tag_max_ids : int
+        Circuit ids written in a group tag; beyond that the tag ends with
+        ``"+k more"`` (the full membership of every segment is in
+        ``schedule.json``: each circuit's ``route.segments``).
+    avoid_drawing_text : bool
+        Keep marks off the drawing's own TEXT, MTEXT and visible ATTRIB boxes.
+    avoid_symbols : bool
+        Keep marks off block references (equipment symbols).
+    symbol_max_text_heights : float
+        A block reference larger than this many text heights (a frame, a whole
+        room drawn as a block) is not an obstacle.
     cautions : str
         Text of the cautions note.
+
+    Notes
+    -----
+    Group tags.  A route segment shared by two or more circuits is tagged, but
+    not every such segment: adjacent segments (sharing an end point) carried by
+    exactly the same circuits form one *run* and get one tag, so a tag appears
+    where the group along a tray changes.  The tag is placed beside the run's
+    best stretch (free, least crowded, long enough) and reads::
+
+        S4, S5: 6 circuits, 6 cables
+        F-MCC1, P-101, P-102
+        P-103, P-104, SP-1 +2 more
+
+    The first line names every segment of the run with its circuit and cable
+    count, so each shared segment stays traceable (segment id and count); at
+    most ``group_tag_max_ids`` circuit ids follow, ``ids_per_line`` a line.
+    A tag pushed away from its run by other marks gets a leader line.
     """
 
     label_layer: str = "CW-CABLE-LABEL"
@@ -157,7 +189,11 @@ class AnnotateConfig:
     schedule: bool = True
     error_notes: bool = True
     schedule_rows_per_panel: int = 60
-    ids_per_line: int = 4
+    ids_per_line: int = 3
+    group_tag_max_ids: int = 6
+    avoid_drawing_text: bool = True
+    avoid_symbols: bool = True
+    symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
 
 
@@ -260,8 +296,37 @@ def _clean(text: str) -> str:
     return " ".join(str(text).split())
 
 
+def _dxf_escape(text: str) -> str:
+    """Text content as DXF stores it, so that it reads back as ``text``.
+
+    DXF text takes ``%%`` + a letter as a control code (``%%c`` diameter,
+    ``%%d`` degree, ``%%p`` plus/minus, ``%%u`` underline ...) and ``%%%`` as a
+    single percent sign; a caret followed by a letter is a control character
+    (``^J``) and ``"^ "`` a single caret.  Where a ``%%`` occurs every ``%`` is
+    written ``%%%``; every ``^`` is written ``"^ "``.
+
+    Examples
+    --------
+    >>> _dxf_escape("P-101%%c")
+    'P-101%%%%%%c'
+    >>> _dxf_escape("5% load")
+    '5% load'
+    >>> _dxf_escape("A^J")
+    'A^ J'
+
+    References
+    ----------
+    .. [1] ezdxf documentation, "Special Characters" (``%%c``, ``%%d``, ``%%p``,
+       ``%%%``) and ``ezdxf.tools.text.caret_decode``.
+    """
+    if "%%" in text:
+        text = text.replace("%", "%%%")
+    return text.replace("^", "^ ")
+
+
 def _mtext_escape(text: str) -> str:
-    return _clean(text).replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
+    cleaned = _clean(text).replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
+    return _dxf_escape(cleaned)
 
 
 def _rating_text(value: float) -> str:
@@ -334,27 +399,212 @@ def _scaled(points: Iterable[Sequence[float]], k: float) -> list[tuple[float, fl
     ]
 
 
+_LINE_PITCH = 5.0 / 3.0  # MTEXT line pitch / char height at spacing factor 1 (ezdxf, DXF ref.)
+
+
+def _text_box(entity: Any, measure: Callable[[str], float]) -> tuple | None:
+    """Oriented box of a TEXT or ATTRIB in plan, from its alignment [drawing units].
+
+    The width is the font's advance width of the plain text (``measure`` at
+    height 1) times height and width factor; the box spans descender (0.2 h)
+    to cap height.  Mirrored text and extrusions are ignored (plan drawings).
+    """
+    text = entity.plain_text()
+    if not text.strip():
+        return None
+    dxf = entity.dxf
+    h = float(dxf.get("height", 2.5))
+    w = measure(text) * h * float(dxf.get("width", 1.0) or 1.0)
+    halign, valign = int(dxf.get("halign", 0)), int(dxf.get("valign", 0))
+    rot = float(dxf.get("rotation", 0.0))
+    ins = dxf.get("insert", (0.0, 0.0, 0.0))
+    ref = ins
+    if halign in (3, 5):  # aligned / fit: the text runs from insert to align point
+        end = dxf.get("align_point", None)
+        if end is not None:
+            dx, dy = end[0] - ins[0], end[1] - ins[1]
+            if math.hypot(dx, dy) > 0.0:
+                w = math.hypot(dx, dy)
+                rot = math.degrees(math.atan2(dy, dx))
+        x0 = 0.0
+        valign = 0
+    else:
+        if halign or valign:
+            ref = dxf.get("align_point", ins) or ins
+        x0 = {0: 0.0, 1: -w / 2.0, 2: -w, 4: -w / 2.0}.get(halign, 0.0)
+    if halign == 4:
+        y0, y1 = -0.5 * h, 0.5 * h
+    else:
+        y0, y1 = {0: (-0.2 * h, h), 1: (0.0, 1.2 * h), 2: (-0.5 * h, 0.5 * h), 3: (-h, 0.0)}.get(
+            valign, (-0.2 * h, h)
+        )
+    a = math.radians(rot)
+    ux, uy = math.cos(a), math.sin(a)
+    lx, ly = x0 + w / 2.0, (y0 + y1) / 2.0
+    return oriented_box(
+        ref[0] + ux * lx - uy * ly, ref[1] + uy * lx + ux * ly, w, y1 - y0, rot
+    )
+
+
+def _mtext_box(entity: Any, measure: Callable[[str], float]) -> tuple | None:
+    """Oriented box of an MTEXT from its attachment point, column width and lines."""
+    text = entity.plain_text(split=False)
+    lines = [line for line in text.split("\n")]
+    if not text.strip():
+        return None
+    dxf = entity.dxf
+    ch = float(dxf.get("char_height", 2.5))
+    widths = [measure(line) * ch for line in lines]
+    column = float(dxf.get("width", 0.0) or 0.0)
+    if column > 0.0:
+        n_lines = sum(max(1, math.ceil(lw / column)) for lw in widths)
+        w = min(column, max(widths))
+    else:
+        n_lines, w = len(lines), max(widths)
+    spacing = float(dxf.get("line_spacing_factor", 1.0) or 1.0)
+    height = ch + (n_lines - 1) * ch * _LINE_PITCH * spacing
+    ap = int(dxf.get("attachment_point", 1))
+    col, row = (ap - 1) % 3, (ap - 1) // 3
+    x0 = -w * col / 2.0
+    y1 = height * row / 2.0
+    rot = float(entity.get_rotation())
+    a = math.radians(rot)
+    ux, uy = math.cos(a), math.sin(a)
+    lx, ly = x0 + w / 2.0, y1 - height / 2.0
+    ins = dxf.get("insert", (0.0, 0.0, 0.0))
+    return oriented_box(ins[0] + ux * lx - uy * ly, ins[1] + uy * lx + ux * ly, w, height, rot)
+
+
+@dataclass
+class _DrawingScan:
+    """What one pass over modelspace found: extents and the boxes labels must avoid."""
+
+    xmin: float = math.inf
+    ymin: float = math.inf
+    xmax: float = -math.inf
+    ymax: float = -math.inf
+    texts: list[tuple] = field(default_factory=list)
+    symbols: list[tuple] = field(default_factory=list)
+
+    def take(self, x: float, y: float) -> None:
+        if math.isfinite(x) and math.isfinite(y):
+            self.xmin = min(self.xmin, x)
+            self.xmax = max(self.xmax, x)
+            self.ymin = min(self.ymin, y)
+            self.ymax = max(self.ymax, y)
+
+    def take_box(self, box: tuple) -> None:
+        self.take(box[6], box[7])
+        self.take(box[8], box[9])
+
+
+def _scan_modelspace(doc: Any, measure: Callable[[str], float]) -> _DrawingScan:
+    """One pass over modelspace: extents, text boxes and equipment symbol boxes.
+
+    Cheap cases are measured directly (LINE, LWPOLYLINE and POLYLINE vertices,
+    CIRCLE/ARC circles, HATCH polyline paths, TEXT/MTEXT/ATTRIB boxes from the
+    font's advance widths, INSERT as its block's box - measured once per block
+    with ``ezdxf.bbox`` - turned by the insert's matrix); anything else falls
+    back to ``ezdxf.bbox.extents(fast=True)``.
+    """
+    scan = _DrawingScan()
+    block_boxes: dict[str, Any] = {}
+    fallback = []
+    for e in doc.modelspace():
+        t = e.dxftype()
+        try:
+            if t == "LINE":
+                scan.take(e.dxf.start[0], e.dxf.start[1])
+                scan.take(e.dxf.end[0], e.dxf.end[1])
+            elif t == "LWPOLYLINE":
+                for x, y in e.get_points("xy"):
+                    scan.take(x, y)
+            elif t in ("CIRCLE", "ARC"):
+                c, r = e.dxf.center, float(e.dxf.radius)
+                scan.take(c[0] - r, c[1] - r)
+                scan.take(c[0] + r, c[1] + r)
+            elif t == "TEXT":
+                box = _text_box(e, measure)
+                if box is not None:
+                    scan.texts.append(box)
+                    scan.take_box(box)
+            elif t == "MTEXT":
+                box = _mtext_box(e, measure)
+                if box is not None:
+                    scan.texts.append(box)
+                    scan.take_box(box)
+            elif t == "INSERT":
+                _scan_insert(doc, e, measure, scan, block_boxes)
+            elif t == "HATCH" and all(hasattr(p, "vertices") for p in e.paths):
+                for path in e.paths:
+                    for v in path.vertices:
+                        scan.take(v[0], v[1])
+            elif t == "POLYLINE":
+                for v in e.points():
+                    scan.take(v[0], v[1])
+            else:
+                fallback.append(e)
+        except (AttributeError, ValueError, ArithmeticError, ezdxf.DXFError) as exc:
+            log.debug("entity %s (%s) not measured: %s", e.dxf.get("handle", "?"), t, exc)
+    if fallback:
+        try:
+            box = ezbbox.extents(fallback, fast=True)
+            if box.has_data:
+                scan.take(box.extmin.x, box.extmin.y)
+                scan.take(box.extmax.x, box.extmax.y)
+        except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
+            log.warning("could not measure %d entities of the drawing (%s)", len(fallback), exc)
+    return scan
+
+
+def _scan_insert(
+    doc: Any,
+    insert: Any,
+    measure: Callable[[str], float],
+    scan: _DrawingScan,
+    block_boxes: dict[str, Any],
+) -> None:
+    """A block reference: its block's box turned into place, and its visible attributes."""
+    name = insert.dxf.name
+    if name not in block_boxes:
+        block = doc.blocks.get(name)
+        box = None
+        if block is not None:
+            parts = [b for b in block if b.dxftype() != "ATTDEF"]
+            bb = ezbbox.extents(parts, fast=True) if parts else None
+            if bb is not None and bb.has_data:
+                box = (bb.extmin.x, bb.extmin.y, bb.extmax.x, bb.extmax.y)
+        block_boxes[name] = box
+    local = block_boxes[name]
+    if local is not None:
+        m = insert.matrix44()
+        c0, c1, c3 = m.transform_vertices(
+            [(local[0], local[1], 0.0), (local[2], local[1], 0.0), (local[0], local[3], 0.0)]
+        )
+        w, h = math.hypot(c1.x - c0.x, c1.y - c0.y), math.hypot(c3.x - c0.x, c3.y - c0.y)
+        rot = math.degrees(math.atan2(c1.y - c0.y, c1.x - c0.x)) if w > 0.0 else 0.0
+        box = oriented_box((c1.x + c3.x) / 2.0, (c1.y + c3.y) / 2.0, w, h, rot)
+        scan.symbols.append(box)
+        scan.take_box(box)
+    for attrib in insert.attribs:
+        if attrib.is_invisible:
+            continue
+        box = _text_box(attrib, measure)
+        if box is not None:
+            scan.texts.append(box)
+            scan.take_box(box)
+
+
 def _extents(
-    msp: Any, extra: Iterable[tuple[float, float, float]]
+    scan: _DrawingScan, extra: Iterable[tuple[float, float, float]]
 ) -> tuple[float, float, float, float]:
     """(xmin, ymin, xmax, ymax) of the modelspace entities and ``extra`` points."""
-    xs: list[float] = []
-    ys: list[float] = []
-    try:
-        box = ezbbox.extents(msp, fast=True)
-        if box.has_data:
-            xs += [box.extmin.x, box.extmax.x]
-            ys += [box.extmin.y, box.extmax.y]
-    except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
-        log.warning("could not measure the drawing's extents (%s); using route points", exc)
+    box = _DrawingScan(scan.xmin, scan.ymin, scan.xmax, scan.ymax)
     for p in extra:
-        xs.append(p[0])
-        ys.append(p[1])
-    xs = [x for x in xs if math.isfinite(x)]
-    ys = [y for y in ys if math.isfinite(y)]
-    if not xs or not ys:
+        box.take(p[0], p[1])
+    if not (math.isfinite(box.xmin) and math.isfinite(box.ymin)):
         return (0.0, 0.0, 1.0, 1.0)
-    return (min(xs), min(ys), max(xs), max(ys))
+    return (box.xmin, box.ymin, box.xmax, box.ymax)
 
 
 class _Writer:
@@ -430,7 +680,7 @@ class _Writer:
         if color is not None:
             attribs["color"] = color
         entity = self.msp.add_text(
-            _clean(content), height=self.height if height is None else height, dxfattribs=attribs
+            _dxf_escape(_clean(content)), height=self.height if height is None else height, dxfattribs=attribs
         )
         entity.set_placement((x, y, z), align=align)
         return self._tag(entity, kind, ref)
@@ -571,6 +821,111 @@ def _route_stretches(
                 pts[-2:], crowd=max(1, to_count.get(outcome.to_tag, 1)), key="load-tail"
             )
     return stretches
+
+
+def group_runs(
+    segments: Mapping[str, Any],
+    per_segment: Mapping[str, Sequence[str]],
+    k: float = 1.0,
+    *,
+    min_circuits: int = 2,
+) -> list[tuple[str, ...]]:
+    """Shared segments joined into runs of the same circuits, one group tag each.
+
+    Two segments are in one run when they share an end point (to 1 mm) and
+    carry exactly the same set of circuits; joined transitively (union-find).
+
+    Parameters
+    ----------
+    segments : mapping
+        Segment id -> RouteSegment (``points_m`` [m]).
+    per_segment : mapping
+        Segment id -> circuit ids routed through it.
+    k : float
+        Unused scale, kept for symmetry with the writer (drawing units per m).
+    min_circuits : int
+        Segments with fewer circuits are not tagged.
+
+    Returns
+    -------
+    list of tuple of str
+        Runs, most crowded first; segment ids of a run in natural order.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as S
+    >>> segs = {"S1": S(points_m=((0, 0), (5, 0))), "S2": S(points_m=((5, 0), (9, 0))),
+    ...         "S3": S(points_m=((9, 0), (9, 4)))}
+    >>> group_runs(segs, {"S1": ("A", "B"), "S2": ("B", "A"), "S3": ("A", "B", "C")})
+    [('S3',), ('S1', 'S2')]
+    """
+    del k
+    shared = [
+        sid
+        for sid, cids in per_segment.items()
+        if len(set(cids)) >= min_circuits
+        and sid in segments
+        and len(getattr(segments[sid], "points_m", ()) or ()) >= 2
+    ]
+    parent = {sid: sid for sid in shared}
+
+    def find(a: str) -> str:
+        while parent[a] != a:
+            parent[a] = parent[parent[a]]
+            a = parent[a]
+        return a
+
+    at_point: dict[tuple, list[str]] = defaultdict(list)
+    for sid in shared:
+        pts = segments[sid].points_m
+        key = frozenset(per_segment[sid])
+        for end in (pts[0], pts[-1]):
+            at_point[(round(float(end[0]), 3), round(float(end[1]), 3), key)].append(sid)
+    for sids in at_point.values():
+        for other in sids[1:]:
+            ra, rb = find(sids[0]), find(other)
+            if ra != rb:
+                parent[rb] = ra
+    runs: dict[str, list[str]] = defaultdict(list)
+    for sid in shared:
+        runs[find(sid)].append(sid)
+    out = [tuple(sorted(r, key=lambda x: (len(x), x))) for r in runs.values()]
+    out.sort(key=lambda r: (-len(set(per_segment[r[0]])), len(r[0]), r[0]))
+    return out
+
+
+def group_tag_lines(
+    run: Sequence[str],
+    circuits: Sequence[str],
+    n_cables: int,
+    *,
+    ids_per_line: int = 3,
+    max_ids: int = 6,
+) -> list[str]:
+    """Lines of a group tag: segments with counts, then a few circuit ids.
+
+    Examples
+    --------
+    >>> group_tag_lines(["S4", "S5"], [f"C{i}" for i in range(8)], 9)
+    ['S4, S5: 8 circuits, 9 cables', 'C0, C1, C2', 'C3, C4, C5 +2 more']
+    >>> group_tag_lines(["S1"], ["A", "B"], 2)
+    ['S1: 2 circuits, 2 cables', 'A, B']
+    """
+    per = max(1, ids_per_line)
+    head = []
+    for i in range(0, len(run), 2 * per):
+        head.append(", ".join(run[i : i + 2 * per]))
+    head[-1] += f": {len(circuits)} circuits, {n_cables} cables"
+    shown = list(circuits[: max(0, max_ids)])
+    lines = [", ".join(shown[i : i + per]) for i in range(0, len(shown), per)]
+    rest = len(circuits) - len(shown)
+    if rest > 0:
+        more = f"+{rest} more"
+        if lines:
+            lines[-1] += " " + more
+        else:
+            lines = [more]
+    return [_clean(line) for line in head + lines]
 
 
 def _segment_cables(
@@ -741,9 +1096,12 @@ def write_annotated_dxf(
     msp = doc.modelspace()
     k = float(units_per_m)
 
+    r12 = doc.dxfversion <= "AC1009"
+    measure = fonts.make_font("txt" if r12 else config.font, 1.0).text_width
+    scan = _scan_modelspace(doc, measure)
     route_pts = [p for seg in segments.values() for p in _scaled(seg.points_m, k)]
     route_pts += [_scaled([e.position_m], k)[0] for e in equipment.values()]
-    xmin, ymin, xmax, ymax = _extents(msp, route_pts)
+    xmin, ymin, xmax, ymax = _extents(scan, route_pts)
     if config.text_height_m is not None:
         h_m = float(config.text_height_m)
     else:
@@ -757,9 +1115,19 @@ def write_annotated_dxf(
         )
     h = h_m * k
     w = _Writer(doc, config, h)
+    # the drawing's own text and its equipment symbols: no mark goes on them; a
+    # symbol bigger than ``symbol_max_text_heights`` text heights (a frame, a room
+    # block) is not an obstacle, or nothing could be placed inside it
+    big = config.symbol_max_text_heights * h
+    blocked = list(scan.texts) if config.avoid_drawing_text else []
+    if config.avoid_symbols:
+        blocked += [b for b in scan.symbols if 2.0 * max(b[4], b[5]) <= big]
     index = LabelIndex(
-        cell=12.0 * h, obstacles=route_obstacles(_scaled(s.points_m, k) for s in segments.values())
+        cell=12.0 * h,
+        obstacles=route_obstacles(_scaled(s.points_m, k) for s in segments.values()),
+        blocked=blocked,
     )
+    log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
 
     from_count: dict[str, int] = defaultdict(int)
     to_count: dict[str, int] = defaultdict(int)
@@ -802,25 +1170,31 @@ def write_annotated_dxf(
     group_tags = 0
     if config.group_tags:
         cables = _segment_cables(outcomes, per_segment)
-        for seg_id in sorted(per_segment, key=lambda s: (len(s), s)):
-            circuits = list(per_segment[seg_id])
-            seg = segments.get(seg_id)
-            if len(circuits) < 2 or seg is None or len(seg.points_m) < 2:
-                continue
-            n_cables = cables.get(seg_id, len(circuits))
-            lines = [f"{seg_id}: {len(circuits)} circuits, {n_cables} cables"]
-            step = max(1, config.ids_per_line)
-            lines += [", ".join(circuits[i : i + step]) for i in range(0, len(circuits), step)]
-            lines = [_clean(line) for line in lines]
-            bw, bh = w.block_box(lines)
-            stretches = straight_stretches(
-                _scaled(seg.points_m, k), crowd=len(circuits), key=seg_id
+        for run in group_runs(segments, per_segment, k, min_circuits=2):
+            circuits = list(per_segment[run[0]])
+            n_cables = max(cables.get(seg_id, len(circuits)) for seg_id in run)
+            lines = group_tag_lines(
+                run,
+                circuits,
+                n_cables,
+                ids_per_line=config.ids_per_line,
+                max_ids=config.group_tag_max_ids,
             )
+            stretches = [
+                st
+                for seg_id in run
+                for st in straight_stretches(
+                    _scaled(segments[seg_id].points_m, k), crowd=len(circuits), key=seg_id
+                )
+            ]
             if not stretches:
                 continue
+            bw, bh = w.block_box(lines)
             place = place_along(index, rank_stretches(stretches, bw), bw, bh)
             overlapping += place.overlaps
-            w.block(lines, place, role="group", kind="group-tag", ref=seg_id)
+            w.block(lines, place, role="group", kind="group-tag", ref=",".join(run))
+            if place.polygon.distance(Point(place.anchor)) > 1.5 * h:
+                w.leader(place, place.z, role="group", kind="group-leader", ref=run[0])
             group_tags += 1
 
     device_notes = error_notes = 0
