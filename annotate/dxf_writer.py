@@ -59,7 +59,6 @@ from .layout import (
     LabelIndex,
     Placement,
     Stretch,
-    bounds_box,
     oriented_box,
     place_along,
     place_near_point,
@@ -995,37 +994,92 @@ def _schedule_table(
         max(w.text_width(r[i]) for r in [header, *rows]) + 1.2 * h for i in range(len(header))
     ]
     table_w = sum(widths)
-    row_h = 1.8 * h
+    row_h = (1.8 if w.r12 else _LINE_PITCH) * h
     per_panel = max(1, config.schedule_rows_per_panel)
     panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
     for p, panel in enumerate(panels):
         px = x0 + p * (table_w + 3.0 * h)
         lines = [header, *panel]
-        for r, row in enumerate(lines):
-            yc = y - (r + 0.5) * row_h
-            cx = px
-            for c, value in enumerate(row):
-                w.text(
-                    value,
-                    cx + 0.6 * h,
-                    yc,
-                    z,
-                    role="schedule",
-                    kind="schedule",
-                    ref=row[0] if r else "header",
-                    align=TextEntityAlignment.MIDDLE_LEFT,
-                )
-                cx += widths[c]
         bottom = y - len(lines) * row_h
+        if w.r12:
+            _schedule_cells_r12(w, lines, widths, px, y, z, row_h)
+            continue
+        # one MTEXT per column and two polylines for the rules: a 2,000-row schedule
+        # is a few hundred entities, not 14,000 TEXT and 2,000 LINE
+        cx = px
+        for c in range(len(header)):
+            column = "\\P".join(_mtext_escape(row[c]) for row in lines)
+            entity = w.msp.add_mtext(
+                column,
+                dxfattribs={
+                    "layer": w.layers["schedule"],
+                    "style": config.text_style,
+                    "char_height": h,
+                    "attachment_point": 1,  # top left
+                    "insert": (cx + 0.6 * h, y - (row_h - h) / 2.0, z),
+                    "line_spacing_style": 2,  # exact: rows stay on the grid
+                    "line_spacing_factor": row_h / (_LINE_PITCH * h),
+                    "width": 0.0,
+                },
+            )
+            w._tag(entity, "schedule", f"column {header[c]}")
+            cx += widths[c]
+        rules: list[tuple[float, float]] = []
         for r in range(len(lines) + 1):
             yy = y - r * row_h
-            w.line((px, yy, z), (px + table_w, yy, z), role="schedule", kind="schedule", ref="grid")
+            ends = [(px, yy), (px + table_w, yy)]
+            rules += ends if r % 2 == 0 else ends[::-1]
+        cols: list[tuple[float, float]] = []
         cx = px
         for c in range(len(header) + 1):
-            w.line((cx, y, z), (cx, bottom, z), role="schedule", kind="schedule", ref="grid")
+            ends = [(cx, y), (cx, bottom)]
+            cols += ends if c % 2 == 0 else ends[::-1]
             if c < len(header):
                 cx += widths[c]
+        for pts, ref in ((rules, "grid rows"), (cols, "grid columns")):
+            entity = w.msp.add_lwpolyline(
+                pts, dxfattribs={"layer": w.layers["schedule"], "elevation": z}
+            )
+            w._tag(entity, "schedule", ref)
     return len(rows)
+
+
+def _schedule_cells_r12(
+    w: _Writer,
+    lines: Sequence[Sequence[str]],
+    widths: Sequence[float],
+    px: float,
+    y: float,
+    z: float,
+    row_h: float,
+) -> None:
+    """Schedule panel for DXF R12 (no MTEXT, no LWPOLYLINE): TEXT per cell, LINE rules."""
+    h = w.height
+    for r, row in enumerate(lines):
+        yc = y - (r + 0.5) * row_h
+        cx = px
+        for c, value in enumerate(row):
+            w.text(
+                value,
+                cx + 0.6 * h,
+                yc,
+                z,
+                role="schedule",
+                kind="schedule",
+                ref=row[0] if r else "header",
+                align=TextEntityAlignment.MIDDLE_LEFT,
+            )
+            cx += widths[c]
+    table_w = sum(widths)
+    bottom = y - len(lines) * row_h
+    for r in range(len(lines) + 1):
+        yy = y - r * row_h
+        w.line((px, yy, z), (px + table_w, yy, z), role="schedule", kind="schedule", ref="grid")
+    cx = px
+    for c in range(len(widths) + 1):
+        w.line((cx, y, z), (cx, bottom, z), role="schedule", kind="schedule", ref="grid")
+        if c < len(widths):
+            cx += widths[c]
 
 
 def write_annotated_dxf(
@@ -1093,7 +1147,6 @@ def write_annotated_dxf(
     removed = remove_old_marks(doc, config)
     if removed:
         log.info("%s: removed %d marks of an earlier run", src, removed)
-    msp = doc.modelspace()
     k = float(units_per_m)
 
     r12 = doc.dxfversion <= "AC1009"
