@@ -454,6 +454,7 @@ def place_along(
     max_stretches: int = 4,
     along_steps: int = 3,
     fallback_levels: int = 10,
+    max_candidates: int = 160,
 ) -> Placement:
     """Place a label along the best free spot of ``stretches`` and record it.
 
@@ -479,6 +480,9 @@ def place_along(
         Nudges along the stretch per direction.
     fallback_levels : int
         Sideways levels tried on the best stretch when the normal passes fail.
+    max_candidates : int
+        Spots tested in the normal passes before going to the fallback; on a
+        crowded drawing this bounds the time per label.
 
     Returns
     -------
@@ -539,10 +543,14 @@ def place_along(
         )
 
     crossing: tuple[tuple, Placement] | None = None  # first free spot that crosses a route
+    budget = max(1, max_candidates)
     for s in tried:
         along = _along_offsets(s.length, width, max(width * 0.5, height), along_steps)
         for off in offsets(max_levels):
             for t in along:
+                budget -= 1
+                if budget < 0:
+                    break
                 box, place = candidate(s, t, off)
                 if not index.is_free(box):
                     continue
