@@ -13,9 +13,12 @@ $(STAMP): pyproject.toml
 	$(PY) -m pip install --quiet -e ".[test]"
 	touch $(STAMP)
 
-## make demo: the whole job on the bundled sample drawing, outputs in ./demo_out
+## make demo: the whole job on the bundled sample drawing (DXF), and on the same plant
+## modelled in IFC; outputs in ./demo_out and ./demo_out/ifc
 demo: $(STAMP)
 	$(VENV)/bin/cablewright demo --out $(OUT)
+	$(VENV)/bin/cablewright size sample_drawings/pumping_station.ifc \
+		--circuits sample_drawings/pumping_station_circuits.csv --out $(OUT)/ifc || test $$? -eq 1
 
 ## make test: the full test suite (unit, doctests, published-value checks)
 test: $(STAMP)
@@ -27,6 +30,7 @@ lint: $(STAMP)
 ## make bench: the benchmark scripts (figures in benchmarks/RESULTS.md)
 bench: $(STAMP)
 	$(PY) benchmarks/bench_sizing.py
+	$(PY) benchmarks/bench_pipeline.py --sizes 200 2000 --work /tmp/cablewright-bench
 
 clean:
 	rm -rf $(VENV) $(OUT) .pytest_cache

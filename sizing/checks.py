@@ -211,7 +211,7 @@ class PreparedShortCircuit:
             f"{csa_mm2:g} mm² does not withstand {fault:g} kA for {t:g} s: needs "
             f"{need:.1f} mm² (S = I√t/k, k = {k:g})")
         return Check("short_circuit", passed, need, csa_mm2, "mm²",
-                     f"{TABLE_43A_SOURCE}; I {fault:g} kA, t {t:g} s (config), k {k:g}", message)
+                     f"{TABLE_43A_SOURCE}; I {fault:g} kA, t {t:g} s (device clearing time), k {k:g}", message)
 
 
 class PreparedMotorStart:
