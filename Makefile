@@ -22,6 +22,7 @@ demo: $(STAMP)
 
 ## make test: the full test suite (unit, doctests, published-value checks)
 test: $(STAMP)
+	$(PY) -m ruff check .
 	$(PY) -m pytest -q
 
 lint: $(STAMP)

@@ -12,9 +12,8 @@ import inspect
 import pkgutil
 import re
 
-import pytest
-
 import cablewright.sizing as sizing_package
+import pytest
 
 _SECTION = re.compile(r"^\s*Parameters\s*\n\s*-{3,}\s*\n(.*?)(?:\n\s*\n\s*[A-Z][A-Za-z ]+\n\s*-{3,}|\Z)", re.S | re.M)
 _NAME = re.compile(r"^ {4}(\w+(?:\s*,\s*\w+)*)\s*:", re.M)
