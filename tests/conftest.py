@@ -2,10 +2,18 @@
 
 from __future__ import annotations
 
+import os
 from pathlib import Path
 
 import ezdxf
 import pytest
+from hypothesis import settings
+
+# Property tests draw the same examples on every run, so CI never fails by chance;
+# run with HYPOTHESIS_PROFILE=explore to search new examples locally.
+settings.register_profile("repeatable", derandomize=True, deadline=None)
+settings.register_profile("explore", max_examples=500, deadline=None)
+settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "repeatable"))
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLES = ROOT / "sample_drawings"
