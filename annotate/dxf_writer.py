@@ -1082,6 +1082,18 @@ def _schedule_cells_r12(
             cx += widths[c]
 
 
+def _read_input(src: Path) -> Any:
+    """Parse the input drawing (when the caller did not pass the parsed document)."""
+    try:
+        return ezdxf.readfile(src)
+    except OSError as exc:
+        raise DrawingReadError(f"{src}: cannot read the drawing ({exc}); check the path") from exc
+    except ezdxf.DXFStructureError as exc:
+        raise DrawingReadError(
+            f"{src}: the drawing is damaged ({exc}); repair it in CAD or re-export it"
+        ) from exc
+
+
 def write_annotated_dxf(
     input_path: str | os.PathLike[str],
     output_path: str | os.PathLike[str],
@@ -1092,6 +1104,7 @@ def write_annotated_dxf(
     units_per_m: float,
     config: AnnotateConfig = AnnotateConfig(),
     progress: ProgressHook | None = None,
+    document: Any = None,
 ) -> AnnotationSummary:
     """Write a copy of the drawing with cable labels, group tags, notes and schedule.
 
@@ -1117,6 +1130,12 @@ def write_annotated_dxf(
     progress : callable, optional
         Called with ``1`` after each cable label is placed (one call per
         labelled circuit), e.g. ``tqdm.update``.
+    document : ezdxf.document.Drawing, optional
+        The drawing already parsed from ``input_path`` (``Measurement.source_document``,
+        kept by the extract stage), so the file is not read a second time.  Our
+        marks are added to this document, which is then saved to
+        ``output_path`` (never to ``input_path``); afterwards it holds the
+        annotated drawing, e.g. for :func:`~.preview.render_preview_png`.
 
     Returns
     -------
@@ -1135,14 +1154,10 @@ def write_annotated_dxf(
         raise DrawingReadError(
             f"{dst}: the annotated drawing would overwrite the input; choose another output folder"
         )
-    try:
-        doc = ezdxf.readfile(src)
-    except OSError as exc:
-        raise DrawingReadError(f"{src}: cannot read the drawing ({exc}); check the path") from exc
-    except ezdxf.DXFStructureError as exc:
-        raise DrawingReadError(
-            f"{src}: the drawing is damaged ({exc}); repair it in CAD or re-export it"
-        ) from exc
+    if document is not None:
+        doc = document
+    else:
+        doc = _read_input(src)
 
     removed = remove_old_marks(doc, config)
     if removed:

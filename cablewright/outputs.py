@@ -77,14 +77,28 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         config = _annotate_config(settings)
         units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
         dxf_input = drawing
-        if drawing.suffix.lower() != ".dxf":
+        document = None
+        if drawing.suffix.lower() != ".dxf":  # IFC: a plan view drawn from the measurement
             dxf_input = _plan_view_for(measurement, stage)
+        else:  # the drawing parsed by the extract stage, not read a second time
+            document = getattr(measurement, "source_document", None)
+        if document is None:
+            import ezdxf
+
+            try:
+                document = ezdxf.readfile(dxf_input)
+            except (OSError, ezdxf.DXFStructureError) as exc:
+                raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
+                                       "check the path or re-export it") from exc
+        # our marks are added to the document in memory and it is saved under the
+        # output name only; the preview is drawn from the same annotated document
         write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes, measurement.segments,
-                            job.per_segment, measurement.equipment, units_per_m, config)
+                            job.per_segment, measurement.equipment, units_per_m, config,
+                            document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
         write_schedule_xlsx(stage / names["xlsx"], job.outcomes)
         write_schedule_json(stage / names["json"], job.outcomes)
-        png = render_preview_png(stage / names["dxf"])
+        png = render_preview_png(document, lean_skip_layers=(config.schedule_layer,))
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION)

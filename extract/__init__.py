@@ -115,4 +115,5 @@ def measure(
         failures=failures,
         issues=issues,
         graph=network.graph,
+        source_document=content.document,
     )

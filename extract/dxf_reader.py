@@ -54,6 +54,11 @@ class DxfContent:
         network builder reports duplicates).
     issues : list of Issue
         Problems that did not stop reading.
+    document : ezdxf.document.Drawing or None
+        The parsed drawing itself, kept so that later stages (the annotated
+        copy, the preview) need not read the file again.  It is the input as
+        read (recovered, with ``config.recover``); nothing here writes it back
+        to ``path``, and a later stage that adds to it saves it elsewhere.
     """
 
     path: str
@@ -61,6 +66,7 @@ class DxfContent:
     polylines: list[RoutePolyline] = field(default_factory=list)
     equipment: list[Equipment] = field(default_factory=list)
     issues: list[Issue] = field(default_factory=list)
+    document: object | None = field(default=None, repr=False, compare=False)
 
 
 def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
@@ -397,7 +403,8 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     Returns
     -------
     DxfContent
-        Route polylines and equipment in world coordinates, [m], and issues.
+        Route polylines and equipment in world coordinates, [m], issues, and
+        the parsed document (``DxfContent.document``).
 
     Raises
     ------
@@ -419,7 +426,7 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     p = Path(path)
     doc, issues = _load(p, config)
     units = _units(doc, p, config, issues)
-    content = DxfContent(path=str(p), units=units, issues=issues)
+    content = DxfContent(path=str(p), units=units, issues=issues, document=doc)
     walker = _Walker(doc, p, config, UNIT_TO_M[units], content, config.tag_attribute.upper())
     _walk_layout(walker, iter(doc.modelspace()))
     if not content.polylines:

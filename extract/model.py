@@ -303,6 +303,12 @@ class Measurement:
     graph : networkx.Graph
         Route network: nodes ``"N<i>"`` and ``"EQ:<tag>"``; edges carry
         ``length_m``, ``kind``, ``containment``, ``method``, ``segment_id``, ``source_id``.
+    source_document : object or None
+        The parsed input kept so that later stages need not read the file again
+        (for a DXF drawing the ``ezdxf`` document read by
+        :func:`~cablewright.extract.dxf_reader.read_dxf`; ``None`` for IFC).  It is
+        never written back to the input path: the annotate stage adds its marks to
+        it and saves it under the output name only.
     """
 
     drawing: str
@@ -314,3 +320,4 @@ class Measurement:
     failures: dict[str, str]
     issues: list[Issue]
     graph: nx.Graph
+    source_document: object | None = field(default=None, repr=False, compare=False)
