@@ -11,8 +11,8 @@ What is added (default layer names):
 ========================  ===============================================
 ``CW-CABLE-LABEL``        one TEXT per sized circuit: ``"P-101: 4C 70 mm² Cu/XLPE"``,
                           along its route, never upside down
-``CW-GROUP-TAG``          one MTEXT per shared route segment (2+ circuits):
-                          circuit and cable count, then the circuit ids
+``CW-GROUP-TAG``          one MTEXT per run of shared route segments (2+
+                          circuits): counts per segment, then circuit ids
 ``CW-DEVICE-NOTE``        at each load a note with a leader line:
                           ``"P-101: 125 A"``
 ``CW-SCHEDULE``           a table (circuit, from, to, cable, device, length,
@@ -76,6 +76,7 @@ __all__ = [
     "write_annotated_dxf",
     "remove_old_marks",
     "text_height_m_for_extents",
+    "crowded_text_height_m",
     "label_text",
     "group_runs",
     "group_tag_lines",
@@ -142,22 +143,30 @@ class AnnotateConfig:
         room drawn as a block) is not an obstacle.
     cautions : str
         Text of the cautions note.
+    crowd_fraction : float or None
+        On a crowded drawing the derived text height is lowered until the
+        marks cover at most this share of the extents (see
+        :func:`crowded_text_height_m`); ``None`` keeps the sheet-fitted height.
 
     Notes
     -----
     Group tags.  A route segment shared by two or more circuits is tagged, but
-    not every such segment: adjacent segments (sharing an end point) carried by
-    exactly the same circuits form one *run* and get one tag, so a tag appears
-    where the group along a tray changes.  The tag is placed beside the run's
-    best stretch (free, least crowded, long enough) and reads::
+    not every such segment: shared segments that continue one another (end to
+    end, with no third shared segment at the joint) form one *run* and get one
+    tag, so a tray from which circuits peel off at every tee carries one tag,
+    not one per tee (see :func:`group_runs`).  The tag is placed beside the
+    run's best stretch (free, least crowded, long enough) and reads::
 
         S4, S5: 6 circuits, 6 cables
+        S6: 5 circuits, 5 cables
         F-MCC1, P-101, P-102
-        P-103, P-104, SP-1 +2 more
+        P-103, P-104, SP-1 +3 more
 
-    The first line names every segment of the run with its circuit and cable
-    count, so each shared segment stays traceable (segment id and count); at
-    most ``group_tag_max_ids`` circuit ids follow, ``ids_per_line`` a line.
+    The head lines name every segment of the run, grouped by equal circuit and
+    cable counts (most crowded first; at most four lines, the rest summed up
+    as ``"+k segments: 2-4 circuits"``), so each shared segment stays
+    traceable; at most ``group_tag_max_ids`` circuit ids of the most crowded
+    segment follow, ``ids_per_line`` a line.
     A tag pushed away from its run by other marks gets a leader line.
     """
 
@@ -194,6 +203,7 @@ class AnnotateConfig:
     avoid_symbols: bool = True
     symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
+    crowd_fraction: float | None = 0.15
 
 
 @dataclass(frozen=True)
@@ -277,6 +287,86 @@ def text_height_m_for_extents(
     if scale is None:
         scale = need
     return min(max(paper_text_height_mm * scale / 1000.0, min_m), max_m)
+
+
+def crowded_text_height_m(
+    area_per_h2: float,
+    width_m: float,
+    height_m: float,
+    *,
+    fraction: float = 0.15,
+    paper_text_height_mm: float = 2.5,
+    min_m: float = 0.002,
+) -> float:
+    """Text height at which the marks cover at most ``fraction`` of the extents.
+
+    Marks of text height ``h`` cover ``A * h**2`` (``A`` = ``area_per_h2``, the
+    sum of every mark's box in units of ``h**2``).  The largest height with
+    ``A * h**2 <= fraction * W * H`` is rounded down to the plotted text height
+    at a usual scale (:data:`USUAL_SCALES`): the crowded drawing is then read
+    at that larger scale, on several sheets, rather than squeezed on one.
+    The rule and the default fraction are our own choice (labels that do not
+    fit overlap, and cost the most time to place).
+
+    Parameters
+    ----------
+    area_per_h2 : float
+        Total box area of the marks divided by the text height squared [-].
+    width_m, height_m : float
+        Extents of the drawing [m].
+    fraction : float
+        Share of the extents the marks may cover [-].
+    paper_text_height_mm : float
+        Plotted text height [mm].
+    min_m : float
+        Lower clamp [m].
+
+    Returns
+    -------
+    float
+        Text height [m]; ``inf`` when there are no marks.
+
+    Examples
+    --------
+    1,000 marks of 20 h x 2 h on a 1,000 m x 500 m plant, 5 % covered: the
+    largest height is sqrt(0.05 * 5e5 / 4e4) = 0.79 m, so 1:250 (0.625 m).
+
+    >>> crowded_text_height_m(40_000.0, 1000.0, 500.0, fraction=0.05)
+    0.625
+    """
+    if area_per_h2 <= 0.0:
+        return math.inf
+    limit = math.sqrt(max(fraction, 0.0) * max(width_m, 0.0) * max(height_m, 0.0) / area_per_h2)
+    fitting = [s for s in USUAL_SCALES if paper_text_height_mm * s / 1000.0 <= limit + 1e-12]
+    h = paper_text_height_mm * max(fitting) / 1000.0 if fitting else min_m
+    return max(h, min_m)
+
+
+def _mark_area_per_h2(
+    outcomes: Sequence[CircuitOutcome],
+    per_segment: Mapping[str, Sequence[str]],
+    measure: Callable[[str], float],
+    config: AnnotateConfig,
+) -> float:
+    """Box area of the marks to place, in units of text height squared (an estimate).
+
+    Cable labels from their text (``measure`` = advance width at height 1, box
+    margins as :meth:`_Writer.line_box`); one device note per load and one group
+    tag per shared segment as three-line blocks of 24 characters (a typical
+    size; the exact tags are only known later).
+    """
+    area = 0.0
+    loads = set()
+    for o in outcomes:
+        if o.status != "error" and o.sizing is not None and o.sizing.cable is not None:
+            area += (measure(label_text(o)) + 0.4) * 1.7
+            loads.add(o.to_tag)
+    block = (24 * 0.6 + 0.4) * (2 * _LINE_PITCH + 1.7)
+    if config.device_notes:
+        area += len(loads) * block
+    if config.group_tags:
+        area += sum(1 for c in per_segment.values() if len(set(c)) >= 2) * block
+    return area
 
 
 def label_text(outcome: CircuitOutcome) -> str:
@@ -797,15 +887,24 @@ def _route_stretches(
     k: float,
     from_count: Mapping[str, int],
     to_count: Mapping[str, int],
+    cache: dict[str, list[Stretch]] | None = None,
 ) -> list[Stretch]:
+    """Stretches a circuit's label may go on; ``cache`` keeps each segment's (shared ones
+    are cut once, not once per circuit on them)."""
     route = outcome.route
     stretches: list[Stretch] = []
+    cache = {} if cache is None else cache
     for seg_id in getattr(route, "segment_ids", ()) or ():
-        seg = segments.get(seg_id)
-        if seg is None or len(seg.points_m) < 2:
-            continue
-        crowd = max(1, len(per_segment.get(seg_id, ())))
-        stretches += straight_stretches(_scaled(seg.points_m, k), crowd=crowd, key=seg_id)
+        cut = cache.get(seg_id)
+        if cut is None:
+            seg = segments.get(seg_id)
+            if seg is None or len(seg.points_m) < 2:
+                cut = []
+            else:
+                crowd = max(1, len(per_segment.get(seg_id, ())))
+                cut = straight_stretches(_scaled(seg.points_m, k), crowd=crowd, key=seg_id)
+            cache[seg_id] = cut
+        stretches += cut
     pts = _scaled(getattr(route, "points_m", ()) or (), k)
     if not stretches and len(pts) >= 2:
         return straight_stretches(pts, crowd=1, key="route")
@@ -829,10 +928,15 @@ def group_runs(
     *,
     min_circuits: int = 2,
 ) -> list[tuple[str, ...]]:
-    """Shared segments joined into runs of the same circuits, one group tag each.
+    """Shared segments joined into runs along the route, one group tag each.
 
-    Two segments are in one run when they share an end point (to 1 mm) and
-    carry exactly the same set of circuits; joined transitively (union-find).
+    Two shared segments (``min_circuits`` or more circuits) are in one run when
+    they meet end to end (to 1 mm) at a point where no third shared segment
+    ends: a run continues along a tray while circuits peel off or join it at
+    tees, and stops where shared routes branch.  Joined transitively
+    (union-find).  The tag then names the run's segments grouped by equal
+    circuit counts (see :func:`group_tag_lines`), so the grouping of each
+    segment stays readable while a long tray gets one tag, not one per tee.
 
     Parameters
     ----------
@@ -852,11 +956,15 @@ def group_runs(
 
     Examples
     --------
+    S1 and S2 continue one another (the count drops from 3 to 2 where C
+    leaves); S3 and S4 both end at (9, 0) with S2, a branch of shared routes:
+
     >>> from types import SimpleNamespace as S
     >>> segs = {"S1": S(points_m=((0, 0), (5, 0))), "S2": S(points_m=((5, 0), (9, 0))),
-    ...         "S3": S(points_m=((9, 0), (9, 4)))}
-    >>> group_runs(segs, {"S1": ("A", "B"), "S2": ("B", "A"), "S3": ("A", "B", "C")})
-    [('S3',), ('S1', 'S2')]
+    ...         "S3": S(points_m=((9, 0), (9, 4))), "S4": S(points_m=((9, 0), (14, 0)))}
+    >>> group_runs(segs, {"S1": ("A", "B", "C"), "S2": ("B", "A"), "S3": ("A", "B"),
+    ...                   "S4": ("A", "B")})
+    [('S1', 'S2'), ('S3',), ('S4',)]
     """
     del k
     shared = [
@@ -877,19 +985,18 @@ def group_runs(
     at_point: dict[tuple, list[str]] = defaultdict(list)
     for sid in shared:
         pts = segments[sid].points_m
-        key = frozenset(per_segment[sid])
         for end in (pts[0], pts[-1]):
-            at_point[(round(float(end[0]), 3), round(float(end[1]), 3), key)].append(sid)
+            at_point[(round(float(end[0]), 3), round(float(end[1]), 3))].append(sid)
     for sids in at_point.values():
-        for other in sids[1:]:
-            ra, rb = find(sids[0]), find(other)
+        if len(sids) == 2 and sids[0] != sids[1]:
+            ra, rb = find(sids[0]), find(sids[1])
             if ra != rb:
                 parent[rb] = ra
     runs: dict[str, list[str]] = defaultdict(list)
     for sid in shared:
         runs[find(sid)].append(sid)
     out = [tuple(sorted(r, key=lambda x: (len(x), x))) for r in runs.values()]
-    out.sort(key=lambda r: (-len(set(per_segment[r[0]])), len(r[0]), r[0]))
+    out.sort(key=lambda r: (-max(len(set(per_segment[x])) for x in r), len(r[0]), r[0]))
     return out
 
 
@@ -900,8 +1007,27 @@ def group_tag_lines(
     *,
     ids_per_line: int = 3,
     max_ids: int = 6,
+    counts: Sequence[tuple[Sequence[str], int, int]] | None = None,
+    max_count_lines: int = 4,
 ) -> list[str]:
     """Lines of a group tag: segments with counts, then a few circuit ids.
+
+    Parameters
+    ----------
+    run : sequence of str
+        Segment ids of the run.
+    circuits : sequence of str
+        Circuit ids listed (those of the run's most crowded segment).
+    n_cables : int
+        Cables on the run's segments when ``counts`` is not given.
+    ids_per_line, max_ids : int
+        Circuit ids per line and in all.
+    counts : sequence of (segment ids, circuits, cables), optional
+        The run's segments grouped by equal counts, most crowded first: one
+        head line each.  Default: the whole run with ``len(circuits)`` and
+        ``n_cables``.
+    max_count_lines : int
+        Head lines at most; further groups are summed up in one line.
 
     Examples
     --------
@@ -909,12 +1035,30 @@ def group_tag_lines(
     ['S4, S5: 8 circuits, 9 cables', 'C0, C1, C2', 'C3, C4, C5 +2 more']
     >>> group_tag_lines(["S1"], ["A", "B"], 2)
     ['S1: 2 circuits, 2 cables', 'A, B']
+    >>> group_tag_lines(["S1", "S2"], ["A", "B", "C"], 3,
+    ...                 counts=[(["S1"], 3, 3), (["S2"], 2, 2)])
+    ['S1: 3 circuits, 3 cables', 'S2: 2 circuits, 2 cables', 'A, B, C']
     """
     per = max(1, ids_per_line)
+    if counts is None:
+        counts = [(list(run), len(circuits), n_cables)]
     head = []
-    for i in range(0, len(run), 2 * per):
-        head.append(", ".join(run[i : i + 2 * per]))
-    head[-1] += f": {len(circuits)} circuits, {n_cables} cables"
+    shown_counts = list(counts)
+    rest_counts = []
+    if len(shown_counts) > max(1, max_count_lines):
+        cut = max(1, max_count_lines) - 1
+        shown_counts, rest_counts = shown_counts[:cut], shown_counts[cut:]
+    for sids, n_circuits, cables in shown_counts:
+        ids = list(sids)
+        lines = [", ".join(ids[i : i + 2 * per]) for i in range(0, len(ids), 2 * per)]
+        lines[-1] += f": {n_circuits} circuits, {cables} cables"
+        head += lines
+    if rest_counts:
+        n_segs = sum(len(sids) for sids, _, _ in rest_counts)
+        low = min(c for _, c, _ in rest_counts)
+        high = max(c for _, c, _ in rest_counts)
+        span = f"{low}" if low == high else f"{low}-{high}"
+        head.append(f"+{n_segs} segments: {span} circuits")
     shown = list(circuits[: max(0, max_ids)])
     lines = [", ".join(shown[i : i + per]) for i in range(0, len(shown), per)]
     rest = len(circuits) - len(shown)
@@ -1181,6 +1325,22 @@ def write_annotated_dxf(
             min_m=config.min_text_height_m,
             max_m=config.max_text_height_m,
         )
+        if config.crowd_fraction is not None:
+            demand = _mark_area_per_h2(outcomes, per_segment, measure, config)
+            crowded = crowded_text_height_m(
+                demand,
+                (xmax - xmin) / k,
+                (ymax - ymin) / k,
+                fraction=config.crowd_fraction,
+                paper_text_height_mm=config.paper_text_height_mm,
+                min_m=config.min_text_height_m,
+            )
+            if crowded < h_m:
+                log.info(
+                    "%s: crowded drawing (%d circuits); text height %.3g m instead of %.3g m",
+                    src, len(outcomes), crowded, h_m,
+                )
+                h_m = crowded
     h = h_m * k
     w = _Writer(doc, config, h)
     # the drawing's own text and its equipment symbols: no mark goes on them; a
@@ -1206,10 +1366,11 @@ def write_annotated_dxf(
 
     labels = overlapping = 0
     unlabelled: list[str] = []
+    cut_cache: dict[str, list[Stretch]] = {}
     for o in outcomes:
         if o.status == "error" or o.sizing is None or o.sizing.cable is None:
             continue
-        stretches = _route_stretches(o, segments, per_segment, k, from_count, to_count)
+        stretches = _route_stretches(o, segments, per_segment, k, from_count, to_count, cut_cache)
         if not stretches:
             unlabelled.append(f"{o.circuit_id}: no route geometry to put a label on")
             log.warning(
@@ -1239,20 +1400,28 @@ def write_annotated_dxf(
     if config.group_tags:
         cables = _segment_cables(outcomes, per_segment)
         for run in group_runs(segments, per_segment, k, min_circuits=2):
-            circuits = list(per_segment[run[0]])
-            n_cables = max(cables.get(seg_id, len(circuits)) for seg_id in run)
+            by_count: dict[tuple[int, int], list[str]] = defaultdict(list)
+            for seg_id in run:
+                n_circuits = len(set(per_segment[seg_id]))
+                by_count[(n_circuits, cables.get(seg_id, n_circuits))].append(seg_id)
+            counts = [(sids, nc, nk) for (nc, nk), sids in sorted(by_count.items(), reverse=True)]
+            busiest = counts[0][0][0]
+            circuits = list(per_segment[busiest])
             lines = group_tag_lines(
                 run,
                 circuits,
-                n_cables,
+                counts[0][2],
                 ids_per_line=config.ids_per_line,
                 max_ids=config.group_tag_max_ids,
+                counts=counts,
             )
             stretches = [
                 st
                 for seg_id in run
                 for st in straight_stretches(
-                    _scaled(segments[seg_id].points_m, k), crowd=len(circuits), key=seg_id
+                    _scaled(segments[seg_id].points_m, k),
+                    crowd=len(per_segment[seg_id]),
+                    key=seg_id,
                 )
             ]
             if not stretches:

@@ -126,25 +126,30 @@ def _tray_chain():
 
 
 def test_group_runs_match_connected_components():
-    """Runs = connected components (networkx) of shared segments that touch end to end and
-    carry the same circuits."""
+    """Runs = connected components (networkx) of shared segments that meet end to end at a
+    point where exactly two shared segments end (a run goes on while circuits peel off;
+    it stops where shared routes branch)."""
     segs, per_seg = _tray_chain()
     g = nx.Graph()
     shared = [s for s, c in per_seg.items() if len(c) >= 2]
     g.add_nodes_from(shared)
+    ends = {s: {segs[s].points_m[0][:2], segs[s].points_m[-1][:2]} for s in shared}
     for a in shared:
         for b in shared:
-            ends_a = {segs[a].points_m[0][:2], segs[a].points_m[-1][:2]}
-            ends_b = {segs[b].points_m[0][:2], segs[b].points_m[-1][:2]}
-            if a < b and ends_a & ends_b and set(per_seg[a]) == set(per_seg[b]):
-                g.add_edge(a, b)
+            for point in ends[a] & ends[b]:
+                if a < b and sum(point in ends[c] for c in shared) == 2:
+                    g.add_edge(a, b)
     expected = {frozenset(c) for c in nx.connected_components(g)}
     runs = group_runs(segs, per_seg)
-    assert (
-        {frozenset(r) for r in runs}
-        == expected
-        == {frozenset({"S1", "S2"}), frozenset({"S3", "S4"})}
+    assert {frozenset(r) for r in runs} == expected == {frozenset({"S1", "S2", "S3", "S4"})}
+    # a third shared segment ending at (20, 0) is a branch: the run splits there
+    segs["S7"] = RouteSegment(
+        "S7", ("S7",), "ROUTE-TRAY", "tray", "E", 10.0, ((20.0, 0.0, 0.0), (20.0, -10.0, 0.0))
     )
+    per_seg["S7"] = ("A", "D")
+    assert {frozenset(r) for r in group_runs(segs, per_seg)} == {
+        frozenset({"S1", "S2"}), frozenset({"S3", "S4"}), frozenset({"S7"})
+    }
 
 
 def test_every_shared_segment_is_named_on_a_group_tag(tmp_path):
@@ -173,7 +178,7 @@ def test_every_shared_segment_is_named_on_a_group_tag(tmp_path):
             )
         )
     summary = write_annotated_dxf(src, tmp_path / "o.dxf", outs, segs, per_seg, {}, 1.0)
-    assert summary.group_tags == 2
+    assert summary.group_tags == 1  # S1-S4 are one run (see the test above)
     tags = [
         e.plain_text()
         for e in ezdxf.readfile(tmp_path / "o.dxf").modelspace().query("MTEXT")
