@@ -203,7 +203,7 @@ class AnnotateConfig:
     avoid_symbols: bool = True
     symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
-    crowd_fraction: float | None = 0.15
+    crowd_fraction: float | None = 0.25
 
 
 @dataclass(frozen=True)
@@ -294,7 +294,7 @@ def crowded_text_height_m(
     width_m: float,
     height_m: float,
     *,
-    fraction: float = 0.15,
+    fraction: float = 0.25,
     paper_text_height_mm: float = 2.5,
     min_m: float = 0.002,
 ) -> float:
