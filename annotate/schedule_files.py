@@ -12,7 +12,8 @@ References
 ----------
 .. [1] RFC 4180, "Common Format and MIME Type for Comma-Separated Values (CSV) Files".
 .. [2] openpyxl documentation: ``Workbook``, ``Worksheet.freeze_panes``,
-   ``column_dimensions``.
+   ``column_dimensions``, "Write-only mode" (``Workbook(write_only=True)``,
+   ``WriteOnlyCell``).
 """
 
 from __future__ import annotations
@@ -117,26 +118,37 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     numbers stored as numbers, columns wide enough for their contents.
     """
     from openpyxl import Workbook
+    from openpyxl.cell import WriteOnlyCell
     from openpyxl.styles import Alignment, Font
     from openpyxl.utils import get_column_letter
 
-    wb = Workbook()
-    ws = wb.active
-    ws.title = "schedule"
-    ws.append(list(HEADERS))
-    for cell in ws[1]:
-        cell.font = Font(bold=True)
-        cell.alignment = Alignment(wrap_text=False, vertical="center")
+    # write-only mode streams the rows (time and memory linear in the rows, no
+    # cell objects kept); sheet settings go in before the first row
+    wb = Workbook(write_only=True)
+    ws = wb.create_sheet("schedule")
     rows = schedule_rows(outcomes)
-    for row in rows:
-        ws.append([row[h] for h in HEADERS])
-    ws.freeze_panes = "B2"
-    ws.auto_filter.ref = f"A1:{get_column_letter(len(HEADERS))}{len(rows) + 1}"
     for i, header in enumerate(HEADERS, start=1):
         longest = max([len(header)] + [len(_csv_cell(r[header])) for r in rows])
         ws.column_dimensions[get_column_letter(i)].width = min(60, max(8, longest + 2))
-    with atomic_path(path) as tmp:
-        wb.save(tmp)
+    ws.freeze_panes = "B2"
+    ws.auto_filter.ref = f"A1:{get_column_letter(len(HEADERS))}{len(rows) + 1}"
+    bold = Font(bold=True)
+    middle = Alignment(wrap_text=False, vertical="center")
+    head = []
+    for header in HEADERS:
+        cell = WriteOnlyCell(ws, value=header)
+        cell.font = bold
+        cell.alignment = middle
+        head.append(cell)
+    ws.append(head)
+    for row in rows:
+        ws.append([row[h] for h in HEADERS])
+    try:
+        with atomic_path(path) as tmp:
+            wb.save(tmp)
+    finally:
+        if not ws.closed:  # saving failed early: end the sheet's row stream and temp file
+            ws.close()
     return Path(path)
 
 
