@@ -9,12 +9,16 @@ one's peak memory is its own:
   schedule, routing, grouping, sizing (``size_measurement``, grouping rounds
   included), the sizing engine alone (``size_circuit`` over prepared specs),
   and each output (annotated DXF, schedule csv / xlsx / json, preview PNG,
-  HTML report);
+  HTML report), the way ``size`` runs them: the document parsed by ``read_dxf``
+  is annotated in memory and the preview is drawn from it (no second parse);
 * ``whole``: the ``cablewright size`` command's own function
   (``commands_drawing.run_size``, console output to ``/dev/null``), once.
 
 Memory is ``resource.getrusage(RUSAGE_SELF).ru_maxrss`` of each child (peak
 resident set, KiB on Linux), not tracemalloc (which would slow the run).
+
+Times are CPU seconds of the process (``time.process_time``) beside wall seconds:
+the machine may be shared, and this code is single-threaded.
 
 Run: ``python benchmarks/bench_pipeline.py [--sizes 200 500 2000 8000] [--work DIR]
 [--json FILE]``.
@@ -63,11 +67,7 @@ class _Clock:
         self.cpu[name] = time.process_time() - c0
 
 
-#: Entities drawn for the sampled preview when the whole preview would take too long.
-PREVIEW_SAMPLE = 10_000
-
-
-def _child_stages(drawing: Path, circuits: Path, sample_preview: bool = False) -> dict:
+def _child_stages(drawing: Path, circuits: Path) -> dict:
     """Floor and every stage, timed one by one in this process."""
     import ezdxf
     from cablewright.annotate.dxf_writer import write_annotated_dxf
@@ -126,7 +126,7 @@ def _child_stages(drawing: Path, circuits: Path, sample_preview: bool = False) -
                 sources=len({r.from_tag for r in rows}))
     measurement = Measurement(str(drawing), content.units, network.segments, network.equipment,
                               rows, routes, failures, list(content.issues) + network.issues,
-                              network.graph)
+                              network.graph, source_document=content.document)
     with clock("sizing"):
         job = size_measurement(measurement, settings)
     statuses: dict[str, int] = {}
@@ -156,26 +156,22 @@ def _child_stages(drawing: Path, circuits: Path, sample_preview: bool = False) -
 
     units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
     dxf_out = out / "annotated.dxf"
+    config = _annotate_config(settings)
     with clock("out_dxf"):
-        write_annotated_dxf(drawing, dxf_out, job.outcomes, measurement.segments, job.per_segment,
-                            measurement.equipment, units_per_m, _annotate_config(settings))
+        summary = write_annotated_dxf(drawing, dxf_out, job.outcomes, measurement.segments,
+                                      job.per_segment, measurement.equipment, units_per_m, config,
+                                      document=measurement.source_document)
+    info.update(labels=summary.labels, group_tags=summary.group_tags,
+                overlapping=summary.overlapping, text_height=summary.text_height)
     with clock("out_csv"):
         write_schedule_csv(out / "schedule.csv", job.outcomes)
     with clock("out_xlsx"):
         write_schedule_xlsx(out / "schedule.xlsx", job.outcomes)
     with clock("out_json"):
         write_schedule_json(out / "schedule.json", job.outcomes)
-    if sample_preview:  # time a part of the drawing and scale by the entity count
-        total = len(ezdxf.readfile(dxf_out).modelspace())
-        with clock("out_preview"):
-            png = render_preview_png(dxf_out, max_entities=PREVIEW_SAMPLE)
-        k = total / PREVIEW_SAMPLE
-        clock.times["out_preview"] *= k
-        clock.cpu["out_preview"] *= k
-        info["preview_extrapolated_from"] = PREVIEW_SAMPLE
-    else:
-        with clock("out_preview"):
-            png = render_preview_png(dxf_out)
+    with clock("out_preview"):
+        png = render_preview_png(measurement.source_document,
+                                 lean_skip_layers=(config.schedule_layer,))
     with clock("out_report"):
         write_report_html(out / "report.html", job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION)
@@ -189,25 +185,11 @@ def _child_stages(drawing: Path, circuits: Path, sample_preview: bool = False) -
     return info
 
 
-def _child_whole(drawing: Path, circuits: Path, sample_preview: bool = False) -> dict:
-    """The ``size`` command's function, once, console output discarded.
-
-    With ``sample_preview`` the preview renders only :data:`PREVIEW_SAMPLE`
-    entities (the staged child gives the extrapolated full figure).
-    """
+def _child_whole(drawing: Path, circuits: Path) -> dict:
+    """The ``size`` command's function, once, console output discarded."""
     import argparse as ap
 
     from cablewright.commands_drawing import run_size
-
-    if sample_preview:
-        from cablewright.annotate import preview
-
-        full = preview.render_preview_png
-
-        def sampled(path, **kw):
-            return full(path, max_entities=PREVIEW_SAMPLE)
-
-        preview.render_preview_png = sampled
 
     out = Path(tempfile.mkdtemp(prefix="cw-bench-whole-"))
     args = ap.Namespace(drawing=str(drawing), circuits=str(circuits), config=None, out=str(out),
@@ -224,11 +206,9 @@ def _child_whole(drawing: Path, circuits: Path, sample_preview: bool = False) ->
     return {"whole_s": elapsed, "whole_cpu_s": cpu, "exit_code": code, "written": written, "maxrss_mib": _maxrss_mib()}
 
 
-def _run_child(kind: str, drawing: Path, circuits: Path, sample_preview: bool) -> dict:
+def _run_child(kind: str, drawing: Path, circuits: Path) -> dict:
     cmd = [sys.executable, str(Path(__file__).resolve()), "--child", kind,
            "--drawing", str(drawing), "--schedule", str(circuits)]
-    if sample_preview:
-        cmd.append("--sample-preview")
     proc = subprocess.run(cmd, capture_output=True, text=True, check=False)
     if proc.returncode != 0:
         raise RuntimeError(f"{kind} child failed on {drawing}:\n{proc.stderr[-4000:]}")
@@ -263,9 +243,8 @@ def _print_size(n: int, res: dict) -> None:
     print(f"  whole size run: {res['whole_s']:.2f} s wall, {res['whole_cpu_s']:.2f} s cpu = "
           f"{res['whole_cpu_s'] / floor_cpu:.2f} x floor (cpu); exit {res['exit_code']}; "
           f"wrote {', '.join(res['written'])}")
-    if res.get("whole_sampled_preview"):
-        print(f"  NOTE: preview timed on {PREVIEW_SAMPLE} entities and scaled; the whole run above "
-              "drew the same sample (add the scaled preview minus the sample for a full run)")
+    print(f"  labels {res['labels']}, group tags {res['group_tags']}, overlapping {res['overlapping']}, "
+          f"text height {res['text_height']:g} drawing units")
     print(f"  peak RSS (ru_maxrss): size run {res['whole_maxrss_mib']:.0f} MiB, "
           f"staged child {res['maxrss_mib']:.0f} MiB")
 
@@ -277,10 +256,6 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--work", default=str(Path(tempfile.gettempdir()) / "cablewright-bench"))
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--json", dest="json_out", default=None, help="also write the figures here")
-    parser.add_argument("--full-preview-up-to", type=int, default=500,
-                        help="above this many circuits the preview is timed on a sample of "
-                             f"{PREVIEW_SAMPLE} entities and scaled (default 500)")
-    parser.add_argument("--sample-preview", action="store_true", help=argparse.SUPPRESS)
     parser.add_argument("--child", choices=("stages", "whole"), help=argparse.SUPPRESS)
     parser.add_argument("--drawing", help=argparse.SUPPRESS)
     parser.add_argument("--schedule", help=argparse.SUPPRESS)
@@ -289,7 +264,7 @@ def main(argv: list[str] | None = None) -> int:
 
     if args.child:
         fn = _child_stages if args.child == "stages" else _child_whole
-        print(json.dumps(fn(Path(args.drawing), Path(args.schedule), args.sample_preview)))
+        print(json.dumps(fn(Path(args.drawing), Path(args.schedule))))
         return 0
 
     from generate_plant import generate_plant
@@ -303,10 +278,10 @@ def main(argv: list[str] | None = None) -> int:
             t0 = time.perf_counter()
             generate_plant(work, circuits=n, seed=args.seed)
             print(f"generated {drawing} in {time.perf_counter() - t0:.1f} s", file=sys.stderr)
-        sample = n > args.full_preview_up_to
-        res = _run_child("stages", drawing, schedule, sample)
-        whole = _run_child("whole", drawing, schedule, sample)
-        res.update(whole_sampled_preview=sample, whole_s=whole["whole_s"], whole_cpu_s=whole["whole_cpu_s"], exit_code=whole["exit_code"], written=whole["written"],
+        res = _run_child("stages", drawing, schedule)
+        whole = _run_child("whole", drawing, schedule)
+        res.update(whole_s=whole["whole_s"], whole_cpu_s=whole["whole_cpu_s"],
+                   exit_code=whole["exit_code"], written=whole["written"],
                    whole_maxrss_mib=whole["maxrss_mib"])
         results[str(n)] = res
         _print_size(n, res)
