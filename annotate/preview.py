@@ -73,6 +73,13 @@ class BatchingBackend(MatplotlibBackend):
     def __init__(self, ax: Any) -> None:
         super().__init__(ax, adjust_figure=False)
         self._batches: dict[tuple, list] = {}
+        self._in_text = 0
+
+    def enter_entity(self, entity: Any, properties: Any) -> None:
+        self._in_text += entity.dxftype() in _TEXTS
+
+    def exit_entity(self, entity: Any) -> None:
+        self._in_text -= entity.dxftype() in _TEXTS
 
     def _batch(self, kind: str, *style: object) -> list:
         key = (kind, *style)
@@ -110,8 +117,12 @@ class BatchingBackend(MatplotlibBackend):
     def draw_filled_paths(self, paths: Iterable[Any], properties: Any) -> None:
         from ezdxf.npshapes import to_matplotlib_path
 
+        # glyph outlines keep the font's contour directions (TrueType: outer and
+        # inner contours turn opposite ways), which matplotlib's non-zero winding
+        # fill needs for holes; only other shapes (hatches) are sorted into outer
+        # paths and holes, which costs more than the rest of a text
         try:
-            mpl_path = to_matplotlib_path(paths, detect_holes=True)
+            mpl_path = to_matplotlib_path(paths, detect_holes=self._in_text <= 0)
         except ValueError as exc:  # an empty or degenerate outline
             log.debug("filled path not drawn: %s", exc)
             return
