@@ -227,6 +227,7 @@ def render_preview_png(
     route_layers: Iterable[str] = tuple(DEFAULT_ROUTE_LAYERS),
     our_layer_prefix: str = "CW-",
     lean_skip_layers: Iterable[str] = ("CW-SCHEDULE",),
+    keep_layers: Iterable[str] = (),
 ) -> bytes:
     """Render the modelspace of a DXF drawing to PNG bytes.
 
@@ -268,6 +269,9 @@ def render_preview_png(
         Layers left out of a large drawing's preview although ours: by default
         the schedule table, which on a big job is far larger than the plant
         (it is in ``schedule.csv`` / ``.xlsx`` and the report).
+    keep_layers : iterable of str
+        More layers drawn on a large drawing like ours (the layers the
+        annotated drawing really used, when they were renamed in the config).
 
     Returns
     -------
@@ -296,6 +300,7 @@ def render_preview_png(
     only = None if only_layers is None else {layer.upper() for layer in only_layers}
     ours = our_layer_prefix.upper()
     routes = {layer.upper() for layer in route_layers}
+    kept = {layer.upper() for layer in keep_layers}
     lean = len(msp) > detail_limit
     if lean:
         skip |= {layer.upper() for layer in lean_skip_layers}
@@ -304,7 +309,7 @@ def render_preview_png(
         layer = entity.dxf.get("layer", "0").upper()
         if layer in skip or (only is not None and layer not in only):
             return False
-        if not lean or layer.startswith(ours):
+        if not lean or layer.startswith(ours) or layer in kept:
             return True
         t = entity.dxftype()
         if t == "INSERT":  # an equipment symbol carries attributes (its tag)
@@ -343,8 +348,10 @@ def render_preview_png(
         # the drawing's own attributes (inside the symbols) are not drawn; the
         # document is not changed (a property override, not the attribute flags)
         def hide_their_text(entity: Any, properties: Any) -> None:
-            if entity.dxftype() in _TEXTS and not properties.layer.upper().startswith(ours):
-                properties.is_visible = False
+            if entity.dxftype() in _TEXTS:
+                layer = properties.layer.upper()
+                if not (layer.startswith(ours) or layer in kept):
+                    properties.is_visible = False
 
         frontend.push_property_override_function(hide_their_text)
     keep = {id(e) for e in chosen}

@@ -92,13 +92,17 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                                        "check the path or re-export it") from exc
         # our marks are added to the document in memory and it is saved under the
         # output name only; the preview is drawn from the same annotated document
-        write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes, measurement.segments,
-                            job.per_segment, measurement.equipment, units_per_m, config,
-                            document=document)
+        summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
+                                      measurement.segments, job.per_segment,
+                                      measurement.equipment, units_per_m, config,
+                                      document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
         write_schedule_xlsx(stage / names["xlsx"], job.outcomes)
         write_schedule_json(stage / names["json"], job.outcomes)
-        png = render_preview_png(document, lean_skip_layers=(config.schedule_layer,))
+        ours = dict(summary.layers)
+        schedule_layer = ours.pop("schedule", config.schedule_layer)
+        png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
+                                 keep_layers=tuple(ours.values()))
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION)

@@ -67,3 +67,19 @@ def test_preview_from_the_document_in_memory(tmp_path):
     assert Counter((e.dxftype(), e.dxf.layer) for e in doc.modelspace()) == before
     # the drawing's attributes are hidden in the picture only, not in the document
     assert [a.dxf.get("flags", 0) for ins in doc.modelspace().query("INSERT") for a in ins.attribs] == flags
+
+
+def test_large_drawing_preview_keeps_renamed_mark_layers(tmp_path):
+    """On a large drawing a layer outside the kept set is left out, one in ``keep_layers``
+    drawn: the two pictures differ (compared pixel by pixel with Pillow)."""
+    import io
+
+    from PIL import Image, ImageChops
+
+    doc = ezdxf.readfile(make_drawing(tmp_path / "in.dxf"))
+    doc.modelspace().add_line((0, 0), (40_000, 20_000), dxfattribs={"layer": "E-LABELS", "color": 1})
+    kw = {"dpi": 40, "detail_limit": 1, "max_texts": 0}
+    without = Image.open(io.BytesIO(render_preview_png(doc, **kw))).convert("RGB")
+    kept = Image.open(io.BytesIO(render_preview_png(doc, keep_layers=("E-LABELS",), **kw)))
+    assert without.size == kept.size
+    assert ImageChops.difference(without, kept.convert("RGB")).getbbox() is not None
