@@ -1,7 +1,8 @@
 """Route every circuit over the network: shortest path by length.
 
-One shortest-path tree is grown per source tag (``networkx.single_source_dijkstra``)
-and every circuit from that source reads its path from the tree; circuits with a
+One shortest-path tree is grown per source tag (Dijkstra in networkx's order,
+stopped once the source's loads are reached) and every circuit from that source
+reads its path from the tree; circuits with a
 ``via`` are routed leg by leg.  A circuit that cannot be routed gets a one-line
 message and never stops the others.
 """
@@ -12,13 +13,15 @@ import difflib
 import logging
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
+from heapq import heappop, heappush
+from itertools import count
 
 import networkx as nx
 
 from .model import CircuitRoute, DrawingConfig, Point3, ScheduleRow
 from .network import Network, equipment_node
 
-__all__ = ["route_circuits", "design_length_m", "WEIGHT"]
+__all__ = ["route_circuits", "design_length_m", "shortest_path_tree", "path_from_tree", "WEIGHT"]
 
 logger = logging.getLogger(__name__)
 
@@ -111,13 +114,86 @@ def _via_nodes(network: Network, via: str, where: str) -> list[tuple[str, ...]]:
     return options
 
 
+def shortest_path_tree(
+    g: nx.Graph, source: str, targets: Iterable[str] | None = None, weight: str = WEIGHT
+) -> tuple[dict[str, float], dict[str, list[str]]]:
+    """Dijkstra from ``source``, stopping once every target is settled.
+
+    The search visits nodes in exactly the order of networkx's
+    ``single_source_dijkstra`` (same heap keys, same tie-breaking counter, same
+    adjacency order), so the path read back through the first predecessor of
+    each node is the path networkx returns; it only stops early, which keeps
+    one tree per source local to the part of the plant the source feeds.
+
+    Parameters
+    ----------
+    g : networkx.Graph
+        Route network; ``weight`` is the edge attribute holding the length [m].
+    source : str
+        Start node.
+    targets : iterable of str, optional
+        Nodes whose distances are wanted; ``None`` settles every reachable node.
+    weight : str
+        Edge attribute used as the length.
+
+    Returns
+    -------
+    dist : dict
+        Node -> shortest distance, for every settled node.
+    pred : dict
+        Node -> predecessors on shortest paths; the first one gives networkx's path.
+
+    References
+    ----------
+    .. [1] networkx ``algorithms/shortest_paths/weighted.py``, ``_dijkstra_multisource``
+       (the search order reproduced here).
+    """
+    adj = g._adj
+    remaining = None if targets is None else set(targets) - {source}
+    dist: dict[str, float] = {}
+    seen: dict[str, float] = {source: 0}
+    pred: dict[str, list[str]] = {source: []}
+    counter = count()
+    fringe: list[tuple[float, int, str]] = [(0, next(counter), source)]
+    while fringe:
+        d, _, v = heappop(fringe)
+        if v in dist:
+            continue
+        dist[v] = d
+        if remaining is not None:
+            remaining.discard(v)
+            if not remaining:
+                break
+        for u, data in adj[v].items():
+            vu = d + data.get(weight, 1)
+            if u in dist:
+                if vu == dist[u]:
+                    pred[u].append(v)
+            elif u not in seen or vu < seen[u]:
+                seen[u] = vu
+                heappush(fringe, (vu, next(counter), u))
+                pred[u] = [v]
+            elif vu == seen[u]:
+                pred[u].append(v)
+    return dist, pred
+
+
+def path_from_tree(pred: dict[str, list[str]], node: str) -> list[str]:
+    """Node path from the tree's source to ``node`` through first predecessors."""
+    path = [node]
+    while pred[node]:
+        node = pred[node][0]
+        path.append(node)
+    path.reverse()
+    return path
+
+
 def _leg(g: nx.Graph, a: str, b: str, cache: dict) -> tuple[float, list[str]]:
-    """Shortest path a -> b, reusing a cached single-source tree from a when there is one."""
+    """Shortest path a -> b, reusing a cached shortest-path tree from a when it reached b."""
     if a in cache:
-        dist, paths = cache[a]
+        dist, pred = cache[a]
         if b in dist:
-            return dist[b], paths[b]
-        raise nx.NetworkXNoPath(f"no path {a} -> {b}")
+            return dist[b], path_from_tree(pred, b)
     return nx.single_source_dijkstra(g, a, b, weight=WEIGHT)
 
 
@@ -186,7 +262,9 @@ def route_circuits(
 
     Notes
     -----
-    One ``single_source_dijkstra`` per distinct source tag: O(S (E + V log V)).
+    One shortest-path tree per distinct source tag, grown only until the source's
+    loads are settled: at most O(S (E + V log V)), in practice the part of the
+    plant each source feeds.
 
     References
     ----------
@@ -223,8 +301,10 @@ def route_circuits(
     cache: dict[str, tuple[dict, dict]] = {}
     for src_tag in sorted(by_source):
         src = equipment_node(src_tag)
-        dist, paths = nx.single_source_dijkstra(g, src, weight=WEIGHT)
-        cache = {src: (dist, paths)}
+        wanted = {equipment_node(r.to_tag) for r in by_source[src_tag] if not r.get("via")}
+        has_via = any(r.get("via") for r in by_source[src_tag])
+        dist, pred = shortest_path_tree(g, src, None if has_via else wanted)
+        cache = {src: (dist, pred)}
         for row in by_source[src_tag]:
             dst = equipment_node(row.to_tag)
             where = f"{row.where}: circuit {row.circuit_id}"
@@ -234,9 +314,9 @@ def route_circuits(
                     vias = [v.strip() for v in via_text.replace(",", ";").split(";") if v.strip()]
                     path = _route_via(network, src, dst, vias, where, cache)
                 else:
-                    if dst not in paths:
+                    if dst not in dist:
                         raise nx.NetworkXNoPath(where)
-                    path = paths[dst]
+                    path = path_from_tree(pred, dst)
             except nx.NetworkXNoPath:
                 failures[row.circuit_id] = (
                     f"{where}: no route joins {row.from_tag} to {row.to_tag}; "

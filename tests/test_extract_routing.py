@@ -56,11 +56,14 @@ def test_one_tree_per_source_matches_networkx_shortest_path(monkeypatch):
         for src in (0, 1):
             rows.append(ScheduleRow("t.csv", len(rows) + 2, f"C{src}-{k}", f"E{src}", f"E{k}"))
     calls = []
-    real = nx.single_source_dijkstra
-    monkeypatch.setattr(nx, "single_source_dijkstra", lambda *a, **k: calls.append(a[1]) or real(*a, **k))
+    import cablewright.extract.routing as routing
+
+    real = routing.shortest_path_tree
+    monkeypatch.setattr(routing, "shortest_path_tree", lambda *a, **k: calls.append(a[1]) or real(*a, **k))
     net = build_network(pieces, equipment)
     routes, failures = route_circuits(net, rows)
     assert len(calls) == 2  # one shortest-path tree per source
+    assert all(c.startswith("EQ:") for c in calls)
     for row in rows:
         a, b = chosen[int(row.from_tag[1:])], chosen[int(row.to_tag[1:])]
         if not nx.has_path(ref, a, b):
@@ -202,3 +205,22 @@ def test_rows_from_equipment_attributes():
     assert [(r.circuit_id, r.from_tag, r.to_tag, r.get("load")) for r in rows] == [("C1", "MCC-1", "P-1", "5 kW")]
     with pytest.raises(ScheduleError):
         rows_from_equipment(eq[1:])
+
+
+def test_early_stopped_tree_gives_networkx_paths_and_lengths():
+    # The tree stops once its targets are settled; distances and paths to them must be
+    # those of networkx's single_source_dijkstra on the same graph (ties included).
+    from cablewright.extract.routing import path_from_tree, shortest_path_tree
+
+    rng = random.Random(11)
+    g = nx.grid_2d_graph(12, 12)
+    g = nx.relabel_nodes(g, {n: f"N{n[0]}_{n[1]}" for n in g})
+    for u, v in g.edges:
+        g.edges[u, v]["length_m"] = rng.choice((1.0, 1.0, 2.0, 3.0))  # many equal-length ties
+    dist_all, paths_all = nx.single_source_dijkstra(g, "N0_0", weight="length_m")
+    targets = rng.sample(sorted(g.nodes), 10)
+    dist, pred = shortest_path_tree(g, "N0_0", targets)
+    assert len(dist) < len(dist_all)  # it did stop early
+    for t in targets:
+        assert dist[t] == dist_all[t]
+        assert path_from_tree(pred, t) == paths_all[t]
