@@ -3,13 +3,12 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from collections.abc import Callable
 from contextlib import contextmanager
 from pathlib import Path
 
-from cablewright.annotate.jsonout import document
+from cablewright.annotate.jsonout import dumps
 from cablewright.annotate.model import CircuitOutcome
 
 from .config import load_settings
@@ -65,7 +64,7 @@ def run_routes(args: argparse.Namespace) -> int:
     _issues(measurement)
     _report_errors(outcomes)
     if args.json:
-        print(json.dumps(document(outcomes, kind="routes"), indent=2, ensure_ascii=False))
+        print(dumps(outcomes, kind="routes"))
     else:
         rows = []
         for o in outcomes:
@@ -102,7 +101,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
     written = write_outputs(job, drawing, out_dir, settings, quiet=args.json)
     _report_errors(job.outcomes)
     if args.json:
-        print(json.dumps(document(job.outcomes, kind="size"), indent=2, ensure_ascii=False))
+        print(dumps(job.outcomes, kind="size"))
     else:
         rows = []
         for o in job.outcomes:
