@@ -178,10 +178,14 @@ def shortest_path_tree(
     return dist, pred
 
 
-def path_from_tree(pred: dict[str, list[str]], node: str) -> list[str]:
-    """Node path from the tree's source to ``node`` through first predecessors."""
+def path_from_tree(pred: dict[str, list[str]], node: str, source: str) -> list[str]:
+    """Node path from ``source`` to ``node`` through first predecessors.
+
+    The walk ends at ``source``: a zero-length edge back to the source adds
+    an equal-distance predecessor to it, which the path must not follow.
+    """
     path = [node]
-    while pred[node]:
+    while node != source:
         node = pred[node][0]
         path.append(node)
     path.reverse()
@@ -193,7 +197,7 @@ def _leg(g: nx.Graph, a: str, b: str, cache: dict) -> tuple[float, list[str]]:
     if a in cache:
         dist, pred = cache[a]
         if b in dist:
-            return dist[b], path_from_tree(pred, b)
+            return dist[b], path_from_tree(pred, b, a)
     return nx.single_source_dijkstra(g, a, b, weight=WEIGHT)
 
 
@@ -316,7 +320,7 @@ def route_circuits(
                 else:
                     if dst not in dist:
                         raise nx.NetworkXNoPath(where)
-                    path = path_from_tree(pred, dst)
+                    path = path_from_tree(pred, dst, src)
             except nx.NetworkXNoPath:
                 failures[row.circuit_id] = (
                     f"{where}: no route joins {row.from_tag} to {row.to_tag}; "

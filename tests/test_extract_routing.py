@@ -223,4 +223,15 @@ def test_early_stopped_tree_gives_networkx_paths_and_lengths():
     assert len(dist) < len(dist_all)  # it did stop early
     for t in targets:
         assert dist[t] == dist_all[t]
-        assert path_from_tree(pred, t) == paths_all[t]
+        assert path_from_tree(pred, t, "N0_0") == paths_all[t]
+
+
+def test_zero_length_edge_back_to_the_source_is_not_followed():
+    from cablewright.extract.routing import path_from_tree, shortest_path_tree
+
+    g = nx.Graph()
+    g.add_edge("S", "A", length_m=0.0)  # a zero-length joint at the source
+    g.add_edge("A", "B", length_m=5.0)
+    dist, pred = shortest_path_tree(g, "S", ["B"])
+    assert path_from_tree(pred, "B", "S") == nx.shortest_path(g, "S", "B", weight="length_m")
+    assert dist["B"] == 5.0
