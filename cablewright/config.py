@@ -30,12 +30,13 @@ class Settings:
     routes: dict[str, Any] = field(default_factory=dict)
     sizing: SizingConfig = field(default_factory=SizingConfig)
     annotate: dict[str, Any] = field(default_factory=dict)
+    ifc: dict[str, Any] = field(default_factory=dict)
     source: str = "defaults"
 
 
 _SIZING_KEYS = {f.name for f in dataclasses.fields(SizingConfig)}
 _ENV_KEYS = {"ambient_air_c", "ground_c", "soil_resistivity_k_m_w", "depth_m"}
-_SECTIONS = {"drawing", "routes", "sizing", "environment", "annotate"}
+_SECTIONS = {"drawing", "routes", "sizing", "environment", "annotate", "ifc"}
 
 
 _DEFAULTS = {f.name: getattr(SizingConfig(), f.name) for f in dataclasses.fields(SizingConfig)}
@@ -115,5 +116,6 @@ def load_settings(path: str | Path | None = None) -> Settings:
     settings.drawing = dict(data.get("drawing", {}))
     settings.routes = dict(data.get("routes", {}))
     settings.annotate = dict(data.get("annotate", {}))
+    settings.ifc = dict(data.get("ifc", {}))
     settings.source = str(path)
     return settings

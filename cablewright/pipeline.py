@@ -27,6 +27,7 @@ from .config import Settings
 __all__ = [
     "JobResult",
     "drawing_config",
+    "ifc_config",
     "measure_drawing",
     "route_outcomes",
     "size_measurement",
@@ -89,7 +90,27 @@ def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: 
     """Extract the network and equipment and route every circuit of the schedule."""
     from cablewright.extract import measure
 
-    return measure(drawing, circuits, drawing_config(settings, recover))
+    ifc = ifc_config(settings) if str(drawing).lower().endswith(".ifc") else None
+    return measure(drawing, circuits, drawing_config(settings, recover), ifc)
+
+
+def ifc_config(settings: Settings):
+    """The IFC reader's config from the ``[ifc]`` section (lists become tuples)."""
+    from dataclasses import fields
+
+    from cablewright.extract.errors import ConfigError
+    from cablewright.extract.ifc_reader import IfcConfig
+
+    known = {f.name: f for f in fields(IfcConfig)}
+    values = {}
+    for key, value in settings.ifc.items():
+        if key not in known:
+            raise ConfigError(f"{settings.source}: unknown key {key!r} in [ifc]; known: {', '.join(sorted(known))}")
+        values[key] = tuple(value) if isinstance(value, list) else value
+    try:
+        return IfcConfig(**values)
+    except (TypeError, ValueError) as exc:
+        raise ConfigError(f"{settings.source}: [ifc] {exc}") from exc
 
 
 def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None = None

@@ -10,6 +10,7 @@ from __future__ import annotations
 import logging
 import os
 from pathlib import Path
+from typing import Any
 
 from .dxf_reader import DxfContent, read_dxf
 from .errors import DrawingReadError
@@ -57,6 +58,7 @@ def measure(
     drawing_path: str | os.PathLike[str],
     schedule_path: str | os.PathLike[str] | None = None,
     config: DrawingConfig | None = None,
+    ifc_config: Any = None,
 ) -> Measurement:
     """Read a drawing and a schedule, build the network and route every circuit.
 
@@ -70,6 +72,8 @@ def measure(
         equipment blocks' attributes (contract.md, ``--circuits``).
     config : DrawingConfig, optional
         Drawing conventions; defaults from contract.md.
+    ifc_config : IfcConfig, optional
+        How an IFC model is read (:class:`~cablewright.extract.ifc_reader.IfcConfig`).
 
     Returns
     -------
@@ -98,7 +102,7 @@ def measure(
     elif suffix == ".ifc":
         from .ifc_reader import measure_ifc  # ifcopenshell only when an IFC model is given
 
-        return measure_ifc(p, schedule_path, config)
+        return measure_ifc(p, schedule_path, config, ifc_config)
     else:
         raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
     network = build_network(polylines, equipment, config)
