@@ -51,6 +51,22 @@ def _get(*keys: str) -> Callable[[dict[str, Any]], Any]:
 
 
 #: Column header -> how to read it from the circuit's JSON object.
+def _cable_text(cable: dict[str, Any] | None) -> str | None:
+    """The cable as the installer orders it, e.g. ``"2x 4C 240 mm² Cu/XLPE"``."""
+    if not cable:
+        return None
+    lead = f"{cable['parallel']}x " if cable["parallel"] > 1 else ""
+    return f"{lead}{cable['cores']}C {cable['csa_mm2']:g} mm² {cable['conductor']}/{cable['insulation']}"
+
+
+def _order_length(data: dict[str, Any]) -> float | None:
+    """Design length times the parallel count [m]: the cable to order for the circuit."""
+    route, cable = data.get("route"), data.get("cable")
+    if not route or not cable or route.get("design_length_m") is None:
+        return None
+    return round(route["design_length_m"] * cable["parallel"], 1)
+
+
 COLUMNS: tuple[tuple[str, Callable[[dict[str, Any]], Any]], ...] = (
     ("circuit", _get("id")),
     ("from", _get("from")),
@@ -73,8 +89,13 @@ COLUMNS: tuple[tuple[str, Callable[[dict[str, Any]], Any]], ...] = (
     ("parallel", _get("cable", "parallel")),
     ("capacity [A]", _get("cable", "capacity_a")),
     ("governed by", _get("cable", "governed_by")),
+    ("cable", lambda d: _cable_text(d.get("cable"))),
+    ("protective conductor [mm²]", _get("protective_conductor_mm2")),
+    ("cable to order [m]", lambda d: _order_length(d)),
     ("voltage drop [%]", _get("voltage_drop", "percent")),
+    ("vd from origin [%]", _get("voltage_drop", "cumulative_percent")),
     ("vd limit [%]", _get("voltage_drop", "limit_percent")),
+    ("max length for disconnection [m]", _get("max_length_m")),
     ("messages", lambda d: "; ".join(d.get("messages") or ())),
 )
 

@@ -33,6 +33,10 @@ NUMERIC = {
     "capacity [A]",
     "voltage drop [%]",
     "vd limit [%]",
+    "protective conductor [mm²]",
+    "cable to order [m]",
+    "vd from origin [%]",
+    "max length for disconnection [m]",
 }
 
 
@@ -91,6 +95,9 @@ def test_values_are_the_circuits_values(tmp_path):
     # 400 A / (1.0 x 0.82) = 487.8 A required (IEC 60364-4-43 433.1: Iz >= In)
     assert p101["required capacity [A]"] == pytest.approx(400 / 0.82, abs=0.05)
     assert csv_rows[1]["messages"] == "motor start not checked"
+    # what the installer orders: 2 parallel cables over the 72.2 m design length
+    assert p101["cable"] == "2x 4C 150 mm² Cu/XLPE"
+    assert p101["cable to order [m]"] == pytest.approx(2 * 72.2)
     err = xlsx_rows[2]
     assert err["status"] == "error" and err["csa [mm²]"] is None
     assert "unknown tag PUMP-9" in err["messages"]
