@@ -35,6 +35,27 @@ def _progress(total: int, quiet: bool, label: str):
         yield bar.update
 
 
+@contextmanager
+def _stages(quiet: bool):
+    """A stage bar on a terminal (stderr): which step of the job is running."""
+    if quiet or not sys.stderr.isatty():
+        yield lambda label: None
+        return
+    from tqdm import tqdm
+
+    with tqdm(total=3, file=sys.stderr, leave=False, bar_format="{desc} [{n_fmt}/{total_fmt}, {elapsed}]") as bar:
+        started = False
+
+        def stage(label: str) -> None:
+            nonlocal started
+            if started:
+                bar.update(1)
+            started = True
+            bar.set_description_str(label)
+
+        yield stage
+
+
 def _exit_code(outcomes: list[CircuitOutcome], passing: tuple[str, ...]) -> int:
     return 0 if all(o.status in passing for o in outcomes) else 1
 
@@ -93,12 +114,16 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         return run_batch(args)
     settings = load_settings(args.config)
     drawing = Path(args.drawing)
-    measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+    with _stages(args.json) as stage:
+        stage(f"reading and routing {drawing.name}")
+        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+        stage("sizing")
+        with _progress(len(measurement.rows), args.json, "sizing") as tick:
+            job = size_measurement(measurement, settings, tick)
+        stage("writing the annotated drawing, schedule and report")
+        out_dir = Path(args.out) if args.out else _default_out(drawing)
+        written = write_outputs(job, drawing, out_dir, settings, quiet=args.json)
     _issues(measurement)
-    with _progress(len(measurement.rows), args.json, "sizing") as tick:
-        job = size_measurement(measurement, settings, tick)
-    out_dir = Path(args.out) if args.out else _default_out(drawing)
-    written = write_outputs(job, drawing, out_dir, settings, quiet=args.json)
     _report_errors(job.outcomes)
     if args.json:
         print(dumps(job.outcomes, kind="size"))
