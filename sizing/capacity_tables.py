@@ -24,20 +24,20 @@ key            loaded cond.      column of the printed table
 
 Where the values come from
 --------------------------
-No copy of the standard itself was available.  Values were transcribed from
+No copy of the standard itself was available.  Values were copied from
 public reproductions and cross-checked cell by cell (see ``provenance`` of each
 constant and tests/test_capacity_tables.py):
 
-* B.52.2 to B.52.5: two independent public transcriptions of
+* B.52.2 to B.52.5: two independent public reproductions of
   IEC 60364-5-52:2009 Annex B (a row-wise copy of all four tables, copper and
   aluminium; a column-wise copy of the same).  They differ in two cells, both
   settled here: B.52.4 copper A1 240 mm² (286, the other copy's 266 breaks the
   monotony of the column) and B.52.5 aluminium D2 (one copy repeats the D1
   column; the copy with distinct values is used).  Aluminium D2 has no value
   below 16 mm² in one copy; the other fills 6 and 10 mm² with the D1 values,
-  taken here as a transcription artefact (no value, so no lookup).  Copper
+  taken here as a copying error (no value, so no lookup).  Copper
   B.52.2 to B.52.5 was also checked against a third public copy.
-* B.52.10 to B.52.13: a public transcription of TCVN 7447-5-52:2010, the
+* B.52.10 to B.52.13: a public reproduction of TCVN 7447-5-52:2010, the
   Vietnamese identical adoption of IEC 60364-5-52:2009.  Copper (B.52.10,
   B.52.12) cross-checked against the equivalent copper tables of NBR 5410
   (methods E, F, G); aluminium (B.52.11, B.52.13) column "E" three loaded
@@ -180,16 +180,16 @@ _EFG = ("E", "E", "F", "F", "F_flat", "G", "G_vertical")
 _EFG_LOADED = (2, 3, 2, 3, 3, 3, 3)
 
 _PROV_ABCD = (
-    "Two public transcriptions of IEC 60364-5-52:2009 Annex B compared cell by cell; "
+    "Two public reproductions of IEC 60364-5-52:2009 Annex B compared cell by cell; "
     "all cells agree except where noted in the module docstring."
 )
 _PROV_EFG_CU = (
-    "Public transcription of TCVN 7447-5-52:2010 (identical adoption of "
+    "Public reproduction of TCVN 7447-5-52:2010 (identical adoption of "
     "IEC 60364-5-52:2009), cross-checked cell by cell against the equivalent "
     "copper tables of NBR 5410 (methods E, F, G)."
 )
 _PROV_EFG_AL = (
-    "Public transcription of TCVN 7447-5-52:2010 (identical adoption of "
+    "Public reproduction of TCVN 7447-5-52:2010 (identical adoption of "
     "IEC 60364-5-52:2009); column E three loaded conductors cross-checked against a "
     "second public copy, the other columns rest on this single copy."
 )
