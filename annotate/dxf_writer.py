@@ -1444,30 +1444,29 @@ def write_annotated_dxf(
         elif o.status == "error":
             tag = o.to_tag if o.to_tag in equipment else o.from_tag
             errors_by_tag[tag].append(f"{o.circuit_id}: NOT SIZED, see report")
+
+    def notes_at_equipment(by_tag: dict[str, list[str]], role: str, kind: str) -> tuple[int, int]:
+        """Place one note with a leader at each equipment; (notes placed, overlaps)."""
+        placed = overlaps = 0
+        for tag, lines in by_tag.items():
+            eq = equipment.get(tag)
+            if eq is None:
+                continue
+            x, y, z = _scaled([eq.position_m], k)[0]
+            bw, bh = w.block_box(lines)
+            place = place_near_point(index, x, y, z, bw, bh)
+            overlaps += place.overlaps
+            w.block(lines, place, role=role, kind=f"{kind}-note", ref=tag)
+            w.leader(place, z, role=role, kind=f"{kind}-leader", ref=tag)
+            placed += 1
+        return placed, overlaps
+
     if config.device_notes:
-        for tag, lines in notes_by_load.items():
-            eq = equipment.get(tag)
-            if eq is None:
-                continue
-            x, y, z = _scaled([eq.position_m], k)[0]
-            bw, bh = w.block_box(lines)
-            place = place_near_point(index, x, y, z, bw, bh)
-            overlapping += place.overlaps
-            w.block(lines, place, role="device", kind="device-note", ref=tag)
-            w.leader(place, z, role="device", kind="device-leader", ref=tag)
-            device_notes += 1
+        device_notes, extra = notes_at_equipment(notes_by_load, "device", "device")
+        overlapping += extra
     if config.error_notes:
-        for tag, lines in errors_by_tag.items():
-            eq = equipment.get(tag)
-            if eq is None:
-                continue
-            x, y, z = _scaled([eq.position_m], k)[0]
-            bw, bh = w.block_box(lines)
-            place = place_near_point(index, x, y, z, bw, bh)
-            overlapping += place.overlaps
-            w.block(lines, place, role="notes", kind="error-note", ref=tag)
-            w.leader(place, z, role="notes", kind="error-leader", ref=tag)
-            error_notes += 1
+        error_notes, extra = notes_at_equipment(errors_by_tag, "notes", "error")
+        overlapping += extra
 
     # everything placed so far widens the extents the schedule sits beside
     placed = index.bounds()

@@ -156,11 +156,6 @@ def _circuit_section(o: CircuitOutcome) -> str:
         )
     steps.append("</ol>")
     parts += steps
-    if s.steps:
-        parts.append("<h4>Calculation record</h4>")
-        parts.append(
-            _table(("step", "value", "source"), ((_e(a), _e(b), _e(c)) for a, b, c in s.steps))
-        )
     if s.checks:
         rows = [
             (

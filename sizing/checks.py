@@ -1,7 +1,8 @@
 """The engineering checks beyond ampacity, in the form the selection runs them.
 
-Each check has the ``UpsizeCheck`` signature of :mod:`.select`,
-``(spec, cand, ctx, config) -> Check``, and wraps one pure module:
+Each check is prepared once per circuit (everything that does not depend on the
+cable size), then evaluated per candidate size by the selection of
+:mod:`.select`; each wraps one pure module:
 
 =====================  ========================================  =====================
 check                  module                                    on failure
@@ -58,21 +59,12 @@ from .voltage_drop import REACTANCE_MOHM_PER_M
 if TYPE_CHECKING:  # select.py imports this module; no import cycle at run time
     from .config import SizingConfig
     from .device import DeviceSelection
-    from .select import Candidate, SizingContext
 
 __all__ = [
     "NOT_APPLICABLE",
     "not_applicable",
     "is_applicable",
     "DISCONNECTION_ADVICE",
-    "check_short_circuit",
-    "check_motor_start",
-    "check_disconnection",
-    "check_disconnection_upsize",
-    "check_protective_conductor",
-    "UPSIZE_EXTRA_CHECKS",
-    "REPORT_CHECKS",
-    "result_extras",
     "PreparedShortCircuit",
     "PreparedMotorStart",
     "PreparedProtectiveConductor",
@@ -150,7 +142,17 @@ _X_OHM_PER_M = REACTANCE_MOHM_PER_M / 1000.0
 
 
 class PreparedShortCircuit:
-    """:func:`check_short_circuit` prepared for one circuit."""
+    """Adiabatic withstand of the line conductors at the source's fault level, one circuit.
+
+    The fault current is the source's (a fault at the cable's origin gives the
+    most), the full current on each of parallel cables (conservative), for the
+    device's clearing time (schedule ``clearing_time_s`` or the config); for a
+    current-limiting device give its let-through I²t (``let_through_ka2s``,
+    maker's data) instead.  With neither, the check is reported as not made:
+    a current-limiting breaker or fuse lets through far less than the
+    prospective current for a fixed time would suggest.  In the :class:`Check`,
+    ``value`` is the least cross-section, ``limit`` the chosen one.
+    """
 
     __slots__ = ("conductor", "insulation", "fault", "t", "let_through", "error")
 
@@ -215,7 +217,7 @@ class PreparedShortCircuit:
 
 
 class PreparedMotorStart:
-    """:func:`check_motor_start` prepared for one circuit.
+    """Voltage dip at the motor terminals while starting, within the config limit, one circuit.
 
     The dip is :func:`.motor_start.starting_dip_percent` with its
     size-independent terms computed once (same operations, same order).
@@ -329,7 +331,11 @@ class PreparedProtectiveConductor:
 
 
 class PreparedDisconnection:
-    """:func:`check_disconnection` prepared for one circuit (TN, 411.4.4)."""
+    """Earth-fault disconnection in TN systems, Zs x Ia <= U0 (411.4.4), one circuit.
+
+    In the :class:`Check`, ``value`` is Zs and ``limit`` U0/Ia [Ω]; the message of
+    a failure gives the longest length that still disconnects and the advice.
+    """
 
     __slots__ = ("text", "error", "pe", "u0", "length_m", "conductor", "insulation", "kind",
                  "rating_a", "ze", "ze_source", "curve", "magnetic", "final", "vf", "tn_error",
@@ -464,7 +470,7 @@ class PreparedChecks:
         self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", False))
 
     def upsize_passes(self, name: str, csa_mm2: float, parallel: int) -> bool:
-        """The outcome of the upsize check ``name`` of :data:`UPSIZE_EXTRA_CHECKS`."""
+        """The outcome of the upsize check ``name``: short_circuit, motor_start, disconnection."""
         if name == "short_circuit":
             return self.short_circuit.passes(csa_mm2)
         if name == "motor_start":
@@ -474,8 +480,8 @@ class PreparedChecks:
         raise KeyError(name)
 
     def report(self, csa_mm2: float, parallel: int) -> list[Check]:
-        """The applicable checks of the chosen cable after voltage drop, in the order of
-        ``{**UPSIZE_EXTRA_CHECKS, **REPORT_CHECKS}``."""
+        """The applicable checks of the chosen cable after voltage drop: short circuit,
+        motor start (motors only), disconnection, protective conductor."""
         out = [self.short_circuit.check(csa_mm2)]
         motor = self.motor_start.check(csa_mm2, parallel)
         if is_applicable(motor):
@@ -485,7 +491,14 @@ class PreparedChecks:
         return out
 
     def extras(self, csa_mm2: float, parallel: int) -> dict[str, float | None]:
-        """:func:`result_extras` of the chosen cable."""
+        """Further numbers of the result (:class:`.model.SizingResult` fields).
+
+        ``protective_conductor_mm2``, ``max_length_m`` (earth-fault disconnection),
+        ``earth_fault_loop_ohm``, ``fault_current_ka_source``,
+        ``fault_current_ka_load_end`` (maximum, conductors at 20 °C, cmax),
+        ``fault_current_ka_load_end_min`` (cmin, conductors at the end-of-fault
+        temperature), ``motor_start_dip_pct``; ``None`` where not computed.
+        """
         spec, config = self.spec, self.config
         out: dict[str, float | None] = {
             "protective_conductor_mm2": None, "max_length_m": None, "earth_fault_loop_ohm": None,
@@ -517,35 +530,6 @@ class PreparedChecks:
         return out
 
 
-def _prepared(spec: CircuitSpec, ctx: SizingContext, config: SizingConfig) -> PreparedChecks:
-    return PreparedChecks(spec, config, ctx.design_current_a, ctx.device, ctx.voltage_v,
-                          ctx.conductor_temp_c)
-
-
-# --------------------------------------------------------------- short circuit
-def check_short_circuit(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                        config: SizingConfig) -> Check:
-    """Adiabatic withstand of the line conductors at the source's fault level.
-
-    The fault current is the source's (a fault at the cable's origin gives the
-    most), the full current on each of parallel cables (conservative), for the
-    device's clearing time (schedule ``clearing_time_s`` or the config); for a
-    current-limiting device give its let-through I²t (``let_through_ka2s``,
-    maker's data) instead.  With neither, the check is reported as not made:
-    a current-limiting breaker or fuse lets through far less than the
-    prospective current for a fixed time would suggest.  ``value`` is the least cross-section, ``limit`` the chosen one.
-    """
-    return PreparedShortCircuit(spec, config).check(cand.csa_mm2)
-
-
-# ----------------------------------------------------------------- motor start
-def check_motor_start(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                      config: SizingConfig) -> Check:
-    """Voltage dip at the motor terminals while starting, within the config limit."""
-    return PreparedMotorStart(spec, config, ctx.design_current_a, ctx.voltage_v,
-                              ctx.conductor_temp_c).check(cand.csa_mm2, cand.parallel)
-
-
 # --------------------------------------------------------------- disconnection
 def _earthing(spec: CircuitSpec, config: SizingConfig) -> str:
     return str(spec.extra_value("earthing", _cfg(config, "earthing", "TN"))).upper().replace("_", "-")
@@ -565,58 +549,3 @@ def _ze_ohm(spec: CircuitSpec, config: SizingConfig) -> tuple[float | None, str]
         zq = source_impedance_ohm(fault, _line_voltage(spec), _cfg(config, "c_max", 1.05))
         return 2.0 * zq, f"2 x ZQ from {fault:g} kA (common practice)"
     return 0.0, "Ze not given, 0 taken: optimistic, give ze_ohm or fault_ka"
-
-
-def check_disconnection(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                        config: SizingConfig) -> Check:
-    """Earth-fault disconnection in TN systems: Zs x Ia <= U0 (411.4.4).
-
-    ``value`` is Zs, ``limit`` U0/Ia [Ω]; the message of a failure gives the
-    longest length that still disconnects and the advice.
-    """
-    pe = PreparedProtectiveConductor(spec, config)
-    return PreparedDisconnection(spec, config, ctx.device, pe).check(cand.csa_mm2, cand.parallel)
-
-
-def check_disconnection_upsize(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                               config: SizingConfig) -> Check:
-    """The disconnection check in the upsizing loop: only when the config asks."""
-    if not _cfg(config, "disconnection_upsize", False):
-        return not_applicable("disconnection", "reported, not upsized (config disconnection_upsize)")
-    return check_disconnection(spec, cand, ctx, config)
-
-
-# -------------------------------------------------------- protective conductor
-def check_protective_conductor(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                               config: SizingConfig) -> Check:
-    """The protective conductor chosen (reported): ``value`` required, ``limit`` chosen [mm²]."""
-    return PreparedProtectiveConductor(spec, config).check(cand.csa_mm2)
-
-
-#: Checks that raise the size, in order, for :data:`.select.UPSIZE_CHECKS`.
-UPSIZE_EXTRA_CHECKS = {
-    "short_circuit": check_short_circuit,
-    "motor_start": check_motor_start,
-    "disconnection": check_disconnection_upsize,
-}
-#: Checks run on the chosen cable only (same names replace the upsize entries).
-REPORT_CHECKS = {
-    "disconnection": check_disconnection,
-    "protective_conductor": check_protective_conductor,
-}
-
-
-def result_extras(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
-                  config: SizingConfig) -> dict[str, float | None]:
-    """Further numbers of the result (new :class:`.model.SizingResult` fields).
-
-    Returns
-    -------
-    dict
-        ``protective_conductor_mm2``, ``max_length_m`` (earth-fault
-        disconnection), ``earth_fault_loop_ohm``, ``fault_current_ka_source``,
-        ``fault_current_ka_load_end`` (maximum, conductors at 20 °C, cmax),
-        ``fault_current_ka_load_end_min`` (cmin, conductors at the end-of-fault
-        temperature), ``motor_start_dip_pct``; ``None`` where not computed.
-    """
-    return _prepared(spec, ctx, config).extras(cand.csa_mm2, cand.parallel)

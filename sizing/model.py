@@ -5,7 +5,7 @@ All values carry their unit in the name.  Nothing here does I/O.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 __all__ = [
     "Load",
@@ -215,9 +215,9 @@ class SizingResult:
     """The outcome of sizing one circuit.
 
     ``status`` is one of :data:`STATUS_ORDER`; ``cable`` is ``None`` only for
-    ``"error"``.  ``steps`` lists the calculation in order for the report.
+    ``"error"``.
 
-    The further numbers of :func:`.checks.result_extras` (``None`` where not
+    The further numbers of :meth:`.checks.PreparedChecks.extras` (``None`` where not
     computed): ``protective_conductor_mm2`` (IEC 60364-5-54 543.1),
     ``max_length_m`` (longest length that still disconnects on an earth
     fault, IEC 60364-4-41 411.4.4), ``earth_fault_loop_ohm`` (Zs at the load
@@ -242,7 +242,6 @@ class SizingResult:
     cable: CableSelection | None = None
     voltage_drop: VoltageDrop | None = None
     checks: tuple[Check, ...] = ()
-    steps: tuple[tuple[str, str, str], ...] = field(default=(), compare=False)
     protective_conductor_mm2: float | None = None
     max_length_m: float | None = None
     earth_fault_loop_ohm: float | None = None

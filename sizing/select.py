@@ -6,8 +6,9 @@ The procedure of IEC 60364-4-43 433.1 and IEC 60364-5-52 clause 523:
 2. on every stretch of the route, Iz = n x It x (temperature, soil, grouping
    factors); the stretch with the lowest Iz governs;
 3. the smallest cross-section with Iz >= max(In, I2/1.45) (433.1);
-4. raised until every upsizing check passes (voltage drop, and any check
-   registered in :data:`UPSIZE_CHECKS`);
+4. raised until every upsizing check passes, in this order (the first that
+   fails names ``governed_by``): voltage drop, short circuit, motor start,
+   and disconnection when the config asks (:mod:`.checks`);
 5. parallel cables (equal sizes, each counted in the grouping,
    IEC 60364-5-52:2009 523.7) only where no single cable will do.
 """
@@ -15,21 +16,13 @@ The procedure of IEC 60364-4-43 433.1 and IEC 60364-5-52 clause 523:
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from functools import lru_cache
 
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import sizes_for, tabulated_capacity
-from .checks import (
-    REPORT_CHECKS,
-    UPSIZE_EXTRA_CHECKS,
-    PreparedChecks,
-    _resistance_ohm_per_km,
-    is_applicable,
-    result_extras,
-)
+from .checks import PreparedChecks, _resistance_ohm_per_km
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
@@ -62,8 +55,6 @@ __all__ = [
     "AIR_METHODS",
     "Candidate",
     "SizingContext",
-    "UpsizeCheck",
-    "UPSIZE_CHECKS",
     "loaded_conductors",
     "stretch_rating",
     "size_circuit",
@@ -110,10 +101,6 @@ class SizingContext:
     conductor_temp_c: float
 
 
-#: A check on a candidate: returns a :class:`Check` (``passed`` False raises the size).
-UpsizeCheck = Callable[[CircuitSpec, Candidate, SizingContext, SizingConfig], Check]
-
-
 def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> VoltageDrop:
     volts = voltage_drop_v(
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
@@ -128,13 +115,6 @@ def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> Vol
     return VoltageDrop(volts, percent, ctx.vd_limit_pct, per_a_m, annex_g)
 
 
-def check_voltage_drop(
-    spec: CircuitSpec, cand: Candidate, ctx: SizingContext, config: SizingConfig
-) -> Check:
-    """Voltage drop at Ib over the design length within its limit (IEC 60364-5-52 525, Annex G)."""
-    return _voltage_drop_check(_voltage_drop(spec, cand, ctx))
-
-
 def _voltage_drop_check(vd: VoltageDrop) -> Check:
     passed = vd.percent <= vd.limit_percent + 1e-9
     message = "" if passed else (
@@ -142,16 +122,6 @@ def _voltage_drop_check(vd: VoltageDrop) -> Check:
     )
     return Check("voltage_drop", passed, vd.percent, vd.limit_percent, "%",
                  "IEC 60364-5-52:2009 525 and Annex G", message)
-
-
-#: Checks that raise the cross-section when they fail, run in this order.
-#: Each may be extended (e.g. short circuit, motor start); keys are the
-#: ``governed_by`` names of contract.md.
-UPSIZE_CHECKS: dict[str, UpsizeCheck] = {"voltage_drop": check_voltage_drop, **UPSIZE_EXTRA_CHECKS}
-# The built-in registries, which the prepared (fast) selection evaluates
-# directly; any other registered check takes the general path.
-_BUILTIN_UPSIZE = dict(UPSIZE_CHECKS)
-_BUILTIN_REPORT = dict(REPORT_CHECKS)
 
 
 @lru_cache(maxsize=4096)
@@ -187,16 +157,7 @@ def stretch_factors(
     the tables (:mod:`.depth`, from IEC 60287-2-1:2015).
     """
     method = _method_for(stretch.method, spec)
-    depth = REFERENCE_DEPTH_M
-    if method in GROUND_METHODS:
-        depth = config.depth_m if stretch.depth_m is None else stretch.depth_m
-        ambient = config.ground_c if stretch.ambient_c is None else stretch.ambient_c
-        soil = (config.soil_resistivity_k_m_w if stretch.soil_resistivity_k_m_w is None
-                else stretch.soil_resistivity_k_m_w)
-    else:
-        ambient = config.ambient_air_c if stretch.ambient_c is None else stretch.ambient_c
-        soil = config.soil_resistivity_k_m_w
-    env = _environment_factors(method, spec.insulation, float(ambient), float(soil), float(depth))
+    env = _environment_factors(*_stretch_key(stretch, method, spec.insulation, config))
     cables = stretch.other_cables + parallel
     return env + (_grouping(method, cables, stretch.trays),)
 
@@ -232,35 +193,6 @@ def _validate(spec: CircuitSpec) -> None:
         raise CircuitInputError(f"length {spec.design_length_m} m must be zero or more")
     if not spec.stretches:
         raise CircuitInputError("no installation method given")
-
-
-def _candidate_sizes(spec: CircuitSpec, config: SizingConfig) -> tuple[float, ...]:
-    """Cross-sections every stretch's table lists, within the config's bounds."""
-    loaded = loaded_conductors(spec.phases)
-    common: set[float] | None = None
-    for stretch in spec.stretches:
-        sizes = set(sizes_for(_method_for(stretch.method, spec), spec.conductor, spec.insulation, loaded))
-        common = sizes if common is None else common & sizes
-    upper = config.max_single_csa_mm2 or math.inf
-    return tuple(sorted(s for s in (common or ()) if s <= upper))
-
-
-def _rating(spec: CircuitSpec, csa: float, parallel: int, config: SizingConfig) -> Candidate:
-    best: Candidate | None = None
-    for index, stretch in enumerate(spec.stretches):
-        iz, _, _ = stretch_rating(stretch, spec, csa, parallel, config)
-        if best is None or iz < best.capacity_a:
-            best = Candidate(csa, parallel, iz, index)
-    assert best is not None
-    return best
-
-
-def _first_passing(spec, sizes, parallel, need_a, config):
-    for csa in sizes:
-        cand = _rating(spec, csa, parallel, config)
-        if cand.capacity_a >= need_a - 1e-9:
-            return cand
-    return None
 
 
 def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> SizingResult:
@@ -346,7 +278,8 @@ def _stretch_total(method: str, insulation: str, ambient_c: float, soil_k_m_w: f
 
 
 def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig):
-    # The same defaults as stretch_factors.
+    """The environment of a stretch with the config's defaults filled in:
+    (method, insulation, ambient or ground °C, soil K·m/W, depth m)."""
     depth = REFERENCE_DEPTH_M
     if method in GROUND_METHODS:
         depth = config.depth_m if stretch.depth_m is None else stretch.depth_m
@@ -360,8 +293,6 @@ def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingC
 
 
 def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
-    if UPSIZE_CHECKS != _BUILTIN_UPSIZE or REPORT_CHECKS != _BUILTIN_REPORT:
-        return _size_general(spec, config)
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
@@ -396,7 +327,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     disconnection_upsize = prep.disconnection_upsize
 
     def first_failing(csa: float, parallel: int) -> str | None:
-        # UPSIZE_CHECKS in order: voltage_drop, short_circuit, motor_start, disconnection.
+        # the upsize checks in order: voltage_drop, short_circuit, motor_start, disconnection.
         r = _resistance_ohm_per_km(csa, conductor, temp) / 1000.0
         if not 100.0 * (vd_a * (r * pf + vd_x_sin) / parallel) / voltage <= vd_limit:
             return "voltage_drop"
@@ -483,96 +414,6 @@ def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, g
     return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
                      methods[stretch_index], iz, total, factors, checks, vd,
                      prep.extras(csa, parallel))
-
-
-def _size_general(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
-    """The selection with every registered check called on Candidates."""
-    _validate(spec)
-    cores = spec.cores or (4 if spec.phases == 3 else 3)
-    spec = replace(spec, cores=cores) if spec.cores != cores else spec
-    ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
-    device = select_device(ib, config.device_kind, config.device_margin, config.standard_ratings_a)
-    need = required_iz_a(device)
-    limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
-    temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
-    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp)
-
-    sizes = _candidate_sizes(spec, config)
-    minimum = config.min_csa_mm2.get(spec.conductor, 0.0)
-    allowed = tuple(s for s in sizes if s >= minimum - 1e-9)
-    if not allowed:
-        raise CircuitInputError(
-            f"no cross-section of the tables for method(s) "
-            f"{', '.join(sorted({s.method for s in spec.stretches}))} is allowed by the config"
-        )
-
-    first_ok: tuple[Candidate, str] | None = None
-    last_tried: tuple[Candidate, str] | None = None
-    for parallel in range(1, config.max_parallel + 1):
-        cand = _first_passing(spec, allowed, parallel, need, config)
-        if cand is None:
-            continue
-        governed = "capacity"
-        if cand.csa_mm2 == allowed[0] and allowed[0] > sizes[0]:
-            below = _rating(spec, sizes[0], parallel, config)
-            if below.capacity_a >= need:
-                governed = "minimum"
-        if first_ok is None:
-            first_ok = (cand, governed)
-        upsized = _apply_upsize_checks(spec, cand, ctx, config, allowed, governed)
-        if upsized is not None:
-            return _result(spec, upsized[0], upsized[1], ctx, config)
-        largest = _rating(spec, allowed[-1], parallel, config)
-        last_tried = (largest, _first_failing_name(spec, largest, ctx, config))
-    if last_tried is not None:
-        first_ok = last_tried
-    if first_ok is None:
-        largest = allowed[-1]
-        raise CircuitInputError(
-            f"design current {ib:.1f} A needs Iz >= {need:.1f} A: beyond {config.max_parallel} "
-            f"parallel cables of {largest:g} mm² under these conditions; split the load, "
-            "change the route or raise max_parallel in the config"
-        ) from None
-    return _result(spec, first_ok[0], first_ok[1], ctx, config)
-
-
-def _first_failing_name(spec, cand, ctx, config) -> str:
-    for name, check in UPSIZE_CHECKS.items():
-        if not check(spec, cand, ctx, config).passed:
-            return name
-    return "capacity"
-
-
-def _apply_upsize_checks(spec, cand, ctx, config, allowed, governed):
-    """Raise ``cand`` through ``allowed`` until every upsize check passes, or None."""
-    index = allowed.index(cand.csa_mm2)
-    while True:
-        failing = None
-        for name, check in UPSIZE_CHECKS.items():
-            if not check(spec, cand, ctx, config).passed:
-                failing = name
-                break
-        if failing is None:
-            return cand, governed
-        index += 1
-        if index >= len(allowed):
-            return None
-        cand = _rating(spec, allowed[index], cand.parallel, config)
-        governed = failing
-
-
-def _result(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContext,
-            config: SizingConfig) -> SizingResult:
-    stretch = spec.stretches[cand.stretch_index]
-    method = _method_for(stretch.method, spec)
-    iz, total, factors = stretch_rating(stretch, spec, cand.csa_mm2, cand.parallel, config)
-    checks = _base_checks(ctx, iz)
-    for check in {**UPSIZE_CHECKS, **REPORT_CHECKS}.values():
-        outcome = check(spec, cand, ctx, config)
-        if is_applicable(outcome):
-            checks.append(outcome)
-    return _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks,
-                     _voltage_drop(spec, cand, ctx), result_extras(spec, cand, ctx, config))
 
 
 def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
