@@ -32,7 +32,6 @@ from __future__ import annotations
 import logging
 import os
 import re
-import tempfile
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -41,6 +40,7 @@ from typing import Any
 from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.ifc_reader import SIZING_PSET, open_model
 
+from .atomic import atomic_path
 from .model import CircuitOutcome
 
 __all__ = ["CHECKS_PSET", "SIZING_PSET", "IfcWriteSummary", "write_ifc_copy"]
@@ -274,14 +274,8 @@ def write_ifc_copy(
         _set_pset(f, cable, CHECKS_PSET, _check_props(outcome))
     try:
         dst.parent.mkdir(parents=True, exist_ok=True)
-        fd, tmp = tempfile.mkstemp(prefix=f".{dst.stem}.", suffix=".ifc", dir=dst.parent)
-        os.close(fd)
-        try:
-            f.write(tmp)
-            os.replace(tmp, dst)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
+        with atomic_path(dst) as tmp:
+            f.write(str(tmp), format=".ifc")
     except OSError as exc:
         raise DrawingReadError(f"{dst}: cannot write the IFC copy ({exc.strerror}); choose another --out") from exc
     logger.info("IFC copy %s: %d cables added, %d updated, %d circuits not sized",

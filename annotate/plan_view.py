@@ -18,12 +18,13 @@ from __future__ import annotations
 
 import logging
 import os
-import tempfile
 from pathlib import Path
 from typing import TYPE_CHECKING
 
 from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
+
+from .atomic import atomic_path
 
 if TYPE_CHECKING:  # pragma: no cover
     from cablewright.extract.model import Measurement
@@ -115,14 +116,8 @@ def write_plan_view(measurement: Measurement, path: str | os.PathLike[str]) -> P
                                     dxfattribs={"height": _TEXT_H_M, "layer": EQUIPMENT_LAYER})
             attrib.is_invisible = k > 0
     try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=target.parent or Path("."))
-        os.close(fd)
-        try:
+        with atomic_path(target) as tmp:
             doc.saveas(tmp)
-            os.replace(tmp, target)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
     except OSError as exc:
         raise DrawingReadError(f"{target}: cannot write the plan view ({exc.strerror}); choose another --out") from exc
     logger.info("plan view: %d segments, %d equipment -> %s", len(measurement.segments),
