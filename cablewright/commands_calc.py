@@ -9,6 +9,7 @@ import sys
 from cablewright.annotate.jsonout import document
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract.errors import CableRouteError, CircuitInputError
+from cablewright.sizing.capacity_tables import canonical_method
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.select import size_circuit
@@ -36,7 +37,7 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
         group = _float("group", args.group)
         if group is None or group < 1 or group != int(group):
             raise CircuitInputError(f"--group {args.group!r} must be a whole number >= 1")
-        method = str(args.method).strip().upper()
+        method = canonical_method(str(args.method))  # F_flat, G_vertical keep their case
         stretch = Stretch(
             segment_id="", method=method, other_cables=int(group) - 1,
             ambient_c=_float("ambient", args.ambient),

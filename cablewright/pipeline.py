@@ -61,6 +61,11 @@ def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
     for name, kind in dict(values.pop("route_layers", {})).items():
         layers[name.upper()] = _layer_kind(name, kind, settings.source)
     patterns = {p: _layer_kind(p, k, settings.source) for p, k in dict(values.pop("layer_patterns", {})).items()}
+    tiers = dict(values.pop("route_tiers", {}))
+    for name, count in tiers.items():
+        if isinstance(count, bool) or not isinstance(count, int) or count < 1:
+            raise ConfigError(f"{settings.source}: [drawing.route_tiers] {name!r} = {count!r} must be "
+                              "a whole number of tiers >= 1")
     known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor"}
     for key in values:
         if key not in known:
@@ -70,6 +75,7 @@ def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
         if key not in ("slack_fraction", "end_allowance_m"):
             raise ConfigError(f"{settings.source}: unknown key {key!r} in [routes]; known: slack_fraction, end_allowance_m")
     return replace(base, route_layers=layers, extra_layer_patterns=patterns, recover=recover,
+                   route_tiers=tiers,
                    **values, **route_values)
 
 
@@ -82,7 +88,9 @@ def _layer_kind(name: str, kind, source: str) -> tuple[str, str]:
             f"{source}: route layer {name!r} must be [containment, method] with containment one of "
             f"{', '.join(CONTAINMENTS)}"
         )
-    return str(kind[0]), str(kind[1]).upper()
+    from cablewright.sizing.capacity_tables import canonical_method
+
+    return str(kind[0]), canonical_method(str(kind[1]))
 
 
 def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
@@ -134,21 +142,25 @@ def _fields(row: ScheduleRow) -> dict[str, str | None]:
     return {key: (value if value.strip() else None) for key, value in row.fields}
 
 
-def _stretches(measurement: Measurement, route, own: int, cables_on: Mapping[str, int]) -> tuple[Stretch, ...]:
-    """One stretch per installation method: the most crowded segment of each.
+def _stretches(measurement: Measurement, route, own: int, cables_on: Mapping[str, int],
+               tiers_of: Callable[[str], int] | None = None) -> tuple[Stretch, ...]:
+    """One stretch per installation (method, containment, tiers): the most crowded segment of each.
 
-    The grouping factor falls as the count rises, so for one method only the
+    The grouping factor falls as the count rises, so for one installation only the
     segment with the most cables can govern; the first such segment is kept.
     """
-    best: dict[str, Stretch] = {}
+    best: dict[tuple[str, str, int], Stretch] = {}
     for seg_id in route.segment_ids:
         segment = measurement.segments.get(seg_id)
         if segment is None:
             continue
         others = cables_on.get(seg_id, own) - own
-        current = best.get(segment.method)
+        tiers = tiers_of(segment.layer) if tiers_of is not None else 1
+        key = (segment.method, segment.containment, tiers)
+        current = best.get(key)
         if current is None or others > current.other_cables:
-            best[segment.method] = Stretch(seg_id, segment.method, others, length_m=segment.length_m)
+            best[key] = Stretch(seg_id, segment.method, others, length_m=segment.length_m,
+                                trays=tiers, containment=segment.containment)
     if not best:  # a route made of tails only: clipped direct, alone (common practice)
         return (Stretch("", "C", 0),)
     return tuple(best.values())
@@ -161,6 +173,7 @@ def size_measurement(
 ) -> JobResult:
     """Size every routed circuit; unrouted or bad circuits become ``error`` outcomes."""
     config = settings.sizing
+    tiers_of = drawing_config(settings).layer_tiers
     specs: dict[str, object] = {}
     errors: dict[str, str] = {}
     rows = {row.circuit_id: row for row in measurement.rows}
@@ -179,21 +192,27 @@ def size_measurement(
     parallel = {cid: 1 for cid in specs}
     results: dict[str, SizingResult] = {}
     rounds = 0
+    light: set[str] = set()  # left out of the others' group count (30 % rule), when on
     for rounds in range(1, MAX_GROUPING_ROUNDS + 1):
         per_segment = extract_grouping.circuits_per_segment(routed, parallel)
-        cables_on = {seg: sum(parallel[c] for c in cids) for seg, cids in per_segment.items()}
+        counted = {c: (0 if c in light else n) for c, n in parallel.items()}
+        cables_on = {seg: sum(counted[c] for c in cids) for seg, cids in per_segment.items()}
         for cid, spec in specs.items():
-            stretches = _stretches(measurement, routed[cid], parallel[cid], cables_on)
+            stretches = _stretches(measurement, routed[cid], counted[cid], cables_on, tiers_of)
             results[cid] = size_circuit(replace(spec, stretches=stretches), config)
             if progress is not None and rounds == 1:
                 progress(1)
         new = {cid: (r.cable.parallel if r.cable else parallel[cid]) for cid, r in results.items()}
-        if new == parallel:
+        new_light = light | (_lightly_loaded(results) if config.ignore_lightly_loaded else set())
+        if new == parallel and new_light == light:
             break
         parallel = {cid: max(parallel[cid], new[cid]) for cid in parallel}
+        light = new_light  # only grows, so the rounds settle
     else:
         log.warning("grouping did not settle after %d rounds; results use the last round", rounds)
 
+    for cid in sorted(light & set(results)):
+        results[cid] = replace(results[cid], messages=results[cid].messages + (LIGHT_LOAD_NOTE,))
     results = _with_chain_drops(results, rows)
     per_segment = extract_grouping.circuits_per_segment(routed, parallel)
     groups = extract_grouping.group_summary(routed, per_segment, parallel)
@@ -209,6 +228,21 @@ def size_measurement(
         outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, result.status, result.messages,
                                        routed[cid], groups.get(cid), result))
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
+
+
+#: IEC 60364-5-52:2009 523.5 (the 30 % rule, also the note under Table B.52.17).
+LIGHT_LOAD_FRACTION = 0.30
+LIGHT_LOAD_NOTE = (
+    "30 % rule applied (config ignore_lightly_loaded): this circuit carries no more than 30 % "
+    "of its grouped rating and is left out of the group count of the others "
+    "(IEC 60364-5-52:2009 523.5)")
+
+
+def _lightly_loaded(results: Mapping[str, SizingResult]) -> set[str]:
+    """Circuits whose Ib is at most 30 % of their grouped rating Iz (IEC 60364-5-52:2009 523.5)."""
+    return {cid for cid, r in results.items()
+            if r.cable is not None and r.load_current_a is not None
+            and r.load_current_a <= LIGHT_LOAD_FRACTION * r.cable.capacity_a}
 
 
 def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow]

@@ -251,6 +251,10 @@ class DrawingConfig:
         Ends within ``near_miss_factor * snap_tolerance_m`` that did not join are reported.
     recover : bool
         Use ezdxf's recover mode on a damaged drawing and list what was lost.
+    route_tiers : mapping
+        Layer name or fnmatch pattern (case-insensitive) -> number of tiers
+        (trays or ladders stacked) on that layer; layers not named have 1.
+        Read with the grouping tables IEC 60364-5-52:2009 B.52.20/B.52.21.
     """
 
     units: str | None = None
@@ -263,6 +267,20 @@ class DrawingConfig:
     end_allowance_m: float = 1.5
     near_miss_factor: float = 10.0
     recover: bool = False
+    route_tiers: Mapping[str, int] = field(default_factory=dict)
+
+    def layer_tiers(self, layer: str) -> int:
+        """Tiers of trays or ladders on ``layer``: ``route_tiers`` by whole name, then pattern; 1."""
+        import fnmatch
+
+        name = layer.upper()
+        for key, tiers in self.route_tiers.items():
+            if key.upper() == name:
+                return int(tiers)
+        for pattern, tiers in self.route_tiers.items():
+            if fnmatch.fnmatchcase(name, pattern.upper()):
+                return int(tiers)
+        return 1
 
     def layer_kind(self, layer: str) -> tuple[str, str] | None:
         """(containment, method) of ``layer``, or None if it is not a route layer."""

@@ -60,6 +60,7 @@ from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
 
 __all__ = [
     "CapacityRow",
+    "canonical_method",
     "CapacityTable",
     "Tabulated",
     "B_52_2_CU",
@@ -499,6 +500,32 @@ for _table in ALL_TABLES:
             if _row.amps[_col] is not None
         }
 del _table, _col, _method, _loaded, _key
+
+
+_METHOD_BY_UPPER = {m.upper(): m for m in METHODS}
+
+
+def canonical_method(method: str) -> str:
+    """A reference-method key as this module spells it, read case-insensitively.
+
+    Parameters
+    ----------
+    method : str
+        E.g. ``"e"``, ``"F_FLAT"``, ``"g_vertical"``.
+
+    Returns
+    -------
+    str
+        The key of :data:`METHODS` (``"F_flat"``); an unknown name is returned
+        stripped and unchanged, for the lookup to reject with its message.
+
+    Examples
+    --------
+    >>> canonical_method("F_FLAT"), canonical_method(" g_vertical ")
+    ('F_flat', 'G_vertical')
+    """
+    text = str(method).strip()
+    return _METHOD_BY_UPPER.get(text.upper(), text)
 
 
 def _check_key(kind: str, value: str, known: tuple[str, ...]) -> None:

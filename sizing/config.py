@@ -4,16 +4,29 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from cablewright.extract.errors import UnknownKeyError
+
 from .device import DEVICE_MARGIN, STANDARD_RATINGS_A
 
-__all__ = ["SizingConfig"]
+__all__ = ["SizingConfig", "VD_LIMITS_G52_1_PCT"]
 
 
 def _vd_limits() -> dict[str, float]:
-    # 5 % for every load type: common practice (contract.md).  For reference,
-    # IEC 60364-5-52:2009 Annex G Table G.52.1 gives 3 % lighting / 5 % other uses
-    # for installations fed from a public LV network, 6 % / 8 % for a private supply.
-    return {"general": 5.0, "lighting": 5.0, "motor": 5.0, "feeder": 5.0}
+    # Empty: the limits come from IEC 60364-5-52:2009 Table G.52.1 for the
+    # config's ``supply`` (:data:`VD_LIMITS_G52_1_PCT`); a load type given here wins.
+    return {}
+
+
+#: IEC 60364-5-52:2009 Annex G, Table G.52.1: voltage drop from the origin of
+#: the installation to the equipment [%], by supply and use: (lighting, other uses).
+#: Type A: supplied directly from a public LV distribution system; type B:
+#: supplied from a private LV supply (own transformer or generator).
+VD_LIMITS_G52_1_PCT: dict[str, tuple[float, float]] = {"public": (3.0, 5.0), "private": (6.0, 8.0)}
+#: Table G.52.1 note: beyond 100 m the limits may be raised by 0.005 % per metre,
+#: at most by 0.5 %.
+VD_LONG_RUN_FROM_M = 100.0
+VD_LONG_RUN_PCT_PER_M = 0.005
+VD_LONG_RUN_MAX_PCT = 0.5
 
 
 def _min_csa() -> dict[str, float]:
@@ -37,7 +50,11 @@ class SizingConfig:
     device_kind : str
         ``breaker`` or ``fuse`` (gG).
     device_margin : float
-        In >= margin x Ib (1.25, common practice).
+        In >= margin x Ib; 1.0 (IEC 60364-4-43:2008 433.1: Ib <= In <= Iz, no
+        margin).  1.25 (a continuous-load rule of some national codes) is an option.
+    device_margin_by_load_type : dict
+        Load type -> margin, overriding ``device_margin`` for that load type
+        (empty by default).
     standard_ratings_a : tuple of float
         Device ratings to choose from [A].
     voltage_3ph_v, voltage_1ph_v : float
@@ -53,7 +70,15 @@ class SizingConfig:
     depth_m : float
         Depth of laying for D1/D2, 0.7 m, IEC 60364-5-52:2009 B.52.2 note.
     vd_limits_pct : dict
-        Voltage-drop limit per load type [%].
+        Voltage-drop limit per load type [%], overriding Table G.52.1 for that
+        load type (empty by default); a circuit's ``vd_limit_pct`` wins over both.
+    supply : str
+        ``"public"`` (default: installation fed from a public LV network, Table
+        G.52.1 type A: 3 % lighting, 5 % other uses) or ``"private"`` (own
+        transformer or generator, type B: 6 % / 8 %).
+    vd_long_run_allowance : bool
+        Add the Table G.52.1 note's allowance to the limits from the table:
+        0.005 % per metre of design length beyond 100 m, at most 0.5 % (True).
     min_csa_mm2 : dict
         Smallest cross-section allowed per conductor material [mm²].
     max_parallel : int
@@ -62,8 +87,21 @@ class SizingConfig:
         Largest cross-section of one cable before going parallel; ``None`` takes
         the largest the table lists.
     conductor_temp_for_vd : str
-        ``"max"``: voltage drop at the insulation's maximum operating
-        temperature (IEC 60364-5-52 Table 52.1), the conservative reading.
+        ``"operating"`` (default): resistance at the temperature estimated from
+        the load, θ = θa + (θmax - θa)(Ib/Iz)² (:func:`.voltage_drop.operating_temperature_c`);
+        ``"max"``: at the insulation's maximum operating temperature
+        (IEC 60364-5-52:2009 Table 52.1), the conservative reading.
+    third_harmonic_pct_by_load_type : dict
+        Third-harmonic content of the phase current per load type [%] when the
+        schedule's ``third_harmonic_pct`` is blank (IEC 60364-5-52:2009 Annex E);
+        empty by default (0 %: no harmonics assumed; give e.g. ``lighting = 20``
+        for discharge lighting, a value of the installation's own survey).
+    harmonics_envelope : bool
+        Above 45 % never ask less than at 45 % (see :func:`.harmonics.harmonic_sizing`).
+    ignore_lightly_loaded : bool
+        IEC 60364-5-52:2009 523.5 / Table B.52.17 note: a cable expected to carry
+        no more than 30 % of its grouped rating may be left out of the count for
+        the rest of the group.  Off by default; the report names it when on.
     default_fault_ka : float or None
         Prospective three-phase fault current at a circuit's source when the
         schedule's ``fault_ka`` is blank [kA]; ``None`` (default): the
@@ -112,6 +150,7 @@ class SizingConfig:
 
     device_kind: str = "breaker"
     device_margin: float = DEVICE_MARGIN
+    device_margin_by_load_type: dict[str, float] = field(default_factory=dict)
     standard_ratings_a: tuple[float, ...] = STANDARD_RATINGS_A
     voltage_3ph_v: float = 400.0
     voltage_1ph_v: float = 230.0
@@ -124,7 +163,12 @@ class SizingConfig:
     min_csa_mm2: dict[str, float] = field(default_factory=_min_csa)
     max_parallel: int = 8
     max_single_csa_mm2: float | None = None
-    conductor_temp_for_vd: str = "max"
+    conductor_temp_for_vd: str = "operating"
+    supply: str = "public"
+    vd_long_run_allowance: bool = True
+    third_harmonic_pct_by_load_type: dict[str, float] = field(default_factory=dict)
+    harmonics_envelope: bool = True
+    ignore_lightly_loaded: bool = False
     default_fault_ka: float | None = None
     clearing_time_s: float | None = None
     c_max: float = 1.05
@@ -144,6 +188,37 @@ class SizingConfig:
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)
 
-    def vd_limit_pct(self, load_type: str) -> float:
-        """Voltage-drop limit for a load type [%] (``general`` when unknown)."""
-        return self.vd_limits_pct.get(load_type, self.vd_limits_pct.get("general", 5.0))
+    def vd_limit_pct(self, load_type: str, length_m: float = 0.0) -> float:
+        """Voltage-drop limit for a load type and run length [%].
+
+        ``vd_limits_pct[load_type]`` when given; otherwise IEC 60364-5-52:2009
+        Table G.52.1 for ``supply`` (lighting, or other uses for every other
+        load type), plus, with ``vd_long_run_allowance``, 0.005 % per metre
+        beyond 100 m, at most 0.5 % (the table's note).
+
+        Examples
+        --------
+        >>> cfg = SizingConfig()
+        >>> cfg.vd_limit_pct("lighting"), cfg.vd_limit_pct("motor"), cfg.vd_limit_pct("motor", 180.0)
+        (3.0, 5.0, 5.4)
+        """
+        if load_type in self.vd_limits_pct:
+            return float(self.vd_limits_pct[load_type])
+        try:
+            lighting, other = VD_LIMITS_G52_1_PCT[self.supply]
+        except KeyError:
+            raise UnknownKeyError(
+                f"[sizing] supply {self.supply!r} is unknown: use 'public' or 'private' "
+                "(IEC 60364-5-52:2009 Table G.52.1)") from None
+        limit = lighting if load_type == "lighting" else other
+        if self.vd_long_run_allowance and length_m > VD_LONG_RUN_FROM_M:
+            limit += min(VD_LONG_RUN_MAX_PCT, VD_LONG_RUN_PCT_PER_M * (length_m - VD_LONG_RUN_FROM_M))
+        return limit
+
+    def margin_for(self, load_type: str) -> float:
+        """Device margin for a load type: ``device_margin_by_load_type`` or ``device_margin``."""
+        return float(self.device_margin_by_load_type.get(load_type, self.device_margin))
+
+    def third_harmonic_pct(self, load_type: str) -> float:
+        """Default third-harmonic content for a load type [%] (0 when not given)."""
+        return float(self.third_harmonic_pct_by_load_type.get(load_type, 0.0))

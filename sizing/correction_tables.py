@@ -60,6 +60,8 @@ __all__ = [
     "soil_resistivity_factor",
     "b52_17_factor",
     "grouping_factor",
+    "CONTAINMENT_SUPPORT",
+    "route_grouping_factor",
 ]
 
 
@@ -594,10 +596,17 @@ def _grid_factor(grid: FactorGrid, n: int, trays: int, count_word: str) -> Facto
 
 _SUPPORT_TO_B52_17 = {"perforated_tray": "perforated_tray", "vertical_tray": "perforated_tray",
                       "ladder": "ladder", "unperforated_tray": "wall"}
-_METHODS = ("A1", "A2", "B1", "B2", "C", "D1", "D2", "E", "F")
+_METHODS = ("A1", "A2", "B1", "B2", "C", "D1", "D2", "E", "F", "F_flat", "G", "G_vertical")
+#: Spacing read by default per method: trefoil rows for method F (three
+#: single-core cables in trefoil, the capacity column of F), the flat-touching
+#: rows for F_flat (IEC 60364-5-52:2009 Table B.52.21 note 1).
+_DEFAULT_SPACING = {"F": "trefoil", "F_flat": "touching"}
+#: Methods G: single-core cables spaced one diameter apart, IEC 60364-5-52:2009
+#: Table B.52.1 items 32/33 and Tables B.52.12/B.52.13 columns 7 and 8.
+_SPACED_SINGLE_CORE = ("G", "G_vertical")
 
 
-def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = "touching",
+def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str | None = None,
                     support: str | None = None) -> Factor:
     """Reduction factor for a group, from the table that fits the method.
 
@@ -607,8 +616,12 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = 
     (``touching``, ``one_diameter``, ``0.125m``, ``0.25m``, ``0.5m``).  E:
     B.52.20 (support ``perforated_tray`` by default, ``ladder``,
     ``vertical_tray``, ``unperforated_tray``; spacing ``touching`` or
-    ``spaced``).  F: B.52.21 (support as for E but no unperforated tray; spacing
-    ``touching`` for flat formation, ``trefoil`` for spaced trefoil groups).
+    ``spaced``).  F (trefoil) and F_flat: B.52.21 (support as for E but no
+    unperforated tray); F reads the ``trefoil`` rows by default (1.00 for one
+    circuit on one tray), F_flat the ``touching`` (flat) rows (0.98 for one
+    circuit on a perforated tray).  G and G_vertical (spaced single-core
+    cables): one circuit 1.0; B.52.21 gives no rows for groups of spaced
+    single-core circuits, so a group raises.
 
     One cable gives 1.0 unless the table prints a lower value for a single
     cable or circuit (unperforated tray 0.97, ceiling 0.95, B.52.21 flat
@@ -626,8 +639,8 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = 
     trays : int, optional
         Trays or ladders in the stack (E, F), >= 1; between rows the next
         larger row is read.
-    spacing : str, optional
-        See above; ``"touching"`` by default.
+    spacing : str or None, optional
+        See above; ``None`` reads ``"trefoil"`` for F and ``"touching"`` otherwise.
     support : str or None, optional
         See above.
 
@@ -658,6 +671,17 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = 
                        "IEC 60364-5-52:2009 Tables B.52.17 to B.52.21")
     n = _check_count(cables, "number of cables", "IEC 60364-5-52:2009 grouping tables")
     t = _check_count(trays, "number of trays", "IEC 60364-5-52:2009 grouping tables")
+    if spacing is None:
+        spacing = _DEFAULT_SPACING.get(method, "touching")
+    if method in _SPACED_SINGLE_CORE:
+        source = "IEC 60364-5-52:2009 Table B.52.21"
+        if n == 1 and t == 1:
+            return Factor(name="grouping", value=1.0, source=source,
+                          detail=f"method {method}, one circuit of spaced single-core cables")
+        raise OutOfRangeError(
+            f"{n} circuits of spaced single-core cables (method {method}) on {t} tray(s): "
+            f"{source} gives no factor for groups of method G; use method F (trefoil) or "
+            "F_flat for grouped single-core circuits")
     if method in ("A1", "A2", "B1", "B2"):
         return b52_17_factor("bunched", n)
     if method == "C":
@@ -684,6 +708,7 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = 
         return Factor(name="grouping", value=column[key], source=grid.source,
                       detail=f"spacing {spacing}, {how}")
     tables = B_52_20 if method == "E" else B_52_21
+    method = "F" if method == "F_flat" else method
     sup = support or "perforated_tray"
     grid = tables.get((sup, spacing))
     if grid is None:
@@ -692,6 +717,69 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str = 
             f"no part of IEC 60364-5-52:2009 Table {'B.52.20' if method == 'E' else 'B.52.21'} "
             f"for method {method} with support={sup!r}, spacing={spacing!r}; known: "
             f"{'; '.join(known)}")
-    if t == 1 and n > max(grid.column_keys) and spacing == "touching":
+    if t == 1 and n > max(grid.column_keys) and spacing in ("touching", "trefoil"):
+        # More trefoil groups than B.52.21 tabulates: each read as one cable of a
+        # single touching layer, B.52.17 rows 4/5 (more onerous than the spaced
+        # trefoil rows; common practice).
         return b52_17_factor(_SUPPORT_TO_B52_17[sup], n)
     return _grid_factor(grid, n, t, "cables" if method == "E" else "circuits")
+
+
+#: Containment of a route layer (contract.md, "Drawing conventions") -> the
+#: support of Tables B.52.20 / B.52.21.
+CONTAINMENT_SUPPORT = {"tray": "perforated_tray", "ladder": "ladder"}
+_TRAY_METHODS = ("E", "F", "F_flat", "G", "G_vertical")
+
+
+def route_grouping_factor(method: str, cables: int, tiers: int = 1,
+                          containment: str = "tray") -> Factor:
+    """Grouping factor on a stretch of route with ``tiers`` trays or ladders.
+
+    For the tray methods (E, F, F_flat, G, G_vertical) the containment picks
+    the support of Tables B.52.20/B.52.21 (``tray``: perforated tray,
+    ``ladder``: ladder) and the row is the number of tiers; the cables of the
+    stretch are taken as shared evenly over the tiers, so the column is
+    ceil(cables / tiers) cables (or circuits) per tier (our reading: the
+    drawing gives the stretch, not the tier of each cable).  Other methods
+    read :func:`grouping_factor` with the cable count alone.
+
+    Parameters
+    ----------
+    method : str
+        Reference method.
+    cables : int
+        Cables (multi-core) or circuits (single-core) on the stretch, >= 1.
+    tiers : int
+        Trays or ladders stacked on the stretch, >= 1 (B.52.20 note: 300 mm apart).
+    containment : str
+        ``tray`` or ``ladder``; any other reads the perforated-tray rows.
+
+    Returns
+    -------
+    Factor
+
+    Raises
+    ------
+    OutOfRangeError
+        More cables per tier than the table gives on several tiers.
+
+    Examples
+    --------
+    12 multi-core cables on 2 perforated trays: 6 per tray, B.52.20 row 2:
+
+    >>> route_grouping_factor("E", 12, tiers=2).value
+    0.73
+    >>> route_grouping_factor("E", 12, tiers=2, containment="ladder").value
+    0.76
+
+    References
+    ----------
+    .. [1] IEC 60364-5-52:2009, Annex B, Tables B.52.20 and B.52.21.
+    """
+    t = _check_count(tiers, "number of tiers", "IEC 60364-5-52:2009 Tables B.52.20/B.52.21")
+    if method not in _TRAY_METHODS:
+        return grouping_factor(method, cables)
+    n = _check_count(cables, "number of cables", "IEC 60364-5-52:2009 grouping tables")
+    per_tier = -(-n // t)
+    support = CONTAINMENT_SUPPORT.get(containment, "perforated_tray")
+    return grouping_factor(method, per_tier, trays=t, support=support)

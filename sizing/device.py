@@ -32,9 +32,9 @@ STANDARD_RATINGS_A: tuple[float, ...] = (
     630, 800, 1000, 1250, 1600,
 )
 
-#: In >= DEVICE_MARGIN x Ib: a margin over the design current, common practice
-#: (contract.md); IEC 60364-4-43 433.1 itself only asks Ib <= In.
-DEVICE_MARGIN = 1.25
+#: In >= DEVICE_MARGIN x Ib: no margin by default, as IEC 60364-4-43:2008 433.1
+#: asks Ib <= In <= Iz (contract.md, Extensions); 1.25 stays an option of the config.
+DEVICE_MARGIN = 1.0
 
 DEVICE_KINDS = ("breaker", "fuse")
 
@@ -109,7 +109,7 @@ def select_device(
     kind : str
         ``"breaker"`` or ``"fuse"``.
     margin : float
-        In >= margin x Ib, >= 1 (1.25 by default, common practice).
+        In >= margin x Ib, >= 1 (1.0 by default, IEC 60364-4-43:2008 433.1; 1.25 an option).
     ratings_a : sequence of float
         Standard ratings, ascending [A].
 
@@ -120,8 +120,8 @@ def select_device(
 
     Examples
     --------
-    >>> select_device(93.4).rating_a
-    125
+    >>> select_device(93.4).rating_a, select_device(93.4, margin=1.25).rating_a
+    (100, 125)
     >>> select_device(12.0, "fuse").rating_a
     16
     """

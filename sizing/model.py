@@ -68,7 +68,12 @@ class Stretch:
     length_m : float
         Length of the stretch [m] (informative).
     trays : int
-        Number of trays or ladders stacked in the group (methods E/F), >= 1.
+        Number of tiers: trays or ladders stacked in the group (methods E/F/G),
+        >= 1; from the route layer (``[drawing.route_tiers]``), default 1.
+    containment : str
+        Containment of the route layer (``tray``, ``ladder``, ...): picks the
+        perforated-tray or ladder rows of Tables B.52.20/B.52.21; "" reads
+        the perforated-tray rows.
     """
 
     segment_id: str = ""
@@ -79,6 +84,7 @@ class Stretch:
     depth_m: float | None = None
     length_m: float = 0.0
     trays: int = 1
+    containment: str = ""
 
 
 @dataclass(frozen=True)

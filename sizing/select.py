@@ -21,17 +21,19 @@ from functools import lru_cache
 
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
-from .capacity_tables import sizes_for, tabulated_capacity
+from .capacity_tables import canonical_method, sizes_for, tabulated_capacity
 from .checks import PreparedChecks, _resistance_ohm_per_km
+from .conductor_resistance import resistance_ohm_per_km
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
     ground_temperature_factor,
-    grouping_factor,
+    route_grouping_factor,
     soil_resistivity_factor,
 )
 from .depth import REFERENCE_DEPTH_M, depth_factor_for_method
 from .device import DeviceSelection, required_iz_a, select_device
+from .harmonics import HarmonicSizing, harmonic_sizing
 from .load import design_current_a
 from .model import (
     CableSelection,
@@ -47,6 +49,7 @@ from .voltage_drop import (
     REACTANCE_MOHM_PER_M,
     annex_g_drop_percent,
     drop_percent,
+    operating_temperature_c,
     voltage_drop_v,
 )
 
@@ -64,7 +67,7 @@ __all__ = [
 #: at 20 °C ground, 2.5 K·m/W soil, 0.7 m deep.
 GROUND_METHODS = frozenset({"D1", "D2"})
 #: Reference methods in air, rated at 30 °C (IEC 60364-5-52:2009 B.52.2 ff).
-AIR_METHODS = frozenset({"A1", "A2", "B1", "B2", "C", "E", "F", "G"})
+AIR_METHODS = frozenset({"A1", "A2", "B1", "B2", "C", "E", "F", "F_flat", "G", "G_vertical"})
 CONDUCTORS = ("Cu", "Al")
 INSULATIONS = ("XLPE", "PVC")
 
@@ -99,12 +102,14 @@ class SizingContext:
     cores: int
     vd_limit_pct: float
     conductor_temp_c: float
+    harmonics: HarmonicSizing | None = None
 
 
-def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> VoltageDrop:
+def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
+                  conductor_temp_c: float) -> VoltageDrop:
     volts = voltage_drop_v(
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
-        spec.power_factor, cand.parallel, ctx.conductor_temp_c,
+        spec.power_factor, cand.parallel, conductor_temp_c,
     )
     percent = drop_percent(volts, ctx.voltage_v)
     per_a_m = 1000.0 * volts / (ctx.design_current_a * spec.design_length_m) if spec.design_length_m > 0 else 0.0
@@ -115,13 +120,50 @@ def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> Vol
     return VoltageDrop(volts, percent, ctx.vd_limit_pct, per_a_m, annex_g)
 
 
-def _voltage_drop_check(vd: VoltageDrop) -> Check:
+def _voltage_drop_check(vd: VoltageDrop, temp_c: float, temp_rule: str, limit_source: str) -> Check:
     passed = vd.percent <= vd.limit_percent + 1e-9
     message = "" if passed else (
         f"voltage drop {vd.percent:.2f} % exceeds the {vd.limit_percent:g} % limit"
     )
+    how = ("estimated from the load, θa + (θmax - θa)(Ib/Iz)², IEC 60287-1-1:2006 1.4"
+           if temp_rule == "operating" else "maximum, IEC 60364-5-52:2009 Table 52.1")
     return Check("voltage_drop", passed, vd.percent, vd.limit_percent, "%",
-                 "IEC 60364-5-52:2009 525 and Annex G", message)
+                 f"IEC 60364-5-52:2009 525 and Annex G; conductor at {temp_c:.1f} °C ({how}); "
+                 f"limit {limit_source}", message)
+
+
+def circuit_vd_limit(spec: CircuitSpec, config: SizingConfig) -> tuple[float, str]:
+    """The voltage-drop limit of a circuit [%] and where it comes from.
+
+    The circuit's ``vd_limit_pct`` wins, then ``[sizing.vd_limits_pct]`` for
+    its load type, then IEC 60364-5-52:2009 Table G.52.1 for the config's
+    ``supply`` with the allowance of its note for runs beyond 100 m
+    (:meth:`.config.SizingConfig.vd_limit_pct`).
+    """
+    if spec.vd_limit_pct is not None:
+        return spec.vd_limit_pct, "schedule vd_limit_pct"
+    if spec.load_type in config.vd_limits_pct:
+        return config.vd_limit_pct(spec.load_type), f"config vd_limits_pct.{spec.load_type}"
+    use = "lighting" if spec.load_type == "lighting" else "other uses"
+    return (config.vd_limit_pct(spec.load_type, spec.design_length_m),
+            f"IEC 60364-5-52:2009 Table G.52.1, {config.supply} supply, {use}")
+
+
+def third_harmonic_pct(spec: CircuitSpec, config: SizingConfig) -> float:
+    """Third-harmonic content of a circuit [%]: schedule ``third_harmonic_pct``,
+    else the config's default for its load type (IEC 60364-5-52:2009 Annex E)."""
+    text = spec.extra_value("third_harmonic_pct")
+    if text is None:
+        return config.third_harmonic_pct(spec.load_type)
+    try:
+        value = float(text.rstrip("%").strip().replace(",", "."))
+    except ValueError:
+        raise CircuitInputError(
+            f"circuit {spec.circuit_id}: third_harmonic_pct {text!r} is not a number") from None
+    if not 0.0 <= value <= 100.0:
+        raise CircuitInputError(
+            f"circuit {spec.circuit_id}: third_harmonic_pct {text!r} must be 0 to 100")
+    return value
 
 
 @lru_cache(maxsize=4096)
@@ -141,8 +183,8 @@ def _environment_factors(
 
 
 @lru_cache(maxsize=4096)
-def _grouping(method: str, cables: int, trays: int) -> Factor:
-    return grouping_factor(method, cables, trays=trays)
+def _grouping(method: str, cables: int, trays: int, containment: str = "") -> Factor:
+    return route_grouping_factor(method, cables, tiers=trays, containment=containment or "tray")
 
 
 def stretch_factors(
@@ -152,20 +194,25 @@ def stretch_factors(
 
     Temperature (Table B.52.14 in air, B.52.15 in the ground), soil
     resistivity (B.52.16, ground only) and grouping (B.52.17 to B.52.21) of
-    IEC 60364-5-52:2009, counting ``stretch.other_cables + parallel`` cables;
+    IEC 60364-5-52:2009, counting ``stretch.other_cables + parallel`` cables
+    over ``stretch.trays`` tiers of the stretch's containment;
     in the ground also the depth of laying when it differs from the 0.7 m of
     the tables (:mod:`.depth`, from IEC 60287-2-1:2015).
     """
     method = _method_for(stretch.method, spec)
     env = _environment_factors(*_stretch_key(stretch, method, spec.insulation, config))
     cables = stretch.other_cables + parallel
-    return env + (_grouping(method, cables, stretch.trays),)
+    return env + (_grouping(method, cables, stretch.trays, stretch.containment),)
 
 
-def _method_for(method: str, spec: CircuitSpec) -> str:
-    # Single-core cables on trays in free air are method F, multi-core E
+def _method_for(method: str, spec: CircuitSpec | None = None, cores: int | None = None) -> str:
+    # Method names are read case-insensitively (F_FLAT is F_flat).  Single-core
+    # cables on trays in free air are method F, multi-core E
     # (IEC 60364-5-52:2009 Table B.52.1, items 31 to 34).
-    if method == "E" and spec.cores == 1:
+    method = canonical_method(method)
+    if cores is None and spec is not None:
+        cores = spec.cores
+    if method == "E" and cores == 1:
         return "F"
     return method
 
@@ -219,7 +266,7 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     ...                    stretches=(Stretch(method="E", other_cables=0),))
     >>> r = size_circuit(spec)
     >>> r.device_rating_a, r.cable.csa_mm2, r.status
-    (125, 25.0, 'ok')
+    (100, 16.0, 'ok')
 
     References
     ----------
@@ -270,10 +317,11 @@ def _layout(methods: tuple[str, ...], conductor: str, insulation: str, loaded: i
 
 @lru_cache(maxsize=16384)
 def _stretch_total(method: str, insulation: str, ambient_c: float, soil_k_m_w: float,
-                   depth_m: float, cables: int, trays: int) -> tuple[float, tuple[Factor, ...]]:
+                   depth_m: float, cables: int, trays: int, containment: str = ""
+                   ) -> tuple[float, tuple[Factor, ...]]:
     """(product of the factors, factors) of one stretch: :func:`stretch_factors` memoised."""
     factors = (_environment_factors(method, insulation, ambient_c, soil_k_m_w, depth_m)
-               + (_grouping(method, cables, trays),))
+               + (_grouping(method, cables, trays, containment),))
     return math.prod(f.value for f in factors), factors
 
 
@@ -296,15 +344,27 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
-    device = select_device(ib, config.device_kind, config.device_margin, config.standard_ratings_a)
+    device = select_device(ib, config.device_kind, config.margin_for(spec.load_type),
+                           config.standard_ratings_a)
     need = required_iz_a(device)
-    limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
+    # Third harmonics, IEC 60364-5-52:2009 Annex E: a reduction factor on every
+    # stretch's capacity, and above 33 % the cable carries the neutral current.
+    harmonics = harmonic_sizing(ib, third_harmonic_pct(spec, config), spec.phases, cores,
+                                config.harmonics_envelope)
+    if harmonics.basis == "neutral":
+        need = max(need, harmonics.current_a)
+    limit, limit_source = circuit_vd_limit(spec, config)
     temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
-    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp)
+    temp_rule = config.conductor_temp_for_vd
+    if temp_rule not in ("operating", "max"):
+        raise UnknownKeyError(
+            f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'")
+    operating = temp_rule == "operating"
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics)
 
     conductor, insulation = spec.conductor, spec.insulation
     stretches = spec.stretches
-    methods = tuple("F" if s.method == "E" and cores == 1 else s.method for s in stretches)
+    methods = tuple(_method_for(s.method, cores=cores) for s in stretches)
     sizes, allowed, amps, smallest, monotone = _layout(
         methods, conductor, insulation, loaded_conductors(spec.phases),
         config.max_single_csa_mm2 or math.inf, config.min_csa_mm2.get(conductor, 0.0))
@@ -315,6 +375,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         )
     keys = [_stretch_key(s, m, insulation, config) for s, m in zip(stretches, methods, strict=True)]
     n_sizes, n_stretches = len(allowed), len(stretches)
+    ambients = [k[2] for k in keys]
 
     # Voltage drop (voltage_drop_v, drop_percent) with its size-independent terms once.
     pf = spec.power_factor
@@ -326,9 +387,20 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     short_circuit, motor, disconnection = prep.short_circuit, prep.motor_start, prep.disconnection
     disconnection_upsize = prep.disconnection_upsize
 
-    def first_failing(csa: float, parallel: int) -> str | None:
+    def vd_temperature(index: int, parallel: int, totals: list[float]) -> float:
+        # operating_temperature_c on every stretch, the hottest taken for the whole run
+        if not operating:
+            return temp
+        return max(operating_temperature_c(ambients[s], temp, ib, parallel * amps[s][index] * totals[s])
+                   for s in range(n_stretches))
+
+    def first_failing(index: int, parallel: int, totals: list[float]) -> str | None:
         # the upsize checks in order: voltage_drop, short_circuit, motor_start, disconnection.
-        r = _resistance_ohm_per_km(csa, conductor, temp) / 1000.0
+        csa = allowed[index]
+        if operating:
+            r = resistance_ohm_per_km(csa, conductor, vd_temperature(index, parallel, totals)) / 1000.0
+        else:
+            r = _resistance_ohm_per_km(csa, conductor, temp) / 1000.0
         if not 100.0 * (vd_a * (r * pf + vd_x_sin) / parallel) / voltage <= vd_limit:
             return "voltage_drop"
         if not short_circuit.passes(csa):
@@ -351,8 +423,13 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     first_ok = None
     last_tried = None
     for parallel in range(1, config.max_parallel + 1):
-        rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays)
+        rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays,
+                                stretches[s].containment)
                  for s, k in enumerate(keys)]
+        if harmonics.factor != 1.0:
+            hf = Factor("harmonics", harmonics.factor, "IEC 60364-5-52:2009 Annex E, Table E.52.1",
+                        harmonics.detail)
+            rated = [(t * hf.value, f + (hf,)) for t, f in rated]
         totals = [t for t, _ in rated]
         if monotone:
             lo, hi = 0, n_sizes
@@ -376,10 +453,12 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         if first_ok is None:
             first_ok = (index, parallel, governed, rated, totals)
         while True:
-            failing = first_failing(allowed[index], parallel)
+            failing = first_failing(index, parallel, totals)
             if failing is None:
                 return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel,
-                                        governed, rated, capacity(index, parallel, totals))
+                                        governed, rated, capacity(index, parallel, totals),
+                                        vd_temperature(index, parallel, totals), temp_rule,
+                                        limit_source)
             index += 1
             if index >= n_sizes:
                 # nothing at this count passes: remember the largest tried, so that a
@@ -397,19 +476,20 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         ) from None
     index, parallel, governed, rated, totals = first_ok
     return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed,
-                            rated, capacity(index, parallel, totals))
+                            rated, capacity(index, parallel, totals),
+                            vd_temperature(index, parallel, totals), temp_rule, limit_source)
 
 
 def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed, rated,
-                     rating) -> SizingResult:
+                     rating, vd_temp_c, temp_rule, limit_source) -> SizingResult:
     _, stretch_index = rating
     csa = allowed[index]
     total, factors = rated[stretch_index]
     iz = parallel * amps[stretch_index][index] * total
     cand = Candidate(csa, parallel, iz, stretch_index)
     checks = _base_checks(ctx, iz)
-    vd = _voltage_drop(spec, cand, ctx)
-    checks.append(_voltage_drop_check(vd))
+    vd = _voltage_drop(spec, cand, ctx, vd_temp_c)
+    checks.append(_voltage_drop_check(vd, vd_temp_c, temp_rule, limit_source))
     checks.extend(prep.report(csa, parallel))
     return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
                      methods[stretch_index], iz, total, factors, checks, vd,
@@ -417,7 +497,7 @@ def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, g
 
 
 def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
-    return [
+    out = [
         Check("design_current", ctx.design_current_a <= ctx.device.rating_a, ctx.design_current_a,
               ctx.device.rating_a, "A", "IEC 60364-4-43:2008 433.1 (433.1): Ib <= In"),
         Check("capacity", ctx.device.rating_a <= iz + 1e-9, ctx.device.rating_a, iz, "A",
@@ -425,6 +505,12 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
         Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
               f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
     ]
+    h = ctx.harmonics
+    if h is not None and h.basis == "neutral":
+        out.append(Check("neutral_current", h.current_a <= iz + 1e-9, h.current_a, iz, "A",
+                         f"IEC 60364-5-52:2009 Annex E, Table E.52.1: {h.detail}; "
+                         f"neutral 3 h Ib = {h.neutral_current_a:.1f} A"))
+    return out
 
 
 def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras):

@@ -17,6 +17,7 @@ __all__ = [
     "REACTANCE_MOHM_PER_M",
     "ANNEX_G_RESISTIVITY_OHM_MM2_PER_M",
     "MAX_CONDUCTOR_TEMPERATURE_C",
+    "operating_temperature_c",
     "voltage_drop_v",
     "annex_g_drop_percent",
     "drop_percent",
@@ -34,6 +35,55 @@ ANNEX_G_RESISTIVITY_OHM_MM2_PER_M = {"Cu": 0.0225, "Al": 0.036}
 #: PVC 70 °C, XLPE/EPR 90 °C.  Voltage drop is computed at this temperature,
 #: the conservative reading (common practice).
 MAX_CONDUCTOR_TEMPERATURE_C = {"PVC": 70.0, "XLPE": 90.0}
+
+
+def operating_temperature_c(ambient_c: float, max_temperature_c: float, current_a: float,
+                            capacity_a: float) -> float:
+    """Conductor temperature estimated from the load.
+
+    .. math::
+
+        \\theta = \\theta_a + (\\theta_{max} - \\theta_a)\\left(\\frac{I_b}{I_z}\\right)^2
+
+    The temperature rise above the surroundings is proportional to the Joule
+    losses, I²R (the steady-state heat balance of IEC 60287-1-1:2006 clause 1.4,
+    Δθ = I²R T for the thermal resistance T); at Iz the conductor reaches its
+    maximum temperature θmax, so at Ib the rise is (Ib/Iz)² of that.  The rise
+    of R itself with temperature is neglected (the estimate is a little low
+    near full load: at Ib = Iz it gives θmax exactly).  This is the approach
+    IEC 60364-5-52:2009 Annex G points to for the resistance "in normal
+    service" (G.52.1 takes 1.25 x R20 as a fixed value instead).
+
+    Parameters
+    ----------
+    ambient_c : float
+        Ambient (air or ground) temperature of the governing stretch [°C].
+    max_temperature_c : float
+        Maximum conductor temperature of the insulation, Table 52.1 [°C].
+    current_a : float
+        Design current Ib [A].
+    capacity_a : float
+        Corrected capacity Iz at that ambient and grouping [A], > 0.
+
+    Returns
+    -------
+    float
+        θ [°C], between θa and θmax for Ib <= Iz (capped at θmax above).
+
+    Examples
+    --------
+    XLPE at half its rating in 30 °C air: 30 + 60 x 0.25 = 45 °C.
+
+    >>> operating_temperature_c(30.0, 90.0, 50.0, 100.0)
+    45.0
+
+    References
+    ----------
+    .. [1] IEC 60287-1-1:2006, clause 1.4 (heat balance, losses I²R).
+    .. [2] IEC 60364-5-52:2009, Table 52.1 (θmax) and Annex G.
+    """
+    ratio = min(1.0, current_a / capacity_a) if capacity_a > 0 else 1.0
+    return ambient_c + (max_temperature_c - ambient_c) * ratio * ratio
 
 
 def voltage_drop_v(

@@ -178,8 +178,8 @@ def test_unknown_method_support_spacing():
         ctab.grouping_factor("E", 2, support="basket")
     with pytest.raises(UnknownKeyError):
         ctab.grouping_factor("F", 2, support="unperforated_tray")
-    with pytest.raises(UnknownKeyError):
-        ctab.grouping_factor("G", 2)
+    with pytest.raises(OutOfRangeError, match="method G"):
+        ctab.grouping_factor("G", 2)  # B.52.21 has no rows for spaced single-core groups
 
 
 def test_factors_fall_with_count():

@@ -78,12 +78,20 @@ class TestDevice:
 
     @pytest.mark.parametrize("ib, expected", [(4.0, 6), (8.0, 10), (93.4, 125), (100.0, 125), (100.1, 160)])
     def test_smallest_rating_at_125_percent(self, ib, expected):
-        # contract.md: smallest standard rating >= 1.25 Ib (common practice).
+        # the 1.25 option: smallest standard rating >= 1.25 Ib (contract ratings).
+        assert select_device(ib, margin=1.25).rating_a == expected
+
+    @pytest.mark.parametrize("ib, expected", [(4.0, 6), (93.4, 100), (100.0, 100), (100.1, 125),
+                                              (650.0, 800)])
+    def test_default_margin_is_433_1(self, ib, expected):
+        # IEC 60364-4-43:2008 433.1: Ib <= In, the smallest contract rating >= Ib (margin 1.0).
         assert select_device(ib).rating_a == expected
 
     def test_beyond_largest_rating(self):
         with pytest.raises(NoCableLargeEnoughError, match="largest standard device rating"):
-            select_device(1500.0)
+            select_device(1500.0, margin=1.25)
+        with pytest.raises(NoCableLargeEnoughError, match="largest standard device rating"):
+            select_device(1600.5)
 
     def test_breaker_i2(self):
         # IEC 60898-1 conventional tripping current 1.45 In (from memory).
