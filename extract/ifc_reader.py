@@ -82,7 +82,7 @@ CARRIER_KINDS: Mapping[str, tuple[str, str]] = {
 }
 
 #: Reference methods of IEC 60364-5-52:2009, Table B.52.1, accepted in ``CW_Routing``.
-REFERENCE_METHODS = ("A1", "A2", "B1", "B2", "C", "D1", "D2", "E", "F", "G")
+REFERENCE_METHODS = ("A1", "A2", "B1", "B2", "C", "D1", "D2", "E", "F", "F_FLAT", "G", "G_VERTICAL")
 
 #: Our property set on a route piece: ``Containment`` (one of CONTAINMENTS) and/or
 #: ``ReferenceMethod`` (IEC 60364-5-52 letter) override the class's default.

@@ -86,6 +86,11 @@ class Stretch:
     trays: int = 1
     containment: str = ""
 
+    @property
+    def tiers(self) -> int:
+        """Tiers of trays or ladders on the stretch (the same as ``trays``)."""
+        return self.trays
+
 
 @dataclass(frozen=True)
 class CircuitSpec:
