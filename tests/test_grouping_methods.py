@@ -11,6 +11,8 @@ from cablewright.sizing import correction_tables as ctab
 from cablewright.sizing.capacity_tables import canonical_method, tabulated_capacity
 from cablewright.sizing.model import CircuitSpec, Load, Stretch
 from cablewright.sizing.select import size_circuit
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from cablewright.cli import main
 from cablewright.config import load_settings
@@ -127,3 +129,24 @@ def test_stretch_carries_tiers_and_containment():
     spec = CircuitSpec("T", Load(20, "A"), 400.0, stretches=(stretch,))
     # 12 cables on 2 ladders: 6 per ladder, IEC 60364-5-52:2009 Table B.52.20 ladder row 2: 0.76
     assert size_circuit(spec).grouping_factor == 0.76
+
+
+@settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.sampled_from(("E", "F", "F_flat")), st.sampled_from(("tray", "ladder")),
+       st.integers(1, 3), st.integers(0, 12), st.integers(1, 6), st.floats(5.0, 400.0))
+def test_more_cables_on_the_tiers_never_a_smaller_cable(method, containment, tiers, others, more,
+                                                         load_a):
+    """Property: on trays in tiers, a bigger group never gives less copper (the factors of
+    IEC 60364-5-52:2009 Tables B.52.17, B.52.20 and B.52.21 never rise with the count)."""
+    def size(n):
+        stretch = Stretch(method=method, other_cables=n, trays=tiers, containment=containment)
+        return size_circuit(CircuitSpec("T", Load(load_a, "A"), 400.0,
+                                        cores=1 if method != "E" else None,
+                                        design_length_m=20.0, stretches=(stretch,)))
+    a, b = size(others), size(others + more)
+    if a.cable is None:
+        assert b.cable is None
+        return
+    if b.cable is None:
+        return  # beyond the table on several tiers: an error, never a smaller cable
+    assert b.cable.parallel * b.cable.csa_mm2 >= a.cable.parallel * a.cable.csa_mm2 - 1e-9
