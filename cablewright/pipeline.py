@@ -230,7 +230,9 @@ def size_measurement(
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
 
 
-#: IEC 60364-5-52:2009 523.5 (the 30 % rule, also the note under Table B.52.17).
+#: The 30 % rule of IEC 60364-5-52:2009: a cable expected to carry no more than 30 % of
+#: its grouped rating may be ignored when the group's factor is read for the others
+#: (523.5 and the notes to the grouping tables; clause number from memory).
 LIGHT_LOAD_FRACTION = 0.30
 LIGHT_LOAD_NOTE = (
     "30 % rule applied (config ignore_lightly_loaded): this circuit carries no more than 30 % "

@@ -101,7 +101,8 @@ class SizingConfig:
     ignore_lightly_loaded : bool
         IEC 60364-5-52:2009 523.5 / Table B.52.17 note: a cable expected to carry
         no more than 30 % of its grouped rating may be left out of the count for
-        the rest of the group.  Off by default; the report names it when on.
+        the rest of the group (clause number from memory).  Off by default; the
+        report names it on every circuit it is applied to.
     default_fault_ka : float or None
         Prospective three-phase fault current at a circuit's source when the
         schedule's ``fault_ka`` is blank [kA]; ``None`` (default): the
@@ -194,7 +195,9 @@ class SizingConfig:
         ``vd_limits_pct[load_type]`` when given; otherwise IEC 60364-5-52:2009
         Table G.52.1 for ``supply`` (lighting, or other uses for every other
         load type), plus, with ``vd_long_run_allowance``, 0.005 % per metre
-        beyond 100 m, at most 0.5 % (the table's note).
+        beyond 100 m, at most 0.5 % (the table's note, which speaks of main
+        wiring systems longer than 100 m; applied here to ``length_m``, the
+        circuit's own design length).
 
         Examples
         --------

@@ -46,13 +46,16 @@ def operating_temperature_c(ambient_c: float, max_temperature_c: float, current_
         \\theta = \\theta_a + (\\theta_{max} - \\theta_a)\\left(\\frac{I_b}{I_z}\\right)^2
 
     The temperature rise above the surroundings is proportional to the Joule
-    losses, I²R (the steady-state heat balance of IEC 60287-1-1:2006 clause 1.4,
+    losses, I²R (the steady-state heat balance of IEC 60287-1-1:2006, the
+    rating equation of its clause 1.4 (clause number from memory):
     Δθ = I²R T for the thermal resistance T); at Iz the conductor reaches its
     maximum temperature θmax, so at Ib the rise is (Ib/Iz)² of that.  The rise
-    of R itself with temperature is neglected (the estimate is a little low
-    near full load: at Ib = Iz it gives θmax exactly).  This is the approach
-    IEC 60364-5-52:2009 Annex G points to for the resistance "in normal
-    service" (G.52.1 takes 1.25 x R20 as a fixed value instead).
+    of R itself with temperature is neglected (at Ib = Iz it gives θmax
+    exactly; below, the error is a few tenths of a kelvin).  IEC 60364-5-52:2009
+    Annex G works the drop with the resistivity "in normal service" and takes
+    it as 1.25 x the value at 20 °C; this estimate gives the temperature in
+    normal service for the circuit's own load instead (an approach, not a
+    formula printed in Annex G).
 
     Parameters
     ----------
