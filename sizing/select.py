@@ -391,6 +391,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         # operating_temperature_c on every stretch, the hottest taken for the whole run
         if not operating:
             return temp
+        if n_stretches == 1:
+            return operating_temperature_c(ambients[0], temp, ib, parallel * amps[0][index] * totals[0])
         return max(operating_temperature_c(ambients[s], temp, ib, parallel * amps[s][index] * totals[s])
                    for s in range(n_stretches))
 
