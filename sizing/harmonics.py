@@ -38,6 +38,7 @@ __all__ = [
 ]
 
 E_52_1_SOURCE = "IEC 60364-5-52:2009 Annex E, Table E.52.1"
+_NO_HARMONICS = "third harmonic 0 %: row 0 to 15 %, on the phase current, factor 1"
 
 
 @dataclass(frozen=True)
@@ -199,6 +200,8 @@ def harmonic_sizing(phase_current_a: float, third_harmonic_pct: float, phases: i
         why = "single phase" if phases != 3 else f"{cores}-core cable, no neutral in the cable"
         return HarmonicSizing(1.0, "not_applicable", phase_current_a, 0.0,
                               f"Table E.52.1 not applicable: {why}")
+    if third_harmonic_pct == 0:
+        return HarmonicSizing(1.0, "phase", phase_current_a, 0.0, _NO_HARMONICS)
     row = table_e52_1(third_harmonic_pct)
     i_n = neutral_current_a(phase_current_a, third_harmonic_pct)
     detail = (f"third harmonic {third_harmonic_pct:g} %: row {row.low_pct:g} to "
