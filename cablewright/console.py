@@ -34,7 +34,7 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
         rows.append(["design current Ib", f"{result.load_current_a:.1f} A", "IEC 60050-131, P = k U I cos phi"])
     if result.device_rating_a is not None:
         rows.append(["device rating In", f"{result.device_rating_a:g} A ({result.device_kind})",
-                     "smallest standard rating >= 1.25 Ib (common practice)"])
+                     "smallest standard rating >= margin x Ib ([sizing] device_margin, 1.0: IEC 60364-4-43 433.1)"])
     if result.method:
         rows.append(["reference method", result.method, "IEC 60364-5-52:2009 Table B.52.1"])
     for factor in result.factors:
@@ -52,7 +52,7 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
         vd = result.voltage_drop
         where = f" over {length_m:g} m" if length_m else ""
         rows.append(["voltage drop", f"{vd.volts:.2f} V = {vd.percent:.2f} %{where} (limit {vd.limit_percent:g} %)",
-                     "IEC 60228 R at max temperature + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"])
+                     "IEC 60228 R at the temperature of check voltage_drop + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"])
         rows.append(["  Annex G simplified", f"{vd.annex_g_percent:.2f} %", "IEC 60364-5-52:2009 Annex G"])
     for check in result.checks:
         mark = "pass" if check.passed else "FAIL"
