@@ -7,9 +7,9 @@ fill changed.  Totals: circuits per kind of change and the cable to order per
 cable type, before and after.
 
 Segment ids are numbered afresh on every run, so nothing here compares them:
-a segment is known by its layer and its two end points, a route by the points
-it passes.  A route that only gained points (a new tee or tail splitting a
-segment it runs along) and kept its length is not re-routed.
+a segment is known by its layer and its two end points, a route by the line
+it follows.  A route split at a new tee or tail keeps its line and is not
+re-routed.
 """
 
 from __future__ import annotations
@@ -43,6 +43,9 @@ PERCENT_TOLERANCE = 0.05
 FACTOR_TOLERANCE = 0.0015
 #: Fill changes below this are not reported [%] (rounded to 0.1 %).
 FILL_TOLERANCE_PCT = 0.15
+#: Paths that lie no farther apart than this are the same route [m]: well under a
+#: tray's width, above the drawing's snap tolerance (0.05 m, contract.md).
+REROUTE_TOLERANCE_M = 0.1
 #: Points closer than 10 mm are the same point (decimals of a metre).
 POINT_DECIMALS = 2
 
@@ -233,36 +236,42 @@ def _differs(name: str, old: Any, new: Any) -> bool:
     return old != new
 
 
-def _route_points(c: Mapping[str, Any], points: Mapping[str, list] | None) -> set[tuple[float, ...]] | None:
+def _route_lines(c: Mapping[str, Any], points: Mapping[str, list] | None) -> list[list] | None:
     route = c.get("route")
     if points is None or not route:
         return None
-    out: set[tuple[float, ...]] = set()
+    lines = []
     for sid in route.get("segments") or ():
         if sid not in points:
             return None
-        out.update(points[sid])
-    return out
-
-
-def _path_m(c: Mapping[str, Any]) -> float | None:
-    route = c.get("route") or {}
-    try:
-        return float(route["routed_length_m"]) - float(route.get("source_tail_m") or 0) - float(route.get("load_tail_m") or 0)
-    except (KeyError, TypeError):
-        return None
+        lines.append(points[sid])
+    return lines
 
 
 def _rerouted(old: Mapping[str, Any], new: Mapping[str, Any], old_pts, new_pts) -> tuple[list, list] | None:
-    """Points only on the old route and only on the new one, when the circuit was re-routed."""
-    a, b = _route_points(old, old_pts), _route_points(new, new_pts)
-    if a is None or b is None or a == b:
+    """Points only on the old route and only on the new one, when the circuit was re-routed.
+
+    Re-routed means the paths along the routes lie apart somewhere: their
+    Hausdorff distance (shapely, densified so it is measured along the lines,
+    not only at vertices) is above :data:`REROUTE_TOLERANCE_M`.  A path split at
+    a new tee or tail keeps its line and is not re-routed.
+    """
+    import shapely
+
+    a, b = _route_lines(old, old_pts), _route_lines(new, new_pts)
+    if a is None or b is None:
         return None
-    path_a, path_b = _path_m(old), _path_m(new)
-    same_length = path_a is not None and path_b is not None and abs(path_a - path_b) <= LENGTH_TOLERANCE_M
-    if (a <= b or b <= a) and same_length:  # a segment split or joined along the same path
+    if not a and not b:
         return None
-    return [list(p) for p in sorted(a - b)], [list(p) for p in sorted(b - a)]
+    if not a or not b:
+        return [list(p) for line in a for p in line], [list(p) for line in b for p in line]
+    ga = shapely.MultiLineString([line for line in a if len(line) >= 2])
+    gb = shapely.MultiLineString([line for line in b if len(line) >= 2])
+    if shapely.hausdorff_distance(ga, gb, densify=0.1) <= REROUTE_TOLERANCE_M:
+        return None
+    pa = {p for line in a for p in line}
+    pb = {p for line in b for p in line}
+    return [list(p) for p in sorted(pa - pb)], [list(p) for p in sorted(pb - pa)]
 
 
 def _compare_circuit(old: Mapping[str, Any], new: Mapping[str, Any], old_pts, new_pts) -> CircuitChange:
