@@ -121,7 +121,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                                       measurement.equipment, units_per_m, config,
                                       document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
-        write_schedule_xlsx(stage / names["xlsx"], job.outcomes, xlsx_sheets(takeoff))
+        write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
         write_schedule_json(stage / names["json"], job.outcomes, extras)
         sections = takeoff_sections(takeoff)
         if changes is not None:

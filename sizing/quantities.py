@@ -10,8 +10,9 @@ References
 ----------
 .. [1] contract.md, "Extensions": ``quantities`` in ``schedule.json``, "sum of
    design length x parallel".
-.. [2] D. S. Johnson, "Near-optimal bin packing algorithms", MIT (1973):
-   first-fit decreasing uses at most 11/9 OPT + 1 bins (the bound cited for FFD).
+.. [2] D. S. Johnson, "Near-optimal bin packing algorithms", MIT (1973): first-fit
+   decreasing.  G. Dósa, "The tight bound of First Fit Decreasing bin-packing
+   algorithm is FFD(I) <= 11/9 OPT(I) + 6/9", ESCAPE 2007, LNCS 4614.
 """
 
 from __future__ import annotations
