@@ -144,7 +144,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
     _issues(measurement)
     _report_errors(job.outcomes)
     if args.json:
-        print(dumps(job.outcomes, kind="size"))
+        print(dumps(job.outcomes, kind="size", extra=extras))
     else:
         rows = []
         for o in job.outcomes:

@@ -225,3 +225,17 @@ def test_project_diameters_and_containment_sizes_from_the_config(tmp_path):
     # by hand: two cables of the project's 40 mm on the project's 200 mm tray: 80 / 200 = 40 %
     assert row.cables == 2 and row.fill.percent == pytest.approx(40.0)
     assert row.fill.limit_percent == 50.0 and row.fill.result == "pass"
+
+
+def test_fill_marks_sit_half_way_along_the_full_segments():
+    from cablewright.annotate.revision import fill_marks
+    from cablewright.annotate.takeoff import SegmentRow
+    from cablewright.extract.model import RouteSegment
+    from cablewright.sizing.fill import segment_fill
+
+    seg = RouteSegment("S9", ("h",), "ROUTE-TRAY", "tray", "E", 6.0, ((0, 0, 3), (6, 0, 3)))
+    full = SegmentRow(seg, ("A", "B"), 2, segment_fill("S9", "tray", 100.0, [42.0, 42.0], 80.0))
+    fine = SegmentRow(seg, ("A",), 1, segment_fill("S9", "tray", 100.0, [42.0], 80.0))
+    (mark,) = fill_marks([full, fine])
+    # by hand: 84 mm of 100 mm is above the 80 % limit; half-way along 6 m is x = 3 m
+    assert mark.at_m == (3.0, 0.0, 3.0) and mark.result == "warning" and "84 %" in mark.text
