@@ -107,7 +107,11 @@ class DrumPlan:
 
 @dataclass(frozen=True)
 class QuantityRow:
-    """One row of the bill: a cable type, its circuits, cable runs and length to order."""
+    """One row of the bill: a cable type, its circuits, cable runs and length to order.
+
+    ``runs`` counts cables pulled: a circuit of n parallel cables is n runs.
+    ``length_to_order_m`` is the sum of design length x parallel [m].
+    """
 
     cable: CableType
     circuits: int

@@ -239,3 +239,13 @@ def test_fill_marks_sit_half_way_along_the_full_segments():
     (mark,) = fill_marks([full, fine])
     # by hand: 84 mm of 100 mm is above the 80 % limit; half-way along 6 m is x = 3 m
     assert mark.at_m == (3.0, 0.0, 3.0) and mark.result == "warning" and "84 %" in mark.text
+
+
+def test_size_with_an_unusable_previous_folder_stops_before_any_work(tmp_path, capsys):
+    drawing = ROOT / "sample_drawings" / "pumping_station.dxf"
+    out = tmp_path / "out"
+    code = main(["size", str(drawing), "--circuits", str(ROOT / "sample_drawings" / "pumping_station_circuits.csv"),
+                 "--out", str(out), "--previous", str(tmp_path / "nothing-here")])
+    assert code == 2 and not out.exists()
+    err = capsys.readouterr().err
+    assert "nothing-here" in err and "Traceback" not in err
