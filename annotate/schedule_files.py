@@ -165,7 +165,7 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     ws.append(head)
     for row in rows:
         ws.append([row[h] for h in HEADERS])
-    for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff_files.py)
+    for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
         extra.append([WriteOnlyCell(extra, value=h) for h in headers])
         for sheet_row in sheet_rows:
