@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import json
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import asdict
 from typing import Any
 
@@ -146,13 +146,16 @@ def document(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> dict[str
     return {"circuits": [outcome_to_dict(o, kind) for o in outcomes]}
 
 
-def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> str:
+def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size",
+          extra: Mapping[str, Any] | None = None) -> str:
     """The JSON document as text, one circuit per line, UTF-8 safe.
 
     Each circuit's object is written on one line by the json module's C
     encoder (``indent`` would switch to its pure-Python encoder, several times
     slower on a big schedule); the lines are indented inside ``"circuits"``,
-    so the file still reads and compares circuit by circuit.
+    so the file still reads and compares circuit by circuit.  ``extra`` adds
+    top-level keys after ``"circuits"`` (``tool``, ``input``, ``quantities``, ...,
+    see :func:`.takeoff.document_extras`), lists one entry per line.
 
     Examples
     --------
@@ -165,4 +168,11 @@ def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> str:
     encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": ")).encode
     lines = [encode(outcome_to_dict(o, kind)) for o in outcomes]
     body = ",\n".join("    " + line for line in lines)
-    return '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]\n}"
+    text = '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]"
+    for key, value in (extra or {}).items():
+        if isinstance(value, list):
+            items = ",\n".join("    " + encode(v) for v in value)
+            text += f',\n  {encode(key)}: [\n' + (items + "\n" if items else "") + "  ]"
+        else:
+            text += f",\n  {encode(key)}: {encode(value)}"
+    return text + "\n}"

@@ -184,6 +184,7 @@ def render_report_html(
     drawing_name: str,
     preview_png: bytes | None,
     cautions: str,
+    extra_sections: Sequence[str] = (),
 ) -> str:
     """The report as one HTML string (see :func:`write_report_html`)."""
     counts = Counter(o.status for o in outcomes)
@@ -236,6 +237,7 @@ def render_report_html(
             ("circuit", "from", "to", "cable", "device", "routed length", "status"), rows, {4, 5}
         )
     )
+    out += list(extra_sections)  # changes, quantities, fill (annotate/report_sections.py)
     out.append("<h2>Circuits, step by step</h2>")
     out += [_circuit_section(o) for o in outcomes]
     out.append(caution)
@@ -251,6 +253,7 @@ def write_report_html(
     drawing_name: str,
     preview_png: bytes | None,
     cautions: str,
+    extra_sections: Sequence[str] = (),
 ) -> Path:
     """Write the HTML report, atomically.
 
@@ -269,12 +272,15 @@ def write_report_html(
         inlined as a data URI; ``None`` for no picture.
     cautions : str
         Shown in a box at the top and at the bottom.
+    extra_sections : sequence of str
+        HTML sections placed after the schedule (see :mod:`.report_sections`).
 
     Returns
     -------
     pathlib.Path
     """
     text = render_report_html(
-        outcomes, title=title, drawing_name=drawing_name, preview_png=preview_png, cautions=cautions
+        outcomes, title=title, drawing_name=drawing_name, preview_png=preview_png, cautions=cautions,
+        extra_sections=extra_sections,
     )
     return write_text_atomic(path, text, encoding="utf-8")

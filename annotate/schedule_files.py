@@ -132,7 +132,8 @@ def write_schedule_csv(path: str | os.PathLike[str], outcomes: Sequence[CircuitO
     return write_text_atomic(path, buf.getvalue(), encoding="utf-8-sig", newline="")
 
 
-def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
+def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],
+                        extra_sheets: Sequence[tuple[str, Sequence[str], Sequence[Sequence[Any]]]] = ()) -> Path:
     """Write the schedule as an Excel workbook; returns the path.
 
     One sheet ``schedule``: bold header, frozen below the header, an auto-filter,
@@ -164,6 +165,11 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     ws.append(head)
     for row in rows:
         ws.append([row[h] for h in HEADERS])
+    for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
+        extra = wb.create_sheet(title)
+        extra.append([WriteOnlyCell(extra, value=h) for h in headers])
+        for sheet_row in sheet_rows:
+            extra.append(list(sheet_row))
     try:
         with atomic_path(path) as tmp:
             wb.save(tmp)
@@ -173,6 +179,8 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     return Path(path)
 
 
-def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
-    """Write the contract's JSON document (``{"circuits": [...]}``); returns the path."""
-    return write_text_atomic(path, dumps(outcomes, "size") + "\n", encoding="utf-8")
+def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],
+                        extra: dict[str, Any] | None = None) -> Path:
+    """Write the contract's JSON document (``{"circuits": [...]}`` and ``extra``'s
+    top-level keys); returns the path."""
+    return write_text_atomic(path, dumps(outcomes, "size", extra) + "\n", encoding="utf-8")

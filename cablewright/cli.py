@@ -52,6 +52,18 @@ def build_parser() -> argparse.ArgumentParser:
     size.add_argument("--out", metavar="DIR", help="output folder (default: beside the drawing)")
     size.add_argument("--jobs", type=int, default=1, metavar="N",
                       help="batch mode: drawings processed in parallel worker processes (default 1)")
+    size.add_argument("--previous", metavar="DIR",
+                      help="an earlier output folder: report what changed and write changes.json")
+    size.add_argument("--watch", action="store_true",
+                      help="run again whenever the drawing or the schedule is saved (Ctrl+C ends)")
+    size.add_argument("--watch-poll", type=float, default=0.5, help=argparse.SUPPRESS)
+    size.add_argument("--watch-runs", type=int, default=0, help=argparse.SUPPRESS)  # tests: stop after N runs
+
+    compare = sub.add_parser("compare", help="what changed between two runs of 'size'")
+    compare.add_argument("old", help="the earlier output folder of 'size', or its schedule.json")
+    compare.add_argument("new", help="the later output folder of 'size', or its schedule.json")
+    compare.add_argument("--json", action="store_true", help="print the change document on stdout")
+    compare.add_argument("--debug", action="store_true", help="show Python tracebacks")
 
     routes = sub.add_parser("routes", help="measure routed lengths and grouping only")
     _drawing_args(routes)
@@ -99,7 +111,13 @@ def main(argv: Sequence[str] | None = None) -> int:
         if args.command == "calc":
             from . import commands_calc
             return commands_calc.run(args)
+        if args.command == "compare":
+            from . import commands_compare
+            return commands_compare.run_compare(args)
         from . import commands_drawing
+        if args.command == "size" and getattr(args, "watch", False):
+            from . import watch
+            return watch.run_watch(args)
         if args.command == "size":
             return commands_drawing.run_size(args)
         if args.command == "routes":

@@ -13,7 +13,7 @@ from cablewright.annotate.model import CircuitOutcome
 
 from .config import load_settings
 from .console import CAUTION, format_table
-from .outputs import write_outputs
+from .outputs import job_document, job_takeoff, write_outputs
 from .pipeline import measure_drawing, route_outcomes, size_measurement
 
 __all__ = ["run_size", "run_routes", "run_demo", "SAMPLE_DIR"]
@@ -106,6 +106,11 @@ def _default_out(drawing: Path) -> Path:
     return drawing.with_name(f"{drawing.stem}_cablewright")
 
 
+def default_out(drawing: Path) -> Path:
+    """The output folder when ``--out`` is not given: beside the drawing."""
+    return _default_out(drawing)
+
+
 def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = None) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
     if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
@@ -114,6 +119,12 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         return run_batch(args)
     settings = load_settings(args.config)
     drawing = Path(args.drawing)
+    previous = getattr(args, "previous", None)
+    previous_doc = None
+    if previous:
+        from cablewright.annotate.changes import load_document
+
+        previous_doc = load_document(previous)  # a bad earlier folder stops the run before any work
     with _stages(args.json) as stage:
         stage(f"reading and routing {drawing.name}")
         measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
@@ -122,11 +133,18 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
             job = size_measurement(measurement, settings, tick)
         stage("writing the annotated drawing, schedule and report")
         out_dir = Path(args.out) if args.out else _default_out(drawing)
-        written = write_outputs(job, drawing, out_dir, settings, quiet=args.json)
+        takeoff, extras = job_takeoff(job, drawing, settings)
+        changes = None
+        if previous_doc is not None:
+            from cablewright.annotate.changes import compare_documents
+
+            changes = compare_documents(previous_doc, job_document(job, extras))
+        written = write_outputs(job, drawing, out_dir, settings, quiet=args.json, takeoff=takeoff,
+                                extras=extras, changes=changes, previous_name=str(previous or ""))
     _issues(measurement)
     _report_errors(job.outcomes)
     if args.json:
-        print(dumps(job.outcomes, kind="size"))
+        print(dumps(job.outcomes, kind="size", extra=extras))
     else:
         rows = []
         for o in job.outcomes:
@@ -143,6 +161,11 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         print(format_table(["circuit", "from", "to", "routed [m]", "Ib [A]", "In [A]", "cable", "VD [%]", "status"], rows))
         counts = {k: sum(1 for o in job.outcomes if o.status == k) for k in ("ok", "warning", "fail", "error")}
         print(f"\n{len(job.outcomes)} circuits: " + ", ".join(f"{v} {k}" for k, v in counts.items()))
+        if changes is not None:
+            from .commands_compare import changes_table
+
+            print(f"\nchanges since {previous}:")
+            print(changes_table(changes))
         print("outputs:")
         for path in written:
             print(f"  {path}")

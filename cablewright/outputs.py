@@ -19,7 +19,7 @@ from cablewright.extract.model import UNIT_TO_M
 from .config import Settings
 from .console import CAUTION
 
-__all__ = ["write_outputs", "output_names"]
+__all__ = ["write_outputs", "output_names", "job_takeoff", "job_document", "changes_json"]
 
 log = logging.getLogger(__name__)
 
@@ -33,7 +33,23 @@ def output_names(drawing: Path) -> dict[str, str]:
         "json": "schedule.json",
         "html": "report.html",
         "png": "preview.png",
+        "changes": "changes.json",
     }
+
+
+def job_takeoff(job, drawing: Path, settings: Settings):
+    """The job's take-off (quantities, devices, fill) and the top-level keys of schedule.json."""
+    from cablewright.annotate.takeoff import build_takeoff, document_extras
+
+    takeoff = build_takeoff(job.outcomes, job.measurement.segments, job.per_segment, settings.sizing)
+    return takeoff, document_extras(takeoff, drawing, settings.sizing)
+
+
+def job_document(job, extras) -> dict:
+    """The job's schedule.json as a dict (what :func:`.changes.compare_documents` reads)."""
+    from cablewright.annotate.jsonout import document
+
+    return {**document(job.outcomes, "size"), **extras}
 
 
 def _annotate_config(settings: Settings):
@@ -50,23 +66,31 @@ def _annotate_config(settings: Settings):
     return replace(base, **settings.annotate)
 
 
-def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False) -> list[Path]:
+def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False,
+                  takeoff=None, extras=None, changes=None, previous_name: str = "") -> list[Path]:
     """Write the annotated DXF, schedule (csv, xlsx, json), preview and report.
 
+    ``takeoff``/``extras`` come from :func:`job_takeoff` (computed when not
+    given); ``changes`` (a :class:`.changes.ChangeReport` against the run in
+    ``previous_name``) adds ``changes.json`` and a report section.
     Returns the final paths.  Raises :class:`DrawingReadError` when the folder
     cannot be written; nothing partial is left behind.
     """
     from cablewright.annotate.dxf_writer import write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
+    from cablewright.annotate.report_sections import changes_section, takeoff_sections
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
         write_schedule_json,
         write_schedule_xlsx,
     )
+    from cablewright.annotate.takeoff import xlsx_sheets
 
     names = output_names(drawing)
     measurement = job.measurement
+    if takeoff is None or extras is None:
+        takeoff, extras = job_takeoff(job, drawing, settings)
     out_dir = Path(out_dir)
     try:
         out_dir.mkdir(parents=True, exist_ok=True)
@@ -97,16 +121,23 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                                       measurement.equipment, units_per_m, config,
                                       document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
-        write_schedule_xlsx(stage / names["xlsx"], job.outcomes)
-        write_schedule_json(stage / names["json"], job.outcomes)
+        write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
+        write_schedule_json(stage / names["json"], job.outcomes, extras)
+        sections = takeoff_sections(takeoff)
+        if changes is not None:
+            from cablewright.annotate.atomic import write_text_atomic
+
+            write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
+            sections.insert(0, changes_section(changes, previous_name))
         ours = dict(summary.layers)
         schedule_layer = ours.pop("schedule", config.schedule_layer)
         png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
                                  keep_layers=tuple(ours.values()))
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
-                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION)
-        keys = ["dxf", "csv", "xlsx", "json", "png", "html"]
+                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
+                          extra_sections=sections)
+        keys = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else [])
         if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
             from cablewright.annotate.ifc_writer import write_ifc_copy
 
@@ -121,6 +152,24 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         return final
     finally:
         shutil.rmtree(stage, ignore_errors=True)
+
+
+def changes_json(changes, previous_name: str = "") -> str:
+    """``changes.json`` / ``compare --json``: the contract's document, one circuit per line."""
+    import json
+
+    data = changes.to_dict()
+    if previous_name:
+        data["previous"] = previous_name
+    encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": ")).encode
+    lines = []
+    for key, value in data.items():
+        if isinstance(value, list):
+            body = ",\n".join("    " + encode(v) for v in value)
+            lines.append(f"  {encode(key)}: [\n" + (body + "\n" if body else "") + "  ]")
+        else:
+            lines.append(f"  {encode(key)}: {encode(value)}")
+    return "{\n" + ",\n".join(lines) + "\n}\n"
 
 
 def _plan_view_for(measurement, stage: Path) -> Path:

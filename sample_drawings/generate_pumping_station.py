@@ -22,6 +22,9 @@ Every value here is invented for the demonstration.  Run:
 
 from __future__ import annotations
 
+import argparse
+import contextlib
+import copy
 import csv
 import json
 import math
@@ -435,7 +438,57 @@ def _num(v: str):
     return int(f) if f.is_integer() else f
 
 
-def main(out_dir: Path = HERE) -> None:
+# --------------------------------------------------------------------------- revision 2
+# A layout change for the change report (invented): the P-102 branch tray moves 2 m
+# east (from x = 27 m to x = 29 m), the hall socket S-01 is deleted, and two loads
+# are added: a UV disinfection unit UV-1 whose tail lands mid-way on the east branch
+# tray (splitting the segment four circuits run along), and a control-room light
+# L-04 fed from CP-1, whose tail lands on the control-room tray.
+REVISION_2 = {
+    "moved": {"X27": (29000.0, 6000.0, TRAY_Z), "P102_A": (29000.0, 14000.0, TRAY_Z)},
+    "added_points": {"UV_A": (43000.0, 13000.0, TRAY_Z), "LTCR_A": (7000.0, 20000.0, UPPER_TRAY_Z)},
+    "added_equipment": {"UV-1": ("PANEL", (44500.0, 13000.0, 1000.0), "UV_A"),
+                        "LT-CR": ("LIGHT", (7000.0, 21000.0, 7000.0), "LTCR_A")},
+    "added_circuits": [
+        ("UV-1", "MCC-1", "UV-1", "15 kW", "0.9", "", V3, "3", "general", "", "", "25",
+         ["MCC_A", "B1", "B", "X43", "UV_A"]),
+        ("L-04", "CP-1", "LT-CR", "1.2 kW", "0.95", "", V1, "1", "lighting", "", "3", "6",
+         ["CP_A", "LTCR_A"]),
+    ],
+    "deleted_circuits": ("S-01",),
+    "deleted_equipment": ("SO-PH",),
+}
+
+
+@contextlib.contextmanager
+def revision(number: int):
+    """The module's layout as revision ``number`` (1: as drawn above; 2: REVISION_2)."""
+    saved = copy.deepcopy((P, EQUIPMENT, CIRCUITS))
+    try:
+        if number == 2:
+            P.update(REVISION_2["moved"])
+            P.update(REVISION_2["added_points"])
+            for tag in REVISION_2["deleted_equipment"]:
+                del EQUIPMENT[tag]
+            EQUIPMENT.update(REVISION_2["added_equipment"])
+            CIRCUITS[:] = [c for c in CIRCUITS if c[0] not in REVISION_2["deleted_circuits"]]
+            CIRCUITS.extend(REVISION_2["added_circuits"])
+        elif number != 1:
+            raise ValueError(f"revision {number}: only 1 and 2 exist")
+        yield
+    finally:
+        P.clear(), P.update(saved[0])
+        EQUIPMENT.clear(), EQUIPMENT.update(saved[1])
+        CIRCUITS[:] = saved[2]
+
+
+def main(out_dir: Path = HERE, rev: int = 1) -> None:
+    """Write the drawing, schedules and expected lengths of revision ``rev`` into ``out_dir``."""
+    with revision(rev):
+        _write_all(out_dir)
+
+
+def _write_all(out_dir: Path) -> None:
     out_dir.mkdir(parents=True, exist_ok=True)
     exp = expected()  # checks attachments before anything is written
     draw(out_dir / "pumping_station.dxf")
@@ -444,4 +497,8 @@ def main(out_dir: Path = HERE) -> None:
 
 
 if __name__ == "__main__":
-    main()
+    parser = argparse.ArgumentParser(description="generate the sample drawing (invented demo data)")
+    parser.add_argument("--revision", type=int, default=1, help="1 (committed) or 2 (the layout change)")
+    parser.add_argument("--out", type=Path, default=HERE, help="output folder (default: beside this script)")
+    ns = parser.parse_args()
+    main(ns.out, ns.revision)

@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 from cablewright.extract.errors import UnknownKeyError
 
 from .device import DEVICE_MARGIN, STANDARD_RATINGS_A
+from .fill import DEFAULT_CABLE_OD_MM
 
 __all__ = ["SizingConfig", "VD_LIMITS_G52_1_PCT"]
 
@@ -33,6 +34,19 @@ def _min_csa() -> dict[str, float]:
     # Copper 1.5 mm²: IEC 60364-5-52:2009 Table 52.2 (power circuits, cables).
     # Aluminium 16 mm²: common practice for terminations of aluminium cables.
     return {"Cu": 1.5, "Al": 16.0}
+
+
+def _drum_lengths() -> tuple[float, ...]:
+    # Drum lengths offered for LV power cables: common practice (250, 500 and
+    # 1000 m are the usual standard lengths; large sizes come on shorter drums).
+    return (250.0, 500.0, 1000.0)
+
+
+def _containment_mm() -> dict[str, float]:
+    # Usable tray/ladder width or conduit/duct inner diameter per route layer [mm]:
+    # common practice sizes (300 mm tray, 600 mm ladder, 50 mm conduit, 100 mm
+    # duct); set the project's own sizes in [sizing.containment_mm].
+    return {"ROUTE-TRAY": 300.0, "ROUTE-LADDER": 600.0, "ROUTE-CONDUIT": 50.0, "ROUTE-DUCT": 100.0}
 
 
 def _starters() -> dict[str, tuple[float, float]]:
@@ -147,6 +161,22 @@ class SizingConfig:
         common practice, see :data:`.motor_start.DEFAULT_STARTERS`.
     motor_start_include_source : bool
         Add the source impedance (from the fault level) to the dip.
+    drum_lengths_m : tuple of float
+        Drum lengths for the drum plan of the bill of quantities [m]
+        (common practice: 250, 500, 1000 m).
+    cable_od_mm : dict
+        Outer diameter per cable ``"<cores>x<csa>"`` [mm] for tray and duct fill;
+        the project's values win over :data:`.fill.DEFAULT_CABLE_OD_MM`
+        (typical maker data, from memory).
+    containment_mm : dict
+        Route layer -> usable tray/ladder width or conduit/duct inner diameter
+        [mm] (common practice sizes by default).
+    tray_fill_limit_pct : float
+        Warning above this single-layer fill of a tray or ladder [%]; 80 %
+        (common practice: a fifth of the width kept spare).
+    duct_fill_limit_pct : float
+        Warning above this area fill of a conduit or duct [%]; 40 % (common
+        practice for three or more cables in a conduit).
     """
 
     device_kind: str = "breaker"
@@ -185,6 +215,11 @@ class SizingConfig:
     default_starter: str = "dol"
     starters: dict[str, tuple[float, float]] = field(default_factory=_starters)
     motor_start_include_source: bool = True
+    drum_lengths_m: tuple[float, ...] = field(default_factory=_drum_lengths)
+    cable_od_mm: dict[str, float] = field(default_factory=lambda: dict(DEFAULT_CABLE_OD_MM))
+    containment_mm: dict[str, float] = field(default_factory=_containment_mm)
+    tray_fill_limit_pct: float = 80.0
+    duct_fill_limit_pct: float = 40.0
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)

@@ -153,7 +153,7 @@ def test_unknown_tag_fails_that_circuit_only(tmp_path, capsys):
 def test_failure_while_writing_leaves_no_output(tmp_path, monkeypatch, capsys):
     import cablewright.annotate.schedule_files as schedule_files
 
-    def broken(path, outcomes):
+    def broken(path, outcomes, *more, **options):
         Path(path).write_text("half")
         raise OSError("disk full")
 
