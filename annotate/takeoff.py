@@ -44,7 +44,6 @@ __all__ = [
     "input_info",
 ]
 
-_FILL_LIMIT_KEY = {"tray_width": "tray_fill_limit_pct", "duct_area": "duct_fill_limit_pct"}
 
 
 @dataclass(frozen=True)
@@ -100,7 +99,8 @@ def segment_rows(segments: Mapping[str, Any], per_segment: Mapping[str, Sequence
                 missing.append(od_key(cable.cores, cable.csa_mm2))
             else:
                 diameters += [od] * cable.parallel
-        limit = float(getattr(config, _FILL_LIMIT_KEY.get(_rule(seg.containment), "tray_fill_limit_pct")))
+        limit = (config.duct_fill_limit_pct if _rule(seg.containment) == "duct_area"
+                 else config.tray_fill_limit_pct)
         fill = segment_fill(sid, seg.containment, sizes.get(seg.layer.upper()), diameters, limit, missing)
         rows.append(SegmentRow(seg, tuple(cids), count, fill))
     return rows

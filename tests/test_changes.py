@@ -190,7 +190,7 @@ def test_duct_fill_of_the_sample_by_hand(runs):
     assert set(duct["circuits"]) == {"MOV-1", "SP-1", "L-02", "S-02"}
     d = [DEFAULT_CABLE_OD_MM[od_key(cables[c]["cores"], cables[c]["csa_mm2"])] for c in duct["circuits"]]
     by_hand = 100.0 * sum(x * x for x in d) / 100.0 ** 2
-    assert duct["fill"]["percent"] == pytest.approx(by_hand, abs=0.05)
+    assert duct["fill"]["percent"] == pytest.approx(by_hand, abs=0.051)  # printed to 0.1 %
     assert duct["fill"]["rule"] == "duct_area" and duct["fill"]["result"] == "pass"
 
 
