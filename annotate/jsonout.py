@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import json
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import asdict
 from typing import Any
 
@@ -146,8 +146,12 @@ def document(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> dict[str
     return {"circuits": [outcome_to_dict(o, kind) for o in outcomes]}
 
 
-def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> str:
+def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size",
+          extra: Mapping[str, Any] | None = None) -> str:
     """The JSON document as text, one circuit per line, UTF-8 safe.
+
+    ``extra`` adds top-level keys after ``"circuits"`` (e.g. ``"drawing"``: the
+    units and extents the drawing was read with), each written on one line.
 
     Each circuit's object is written on one line by the json module's C
     encoder (``indent`` would switch to its pure-Python encoder, several times
@@ -165,4 +169,5 @@ def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size") -> str:
     encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": ")).encode
     lines = [encode(outcome_to_dict(o, kind)) for o in outcomes]
     body = ",\n".join("    " + line for line in lines)
-    return '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]\n}"
+    tail = "".join(f',\n  {encode(key)}: {encode(value)}' for key, value in (extra or {}).items())
+    return '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]" + tail + "\n}"

@@ -21,7 +21,7 @@ from __future__ import annotations
 import csv
 import io
 import os
-from collections.abc import Callable, Iterable, Sequence
+from collections.abc import Callable, Iterable, Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -173,6 +173,7 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     return Path(path)
 
 
-def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
-    """Write the contract's JSON document (``{"circuits": [...]}``); returns the path."""
-    return write_text_atomic(path, dumps(outcomes, "size") + "\n", encoding="utf-8")
+def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],
+                        extra: Mapping[str, Any] | None = None) -> Path:
+    """Write the contract's JSON document (``{"circuits": [...]}``, then ``extra``'s keys); returns the path."""
+    return write_text_atomic(path, dumps(outcomes, "size", extra) + "\n", encoding="utf-8")

@@ -19,7 +19,7 @@ from cablewright.extract.model import UNIT_TO_M
 from .config import Settings
 from .console import CAUTION
 
-__all__ = ["write_outputs", "output_names"]
+__all__ = ["write_outputs", "output_names", "drawing_entry", "drawing_facts"]
 
 log = logging.getLogger(__name__)
 
@@ -98,14 +98,17 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                                       document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
         write_schedule_xlsx(stage / names["xlsx"], job.outcomes)
-        write_schedule_json(stage / names["json"], job.outcomes)
+        summary_info = drawing_entry(measurement)
+        write_schedule_json(stage / names["json"], job.outcomes,
+                            {"drawing": summary_info} if summary_info else None)
         ours = dict(summary.layers)
         schedule_layer = ours.pop("schedule", config.schedule_layer)
         png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
                                  keep_layers=tuple(ours.values()))
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
-                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION)
+                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
+                          drawing_facts=drawing_facts(measurement))
         keys = ["dxf", "csv", "xlsx", "json", "png", "html"]
         if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
             from cablewright.annotate.ifc_writer import write_ifc_copy
@@ -130,3 +133,30 @@ def _plan_view_for(measurement, stage: Path) -> Path:
     path = stage / "_plan_view.dxf"
     write_plan_view(measurement, path)
     return path
+
+
+def drawing_entry(measurement) -> dict | None:
+    """The ``"drawing"`` key of ``schedule.json``: units, where they came from, extents [m]."""
+    summary = getattr(measurement, "drawing_summary", None)
+    return summary.as_dict() if summary is not None else None
+
+
+def drawing_facts(measurement) -> list[tuple[str, str]]:
+    """How the drawing was read, as (name, text) rows for the report."""
+    summary = getattr(measurement, "drawing_summary", None)
+    if summary is None:
+        return []
+    source = "from the config or --units" if summary.units_source == "config" else "from $INSUNITS"
+    facts = [("units", f"{summary.units} ({source}; $INSUNITS = {summary.header_code})")]
+    if summary.extents is not None:
+        w, d, h = summary.extents.size_m
+        facts.append(("route extents", f"{w:.2f} m x {d:.2f} m, {h:.2f} m high; "
+                                       f"median route piece {summary.extents.median_piece_m:.2f} m"))
+    if summary.scale is not None:
+        if summary.scale.plausible:
+            facts.append(("scale", "plausible for a building or plant"))
+        else:
+            likely = (f"; likely drawn in {' or '.join(summary.scale.likely_units[:2])}"
+                      if summary.scale.likely_units else "")
+            facts.append(("scale", f"NOT plausible: {summary.scale.reason}{likely} - check the units"))
+    return facts
