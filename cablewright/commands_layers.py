@@ -54,7 +54,9 @@ def _print_survey(survey: Survey) -> None:
     words = [t.word for t in survey.tag_texts]
     more = f" ... ({len(words)} in all)" if len(words) > SHOWN_TEXTS else ""
     print(f"texts that could be tags: {', '.join(words[:SHOWN_TEXTS]) + more if words else 'none'}")
-    print(f"blocks with a {survey.tag_attribute} attribute: {survey.tagged_inserts}")
+    print(f"blocks with a {survey.tag_attribute} attribute: {survey.tagged_inserts}"
+          + (f"; {survey.suggested_tag_attribute()} reads as a tag on other blocks"
+             if survey.suggested_tag_attribute() else ""))
     source = {"header": f"$INSUNITS={survey.header_code}", "config": "config or --units",
               "none": f"unitless, $INSUNITS={survey.header_code}"}[survey.units_source]
     print(f"units: {survey.units or 'none'} ({source})"

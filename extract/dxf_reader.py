@@ -436,9 +436,14 @@ def _walk_layout(walker: _Walker, entities: Iterator) -> None:
 
 def _tag_from_text(walker: _Walker) -> None:
     """Equipment from the symbols collected, tagged from text (:mod:`.dxf_tags`)."""
-    if not walker.config.tags_from_text:
-        return
     content = walker.content
+    if not walker.config.tags_from_text:
+        if walker.config.tag_symbol_layers:
+            content.issues.append(Issue(
+                "tags-from-text-off",
+                f"{walker.path}: tag_symbol_layers is set but tags_from_text is false; the circles and "
+                "points on those layers are not read as equipment - set tags_from_text = true"))
+        return
     found, issues = tag_symbols(walker.marks, walker.config.tag_text_max_m,
                                 (eq.tag for eq in content.equipment), str(walker.path))
     content.equipment.extend(found)

@@ -20,11 +20,10 @@ import os
 import re
 import unicodedata
 from collections import Counter
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
-from .dxf_flatten import FLATTEN_TYPES, flatten_points
-from .dxf_reader import _entity_points, _load
+from .dxf_reader import DxfContent, _load, _walk_layout, _Walker
 from .dxf_tags import first_word, looks_like_tag, text_anchor
 from .dxf_units import header_code
 from .errors import DrawingReadError
@@ -91,9 +90,6 @@ CONTAINMENT_WORDS: dict[str, tuple[str, bool]] = {
     "trincea": ("buried", False), "interrato": ("buried", False), "scavo": ("buried", False),  # it
     "sleuf": ("buried", False),  # nl
 }
-
-_LINE_TYPES = {"LINE", "LWPOLYLINE", "POLYLINE", "ARC"} | set(FLATTEN_TYPES)
-
 
 def _fold(text: str) -> str:
     """Lower case, accents removed, ß as ss: ``"Tranchée"`` -> ``"tranchee"``."""
@@ -204,6 +200,13 @@ class Survey:
     scale: ScaleCheck | None = None
     likely_units: tuple[str, ...] = ()
     tag_attribute: str = "TAG"
+    tag_like_attributes: Counter = field(default_factory=Counter)
+
+    def suggested_tag_attribute(self) -> str | None:
+        """When no insert carries the tag attribute: the attribute whose values read as tags most often."""
+        if self.tagged_inserts or not self.tag_like_attributes:
+            return None
+        return self.tag_like_attributes.most_common(1)[0][0]
 
     @property
     def metres_per_unit(self) -> float | None:
@@ -245,6 +248,7 @@ class Survey:
             "tag_texts": [{"text": t.word, "layer": t.layer, "position": [round(v, 3) for v in t.position],
                            "source_id": t.source_id} for t in self.tag_texts],
             "tagged_inserts": self.tagged_inserts,
+            "suggested_tag_attribute": self.suggested_tag_attribute(),
             "symbol_layers": self.symbol_layers(),
         }
         if self.extents_m is not None:
@@ -265,14 +269,19 @@ def _length(points) -> float:
     return total
 
 
-def _points(e, tolerance_units: float):
-    t = e.dxftype()
-    try:
-        if t in FLATTEN_TYPES:
-            return flatten_points(e, tolerance_units)
-        return _entity_points(e)
-    except (ValueError, ArithmeticError, IndexError, AttributeError):
-        return None
+def _all_lines(doc, path: Path, config: DrawingConfig, metres_per_unit: float) -> list:
+    """Every line-like entity of model space (block contents exploded) as route pieces, [m].
+
+    The drawing is walked as :func:`~cablewright.extract.dxf_reader.read_dxf` walks
+    it, with every layer taken as a route layer, so that the lengths shown are
+    the lengths ``size`` will read once the layer is in the config.
+    """
+    every_layer = replace(config, route_layers={}, extra_layer_patterns={"*": ("tray", "E")},
+                          tags_from_text=False)
+    content = DxfContent(path=str(path), units=config.units or "m")
+    walker = _Walker(doc, path, every_layer, metres_per_unit, content, every_layer.tag_attribute.upper())
+    _walk_layout(walker, iter(doc.modelspace()))
+    return content.polylines
 
 
 def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = None) -> Survey:
@@ -311,7 +320,6 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
     elif units is None:
         source = "none"
     k = UNIT_TO_M[units] if units else 1.0
-    tol_units = config.flatten_tolerance_m / k
     tag_key = config.tag_attribute.upper()
     layers: dict[str, LayerSurvey] = {}
 
@@ -332,25 +340,26 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
         info.attributes.update(e.dxf.tag.upper() for e in block if e.dxftype() == "ATTDEF")
     route_pieces: list = []
     other_pieces: list = []
+    for piece in _all_lines(doc, p, config, k):  # block contents exploded, as read_dxf reads routes
+        layer = layer_of(piece.layer)
+        pts = [(x / k, y / k, z / k) for x, y, z in piece.points_m]
+        layer.line_length += _length(pts)
+        (route_pieces if (layer.route_kind or layer.suggestion) else other_pieces).append(piece.points_m)
     tag_texts: list[TagText] = []
     symbols: list[tuple[LayerSurvey, tuple[float, float]]] = []
     tagged = 0
+    tag_like: Counter = Counter()
     for e in doc.modelspace():
         t = e.dxftype()
         layer = layer_of(e.dxf.layer)
         layer.counts[t] += 1
-        if t in _LINE_TYPES:
-            pts = _points(e, tol_units)
-            if pts:
-                layer.line_length += _length(pts)
-                scaled = [(x * k, y * k, z * k) for x, y, z in pts]
-                (route_pieces if (layer.route_kind or layer.suggestion) else other_pieces).append(scaled)
-        elif t == "INSERT":
+        if t == "INSERT":
             info = blocks.setdefault(e.dxf.name, BlockSurvey(e.dxf.name))
             info.inserts += 1
             names = {a.dxf.tag.upper(): a.dxf.text for a in e.attribs}
             info.attributes.update(names)
             tagged += bool(names.get(tag_key, "").strip())
+            tag_like.update(n for n, v in names.items() if n != tag_key and looks_like_tag(v.strip()))
         elif t in ("TEXT", "MTEXT"):
             word = first_word(e.plain_text() if t == "MTEXT" else str(e.dxf.text))
             if looks_like_tag(word):
@@ -372,7 +381,7 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
         elif scale is not None and not scale.plausible:
             likely = scale.likely_units
     return Survey(str(p), code, units, source, layers, blocks, tag_texts, tagged, ext, scale, likely,
-                  config.tag_attribute)
+                  config.tag_attribute, tag_like)
 
 
 def _toml(text: str) -> str:
@@ -415,7 +424,11 @@ def starting_config(survey: Survey) -> str:
                    "set it only to override the header")
     else:
         out.append('# units = "mm"   # the drawing is unitless: give its units')
-    if survey.tagged_inserts == 0 and survey.tag_texts:
+    attribute = survey.suggested_tag_attribute()
+    if attribute is not None:
+        out.append(f"tag_attribute = {_toml(attribute)}   # no block carries {survey.tag_attribute}; "
+                   f"{survey.tag_like_attributes[attribute]} blocks have a {attribute} that reads as a tag")
+    elif survey.tagged_inserts == 0 and survey.tag_texts:
         out.append(f"tags_from_text = true   # no block carries a {survey.tag_attribute} attribute; "
                    f"{len(survey.tag_texts)} texts read as tags")
         sym = survey.symbol_layers()

@@ -36,14 +36,14 @@ CONTRACT_METHOD = {"tray": "E", "ladder": "E", "conduit": "B2", "clipped": "C", 
 
 
 def plant(path: Path, *, insunits: int, unit_per_m: float, layers: dict[str, str], tagged: bool = True,
-          symbol_layer: str = "EQUIP") -> Path:
+          symbol_layer: str = "EQUIP", tag_attribute: str = "TAG") -> Path:
     """A small plant: a board MCC-1 at the west end of a spine; one branch per layer to a load.
 
     ``layers`` maps a role (``spine``, ``a``, ``b``, ``c``) to its layer name.  The spine
     runs (0,0)-(40,0) m; branch ``a`` goes north from x=10 for 8 m, ``b`` from x=20 for
     6 m, ``c`` from x=30 for 4 m; each load sits 0.5 m beyond its branch end.  With
-    ``tagged`` the equipment are blocks with a TAG attribute, else circles with a text
-    0.3 m to their right.
+    ``tagged`` the equipment are blocks with a ``tag_attribute`` attribute, else circles
+    with a text 0.3 m to their right.
     """
     k = unit_per_m
     doc = ezdxf.new("R2018")
@@ -53,7 +53,7 @@ def plant(path: Path, *, insunits: int, unit_per_m: float, layers: dict[str, str
         doc.layers.add(name)
     blk = doc.blocks.new("EQ")
     blk.add_circle((0, 0), 0.2 * k)
-    blk.add_attdef("TAG", (0, 0))
+    blk.add_attdef(tag_attribute, (0, 0))
     msp.add_line((0, 0), (40 * k, 0), dxfattribs={"layer": layers["spine"]})
     loads = {}
     for role, x, run in (("a", 10, 8), ("b", 20, 6), ("c", 30, 4)):
@@ -62,7 +62,7 @@ def plant(path: Path, *, insunits: int, unit_per_m: float, layers: dict[str, str
     board = {"MCC-1": (-0.5 * k, 0)}
     for tag, pos in {**board, **loads}.items():
         if tagged:
-            msp.add_blockref("EQ", pos).add_auto_attribs({"TAG": tag})
+            msp.add_blockref("EQ", pos).add_auto_attribs({tag_attribute: tag})
         else:
             msp.add_circle(pos, 0.2 * k, dxfattribs={"layer": symbol_layer})
             msp.add_text(f"{tag} load", dxfattribs={"layer": "TEXT", "height": 0.2 * k,
@@ -171,6 +171,22 @@ def test_units_option_and_schedule_json(tmp_path, capsys):
     assert "Drawing as read" in (out / "report.html").read_text(encoding="utf-8")
 
 
+def test_units_option_reaches_every_drawing_of_a_batch(tmp_path, capsys):
+    layers = {"spine": "ROUTE-TRAY", "a": "ROUTE-TRAY", "b": "ROUTE-TRAY", "c": "ROUTE-TRAY"}
+    for name in ("one", "two"):
+        plant(tmp_path / f"{name}.dxf", insunits=4, unit_per_m=100.0, layers=layers)
+        schedule(tmp_path / f"{name}_circuits.csv")
+    out = tmp_path / "out"
+    code, _, _ = run_cli(capsys, "size", str(tmp_path / "one.dxf"), str(tmp_path / "two.dxf"),
+                         "--units", "cm", "--out", str(out))
+    assert code in (0, 1)
+    for name in ("one", "two"):
+        doc = json.loads((out / name / "schedule.json").read_text(encoding="utf-8"))
+        assert doc["drawing"]["units"] == "cm"
+        routed = {c["id"]: c["route"]["routed_length_m"] for c in doc["circuits"]}
+        assert routed["C-B"] == pytest.approx(expected_length_m("b"), abs=0.01)
+
+
 def test_unknown_units_option_is_exit_2(tmp_path, capsys):
     path = plant(tmp_path / "x.dxf", insunits=6, unit_per_m=1.0,
                  layers={"spine": "ROUTE-TRAY", "a": "ROUTE-TRAY", "b": "ROUTE-TRAY", "c": "ROUTE-TRAY"})
@@ -230,6 +246,8 @@ def test_circles_with_text_become_equipment(tmp_path):
         assert m.routes[f"C-{role.upper()}"].routed_length_m == pytest.approx(expected_length_m(role), abs=1e-6)
     # by default (contract: tags_from_text = false) the circles are not equipment
     assert set(measure(path, csv, DrawingConfig()).routes) == set()
+    off = measure(path, csv, DrawingConfig(tag_symbol_layers=("EQUIP",)))
+    assert not off.routes and any(i.code == "tags-from-text-off" for i in off.issues)
 
 
 def test_blocks_without_attributes_take_the_nearest_text(tmp_path):
@@ -320,8 +338,13 @@ LATIN = {"spine": "Chemin de câbles", "a": "Escalera", "b": "Canalina", "c": "Z
 
 @pytest.mark.parametrize(("names", "tagged", "insunits"), [(GERMAN, True, 0), (LATIN, False, 4)])
 def test_layers_config_sizes_a_foreign_drawing(tmp_path, capsys, names, tagged, insunits):
-    """Foreign layer names: ``layers`` suggests each containment, and its config sizes the circuits."""
-    path = plant(tmp_path / "plan.dxf", insunits=insunits, unit_per_m=1000.0, layers=names, tagged=tagged)
+    """Foreign layer names: ``layers`` suggests each containment, and its config sizes the circuits.
+
+    The German plan is unitless and tags its blocks in a ``BMK`` attribute; the
+    French/Spanish/Italian one draws its equipment as circles with a text beside.
+    """
+    path = plant(tmp_path / "plan.dxf", insunits=insunits, unit_per_m=1000.0, layers=names, tagged=tagged,
+                 tag_attribute="BMK")
     csv = schedule(tmp_path / "c.csv")
     # as drawn, nothing is a route layer
     code, _, err = run_cli(capsys, "routes", str(path), "--circuits", str(csv), "--units", "mm")
@@ -333,12 +356,16 @@ def test_layers_config_sizes_a_foreign_drawing(tmp_path, capsys, names, tagged, 
     want = {"spine": "tray", "a": "ladder", "b": "conduit", "c": "buried"}
     for role, name in names.items():
         assert layers[name]["suggested"]["containment"] == want[role]
+    lengths = {name: layers[name]["line_length"] / 1000.0 for name in names.values()}  # mm -> m
+    assert lengths == pytest.approx({names["spine"]: 40.0, names["a"]: 8.0, names["b"]: 6.0, names["c"]: 4.0})
     if insunits == 0:
         assert doc["units"]["likely"][0] == "mm"  # 40 000 units across, pieces of thousands: mm
     cfg = tmp_path / "start.toml"
     assert run_cli(capsys, "layers", str(path), "--write-config", str(cfg))[0] == 0
     text = cfg.read_text(encoding="utf-8")
     assert ("tags_from_text = true" in text) == (not tagged)
+    assert ('tag_attribute = "BMK"' in text) == tagged
+    assert ('tag_symbol_layers = ["EQUIP"]' in text) == (not tagged)
     out_dir = tmp_path / "out"
     code, _, err = run_cli(capsys, "size", str(path), "--circuits", str(csv), "--config", str(cfg),
                            "--out", str(out_dir))
