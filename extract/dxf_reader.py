@@ -496,7 +496,8 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
         raise DrawingReadError(
             f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer "
             f"({wanted}); layers used in model space: {', '.join(names) or 'none'}. "
-            "Put the cable routes on those layers or add the layer names to the config"
+            "Put the cable routes on those layers or add the layer names to the config "
+            f"('cablewright layers {p.name} --write-config FILE' suggests one)"
         )
     content.summary = summarise(doc, p, config, content)
     logger.info(

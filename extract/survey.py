@@ -368,10 +368,14 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
             c = e.dxf.center if t == "CIRCLE" else e.dxf.location
             layer.symbols += 1
             symbols.append((layer, (float(c[0]), float(c[1]))))
-    max_units = config.tag_text_max_m / k
-    for layer, (x, y) in symbols:  # tag-like text within tag_text_max_m of a symbol (plain loop: few symbols)
-        if any((t.position[0] - x) ** 2 + (t.position[1] - y) ** 2 <= max_units ** 2 for t in tag_texts):
-            layer.symbols_near_tag_text += 1
+    if symbols and tag_texts:  # symbols with a tag-like text within tag_text_max_m (one indexed query)
+        import shapely
+
+        tree = shapely.STRtree(shapely.points([t.position[:2] for t in tag_texts]))
+        found = tree.query(shapely.points([xy for _, xy in symbols]), predicate="dwithin",
+                           distance=config.tag_text_max_m / k)
+        for i in sorted(set(found[0].tolist())):
+            symbols[i][0].symbols_near_tag_text += 1
     ext = extents(route_pieces or other_pieces)
     scale = check_scale(ext, units) if ext is not None and units else None
     likely: tuple[str, ...] = ()
