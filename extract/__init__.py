@@ -27,7 +27,7 @@ from .model import (
 )
 from .network import Network, Tail, build_network
 from .routing import design_length_m, route_circuits
-from .schedule import load_positions, read_schedule, rows_from_equipment
+from .schedule import POSITION_COLUMNS, load_positions, read_schedule, rows_from_equipment
 
 __all__ = [
     "measure",
@@ -103,7 +103,12 @@ def measure(
     elif suffix == ".ifc":
         from .ifc_reader import measure_ifc  # ifcopenshell only when an IFC model is given
 
-        return measure_ifc(p, schedule_path, config, ifc_config)
+        measurement = measure_ifc(p, schedule_path, config, ifc_config)
+        if any(row.get(c) for row in measurement.rows for c in POSITION_COLUMNS):
+            measurement.issues.append(Issue(
+                "schedule-position", f"{p}: to_x/to_y/to_z in the schedule place loads in DXF drawings "
+                "only; ignored for this IFC model - give the loads' tags"))
+        return measurement
     else:
         raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
     rows = (read_schedule(schedule_path) if schedule_path is not None

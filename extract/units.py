@@ -81,6 +81,10 @@ COMMON_UNITS = ("mm", "cm", "dm", "m", "in", "ft")
 
 _IMPERIAL = {"in", "ft", "mi", "µin", "mil", "yd", "us_ft", "us_in", "us_yd", "us_mi"}
 
+#: Decades added to the score of units seldom used for building plans, so that a
+#: tie between cm and dm goes to cm (common practice).
+RARE_UNIT_PENALTY: Mapping[str, float] = {"dm": 0.5}
+
 #: Plausible largest plan extent of the routes, [m] (common practice).
 EXTENT_BAND_M = (2.0, 5000.0)
 #: Plausible median length of one route piece, [m] (common practice).
@@ -276,7 +280,8 @@ def rank_units(extent_units: float, median_units: float, system_of: str | None =
     -------
     tuple of str
         Plausible units, the same system first, then nearest (in decades) to
-        the middle of both bands (common practice).
+        the middle of both bands, units seldom used for plans
+        (:data:`RARE_UNIT_PENALTY`) later (common practice).
 
     Examples
     --------
@@ -291,7 +296,7 @@ def rank_units(extent_units: float, median_units: float, system_of: str | None =
             off = abs(math.log10(e / _band_centre(EXTENT_BAND_M))) + abs(
                 math.log10(m / _band_centre(MEDIAN_PIECE_BAND_M)))
             other_system = system_of is not None and (name in _IMPERIAL) != (system_of in _IMPERIAL)
-            scored.append((other_system, off, name))
+            scored.append((other_system, off + RARE_UNIT_PENALTY.get(name, 0.0), name))
     return tuple(name for _, _, name in sorted(scored))
 
 

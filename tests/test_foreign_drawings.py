@@ -146,6 +146,13 @@ def test_wrong_header_is_reported_with_the_likely_units(tmp_path):
     assert not [i for i in read_dxf(path, DrawingConfig(units="m")).issues if i.code == "units-implausible"]
 
 
+def test_a_room_drawn_in_cm_under_a_mm_header():
+    """A 10 m x 6 m room of 3 m pieces drawn in cm, header mm: read as 1 m x 0.6 m, likely cm."""
+    read_as_mm = Extents((0, 0, 0), (1000 * 0.001, 600 * 0.001, 0), 300 * 0.001, 12)
+    check = check_scale(read_as_mm, "mm")
+    assert not check.plausible and check.likely_units[0] == "cm"
+
+
 def test_scale_check_bands():
     """A 0.38 x 0.60 m building (issue 16) is implausible; a 138 m plant in mm is not."""
     assert not check_scale(Extents((0, 0, 0), (0.38, 0.60, 0), 0.004, 50), "mm").plausible
@@ -400,3 +407,13 @@ def test_layers_on_an_unreadable_file_is_exit_2(tmp_path, capsys):
     with pytest.raises(DrawingReadError):
         read_dxf(bad)
     assert UNIT_TO_M["dm"] == 0.1
+
+
+def test_positions_in_the_schedule_of_an_ifc_model_are_reported(tmp_path):
+    pytest.importorskip("ifcopenshell")
+    lines = SAMPLE_CIRCUITS.read_text(encoding="utf-8").splitlines()
+    csv = tmp_path / "c.csv"
+    csv.write_text("\n".join([lines[0] + ",to_x,to_y"] + [lines[1] + ",1000,2000"] + lines[2:]) + "\n",
+                   encoding="utf-8")
+    m = measure(SAMPLE.with_suffix(".ifc"), csv)
+    assert any(i.code == "schedule-position" and "IFC" in i.message for i in m.issues)
