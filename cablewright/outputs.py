@@ -90,6 +90,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
             except (OSError, ezdxf.DXFStructureError) as exc:
                 raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
                                        "check the path or re-export it") from exc
+        _record_units(document, measurement)
         # our marks are added to the document in memory and it is saved under the
         # output name only; the preview is drawn from the same annotated document
         summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
@@ -133,6 +134,18 @@ def _plan_view_for(measurement, stage: Path) -> Path:
     path = stage / "_plan_view.dxf"
     write_plan_view(measurement, path)
     return path
+
+
+def _record_units(document, measurement) -> None:
+    """The annotated copy's ``$INSUNITS`` says the units it was read in, when the config gave them."""
+    from cablewright.extract.units import INSUNITS
+
+    summary = getattr(measurement, "drawing_summary", None)
+    if summary is None or summary.units_source != "config":
+        return
+    code = next((c for c, (name, _) in INSUNITS.items() if name == summary.units), None)
+    if code is not None:
+        document.header["$INSUNITS"] = code
 
 
 def drawing_entry(measurement) -> dict | None:

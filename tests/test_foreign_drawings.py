@@ -176,6 +176,9 @@ def test_units_option_and_schedule_json(tmp_path, capsys):
     routed = {c["id"]: c["route"]["routed_length_m"] for c in doc["circuits"]}
     assert routed["C-A"] == pytest.approx(expected_length_m("a"), abs=0.01)
     assert "Drawing as read" in (out / "report.html").read_text(encoding="utf-8")
+    # the annotated copy says the units it was read in; the input keeps its own header
+    assert ezdxf.readfile(out / "cm_annotated.dxf").header["$INSUNITS"] == 5
+    assert ezdxf.readfile(path).header["$INSUNITS"] == 4
 
 
 def test_units_option_reaches_every_drawing_of_a_batch(tmp_path, capsys):
@@ -417,3 +420,20 @@ def test_positions_in_the_schedule_of_an_ifc_model_are_reported(tmp_path):
                    encoding="utf-8")
     m = measure(SAMPLE.with_suffix(".ifc"), csv)
     assert any(i.code == "schedule-position" and "IFC" in i.message for i in m.issues)
+
+
+def test_new_drawing_keys_default_as_the_contract_says(tmp_path):
+    """contract.md, Extensions: tags_from_text false, tag_text_max_m 1.0; the default file agrees."""
+    from cablewright.extract.errors import ConfigError
+
+    from cablewright.config import DEFAULT_CONFIG, load_settings
+    from cablewright.pipeline import drawing_config
+
+    cfg = drawing_config(load_settings(DEFAULT_CONFIG))
+    assert (cfg.tags_from_text, cfg.tag_text_max_m, cfg.tag_symbol_layers) == (False, 1.0, ())
+    assert cfg == DrawingConfig()
+    bad = tmp_path / "bad.toml"
+    for text in ('tags_from_text = "yes"', "tag_text_max_m = -1", 'tag_symbol_layers = "EQUIP"'):
+        bad.write_text(f"[drawing]\n{text}\n", encoding="utf-8")
+        with pytest.raises(ConfigError, match="bad.toml"):
+            drawing_config(load_settings(bad))
