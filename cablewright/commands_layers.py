@@ -44,7 +44,7 @@ def _print_survey(survey: Survey) -> None:
         note = "route layer" if layer.route_kind else (f"suggested ({layer.suggestion.word!r})" if layer.suggestion else "")
         rows.append([layer.name, counts, f"{layer.line_length * (k or 1.0):.1f}",
                      f"{kind[0]} ({kind[1]})" if kind else "-", note])
-    print(format_table(["layer", "entities", f"lines [{unit}]", "containment (method)", ""], rows))
+    print(format_table(["layer", "entities", f"lines [{unit}]", "containment (method)", "why"], rows))
     blocks = [[b.name, ", ".join(sorted(b.attributes)) or "-", str(b.inserts)]
               for b in sorted(survey.blocks.values(), key=lambda x: x.name.lower())]
     if blocks:
@@ -54,6 +54,9 @@ def _print_survey(survey: Survey) -> None:
     words = [t.word for t in survey.tag_texts]
     more = f" ... ({len(words)} in all)" if len(words) > SHOWN_TEXTS else ""
     print(f"texts that could be tags: {', '.join(words[:SHOWN_TEXTS]) + more if words else 'none'}")
+    symbol_layers = survey.symbol_layers()
+    if symbol_layers:
+        print(f"circles/points with a tag-like text beside them (tag_symbol_layers): {', '.join(symbol_layers)}")
     print(f"blocks with a {survey.tag_attribute} attribute: {survey.tagged_inserts}"
           + (f"; {survey.suggested_tag_attribute()} reads as a tag on other blocks"
              if survey.suggested_tag_attribute() else ""))

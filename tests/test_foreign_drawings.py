@@ -335,6 +335,9 @@ def test_layers_on_the_sample_drawing(tmp_path, capsys):
     assert layers["WALLS"]["suggested"] is None
     assert doc["units"]["insunits"] == 4 and doc["scale"]["plausible"] is True
     assert doc["tagged_inserts"] >= 1 and any("TAG" in b["attributes"] for b in doc["blocks"])
+    code, text, _ = run_cli(capsys, "layers", str(SAMPLE))
+    assert code == 0
+    assert any(line.startswith("ROUTE-LADDER") and "ladder (E)" in line for line in text.splitlines())
     cfg = tmp_path / "start.toml"
     assert run_cli(capsys, "layers", str(SAMPLE), "--write-config", str(cfg))[0] == 0
     code, _, _ = run_cli(capsys, "size", str(SAMPLE), "--circuits", str(SAMPLE_CIRCUITS), "--config", str(cfg),
