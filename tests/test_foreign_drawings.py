@@ -440,3 +440,31 @@ def test_new_drawing_keys_default_as_the_contract_says(tmp_path):
         bad.write_text(f"[drawing]\n{text}\n", encoding="utf-8")
         with pytest.raises(ConfigError, match="bad.toml"):
             drawing_config(load_settings(bad))
+
+
+def test_a_spline_inside_a_block_on_a_route_layer(tmp_path, capsys):
+    """Layer-0 curves of a block take the reference's layer, as lines do (contract: blocks exploded)."""
+    doc = ezdxf.new("R2018")
+    doc.header["$INSUNITS"] = 6
+    blk = doc.blocks.new("RUN")
+    blk.add_spline(dxfattribs={"layer": "0"}).set_open_uniform([(0, 0), (2, 0), (4, 0), (7, 0)])
+    doc.modelspace().add_blockref("RUN", (10, 5), dxfattribs={"layer": "ROUTE-TRAY", "rotation": 90})
+    doc.saveas(tmp_path / "nested.dxf")
+    (piece,) = read_dxf(tmp_path / "nested.dxf").polylines
+    assert LineString(piece.points_m).length == pytest.approx(7.0)
+    assert piece.points_m[-1][:2] == pytest.approx((10.0, 12.0))  # rotated 90 degrees about (10, 5)
+    code, out, _ = run_cli(capsys, "layers", str(tmp_path / "nested.dxf"), "--json")
+    assert code == 0
+    layers = {entry["name"]: entry for entry in json.loads(out)["layers"]}
+    assert layers["ROUTE-TRAY"]["line_length_m"] == pytest.approx(7.0)
+
+
+def test_routes_json_records_the_units(tmp_path, capsys):
+    path = plant(tmp_path / "dm.dxf", insunits=14, unit_per_m=10.0,
+                 layers={"spine": "ROUTE-TRAY", "a": "ROUTE-TRAY", "b": "ROUTE-TRAY", "c": "ROUTE-TRAY"})
+    code, out, _ = run_cli(capsys, "routes", str(path), "--circuits", str(schedule(tmp_path / "c.csv")), "--json")
+    assert code == 0
+    doc = json.loads(out)
+    assert doc["drawing"]["units"] == "dm" and doc["drawing"]["units_source"] == "header"
+    routed = {c["id"]: c["route"]["routed_length_m"] for c in doc["circuits"]}
+    assert routed["C-C"] == pytest.approx(expected_length_m("c"), abs=0.01)
