@@ -150,6 +150,9 @@ def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size",
           extra: Mapping[str, Any] | None = None) -> str:
     """The JSON document as text, one circuit per line, UTF-8 safe.
 
+    ``extra`` adds top-level keys after ``"circuits"`` (e.g. ``"drawing"``: the
+    units and extents the drawing was read with), each written on one line.
+
     Each circuit's object is written on one line by the json module's C
     encoder (``indent`` would switch to its pure-Python encoder, several times
     slower on a big schedule); the lines are indented inside ``"circuits"``,

@@ -185,6 +185,7 @@ def render_report_html(
     preview_png: bytes | None,
     cautions: str,
     extra_sections: Sequence[str] = (),
+    drawing_facts: Sequence[tuple[str, str]] = (),
 ) -> str:
     """The report as one HTML string (see :func:`write_report_html`)."""
     counts = Counter(o.status for o in outcomes)
@@ -194,6 +195,7 @@ def render_report_html(
         f"<title>{_e(title)}</title><style>{_CSS}</style></head><body>",
         f"<h1>{_e(title)}</h1><p class='muted'>Drawing: {_e(drawing_name)}</p>",
         caution,
+        *_facts_table(drawing_facts),
         "<h2>Summary</h2>",
         _table(
             ("circuits", "ok", "warning", "fail", "error"),
@@ -245,6 +247,14 @@ def render_report_html(
     return "\n".join(out)
 
 
+def _facts_table(facts: Sequence[tuple[str, str]]) -> list[str]:
+    """The drawing's units, extents and scale check as a two-column table (none when empty)."""
+    if not facts:
+        return []
+    rows = "".join(f"<tr><th>{_e(k)}</th><td>{_e(v)}</td></tr>" for k, v in facts)
+    return ["<h2>Drawing as read</h2>", f"<table>{rows}</table>"]
+
+
 def write_report_html(
     path: str | os.PathLike[str],
     outcomes: Sequence[CircuitOutcome],
@@ -254,6 +264,7 @@ def write_report_html(
     preview_png: bytes | None,
     cautions: str,
     extra_sections: Sequence[str] = (),
+    drawing_facts: Sequence[tuple[str, str]] = (),
 ) -> Path:
     """Write the HTML report, atomically.
 
@@ -274,6 +285,9 @@ def write_report_html(
         Shown in a box at the top and at the bottom.
     extra_sections : sequence of str
         HTML sections placed after the schedule (see :mod:`.report_sections`).
+    drawing_facts : sequence of (name, text)
+        How the drawing was read (units and where they came from, extents,
+        scale check), shown under the title.
 
     Returns
     -------
@@ -282,5 +296,6 @@ def write_report_html(
     text = render_report_html(
         outcomes, title=title, drawing_name=drawing_name, preview_png=preview_png, cautions=cautions,
         extra_sections=extra_sections,
+        drawing_facts=drawing_facts,
     )
     return write_text_atomic(path, text, encoding="utf-8")

@@ -56,14 +56,16 @@ def _schedule_beside(drawing: Path) -> str | None:
     return None
 
 
-def _one(drawing: str, circuits: str | None, config: str | None, out: str | None, recover: bool) -> BatchItem:
+def _one(drawing: str, circuits: str | None, config: str | None, out: str | None, recover: bool,
+         units: str | None = None) -> BatchItem:
     from .cli import _exit_code_for
     from .commands_drawing import run_size
 
     path = Path(drawing)
     out_dir = str(Path(out) / path.stem) if out else None
     args = argparse.Namespace(drawing=drawing, circuits=circuits or _schedule_beside(path), config=config,
-                              out=out_dir, json=True, debug=False, recover=recover, more_drawings=[], jobs=1)
+                              out=out_dir, json=True, debug=False, recover=recover, more_drawings=[], jobs=1,
+                              units=units)
     buffer = io.StringIO()
     try:
         with redirect_stdout(buffer):
@@ -82,7 +84,8 @@ def run_batch(args: argparse.Namespace) -> int:
     """Size every drawing; return the worst exit code of the batch."""
     drawings = expand_drawings([args.drawing, *args.more_drawings])
     jobs = max(1, int(args.jobs or 1))
-    call = [(str(d), args.circuits, args.config, args.out, args.recover) for d in drawings]
+    call = [(str(d), args.circuits, args.config, args.out, args.recover, getattr(args, "units", None))
+            for d in drawings]
     if jobs == 1 or len(drawings) == 1:
         items = [_one(*c) for c in call]
     else:

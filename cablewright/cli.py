@@ -34,7 +34,13 @@ def _drawing_args(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--circuits", metavar="FILE", help="circuit schedule (.csv or .xlsx)")
     parser.add_argument("--recover", action="store_true",
                         help="use what can be read of a damaged DXF and list what was lost")
+    _units_arg(parser)
     _common(parser)
+
+
+def _units_arg(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("--units", metavar="UNITS",
+                        help="drawing units (mm, cm, dm, m, in, ft, ...); overrides the drawing's $INSUNITS")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -88,6 +94,14 @@ def build_parser() -> argparse.ArgumentParser:
     calc.add_argument("--id", default="CALC-1", help="circuit id shown in the output")
     _common(calc)
 
+    layers = sub.add_parser("layers", help="what a drawing holds: layers, blocks, texts, units; a starting config")
+    layers.add_argument("drawing", help="the drawing (.dxf)")
+    layers.add_argument("--write-config", metavar="FILE",
+                        help="write a starting TOML config from the suggestions (never over an input file)")
+    layers.add_argument("--recover", action="store_true", help="read what can be read of a damaged DXF")
+    _units_arg(layers)
+    _common(layers)
+
     demo = sub.add_parser("demo", help="run 'size' on the bundled sample drawing")
     demo.add_argument("--out", metavar="DIR", help="output folder (default: ./cablewright-demo)")
     demo.add_argument("--json", action="store_true", help=argparse.SUPPRESS)
@@ -122,6 +136,9 @@ def main(argv: Sequence[str] | None = None) -> int:
             return commands_drawing.run_size(args)
         if args.command == "routes":
             return commands_drawing.run_routes(args)
+        if args.command == "layers":
+            from . import commands_layers
+            return commands_layers.run_layers(args)
         if args.command == "demo":
             return commands_drawing.run_demo(args)
     except CableRouteError as exc:

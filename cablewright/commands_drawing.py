@@ -13,10 +13,10 @@ from cablewright.annotate.model import CircuitOutcome
 
 from .config import load_settings
 from .console import CAUTION, format_table
-from .outputs import job_document, job_takeoff, write_outputs
+from .outputs import drawing_entry, job_document, job_takeoff, write_outputs
 from .pipeline import measure_drawing, route_outcomes, size_measurement
 
-__all__ = ["run_size", "run_routes", "run_demo", "SAMPLE_DIR"]
+__all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
 
 SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
 SAMPLE_DRAWING = "pumping_station.dxf"
@@ -56,6 +56,20 @@ def _stages(quiet: bool):
         yield stage
 
 
+def settings_for(args: argparse.Namespace):
+    """The config file's settings, with ``--units`` (when given) as ``[drawing] units``."""
+    settings = load_settings(args.config)
+    units = getattr(args, "units", None)
+    if units:
+        settings.drawing["units"] = units
+    return settings
+
+
+def _extra(measurement) -> dict | None:
+    entry = drawing_entry(measurement)
+    return {"drawing": entry} if entry else None
+
+
 def _exit_code(outcomes: list[CircuitOutcome], passing: tuple[str, ...]) -> int:
     return 0 if all(o.status in passing for o in outcomes) else 1
 
@@ -79,13 +93,13 @@ def _fmt(value, digits: int = 1) -> str:
 
 def run_routes(args: argparse.Namespace) -> int:
     """Measure only: routed length and group count per circuit."""
-    settings = load_settings(args.config)
+    settings = settings_for(args)
     measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover)
     outcomes, _ = route_outcomes(measurement)
     _issues(measurement)
     _report_errors(outcomes)
     if args.json:
-        print(dumps(outcomes, kind="routes"))
+        print(dumps(outcomes, kind="routes", extra=_extra(measurement)))
     else:
         rows = []
         for o in outcomes:
@@ -117,7 +131,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         from .batch import run_batch
 
         return run_batch(args)
-    settings = load_settings(args.config)
+    settings = settings_for(args)
     drawing = Path(args.drawing)
     previous = getattr(args, "previous", None)
     previous_doc = None

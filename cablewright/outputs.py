@@ -19,7 +19,8 @@ from cablewright.extract.model import UNIT_TO_M
 from .config import Settings
 from .console import CAUTION
 
-__all__ = ["write_outputs", "output_names", "job_takeoff", "job_document", "changes_json"]
+__all__ = ["write_outputs", "output_names", "job_takeoff", "job_document", "changes_json",
+           "drawing_entry", "drawing_facts"]
 
 log = logging.getLogger(__name__)
 
@@ -42,7 +43,11 @@ def job_takeoff(job, drawing: Path, settings: Settings):
     from cablewright.annotate.takeoff import build_takeoff, document_extras
 
     takeoff = build_takeoff(job.outcomes, job.measurement.segments, job.per_segment, settings.sizing)
-    return takeoff, document_extras(takeoff, drawing, settings.sizing)
+    extras = document_extras(takeoff, drawing, settings.sizing)
+    entry = drawing_entry(job.measurement)
+    if entry:
+        extras["drawing"] = entry
+    return takeoff, extras
 
 
 def job_document(job, extras) -> dict:
@@ -114,6 +119,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
             except (OSError, ezdxf.DXFStructureError) as exc:
                 raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
                                        "check the path or re-export it") from exc
+        _record_units(document, measurement)
         # our marks are added to the document in memory and it is saved under the
         # output name only; the preview is drawn from the same annotated document
         summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
@@ -136,7 +142,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         (stage / names["png"]).write_bytes(png)
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
-                          extra_sections=sections)
+                          extra_sections=sections, drawing_facts=drawing_facts(measurement))
         keys = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else [])
         if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
             from cablewright.annotate.ifc_writer import write_ifc_copy
@@ -179,3 +185,42 @@ def _plan_view_for(measurement, stage: Path) -> Path:
     path = stage / "_plan_view.dxf"
     write_plan_view(measurement, path)
     return path
+
+
+def _record_units(document, measurement) -> None:
+    """The annotated copy's ``$INSUNITS`` says the units it was read in, when the config gave them."""
+    from cablewright.extract.units import INSUNITS
+
+    summary = getattr(measurement, "drawing_summary", None)
+    if summary is None or summary.units_source != "config":
+        return
+    code = next((c for c, (name, _) in INSUNITS.items() if name == summary.units), None)
+    if code is not None:
+        document.header["$INSUNITS"] = code
+
+
+def drawing_entry(measurement) -> dict | None:
+    """The ``"drawing"`` key of ``schedule.json``: units, where they came from, extents [m]."""
+    summary = getattr(measurement, "drawing_summary", None)
+    return summary.as_dict() if summary is not None else None
+
+
+def drawing_facts(measurement) -> list[tuple[str, str]]:
+    """How the drawing was read, as (name, text) rows for the report."""
+    summary = getattr(measurement, "drawing_summary", None)
+    if summary is None:
+        return []
+    source = "from the config or --units" if summary.units_source == "config" else "from $INSUNITS"
+    facts = [("units", f"{summary.units} ({source}; $INSUNITS = {summary.header_code})")]
+    if summary.extents is not None:
+        w, d, h = summary.extents.size_m
+        facts.append(("route extents", f"{w:.2f} m x {d:.2f} m, {h:.2f} m high; "
+                                       f"median route piece {summary.extents.median_piece_m:.2f} m"))
+    if summary.scale is not None:
+        if summary.scale.plausible:
+            facts.append(("scale", "plausible for a building or plant"))
+        else:
+            likely = (f"; likely drawn in {' or '.join(summary.scale.likely_units[:2])}"
+                      if summary.scale.likely_units else "")
+            facts.append(("scale", f"NOT plausible: {summary.scale.reason}{likely} - check the units"))
+    return facts

@@ -66,10 +66,22 @@ def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
         if isinstance(count, bool) or not isinstance(count, int) or count < 1:
             raise ConfigError(f"{settings.source}: [drawing.route_tiers] {name!r} = {count!r} must be "
                               "a whole number of tiers >= 1")
-    known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor"}
+    known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor",
+             "tags_from_text", "tag_text_max_m", "tag_symbol_layers", "flatten_tolerance_m"}
     for key in values:
         if key not in known:
             raise ConfigError(f"{settings.source}: unknown key {key!r} in [drawing]; known: {', '.join(sorted(known))}")
+    if "tags_from_text" in values and not isinstance(values["tags_from_text"], bool):
+        raise ConfigError(f"{settings.source}: [drawing] tags_from_text must be true or false")
+    for key in ("tag_text_max_m", "flatten_tolerance_m"):
+        value = values.get(key, 1.0)
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or not value > 0:
+            raise ConfigError(f"{settings.source}: [drawing] {key} = {value!r} must be a length > 0 in metres")
+    if "tag_symbol_layers" in values:
+        layers_given = values["tag_symbol_layers"]
+        if not (isinstance(layers_given, list) and all(isinstance(n, str) for n in layers_given)):
+            raise ConfigError(f"{settings.source}: [drawing] tag_symbol_layers must be a list of layer names")
+        values["tag_symbol_layers"] = tuple(layers_given)
     route_values = dict(settings.routes)
     for key in route_values:
         if key not in ("slack_fraction", "end_allowance_m"):

@@ -13,9 +13,10 @@ from pathlib import Path
 from typing import Any
 
 from .dxf_reader import DxfContent, read_dxf
-from .errors import DrawingReadError
+from .errors import DrawingReadError, Issue
 from .grouping import GroupInfo, circuits_per_segment, group_summary
 from .model import (
+    UNIT_TO_M,
     CircuitRoute,
     DrawingConfig,
     Equipment,
@@ -26,7 +27,7 @@ from .model import (
 )
 from .network import Network, Tail, build_network
 from .routing import design_length_m, route_circuits
-from .schedule import read_schedule, rows_from_equipment
+from .schedule import POSITION_COLUMNS, load_positions, read_schedule, rows_from_equipment
 
 __all__ = [
     "measure",
@@ -102,13 +103,23 @@ def measure(
     elif suffix == ".ifc":
         from .ifc_reader import measure_ifc  # ifcopenshell only when an IFC model is given
 
-        return measure_ifc(p, schedule_path, config, ifc_config)
+        measurement = measure_ifc(p, schedule_path, config, ifc_config)
+        if any(row.get(c) for row in measurement.rows for c in POSITION_COLUMNS):
+            measurement.issues.append(Issue(
+                "schedule-position", f"{p}: to_x/to_y/to_z in the schedule place loads in DXF drawings "
+                "only; ignored for this IFC model - give the loads' tags"))
+        return measurement
     else:
         raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
+    rows = (read_schedule(schedule_path) if schedule_path is not None
+            else rows_from_equipment(equipment, str(p)))
+    rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[units], issues)
     network = build_network(polylines, equipment, config)
     issues.extend(network.issues)
-    rows = read_schedule(schedule_path) if schedule_path is not None else rows_from_equipment(equipment)
     routes, failures = route_circuits(network, rows, config)
+    for cid, message in position_errors.items():
+        routes.pop(cid, None)
+        failures[cid] = message
     return Measurement(
         drawing=str(p),
         units=units,
@@ -120,4 +131,42 @@ def measure(
         issues=issues,
         graph=network.graph,
         source_document=content.document,
+        drawing_summary=content.summary,
     )
+
+
+def _positioned_loads(rows: list[ScheduleRow], equipment: list[Equipment], metres_per_unit: float,
+                      issues: list[Issue]) -> tuple[list[ScheduleRow], list[Equipment], dict[str, str]]:
+    """Loads placed by the schedule's ``to_x``/``to_y``/``to_z`` (contract.md, Extensions).
+
+    Each such row's load becomes an equipment at that point (drawing units ->
+    metres), tagged with the row's ``to`` (``<circuit>-load`` when blank).  The
+    schedule's position wins over a block with the same tag in the drawing.
+    """
+    from dataclasses import replace
+
+    positions, errors = load_positions(rows)
+    if not positions:
+        return rows, equipment, errors
+    placed: dict[str, tuple[float, float, float]] = {}
+    out_rows = []
+    for row in rows:
+        xyz = positions.get(row.circuit_id)
+        if xyz is None:
+            out_rows.append(row)
+            continue
+        tag = row.to_tag or f"{row.circuit_id}-load"
+        point = (xyz[0] * metres_per_unit, xyz[1] * metres_per_unit, xyz[2] * metres_per_unit)
+        if tag in placed and placed[tag] != point:
+            errors[row.circuit_id] = (f"{row.where}: load {tag} is given two positions in the schedule; "
+                                      "give one position per load tag")
+        placed.setdefault(tag, point)
+        out_rows.append(replace(row, to_tag=tag) if tag != row.to_tag else row)
+    drawn = {eq.tag for eq in equipment} & set(placed)
+    if drawn:
+        issues.append(Issue("schedule-position",
+                            f"{rows[0].source}: load(s) {', '.join(sorted(drawn))} are in the drawing and given a position in the "
+                            "schedule (to_x, to_y); the schedule's position is used"))
+    kept = [eq for eq in equipment if eq.tag not in placed]
+    kept += [Equipment(tag, f"schedule:{tag}", point, "schedule position") for tag, point in placed.items()]
+    return out_rows, kept, errors

@@ -16,8 +16,12 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from .dxf_flatten import FLATTEN_TYPES, flatten_points
+from .dxf_tags import Symbol, TagMarks, TextMark, first_word, tag_symbols, text_anchor
+from .dxf_units import resolve_units, summarise
 from .errors import DrawingReadError, Issue
 from .model import UNIT_TO_M, DrawingConfig, Equipment, Point3, RoutePolyline
+from .units import INSUNITS, DrawingSummary
 
 if TYPE_CHECKING:  # pragma: no cover
     from ezdxf.document import Drawing
@@ -27,9 +31,9 @@ __all__ = ["DxfContent", "read_dxf", "INSUNITS_NAMES", "ARC_STEP_RAD"]
 
 logger = logging.getLogger(__name__)
 
-#: $INSUNITS codes we honour -> unit name (DXF reference, HEADER section, $INSUNITS:
-#: 1 inches, 2 feet, 4 millimetres, 5 centimetres, 6 metres).
-INSUNITS_NAMES = {1: "in", 2: "ft", 4: "mm", 5: "cm", 6: "m"}
+#: $INSUNITS codes we honour -> unit name: every code that is a length
+#: (DXF reference, HEADER section, $INSUNITS; table in :mod:`.units`).
+INSUNITS_NAMES = {code: name for code, (name, _) in INSUNITS.items()}
 
 #: Largest angle subtended by one chord when arcs are flattened, [rad].
 #: The chord/arc ratio is sin(a/2)/(a/2) ~ 1 - a**2/24, so 2 degrees loses
@@ -59,6 +63,8 @@ class DxfContent:
         copy, the preview) need not read the file again.  It is the input as
         read (recovered, with ``config.recover``); nothing here writes it back
         to ``path``, and a later stage that adds to it saves it elsewhere.
+    summary : DrawingSummary or None
+        Units used and where they came from, route extents, scale check.
     """
 
     path: str
@@ -67,6 +73,7 @@ class DxfContent:
     equipment: list[Equipment] = field(default_factory=list)
     issues: list[Issue] = field(default_factory=list)
     document: object | None = field(default=None, repr=False, compare=False)
+    summary: DrawingSummary | None = None
 
 
 def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
@@ -129,29 +136,8 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
 
 
 def _units(doc: Drawing, path: Path, config: DrawingConfig, issues: list[Issue]) -> str:
-    code = int(doc.header.get("$INSUNITS", 0) or 0)
-    name = INSUNITS_NAMES.get(code)
-    if config.units is not None and config.units not in UNIT_TO_M:
-        raise DrawingReadError(
-            f"units {config.units!r} in the config are not known; use one of {', '.join(UNIT_TO_M)}"
-        )
-    if name is None:
-        if config.units is None:
-            what = "unitless ($INSUNITS=0)" if code == 0 else f"in unsupported units ($INSUNITS={code})"
-            raise DrawingReadError(
-                f"{path}: the drawing is {what}; set its units in the config "
-                f"(units = one of {', '.join(UNIT_TO_M)}) or save it with drawing units set"
-            )
-        return config.units
-    if config.units is not None and config.units != name:
-        issues.append(
-            Issue(
-                "units-conflict",
-                f"{path}: drawing says {name} ($INSUNITS={code}) but the config says "
-                f"{config.units}; the drawing's units are used",
-            )
-        )
-    return name
+    """The units to read the drawing in: the config's when given, else ``$INSUNITS``."""
+    return resolve_units(doc, path, config, issues)[0]
 
 
 # --------------------------------------------------------------------------- geometry
@@ -257,6 +243,8 @@ def _entity_points(e) -> list[Point3] | None:
 # --------------------------------------------------------------------------- traversal
 
 _ROUTE_TYPES = {"LINE", "LWPOLYLINE", "POLYLINE", "ARC"}
+#: Entities read for tagging equipment from text, and a CIRCLE on a route layer (reported).
+_MARK_TYPES = {"TEXT", "MTEXT", "CIRCLE", "POINT"}
 
 
 @dataclass
@@ -268,6 +256,7 @@ class _Walker:
     content: DxfContent
     tag_key: str
     _block_info: dict[str, tuple[bool, bool, bool]] = field(default_factory=dict)
+    marks: TagMarks = field(default_factory=TagMarks)
 
     def block_info(self, name: str, stack: tuple[str, ...] = ()) -> tuple[bool, bool, bool]:
         """(has explicit route-layer geometry, has layer-0 geometry, has inserts) of a block."""
@@ -280,7 +269,7 @@ class _Walker:
         if block is not None:
             for e in block:
                 t = e.dxftype()
-                if t in _ROUTE_TYPES:
+                if t in _ROUTE_TYPES or t in FLATTEN_TYPES:
                     layer = e.dxf.layer
                     if layer == "0":
                         layer0 = True
@@ -303,6 +292,64 @@ class _Walker:
         s = self.scale
         pts_m = tuple((float(x) * s, float(y) * s, float(z) * s) for x, y, z in pts)
         self.content.polylines.append(RoutePolyline(pts_m, layer.upper(), kind[0], kind[1], sid))
+
+    def add_curve(self, e, layer: str, matrix: Matrix44 | None, sid: str) -> None:
+        """A SPLINE, ELLIPSE or MLINE on a route layer, flattened (:mod:`.dxf_flatten`)."""
+        from ezdxf import DXFError
+
+        try:
+            pts = flatten_points(e, self.config.flatten_tolerance_m / self.scale)
+        except (ValueError, ArithmeticError, IndexError, DXFError) as exc:
+            pts, why = [], f" ({exc})"
+        else:
+            why = ""
+        if not pts or len(pts) < 2:
+            self.content.issues.append(Issue(
+                "unsupported-entity",
+                f"{self.path}: {e.dxftype()} {sid} on route layer {layer} could not be flattened{why}; "
+                "ignored - redraw it as a polyline", sid))
+            return
+        self.add_route(e, layer, pts, matrix, sid)
+
+    def mark(self, e, t: str, layer: str, matrix: Matrix44 | None, sid: str) -> None:
+        """Texts and CIRCLE/POINT symbols for ``tags_from_text`` (:mod:`.dxf_tags`)."""
+        config = self.config
+        if t == "CIRCLE" and config.layer_kind(layer):
+            self.content.issues.append(Issue(
+                "unsupported-entity",
+                f"{self.path}: CIRCLE {sid} on route layer {layer} is not a route; ignored - "
+                "draw the route as a line, polyline, arc or spline", sid))
+        if not config.tags_from_text:
+            return
+        if t in ("TEXT", "MTEXT"):
+            text = e.plain_text() if t == "MTEXT" else str(e.dxf.text)
+            p = text_anchor(e)
+        elif layer.upper() in {n.upper() for n in config.tag_symbol_layers}:
+            p = tuple(e.dxf.center if t == "CIRCLE" else e.dxf.location)  # type: ignore[assignment]
+            if t == "CIRCLE":
+                p = tuple(e.ocs().to_wcs(p))  # type: ignore[assignment]
+        else:
+            return
+        if matrix is not None:
+            p = tuple(matrix.transform(p))  # type: ignore[assignment]
+        s = self.scale
+        pos = (float(p[0]) * s, float(p[1]) * s, float(p[2]) * s)
+        if t in ("TEXT", "MTEXT"):
+            self.marks.texts.append(TextMark(first_word(text), text, pos, layer, sid))
+        else:
+            self.marks.symbols.append(Symbol(layer, pos, sid))
+
+    def symbol(self, ins, matrix: Matrix44 | None, name: str, isid: str, attribs: dict[str, str]) -> None:
+        """A model-space block reference without the tag attribute: a symbol to tag from text."""
+        explicit, layer0, _ = self.block_info(name)
+        if name.startswith("*") or explicit:  # anonymous blocks (dimensions, hatches); route blocks
+            return
+        p = ins.ocs().to_wcs(ins.dxf.insert)
+        if matrix is not None:
+            p = matrix.transform(p)
+        s = self.scale
+        self.marks.symbols.append(Symbol(name, (float(p[0]) * s, float(p[1]) * s, float(p[2]) * s),
+                                         isid, tuple(sorted(attribs.items()))))
 
     def walk(
         self,
@@ -336,15 +383,10 @@ class _Walker:
                 self.add_route(e, layer, pts, matrix, sid)
             elif t == "INSERT":
                 self.insert(e, matrix, layer, prefix, depth, stack, sid)
-            elif t in {"SPLINE", "ELLIPSE", "CIRCLE", "MLINE"} and self.config.layer_kind(layer):
-                self.content.issues.append(
-                    Issue(
-                        "unsupported-entity",
-                        f"{self.path}: {t} {sid} on route layer {layer} is not a route entity "
-                        "(LINE, LWPOLYLINE, POLYLINE, ARC); ignored - redraw it as a polyline",
-                        sid,
-                    )
-                )
+            elif t in FLATTEN_TYPES and self.config.layer_kind(layer):
+                self.add_curve(e, layer, matrix, sid)
+            elif t in _MARK_TYPES:
+                self.mark(e, t, layer, matrix, sid)
 
     def insert(self, e, matrix, layer: str, prefix: str, depth: int, stack, sid: str) -> None:
         name = e.dxf.name
@@ -359,6 +401,8 @@ class _Walker:
             m = ins.matrix44() if matrix is None else ins.matrix44() * matrix
             attribs = {a.dxf.tag.upper(): a.dxf.text for a in ins.attribs}
             tag = attribs.get(self.tag_key, "").strip()
+            if not tag and depth == 0 and self.config.tags_from_text:
+                self.symbol(ins, matrix, name, isid, attribs)
             if tag:
                 p = ins.ocs().to_wcs(ins.dxf.insert)
                 if matrix is not None:
@@ -388,6 +432,22 @@ class _Walker:
 
 def _walk_layout(walker: _Walker, entities: Iterator) -> None:
     walker.walk(entities, None, None, "", 0, ())
+
+
+def _tag_from_text(walker: _Walker) -> None:
+    """Equipment from the symbols collected, tagged from text (:mod:`.dxf_tags`)."""
+    content = walker.content
+    if not walker.config.tags_from_text:
+        if walker.config.tag_symbol_layers:
+            content.issues.append(Issue(
+                "tags-from-text-off",
+                f"{walker.path}: tag_symbol_layers is set but tags_from_text is false; the circles and "
+                "points on those layers are not read as equipment - set tags_from_text = true"))
+        return
+    found, issues = tag_symbols(walker.marks, walker.config.tag_text_max_m,
+                                (eq.tag for eq in content.equipment), str(walker.path))
+    content.equipment.extend(found)
+    content.issues.extend(issues)
 
 
 def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) -> DxfContent:
@@ -429,14 +489,17 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     content = DxfContent(path=str(p), units=units, issues=issues, document=doc)
     walker = _Walker(doc, p, config, UNIT_TO_M[units], content, config.tag_attribute.upper())
     _walk_layout(walker, iter(doc.modelspace()))
+    _tag_from_text(walker)
     if not content.polylines:
         names = sorted({e.dxf.layer for e in doc.modelspace()})
         wanted = ", ".join(config.route_layers)
         raise DrawingReadError(
-            f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC) on a route layer "
+            f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer "
             f"({wanted}); layers used in model space: {', '.join(names) or 'none'}. "
-            "Put the cable routes on those layers or add the layer names to the config"
+            "Put the cable routes on those layers or add the layer names to the config "
+            f"('cablewright layers {p.name} --write-config FILE' suggests one)"
         )
+    content.summary = summarise(doc, p, config, content)
     logger.info(
         "%s: %d route pieces, %d equipment, units %s",
         p, len(content.polylines), len(content.equipment), units,

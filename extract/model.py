@@ -11,10 +11,13 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
+from .units import UNIT_TO_M as _UNIT_TO_M
+
 if TYPE_CHECKING:  # pragma: no cover
     import networkx as nx
 
     from .errors import Issue
+    from .units import DrawingSummary
 
 __all__ = [
     "Point3",
@@ -47,15 +50,9 @@ DEFAULT_ROUTE_LAYERS: Mapping[str, tuple[str, str]] = {
     "ROUTE-BURIED": ("buried", "D2"),
 }
 
-#: Metres per drawing unit, by unit name.  Exact by definition: 1 in = 25.4 mm,
-#: 1 ft = 0.3048 m (international yard and pound agreement, 1959).
-UNIT_TO_M: Mapping[str, float] = {
-    "mm": 0.001,
-    "cm": 0.01,
-    "m": 1.0,
-    "in": 0.0254,
-    "ft": 0.3048,
-}
+#: Metres per drawing unit, by unit name: every length code of $INSUNITS
+#: (table and sources in :mod:`cablewright.extract.units`).
+UNIT_TO_M: Mapping[str, float] = _UNIT_TO_M
 
 
 @dataclass(frozen=True)
@@ -232,7 +229,8 @@ class DrawingConfig:
     Attributes
     ----------
     units : str or None
-        Drawing units for a unitless drawing: ``"mm"``, ``"cm"``, ``"m"``, ``"in"``, ``"ft"``.
+        Drawing units (a name of :data:`UNIT_TO_M`: ``"mm"``, ``"cm"``, ``"dm"``, ``"m"``,
+        ``"in"``, ``"ft"`` ...); when given, they override the drawing's ``$INSUNITS``.
     route_layers : mapping
         Layer name (whole name, case-insensitive) -> (containment, method).
     extra_layer_patterns : mapping
@@ -255,6 +253,17 @@ class DrawingConfig:
         Layer name or fnmatch pattern (case-insensitive) -> number of tiers
         (trays or ladders stacked) on that layer; layers not named have 1.
         Read with the grouping tables IEC 60364-5-52:2009 B.52.20/B.52.21.
+    tags_from_text : bool
+        A symbol without a tag attribute (a block reference, or a CIRCLE or POINT on
+        one of ``tag_symbol_layers``) takes the first word of the nearest TEXT or
+        MTEXT within ``tag_text_max_m`` as its tag (contract.md, Extensions).
+    tag_text_max_m : float
+        Farthest a text may be from its symbol, in plan, [m] (contract: 1 m).
+    tag_symbol_layers : tuple of str
+        Layers whose CIRCLE and POINT entities are equipment symbols (case-insensitive).
+    flatten_tolerance_m : float
+        Largest distance between a curve (SPLINE, ELLIPSE) and the chords it is read
+        as, [m] (10 mm, common practice: far below the length allowances).
     """
 
     units: str | None = None
@@ -267,6 +276,10 @@ class DrawingConfig:
     end_allowance_m: float = 1.5
     near_miss_factor: float = 10.0
     recover: bool = False
+    tags_from_text: bool = False
+    tag_text_max_m: float = 1.0
+    tag_symbol_layers: tuple[str, ...] = ()
+    flatten_tolerance_m: float = 0.01
     route_tiers: Mapping[str, int] = field(default_factory=dict)
 
     def layer_tiers(self, layer: str) -> int:
@@ -327,6 +340,9 @@ class Measurement:
         :func:`~cablewright.extract.dxf_reader.read_dxf`; ``None`` for IFC).  It is
         never written back to the input path: the annotate stage adds its marks to
         it and saves it under the output name only.
+    drawing_summary : DrawingSummary or None
+        Units used (and where they came from), route extents and the scale check
+        (:class:`~cablewright.extract.units.DrawingSummary`); None for IFC.
     """
 
     drawing: str
@@ -339,3 +355,4 @@ class Measurement:
     issues: list[Issue]
     graph: nx.Graph
     source_document: object | None = field(default=None, repr=False, compare=False)
+    drawing_summary: DrawingSummary | None = None

@@ -17,7 +17,7 @@ from pathlib import Path
 from .errors import ScheduleError
 from .model import Equipment, ScheduleRow
 
-__all__ = ["REQUIRED_COLUMNS", "read_schedule", "rows_from_equipment"]
+__all__ = ["REQUIRED_COLUMNS", "POSITION_COLUMNS", "read_schedule", "rows_from_equipment", "load_positions"]
 
 logger = logging.getLogger(__name__)
 
@@ -140,7 +140,7 @@ def read_schedule(path: str | os.PathLike[str]) -> list[ScheduleRow]:
     return _rows_to_schedule(str(p), table)
 
 
-def rows_from_equipment(equipment: Iterable[Equipment]) -> list[ScheduleRow]:
+def rows_from_equipment(equipment: Iterable[Equipment], source: str = "drawing") -> list[ScheduleRow]:
     """Build the schedule from equipment attributes when no schedule file is given.
 
     A load's block carries attributes named like the schedule's columns
@@ -150,6 +150,8 @@ def rows_from_equipment(equipment: Iterable[Equipment]) -> list[ScheduleRow]:
     ----------
     equipment : iterable of Equipment
         As read from the drawing.
+    source : str
+        The drawing's file name, for messages.
 
     Returns
     -------
@@ -170,7 +172,7 @@ def rows_from_equipment(equipment: Iterable[Equipment]) -> list[ScheduleRow]:
             continue
         if cid in seen:
             raise ScheduleError(
-                f"drawing: circuit {cid} is on two blocks, {seen[cid]} and {eq.source_id}; "
+                f"{source}: circuit {cid} is on two blocks, {seen[cid]} and {eq.source_id}; "
                 "circuit ids must be unique"
             )
         seen[cid] = eq.source_id
@@ -184,7 +186,52 @@ def rows_from_equipment(equipment: Iterable[Equipment]) -> list[ScheduleRow]:
         )
     if not rows:
         raise ScheduleError(
-            "drawing: no --circuits schedule given and no equipment block carries a CIRCUIT "
+            f"{source}: no --circuits schedule given and no equipment block carries a CIRCUIT "
             "attribute; give a schedule file (.csv or .xlsx)"
         )
     return sorted(rows, key=lambda r: r.circuit_id)
+
+
+#: Columns giving a load's position instead of a tag in the drawing, in drawing
+#: units (contract.md, Extensions: ``to_x``, ``to_y``, ``to_z``).
+POSITION_COLUMNS = ("to_x", "to_y", "to_z")
+
+
+def load_positions(rows: Iterable[ScheduleRow]) -> tuple[dict[str, tuple[float, float, float]], dict[str, str]]:
+    """Load positions given in the schedule (``to_x``, ``to_y``, ``to_z``), drawing units.
+
+    Parameters
+    ----------
+    rows : iterable of ScheduleRow
+        The schedule.
+
+    Returns
+    -------
+    (positions, errors)
+        Circuit id -> (x, y, z) [drawing units] for rows that give ``to_x`` and
+        ``to_y`` (``to_z`` blank is 0); circuit id -> message for rows whose
+        position does not parse, or gives only one of x and y.
+    """
+    import math
+
+    positions: dict[str, tuple[float, float, float]] = {}
+    errors: dict[str, str] = {}
+    for row in rows:
+        cells = [row.get(c) for c in POSITION_COLUMNS]
+        if not any(cells):
+            continue
+        if not (cells[0] and cells[1]):
+            errors[row.circuit_id] = (f"{row.where}: give both to_x and to_y (and to_z if not 0) for the "
+                                      "load's position, or neither")
+            continue
+        try:
+            xyz = tuple(float(c.replace(",", ".")) if c else 0.0 for c in cells)
+        except ValueError:
+            errors[row.circuit_id] = (f"{row.where}: to_x/to_y/to_z {', '.join(c or '' for c in cells)} "
+                                      "is not a position in drawing units; write numbers")
+            continue
+        if not all(math.isfinite(v) for v in xyz):
+            errors[row.circuit_id] = f"{row.where}: to_x/to_y/to_z must be finite numbers"
+            continue
+        positions[row.circuit_id] = xyz  # type: ignore[assignment]
+    return positions, errors
