@@ -71,7 +71,9 @@ def _one(drawing: str, circuits: str | None, config: str | None, out: str | None
     except CableRouteError as exc:
         return BatchItem(drawing, _exit_code_for(exc), f"{drawing}: error: {exc}")
     except Exception as exc:  # a bug in one drawing must not stop the batch
-        return BatchItem(drawing, 2, f"{drawing}: internal error: {type(exc).__name__}: {exc}")
+        from .cli import internal_error_line
+
+        return BatchItem(drawing, 2, internal_error_line(exc, args))
     document = json.loads(buffer.getvalue())
     statuses = [c["status"] for c in document["circuits"]]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))
