@@ -238,8 +238,8 @@ def _intended(name: str) -> str | None:
 
     Equal but for case: the column itself (headers are case-insensitive).  Equal
     once spaces, hyphens and underscores are set aside (``load type``,
-    ``powerfactor``), or within one edit (two for names over five letters):
-    a misspelling of that column.
+    ``powerfactor``), lacking only the unit (``vd_limit``), or within one edit
+    (two for names over five letters): a misspelling of that column.
 
     Examples
     --------
@@ -253,6 +253,9 @@ def _intended(name: str) -> str | None:
             return known
     if len(squashed) < 3:
         return None
+    for known in KNOWN_COLUMNS:  # the unit left off: vd_limit, fault, clearing_time
+        if len(normal) >= 4 and known.startswith(normal + "_"):
+            return known
     best = min(KNOWN_COLUMNS, key=lambda k: (_edit_distance(normal, k), k))
     limit = 1 if len(normal) <= 5 else 2
     return best if _edit_distance(normal, best) <= limit else None
