@@ -56,13 +56,13 @@ logger = logging.getLogger(__name__)
 REQUIRED_COLUMNS = ("circuit", "from", "to", "load")
 
 #: Every column a schedule may have (contract.md, "The circuit schedule" and its
-#: extensions; ``via`` is read by the routing).  A header close to one of these
+#: extensions, and the README's further columns; ``via`` is read by the routing).  A header close to one of these
 #: but not equal is a misspelling and refused; others are extra and ignored.
 KNOWN_COLUMNS = REQUIRED_COLUMNS + (
     "power_factor", "efficiency", "voltage", "phases", "load_type", "conductor",
     "insulation", "cores", "vd_limit_pct", "fault_ka", "third_harmonic_pct",
     "to_x", "to_y", "to_z", "via", "ze_ohm", "earthing", "curve", "starter",
-    "clearing_time_s",
+    "clearing_time_s", "magnetic_a", "let_through_ka2s",
 )
 
 #: Largest total unpacked size of an XLSX's parts [bytes]: a 100,000-circuit
@@ -151,6 +151,28 @@ def _check_xlsx_package(path: Path) -> None:
                 match = re.search(rb'<dimension ref="([A-Z]*)(\d*):?([A-Z]*)(\d*)"', head)
                 if match:
                     _check_extent(path, info.filename, match)
+                _check_used_rows(path, archive, info)
+
+
+_ROW_NUMBER = re.compile(rb'<row [^>]*?r="(\d+)"')
+
+
+def _check_used_rows(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo) -> None:
+    """The highest row number the sheet uses, streamed (no dimension needed) [3]_.
+
+    openpyxl fills the gap up to a far-out row with empty rows, so a sheet with
+    one cell in row 1,048,576 would cost a million rows of work.
+    """
+    highest, tail = 0, b""
+    with archive.open(info) as part:
+        for chunk in iter(lambda: part.read(1 << 20), b""):
+            text = tail + chunk
+            for match in _ROW_NUMBER.finditer(text):
+                highest = max(highest, int(match.group(1)))
+            tail = text[-64:]
+    if highest > MAX_XLSX_ROWS:
+        raise ScheduleError(f"{path}: sheet {info.filename} uses row {highest}, more than a schedule has "
+                            f"({MAX_XLSX_ROWS}); delete the far-out cells or save the schedule as CSV")
 
 
 def _column_number(letters: bytes) -> int:

@@ -146,3 +146,18 @@ def utf16_schedule(folder: Path, bom: bool) -> Path:
     """A good schedule in UTF-16 (with or without its byte-order mark)."""
     text = f"{HEADER}\n{ROW}\n{ROW2}\n"
     return _text(folder, f"utf16{'_bom' if bom else ''}.csv", text, "utf-16" if bom else "utf-16-le")
+
+
+def xlsx_far_row_without_dimension(folder: Path) -> Path:
+    """One cell in the last row a sheet can have, and no ``dimension`` element."""
+    import re
+
+    data = _workbook_bytes([HEADER.split(","), ROW.split(",")])
+    sheet = re.sub(rb"<dimension [^>]*/>", b"", _sheet_xml(data))
+    sheet = sheet.replace(b"</sheetData>", b'<row r="1048576"><c r="A1048576" t="n"><v>1</v></c></row></sheetData>')
+    path = folder / "far_row.xlsx"
+    path.write_bytes(_rezip(data, {"xl/worksheets/sheet1.xml": sheet}))
+    return path
+
+
+REFUSED[xlsx_far_row_without_dimension] = ("row 1048576",)
