@@ -11,6 +11,7 @@ import argparse
 import logging
 import sys
 import traceback
+import warnings
 from collections.abc import Sequence
 from pathlib import Path
 
@@ -104,6 +105,11 @@ def _exit_code_for(exc: BaseException) -> int:
     ) else EXIT_CIRCUIT
 
 
+def _one_line_warning(message, category, filename, lineno, file=None, line=None) -> None:
+    text = " ".join(str(message).split())
+    print(f"cablewright: warning: {category.__name__}: {text}", file=sys.stderr)
+
+
 def _stage_and_module(exc: BaseException) -> tuple[str, str]:
     stage, module = "the command", ""
     for frame, _ in traceback.walk_tb(exc.__traceback__):
@@ -148,6 +154,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = parser.parse_args(argv)
     logging.basicConfig(level=logging.DEBUG if args.debug else logging.WARNING,
                         format="cablewright: %(message)s", stream=sys.stderr)
+    if not args.debug:  # a library's warning is one line too, without its source line
+        warnings.showwarning = _one_line_warning
     try:
         if args.command == "calc":
             from . import commands_calc

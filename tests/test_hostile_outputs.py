@@ -324,3 +324,20 @@ def test_kill_9_leaves_whole_old_or_whole_new(reference, tmp_path):
         assert state in (old, new), sorted(set(state) ^ set(new))
         seen.add("new" if state == new else "old")
     assert "old" in seen  # at least one kill landed before the swap
+
+
+def test_ifc_outputs_byte_identical(tmp_path, capsys):
+    # The sized IFC copy's new GlobalIds are name-based (RFC 4122 uuid5), the
+    # plan view's dates fixed: two runs, the same bytes.
+    model = SAMPLES / "pumping_station.ifc"
+    trees = []
+    for name in ("one", "two"):
+        code = main(["size", str(model), "--circuits", str(CIRCUITS), "--out", str(tmp_path / name), "--json"])
+        assert code in (0, 1)
+        trees.append(_tree(tmp_path / name))
+    capsys.readouterr()
+    assert trees[0] == trees[1] and f"{model.stem}_sized.ifc" in trees[0]
+    import ifcopenshell
+
+    ids = [e.GlobalId for e in ifcopenshell.open(str(tmp_path / "one" / f"{model.stem}_sized.ifc")).by_type("IfcRoot")]
+    assert len(ids) == len(set(ids))  # ISO 16739-1: GlobalId unique within the model
