@@ -24,11 +24,11 @@ import hashlib
 import itertools
 import os
 import uuid
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from typing import Any
 
-__all__ = ["file_digest", "pin_dxf_metadata", "seeded_ifc_guids", "FIXED_JULIAN_DATE"]
+__all__ = ["file_digest", "pin_dxf_metadata", "seeded_ifc_guids", "stable_relation_order", "FIXED_JULIAN_DATE"]
 
 #: 2000-01-01 00:00 as a Julian date, the date ezdxf itself writes for
 #: reproducible files (``ezdxf.options.write_fixed_meta_data_for_testing``);
@@ -125,3 +125,40 @@ def seeded_ifc_guids(seed: str) -> Iterator[None]:
         yield
     finally:
         guid_module.new = original
+
+
+#: Attributes of IFC relationships holding a SET of objects (ISO 16739-1:2018,
+#: IfcRelContainedInSpatialStructure, IfcRelAssigns, IfcRelDefinesByProperties).
+_SET_ATTRIBUTES = ("RelatedElements", "RelatedObjects")
+
+
+def stable_relation_order(model: Any, touched: Iterable[Any]) -> int:
+    """Sort the member lists of the relationships that reference ``touched``, by entity id.
+
+    ifcopenshell's API rebuilds such lists from a Python ``set`` (containment,
+    group assignment), whose order changes from run to run; the IFC types are
+    SETs, so their order carries no meaning and sorting loses nothing [4]_.
+
+    Parameters
+    ----------
+    model : ifcopenshell.file
+        The model about to be written.
+    touched : iterable of ifcopenshell.entity_instance
+        The entities our writer added or changed.
+
+    Returns
+    -------
+    int
+        How many relationships were put in order.
+    """
+    done: set[int] = set()
+    for entity in touched:
+        for rel in model.get_inverse(entity):
+            if rel.id() in done:
+                continue
+            for name in _SET_ATTRIBUTES:
+                members = getattr(rel, name, None) if hasattr(rel, name) else None
+                if isinstance(members, (tuple, list)) and len(members) > 1:
+                    setattr(rel, name, sorted(members, key=lambda e: e.id()))
+            done.add(rel.id())
+    return len(done)
