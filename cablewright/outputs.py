@@ -346,8 +346,8 @@ def _carry_over(old: Path, stage: Path, ours: set[str]) -> None:
     run's.  Hard links copy nothing and leave the old folder as it is.
     """
     for entry in sorted(old.iterdir()):
-        if entry.name in ours or entry.name.startswith(STAGE_TAG):
-            continue
+        if entry.name in ours or STAGE_TAG in entry.name or entry.name.endswith(".cablewright.lock"):
+            continue  # ours, or another run's staging or lock (a batch writing inside this folder)
         target = stage / entry.name
         if entry.is_symlink() or not entry.is_dir():
             _link_or_copy(str(entry), str(target))

@@ -155,6 +155,7 @@ def _check_xlsx_package(path: Path) -> None:
 
 
 _ROW_NUMBER = re.compile(rb'<row [^>]*?r="(\d+)"')
+_CELL_COLUMN = re.compile(rb'<c [^>]*?r="([A-Z]+)\d+"')
 
 
 def _check_used_rows(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo) -> None:
@@ -163,16 +164,21 @@ def _check_used_rows(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo
     openpyxl fills the gap up to a far-out row with empty rows, so a sheet with
     one cell in row 1,048,576 would cost a million rows of work.
     """
-    highest, tail = 0, b""
+    highest, widest, tail = 0, b"", b""
     with archive.open(info) as part:
         for chunk in iter(lambda: part.read(1 << 20), b""):
             text = tail + chunk
             for match in _ROW_NUMBER.finditer(text):
                 highest = max(highest, int(match.group(1)))
+            for match in _CELL_COLUMN.finditer(text):
+                letters = match.group(1)
+                if (len(letters), letters) > (len(widest), widest):
+                    widest = letters
             tail = text[-64:]
-    if highest > MAX_XLSX_ROWS:
-        raise ScheduleError(f"{path}: sheet {info.filename} uses row {highest}, more than a schedule has "
-                            f"({MAX_XLSX_ROWS}); delete the far-out cells or save the schedule as CSV")
+    if highest > MAX_XLSX_ROWS or _column_number(widest) > MAX_XLSX_COLUMNS:
+        raise ScheduleError(f"{path}: sheet {info.filename} uses row {highest} and column "
+                            f"{widest.decode() or '-'}, more than a schedule has ({MAX_XLSX_ROWS} rows, "
+                            f"{MAX_XLSX_COLUMNS} columns); delete the far-out cells or save the schedule as CSV")
 
 
 def _column_number(letters: bytes) -> int:

@@ -161,3 +161,18 @@ def xlsx_far_row_without_dimension(folder: Path) -> Path:
 
 
 REFUSED[xlsx_far_row_without_dimension] = ("row 1048576",)
+
+
+def xlsx_far_column_without_dimension(folder: Path) -> Path:
+    """A cell in the last column a sheet can have (XFD), and no ``dimension`` element."""
+    import re
+
+    data = _workbook_bytes([HEADER.split(","), ROW.split(",")])
+    sheet = re.sub(rb"<dimension [^>]*/>", b"", _sheet_xml(data))
+    sheet = sheet.replace(b"</row></sheetData>", b'<c r="XFD2" t="n"><v>1</v></c></row></sheetData>')
+    path = folder / "far_column.xlsx"
+    path.write_bytes(_rezip(data, {"xl/worksheets/sheet1.xml": sheet}))
+    return path
+
+
+REFUSED[xlsx_far_column_without_dimension] = ("column XFD",)
