@@ -67,6 +67,7 @@ from .layout import (
     straight_stretches,
 )
 from .model import CircuitOutcome
+from .text_limits import dxf_string_limit, fit_text
 
 __all__ = [
     "CAUTIONS",
@@ -414,8 +415,10 @@ def _dxf_escape(text: str) -> str:
 
 
 def _mtext_escape(text: str) -> str:
-    cleaned = _clean(text).replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
-    return _dxf_escape(cleaned)
+    def escape(plain: str) -> str:
+        return _dxf_escape(plain.replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}"))
+
+    return fit_text(_clean(text), dxf_string_limit("AC1015"), "AC1015", escape)  # one line of a note
 
 
 def _rating_text(value: float) -> str:
@@ -743,7 +746,7 @@ class _Writer:
 
     # writing ---------------------------------------------------------------
     def _tag(self, entity: Any, kind: str, ref: str) -> Any:
-        entity.set_xdata(self.config.appid, [(1000, kind), (1000, ref[:200])])
+        entity.set_xdata(self.config.appid, [(1000, kind), (1000, fit_text(ref, 255, self.doc.dxfversion))])
         return entity
 
     def text(
@@ -768,9 +771,9 @@ class _Writer:
         }
         if color is not None:
             attribs["color"] = color
-        entity = self.msp.add_text(
-            _dxf_escape(_clean(content)), height=self.height if height is None else height, dxfattribs=attribs
-        )
+        version = self.doc.dxfversion  # a label longer than DXF allows is cut with an ellipsis
+        stored = fit_text(_clean(content), dxf_string_limit(version), version, _dxf_escape)
+        entity = self.msp.add_text(stored, height=self.height if height is None else height, dxfattribs=attribs)
         entity.set_placement((x, y, z), align=align)
         return self._tag(entity, kind, ref)
 

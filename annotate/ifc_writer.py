@@ -42,6 +42,7 @@ from cablewright.extract.ifc_reader import SIZING_PSET, open_model
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
+from .reproducible import stable_relation_order
 
 __all__ = ["CHECKS_PSET", "SIZING_PSET", "IfcWriteSummary", "write_ifc_copy"]
 
@@ -272,6 +273,7 @@ def write_ifc_copy(
             updated.append(outcome.circuit_id)
         _set_pset(f, cable, SIZING_PSET, _sizing_props(outcome))
         _set_pset(f, cable, CHECKS_PSET, _check_props(outcome))
+    stable_relation_order(f, [c for c in f.by_type("IfcCableSegment") if (c.Tag or c.Name) in added])
     try:
         dst.parent.mkdir(parents=True, exist_ok=True)
         with atomic_path(dst) as tmp:

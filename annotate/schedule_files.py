@@ -14,6 +14,14 @@ References
 .. [2] openpyxl documentation: ``Workbook``, ``Worksheet.freeze_panes``,
    ``column_dimensions``, "Write-only mode" (``Workbook(write_only=True)``,
    ``WriteOnlyCell``).
+.. [3] OWASP, "CSV Injection" (common practice): a cell whose text begins with
+   ``=``, ``+``, ``-``, ``@``, a tab or a carriage return is taken by spreadsheet
+   programs as a formula; such text is written with a leading single quote.
+.. [4] ECMA-376-1:2016 (Office Open XML), 18.3.1.4 ``c`` (cell type ``inlineStr``)
+   and 18.8.45 ``xf`` (``quotePrefix``): a string cell, shown and kept as text.
+.. [5] reproducible-builds.org, "Timestamps" and "Archive metadata": no run
+   time in the files, fixed dates on the zip entries, so two runs on the same
+   input give the same bytes.
 """
 
 from __future__ import annotations
@@ -21,6 +29,7 @@ from __future__ import annotations
 import csv
 import io
 import os
+import zipfile
 from collections.abc import Callable, Iterable, Sequence
 from pathlib import Path
 from typing import Any
@@ -31,6 +40,9 @@ from .model import CircuitOutcome
 
 __all__ = [
     "COLUMNS",
+    "FORMULA_LEADS",
+    "is_formula_like",
+    "csv_safe_text",
     "schedule_rows",
     "write_schedule_csv",
     "write_schedule_xlsx",
@@ -114,12 +126,42 @@ def schedule_rows(outcomes: Iterable[CircuitOutcome]) -> list[dict[str, Any]]:
     return rows
 
 
+#: First characters that make a spreadsheet program read a cell as a formula
+#: (OWASP "CSV Injection", common practice).
+FORMULA_LEADS: tuple[str, ...] = ("=", "+", "-", "@", "\t", "\r")
+
+
+def is_formula_like(text: str) -> bool:
+    """True when a spreadsheet program would take ``text`` for a formula.
+
+    Examples
+    --------
+    >>> is_formula_like("=HYPERLINK(1)"), is_formula_like("-5"), is_formula_like("P-101")
+    (True, True, False)
+    """
+    return text.startswith(FORMULA_LEADS)
+
+
+def csv_safe_text(text: str) -> str:
+    """``text`` for a CSV cell: a leading single quote where it would read as a formula.
+
+    Examples
+    --------
+    >>> csv_safe_text("=1+2"), csv_safe_text("@SUM(A1)"), csv_safe_text("MCC-1")
+    ("'=1+2", "'@SUM(A1)", 'MCC-1')
+    """
+    return "'" + text if is_formula_like(text) else text
+
+
 def _csv_cell(value: Any) -> str:
+    """A cell's CSV text; numbers as numbers, text made safe (:func:`csv_safe_text`)."""
     if value is None:
         return ""
     if isinstance(value, bool):
         return "true" if value else "false"
-    return str(value)
+    if isinstance(value, (int, float)):
+        return str(value)  # a real number, negative or not, stays a number
+    return csv_safe_text(str(value))
 
 
 def write_schedule_csv(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
@@ -164,19 +206,63 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
         head.append(cell)
     ws.append(head)
     for row in rows:
-        ws.append([row[h] for h in HEADERS])
+        ws.append([_xlsx_cell(ws, row[h]) for h in HEADERS])
     for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
         extra.append([WriteOnlyCell(extra, value=h) for h in headers])
         for sheet_row in sheet_rows:
-            extra.append(list(sheet_row))
+            extra.append([_xlsx_cell(extra, v) for v in sheet_row])
     try:
         with atomic_path(path) as tmp:
             wb.save(tmp)
+            tmp.write_bytes(_reproducible_zip(tmp.read_bytes()))
     finally:
         if not ws.closed:  # saving failed early: end the sheet's row stream and temp file
             ws.close()
     return Path(path)
+
+
+def _xlsx_cell(ws: Any, value: Any) -> Any:
+    """A value for the write-only sheet: text that reads as a formula becomes a string cell.
+
+    openpyxl stores a ``str`` beginning with ``=`` as a formula; such text (and
+    text beginning with any of :data:`FORMULA_LEADS`) is written as a string
+    cell with ``quotePrefix`` set, so the spreadsheet keeps it as text [4]_.
+    """
+    if not isinstance(value, str) or not is_formula_like(value):
+        return value
+    from openpyxl.cell import WriteOnlyCell
+
+    cell = WriteOnlyCell(ws, value=value)
+    cell.data_type = "s"
+    cell.quotePrefix = True
+    return cell
+
+
+#: Date of every entry of the XLSX zip: the earliest a zip can hold (APPNOTE 4.4.6),
+#: as reproducible-builds.org suggests for archives [5]_.
+_ZIP_DATE = (1980, 1, 1, 0, 0, 0)
+
+
+def _reproducible_zip(data: bytes) -> bytes:
+    """The workbook with fixed zip entry dates and no created/modified time.
+
+    openpyxl stamps the save time into ``docProps/core.xml`` and on every zip
+    entry; both are replaced so the file depends on its contents only [5]_.
+    """
+    import re
+
+    out = io.BytesIO()
+    with zipfile.ZipFile(io.BytesIO(data)) as src, zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as dst:
+        for info in src.infolist():
+            content = src.read(info.filename)
+            if info.filename == "docProps/core.xml":
+                content = re.sub(rb"<dcterms:(created|modified)[^>]*>[^<]*</dcterms:\1>", b"", content)
+            entry = zipfile.ZipInfo(info.filename, date_time=_ZIP_DATE)
+            entry.compress_type = zipfile.ZIP_DEFLATED
+            entry.external_attr = 0o644 << 16
+            dst.writestr(entry, content)
+    return out.getvalue()
 
 
 def write_schedule_json(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],

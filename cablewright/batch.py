@@ -10,6 +10,7 @@ from __future__ import annotations
 import argparse
 import io
 import json
+import re
 import sys
 from concurrent.futures import ProcessPoolExecutor
 from contextlib import redirect_stdout
@@ -18,7 +19,7 @@ from pathlib import Path
 
 from cablewright.extract.errors import CableRouteError, DrawingReadError
 
-__all__ = ["expand_drawings", "run_batch", "BatchItem"]
+__all__ = ["expand_drawings", "run_batch", "BatchItem", "output_folders"]
 
 SUFFIXES = (".dxf", ".ifc")
 
@@ -56,13 +57,63 @@ def _schedule_beside(drawing: Path) -> str | None:
     return None
 
 
-def _one(drawing: str, circuits: str | None, config: str | None, out: str | None, recover: bool,
+def _folder_name(drawing: Path) -> str:
+    """A folder name from the drawing's stem that stays inside its parent.
+
+    Anything but letters, digits, ``.``, ``_``, ``-`` and spaces becomes ``_``;
+    leading dots are dropped (``...dxf`` has the stem ``..``), an empty name
+    becomes ``drawing``.
+
+    Examples
+    --------
+    >>> _folder_name(Path("...dxf")), _folder_name(Path("a/hall b.dxf")), _folder_name(Path(".x.dxf"))
+    ('drawing', 'hall b', 'x')
+    """
+    name = re.sub(r"[^\w. -]", "_", drawing.stem).lstrip(". ").rstrip(". ")
+    return name or "drawing"
+
+
+def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], list[str]]:
+    """One output folder per drawing, all different, inside ``out`` when given.
+
+    With ``out`` each drawing's folder is ``out/<name>``; without it,
+    ``<stem>_cablewright`` beside the drawing.  Where two drawings would share a
+    folder (same name in different folders, ``plant.dxf`` and ``plant.ifc``), the
+    later ones (in the order given) get ``-2``, ``-3``, ...; each such choice is
+    returned as a line for standard error.
+
+    Returns
+    -------
+    (list of Path, list of str)
+        The folders, in the order of ``drawings``, and the lines naming collisions.
+    """
+    base = Path(out).resolve() if out else None
+    taken: dict[str, Path] = {}
+    folders, notes = [], []
+    for drawing in drawings:
+        name = _folder_name(drawing)
+        parent = base if base is not None else drawing.resolve().parent
+        stem = name if base is not None else f"{name}_cablewright"
+        candidate, n = parent / stem, 1
+        while str(candidate).casefold() in taken:
+            n += 1
+            candidate = parent / f"{stem}-{n}"
+        if base is not None and candidate.parent != base:  # pragma: no cover - guarded by _folder_name
+            raise DrawingReadError(f"{drawing}: its output folder {candidate} would lie outside {base}")
+        if n > 1:
+            first = taken[str(parent / stem).casefold()]
+            notes.append(f"{drawing}: outputs in {candidate}, since {parent / stem} holds those of {first}")
+        taken[str(candidate).casefold()] = drawing
+        folders.append(candidate)
+    return folders, notes
+
+
+def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str | None, recover: bool,
          units: str | None = None) -> BatchItem:
     from .cli import _exit_code_for
     from .commands_drawing import run_size
 
     path = Path(drawing)
-    out_dir = str(Path(out) / path.stem) if out else None
     args = argparse.Namespace(drawing=drawing, circuits=circuits or _schedule_beside(path), config=config,
                               out=out_dir, json=True, debug=False, recover=recover, more_drawings=[], jobs=1,
                               units=units)
@@ -73,7 +124,9 @@ def _one(drawing: str, circuits: str | None, config: str | None, out: str | None
     except CableRouteError as exc:
         return BatchItem(drawing, _exit_code_for(exc), f"{drawing}: error: {exc}")
     except Exception as exc:  # a bug in one drawing must not stop the batch
-        return BatchItem(drawing, 2, f"{drawing}: internal error: {type(exc).__name__}: {exc}")
+        from .cli import internal_error_line
+
+        return BatchItem(drawing, 2, internal_error_line(exc, args))
     document = json.loads(buffer.getvalue())
     statuses = [c["status"] for c in document["circuits"]]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))
@@ -84,8 +137,11 @@ def run_batch(args: argparse.Namespace) -> int:
     """Size every drawing; return the worst exit code of the batch."""
     drawings = expand_drawings([args.drawing, *args.more_drawings])
     jobs = max(1, int(args.jobs or 1))
-    call = [(str(d), args.circuits, args.config, args.out, args.recover, getattr(args, "units", None))
-            for d in drawings]
+    folders, notes = output_folders(drawings, args.out)
+    for note in notes:
+        print(f"cablewright: {note}", file=sys.stderr)
+    call = [(str(d), args.circuits, args.config, str(f), args.recover, getattr(args, "units", None))
+            for d, f in zip(drawings, folders, strict=True)]
     if jobs == 1 or len(drawings) == 1:
         items = [_one(*c) for c in call]
     else:

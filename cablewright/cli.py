@@ -10,17 +10,33 @@ from __future__ import annotations
 import argparse
 import logging
 import sys
+import traceback
+import warnings
 from collections.abc import Sequence
 from pathlib import Path
 
 from cablewright.extract.errors import CableRouteError
 
-__all__ = ["main", "EXIT_OK", "EXIT_CIRCUIT", "EXIT_INPUT"]
+__all__ = ["main", "internal_error_line", "EXIT_OK", "EXIT_CIRCUIT", "EXIT_INPUT"]
 
 EXIT_OK, EXIT_CIRCUIT, EXIT_INPUT = 0, 1, 2
 log = logging.getLogger("cablewright")
 
-_INPUT_ERRORS = ("DrawingReadError", "ScheduleError", "ConfigError")
+_INPUT_ERRORS = ("DrawingReadError", "ScheduleError", "ConfigError", "OutputError")
+
+#: The stage an internal error arose in, from the module of the innermost of our
+#: frames (first match of the module name's prefix wins).
+_STAGE_OF_MODULE = (
+    ("cablewright.extract.schedule", "reading the schedule"),
+    ("cablewright.extract.network", "routing"),
+    ("cablewright.extract.routing", "routing"),
+    ("cablewright.extract.grouping", "grouping"),
+    ("cablewright.extract", "reading"),
+    ("cablewright.sizing", "sizing"),
+    ("cablewright.annotate", "writing"),
+    ("cablewright.outputs", "writing"),
+    ("cablewright.config", "reading the settings"),
+)
 
 
 def _common(parser: argparse.ArgumentParser) -> None:
@@ -115,12 +131,57 @@ def _exit_code_for(exc: BaseException) -> int:
     ) else EXIT_CIRCUIT
 
 
+def _one_line_warning(message, category, filename, lineno, file=None, line=None) -> None:
+    text = " ".join(str(message).split())
+    print(f"cablewright: warning: {category.__name__}: {text}", file=sys.stderr)
+
+
+def _stage_and_module(exc: BaseException) -> tuple[str, str]:
+    stage, module = "the command", ""
+    for frame, _ in traceback.walk_tb(exc.__traceback__):
+        name = str(frame.f_globals.get("__name__", ""))
+        if name.startswith("cablewright."):
+            module = name
+    for prefix, label in _STAGE_OF_MODULE:
+        if module.startswith(prefix):
+            stage = label
+            break
+    return stage, module
+
+
+def internal_error_line(exc: BaseException, args: argparse.Namespace | None = None) -> str:
+    """One line for an exception that is not ours: stage, file, what, and a plea to report it.
+
+    The stage comes from the module the error arose in; the file is the input
+    that stage was reading (the schedule, the config, else the drawing).
+
+    Examples
+    --------
+    >>> internal_error_line(ZeroDivisionError("division by zero"))
+    'internal error in the command on the command line: ZeroDivisionError: division by zero (please report)'
+    """
+    stage, module = _stage_and_module(exc)
+    drawing = getattr(args, "drawing", None)
+    if module.startswith("cablewright.extract.schedule") and getattr(args, "circuits", None):
+        where = args.circuits  # type: ignore[union-attr]
+    elif module.startswith("cablewright.config") and getattr(args, "config", None):
+        where = args.config  # type: ignore[union-attr]
+    else:
+        where = drawing or "the command line"
+    what = " ".join(f"{type(exc).__name__}: {exc}".split())
+    if len(what) > 200:
+        what = what[:199] + "…"
+    return f"internal error in {stage} on {where}: {what} (please report)"
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``cablewright`` console script; returns the exit code."""
     parser = build_parser()
     args = parser.parse_args(argv)
     logging.basicConfig(level=logging.DEBUG if args.debug else logging.WARNING,
                         format="cablewright: %(message)s", stream=sys.stderr)
+    if not args.debug:  # a library's warning is one line too, without its source line
+        warnings.showwarning = _one_line_warning
     try:
         if args.command == "calc":
             from . import commands_calc
@@ -152,11 +213,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("cablewright: interrupted; no output was left half-written", file=sys.stderr)
         return 130
-    except Exception as exc:  # a bug: one line unless --debug
+    except Exception as exc:  # a bug: one line, the traceback only with --debug
         if args.debug:
-            raise
-        print(f"cablewright: internal error: {type(exc).__name__}: {exc} "
-              "(run again with --debug and report it)", file=sys.stderr)
+            traceback.print_exc()
+        print(f"cablewright: {internal_error_line(exc, args)}", file=sys.stderr)
         return EXIT_INPUT
     parser.error(f"unknown command {args.command}")
     return EXIT_INPUT

@@ -13,7 +13,7 @@ from cablewright.annotate.model import CircuitOutcome
 
 from .config import load_settings
 from .console import CAUTION, format_table
-from .outputs import drawing_entry, job_document, job_takeoff, write_outputs
+from .outputs import drawing_entry, job_document, job_takeoff, output_session, write_outputs
 from .pipeline import measure_drawing, route_outcomes, size_measurement
 
 __all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
@@ -139,14 +139,16 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         from cablewright.annotate.changes import load_document
 
         previous_doc = load_document(previous)  # a bad earlier folder stops the run before any work
-    with _stages(args.json) as stage:
+    out_dir = Path(args.out) if args.out else _default_out(drawing)
+    inputs = [("drawing", drawing), ("schedule", args.circuits), ("config", args.config)]
+    # the output folder is checked against the inputs and locked before anything is read
+    with output_session(out_dir, inputs), _stages(args.json) as stage:
         stage(f"reading and routing {drawing.name}")
         measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
         stage("sizing")
         with _progress(len(measurement.rows), args.json, "sizing") as tick:
             job = size_measurement(measurement, settings, tick)
         stage("writing the annotated drawing, schedule and report")
-        out_dir = Path(args.out) if args.out else _default_out(drawing)
         takeoff, extras = job_takeoff(job, drawing, settings)
         changes = None
         if previous_doc is not None:

@@ -1,28 +1,57 @@
 """Write every output of ``size`` into the output folder, all or nothing.
 
-The files are first written into a hidden staging folder inside the output
-folder, then renamed into place one by one (contract.md: an interrupted run
-leaves no half-written file).
+The output set is replaced as a whole (issue 18, item 8):
+
+- before anything is read or written, :func:`output_session` refuses an
+  output folder that is, holds or would overwrite an input (drawing, schedule,
+  config), takes a lock beside the folder so two runs never write one folder
+  at once, and clears staging folders a killed run left behind;
+- :func:`write_outputs` writes every file into a new hidden folder beside the
+  output folder, carries over what else the old folder held (hard links, so
+  nothing is copied or moved), then swaps the new folder in with one atomic
+  exchange of the two names; the old set is removed after.
+
+Killed at any moment, the output folder holds either the whole old set or the
+whole new one; a run that fails leaves it exactly as it was (and makes no
+empty folder).
+
+References
+----------
+.. [1] Linux man-pages, rename(2): ``renameat2`` with ``RENAME_EXCHANGE``
+   "atomically exchange oldpath and newpath" (Linux 3.15, glibc 2.28).
+.. [2] Linux man-pages, flock(2): the lock goes with the open file and ends
+   when the process ends, also on ``kill -9``.
+.. [3] contract.md, "Commands": outputs are written to a temporary name and
+   renamed into place, so an interrupted run leaves no half-written file.
 """
 
 from __future__ import annotations
 
+import ctypes
+import errno
 import logging
 import os
 import shutil
+import sys
 import tempfile
+from collections.abc import Iterable, Iterator
+from contextlib import contextmanager
 from pathlib import Path
 
-from cablewright.extract.errors import DrawingReadError
+from cablewright.extract.errors import DrawingReadError, OutputError
 from cablewright.extract.model import UNIT_TO_M
 
 from .config import Settings
 from .console import CAUTION
 
-__all__ = ["write_outputs", "output_names", "job_takeoff", "job_document", "changes_json",
-           "drawing_entry", "drawing_facts"]
+__all__ = ["write_outputs", "output_names", "output_session", "check_inputs_not_outputs", "STAGE_TAG",
+           "job_takeoff", "job_document", "changes_json", "drawing_entry", "drawing_facts"]
 
 log = logging.getLogger(__name__)
+
+#: Infix of our hidden folders beside the output folder: ``.<out>.cablewright-stage-*``
+#: (a run being written) and ``.<out>.cablewright-old-*`` (the set being replaced).
+STAGE_TAG = ".cablewright-"
 
 
 def output_names(drawing: Path) -> dict[str, str]:
@@ -57,6 +86,160 @@ def job_document(job, extras) -> dict:
     return {**document(job.outcomes, "size"), **extras}
 
 
+# -- the folder: inputs, lock, stale staging -----------------------------------------
+
+
+def _absolute(path: str | os.PathLike[str]) -> Path:
+    return Path(os.path.realpath(os.path.abspath(os.fspath(path))))
+
+
+def check_inputs_not_outputs(out_dir: str | os.PathLike[str], inputs: Iterable[tuple[str, str | os.PathLike[str] | None]]) -> None:
+    """Refuse an output folder that equals, holds or would overwrite an input.
+
+    Parameters
+    ----------
+    out_dir : path-like
+        The output folder (``--out``), which the run replaces as a whole.
+    inputs : iterable of (str, path-like or None)
+        ``(role, path)`` of each input: ``("drawing", ...)``, ``("schedule", ...)``,
+        ``("config", ...)``; ``None`` paths are skipped.
+
+    Raises
+    ------
+    OutputError
+        Naming the input, its role and what to do.
+    """
+    out = _absolute(out_dir)
+    if out.parent == out:
+        raise OutputError(f"{out}: the output folder cannot be the root of the file system; choose a folder of its own with --out")
+    cwd = _absolute(os.getcwd())
+    if out == cwd or out in cwd.parents:
+        raise OutputError(f"{out}: the output folder holds the current folder and would be replaced; choose a folder of its own with --out")
+    if out.exists() and not out.is_dir():
+        raise OutputError(f"{out}: --out names a file, not a folder; choose a folder for the outputs")
+    for role, path in inputs:
+        if path is None:
+            continue
+        given = _absolute(path)
+        if given == out or out in given.parents:
+            raise OutputError(f"{path}: the {role} is inside the output folder {out}, which this run replaces; "
+                              "choose another --out or move the input out of it")
+
+
+def _lock_path(out: Path) -> Path:
+    return out.parent / f".{out.name}.cablewright.lock"
+
+
+@contextmanager
+def _locked(out: Path) -> Iterator[None]:
+    """Hold an exclusive lock beside ``out``; a second run fails at once [2]_."""
+    path = _lock_path(out)
+    try:
+        import fcntl
+    except ImportError:  # pragma: no cover - not POSIX: no lock, said once
+        log.warning("%s: no file locking on this system; do not run two jobs on one --out", out)
+        yield
+        return
+    try:
+        fd = os.open(path, os.O_RDWR | os.O_CREAT, 0o644)
+    except OSError as exc:
+        raise OutputError(f"{out}: cannot create the lock file {path} ({exc.strerror}); choose another --out") from exc
+    try:
+        try:
+            fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+        except OSError as exc:
+            if exc.errno not in (errno.EWOULDBLOCK, errno.EAGAIN, errno.EACCES):
+                raise
+            raise OutputError(f"{out}: another cablewright run is writing this folder (lock {path}); "
+                              "wait for it to finish or choose another --out") from None
+        try:  # the file may have been removed by the run that held it before us
+            same = os.path.samestat(os.stat(path), os.fstat(fd))
+        except FileNotFoundError:
+            same = False
+        if not same:
+            raise OutputError(f"{out}: another cablewright run has just taken this folder (lock {path}); "
+                              "wait for it to finish or choose another --out")
+        os.write(fd, f"{os.getpid()}\n".encode())
+        try:
+            yield
+        finally:
+            try:  # removed while still held, so no run can take a stale file
+                os.unlink(path)
+            except OSError:
+                pass
+    finally:
+        os.close(fd)
+
+
+def _clean_stale(out: Path) -> None:
+    """Remove what a killed run left: staging folders, an interrupted swap."""
+    prefix = f".{out.name}{STAGE_TAG}"
+    try:
+        entries = sorted(out.parent.iterdir())
+    except OSError:
+        return
+    for entry in entries:
+        name = entry.name
+        if not name.startswith(prefix) or not entry.is_dir():
+            continue
+        if name.startswith(prefix + "old-") and not out.exists():
+            log.warning("%s: an earlier run was stopped while replacing the outputs; the previous set is put back", out)
+            os.rename(entry, out)
+            continue
+        log.info("removing %s, left by a run that was stopped", entry)
+        shutil.rmtree(entry, ignore_errors=True)
+    if out.is_dir():  # staging folders of older versions, inside the output folder
+        for entry in sorted(out.iterdir()):
+            if entry.name.startswith(STAGE_TAG) and entry.is_dir():
+                shutil.rmtree(entry, ignore_errors=True)
+
+
+def _make_parents(folder: Path) -> list[Path]:
+    """Create ``folder`` and its missing parents; return those created (outermost first)."""
+    missing = []
+    probe = folder
+    while not probe.exists():
+        missing.append(probe)
+        probe = probe.parent
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise OutputError(f"{folder}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+    return list(reversed(missing))
+
+
+@contextmanager
+def output_session(out_dir: str | os.PathLike[str],
+                   inputs: Iterable[tuple[str, str | os.PathLike[str] | None]] = ()) -> Iterator[Path]:
+    """Claim ``out_dir`` for one run: inputs checked, lock held, stale staging cleared.
+
+    Call before any input is read.  Yields the absolute output folder.  On
+    leaving, the lock is released and removed; folders made only for the lock
+    are removed again when the run wrote nothing (no empty folder is left).
+
+    Raises
+    ------
+    OutputError
+        The folder is or holds an input, another run holds it, it cannot be created.
+    """
+    out = _absolute(out_dir)
+    check_inputs_not_outputs(out, inputs)
+    created = _make_parents(out.parent)
+    try:
+        with _locked(out):
+            _clean_stale(out)
+            yield out
+    finally:
+        for folder in reversed(created):
+            try:
+                folder.rmdir()  # only when empty: nothing of ours or anyone's in it
+            except OSError:
+                break
+
+
+# -- writing and swapping ------------------------------------------------------------
+
+
 def _annotate_config(settings: Settings):
     from dataclasses import fields, replace
 
@@ -71,6 +254,12 @@ def _annotate_config(settings: Settings):
     return replace(base, **settings.annotate)
 
 
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
 def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False,
                   takeoff=None, extras=None, changes=None, previous_name: str = "") -> list[Path]:
     """Write the annotated DXF, schedule (csv, xlsx, json), preview and report.
@@ -78,13 +267,43 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
     ``takeoff``/``extras`` come from :func:`job_takeoff` (computed when not
     given); ``changes`` (a :class:`.changes.ChangeReport` against the run in
     ``previous_name``) adds ``changes.json`` and a report section.
-    Returns the final paths.  Raises :class:`DrawingReadError` when the folder
-    cannot be written; nothing partial is left behind.
+
+    Every file is written into a staging folder beside ``out_dir``, which then
+    replaces ``out_dir`` as a whole (module docstring).  Returns the final
+    paths.  Raises :class:`OutputError` when the folder cannot be written;
+    nothing partial is left behind.
     """
+    out = _absolute(out_dir)
+    try:
+        out.parent.mkdir(parents=True, exist_ok=True)
+        stage = Path(tempfile.mkdtemp(prefix=f".{out.name}{STAGE_TAG}stage-", dir=out.parent))
+    except OSError as exc:
+        raise OutputError(f"{out}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+    try:
+        try:
+            if takeoff is None or extras is None:
+                takeoff, extras = job_takeoff(job, Path(drawing), settings)
+            names = _write_all(job, Path(drawing), stage, settings, takeoff, extras, changes, previous_name)
+            os.chmod(stage, (out.stat().st_mode & 0o7777) if out.is_dir() else 0o777 & ~_umask())
+            if out.is_dir():
+                _carry_over(out, stage, set(names.values()) | set(output_names(Path(drawing)).values()))
+            _swap_in(stage, out)
+        except OSError as exc:
+            raise OutputError(f"{out}: cannot write the outputs ({exc.strerror or exc}); "
+                              "free some space or choose another --out") from exc
+        return [out / name for name in names.values()]
+    finally:
+        shutil.rmtree(stage, ignore_errors=True)
+
+
+def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, extras,
+               changes=None, previous_name: str = "") -> dict[str, str]:
+    """Every output file into ``stage``; returns key -> file name, in writing order."""
     from cablewright.annotate.dxf_writer import write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
+    from cablewright.annotate.reproducible import file_digest, pin_dxf_metadata, seeded_ifc_guids
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
         write_schedule_json,
@@ -94,70 +313,60 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
 
     names = output_names(drawing)
     measurement = job.measurement
-    if takeoff is None or extras is None:
-        takeoff, extras = job_takeoff(job, drawing, settings)
-    out_dir = Path(out_dir)
-    try:
-        out_dir.mkdir(parents=True, exist_ok=True)
-        stage = Path(tempfile.mkdtemp(prefix=".cablewright-", dir=out_dir))
-    except OSError as exc:
-        raise DrawingReadError(f"{out_dir}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
-    try:
-        config = _annotate_config(settings)
-        units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
-        dxf_input = drawing
-        document = None
-        if drawing.suffix.lower() != ".dxf":  # IFC: a plan view drawn from the measurement
-            dxf_input = _plan_view_for(measurement, stage)
-        else:  # the drawing parsed by the extract stage, not read a second time
-            document = getattr(measurement, "source_document", None)
-        if document is None:
-            import ezdxf
+    config = _annotate_config(settings)
+    units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
+    seed = file_digest(drawing)
+    dxf_input = drawing
+    document = None
+    scratch = stage / ".scratch"
+    if drawing.suffix.lower() != ".dxf":  # IFC: a plan view drawn from the measurement
+        scratch.mkdir()
+        dxf_input = _plan_view_for(measurement, scratch)
+    else:  # the drawing parsed by the extract stage, not read a second time
+        document = getattr(measurement, "source_document", None)
+    if document is None:
+        import ezdxf
 
-            try:
-                document = ezdxf.readfile(dxf_input)
-            except (OSError, ezdxf.DXFStructureError) as exc:
-                raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
-                                       "check the path or re-export it") from exc
-        _record_units(document, measurement)
-        # our marks are added to the document in memory and it is saved under the
-        # output name only; the preview is drawn from the same annotated document
-        summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
-                                      measurement.segments, job.per_segment,
-                                      measurement.equipment, units_per_m, config,
-                                      document=document)
-        write_schedule_csv(stage / names["csv"], job.outcomes)
-        write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
-        write_schedule_json(stage / names["json"], job.outcomes, extras)
-        sections = takeoff_sections(takeoff)
-        if changes is not None:
-            from cablewright.annotate.atomic import write_text_atomic
+        try:
+            document = ezdxf.readfile(dxf_input)
+        except (OSError, ezdxf.DXFStructureError) as exc:
+            raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
+                                   "check the path or re-export it") from exc
+    # no run time and no random GUID in the annotated drawing (annotate.reproducible)
+    pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
+    _record_units(document, measurement)
+    # our marks are added to the document in memory and it is saved under the
+    # output name only; the preview is drawn from the same annotated document
+    summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
+                                  measurement.segments, job.per_segment,
+                                  measurement.equipment, units_per_m, config,
+                                  document=document)
+    write_schedule_csv(stage / names["csv"], job.outcomes)
+    write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
+    write_schedule_json(stage / names["json"], job.outcomes, extras)
+    sections = takeoff_sections(takeoff)
+    if changes is not None:
+        from cablewright.annotate.atomic import write_text_atomic
 
-            write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
-            sections.insert(0, changes_section(changes, previous_name))
-        ours = dict(summary.layers)
-        schedule_layer = ours.pop("schedule", config.schedule_layer)
-        png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
-                                 keep_layers=tuple(ours.values()))
-        (stage / names["png"]).write_bytes(png)
-        write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
-                          drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
-                          extra_sections=sections, drawing_facts=drawing_facts(measurement))
-        keys = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else [])
-        if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
-            from cablewright.annotate.ifc_writer import write_ifc_copy
+        write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
+        sections.insert(0, changes_section(changes, previous_name))
+    ours = dict(summary.layers)
+    schedule_layer = ours.pop("schedule", config.schedule_layer)
+    png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
+                             keep_layers=tuple(ours.values()))
+    (stage / names["png"]).write_bytes(png)
+    write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
+                      drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
+                      extra_sections=sections, drawing_facts=drawing_facts(measurement))
+    if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
+        from cablewright.annotate.ifc_writer import write_ifc_copy
 
-            names["ifc"] = f"{drawing.stem}_sized.ifc"
+        names["ifc"] = f"{drawing.stem}_sized.ifc"
+        with seeded_ifc_guids(seed):
             write_ifc_copy(drawing, stage / names["ifc"], job.outcomes)
-            keys.append("ifc")
-        final = []
-        for key in keys:
-            target = out_dir / names[key]
-            os.replace(stage / names[key], target)
-            final.append(target)
-        return final
-    finally:
-        shutil.rmtree(stage, ignore_errors=True)
+    shutil.rmtree(scratch, ignore_errors=True)
+    order = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else []) + ["ifc"]
+    return {key: names[key] for key in order if key in names}
 
 
 def changes_json(changes, previous_name: str = "") -> str:
@@ -178,11 +387,70 @@ def changes_json(changes, previous_name: str = "") -> str:
     return "{\n" + ",\n".join(lines) + "\n}\n"
 
 
-def _plan_view_for(measurement, stage: Path) -> Path:
+def _link_or_copy(src: str, dst: str) -> str:
+    try:
+        os.link(src, dst, follow_symlinks=False)
+    except OSError:
+        shutil.copy2(src, dst, follow_symlinks=False)
+    return dst
+
+
+def _carry_over(old: Path, stage: Path, ours: set[str]) -> None:
+    """Bring what else the old folder holds into the new one, as hard links.
+
+    Files and folders of the user's (or of an earlier run for another drawing)
+    stay in the output folder across the swap; our own file names are the new
+    run's.  Hard links copy nothing and leave the old folder as it is.
+    """
+    for entry in sorted(old.iterdir()):
+        if entry.name in ours or STAGE_TAG in entry.name or entry.name.endswith(".cablewright.lock"):
+            continue  # ours, or another run's staging or lock (a batch writing inside this folder)
+        target = stage / entry.name
+        if entry.is_symlink() or not entry.is_dir():
+            _link_or_copy(str(entry), str(target))
+        else:
+            shutil.copytree(entry, target, symlinks=True, copy_function=_link_or_copy)
+
+
+def _exchange(a: Path, b: Path) -> bool:
+    """Swap two folder names in one step (Linux ``renameat2``, [1]_); False if not available."""
+    if not sys.platform.startswith("linux"):
+        return False
+    try:
+        libc = ctypes.CDLL(None, use_errno=True)
+        renameat2 = libc.renameat2
+    except (OSError, AttributeError):
+        return False
+    renameat2.argtypes = [ctypes.c_int, ctypes.c_char_p, ctypes.c_int, ctypes.c_char_p, ctypes.c_uint]
+    renameat2.restype = ctypes.c_int
+    at_fdcwd, rename_exchange = -100, 2  # <fcntl.h> AT_FDCWD, <linux/fs.h> RENAME_EXCHANGE
+    if renameat2(at_fdcwd, os.fsencode(a), at_fdcwd, os.fsencode(b), rename_exchange) == 0:
+        return True
+    code = ctypes.get_errno()
+    if code in (errno.EINVAL, errno.ENOSYS, errno.ENOTSUP, errno.EOPNOTSUPP):
+        return False  # file system without exchange: the two-rename way
+    raise OSError(code, os.strerror(code), str(b))
+
+
+def _swap_in(stage: Path, out: Path) -> None:
+    """Put the staged folder at ``out``; the old set (if any) ends up in ``stage``'s place."""
+    if not out.exists():
+        os.rename(stage, out)
+        return
+    if _exchange(stage, out):
+        return
+    # two renames; a run stopped between them is put right by the next (_clean_stale)
+    old = out.parent / f".{out.name}{STAGE_TAG}old-{os.getpid()}"
+    os.rename(out, old)
+    os.rename(stage, out)
+    os.rename(old, stage)
+
+
+def _plan_view_for(measurement, folder: Path) -> Path:
     """A plan-view DXF of the route network, for models that are not DXF (IFC)."""
     from cablewright.annotate.plan_view import write_plan_view
 
-    path = stage / "_plan_view.dxf"
+    path = folder / "_plan_view.dxf"
     write_plan_view(measurement, path)
     return path
 

@@ -19,6 +19,7 @@ __all__ = [
     "UnknownKeyError",
     "NoCableLargeEnoughError",
     "CircuitInputError",
+    "OutputError",
     "Issue",
 ]
 
@@ -37,6 +38,10 @@ class ScheduleError(CableRouteError):
 
 class ConfigError(CableRouteError, ValueError):
     """The configuration file is unreadable or holds an unknown key or bad value."""
+
+
+class OutputError(CableRouteError):
+    """The output folder cannot be used: it holds an input, another run holds it, or it cannot be written (exit code 2)."""
 
 
 class NoRouteError(CableRouteError):

@@ -162,7 +162,9 @@ def test_failure_while_writing_leaves_no_output(tmp_path, monkeypatch, capsys):
     code = main(["size", str(DRAWING), "--circuits", str(CIRCUITS), "--out", str(out)])
     assert code == 2
     assert "disk full" in capsys.readouterr().err
-    assert list(out.iterdir()) == []
+    # issue 18: no empty folder, no staging folder, no lock file left beside it
+    assert not out.exists()
+    assert list(tmp_path.iterdir()) == []
 
 
 def test_batch_mode_sizes_each_drawing_in_its_own_folder(tmp_path, capsys):
