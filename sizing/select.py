@@ -22,7 +22,7 @@ from functools import lru_cache
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import sizes_for, tabulated_capacity
-from .checks import PreparedChecks, _resistance_ohm_per_km
+from .checks import ZE_ASSUMED_MESSAGE, PreparedChecks, _resistance_ohm_per_km
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
@@ -31,7 +31,7 @@ from .correction_tables import (
     soil_resistivity_factor,
 )
 from .depth import REFERENCE_DEPTH_M, depth_factor_for_method
-from .device import DeviceSelection, required_iz_a, select_device
+from .device import DEVICE_KINDS, DeviceSelection, required_iz_a, select_device
 from .load import design_current_a
 from .model import (
     CableSelection,
@@ -219,7 +219,12 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     ...                    stretches=(Stretch(method="E", other_cables=0),))
     >>> r = size_circuit(spec)
     >>> r.device_rating_a, r.cable.csa_mm2, r.status
-    (125, 25.0, 'ok')
+    (125, 25.0, 'fail')
+    >>> r.ze_assumed, [c.name for c in r.checks if c.failed]
+    (True, ['disconnection'])
+
+    No Ze nor fault level: the config's assumed 0.8 Ω (a public TN-S supply)
+    leaves no room for a 125 A type C breaker's 1250 A (IEC 60364-4-41 411.4.4).
 
     References
     ----------
@@ -296,7 +301,10 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
-    device = select_device(ib, config.device_kind, config.device_margin, config.standard_ratings_a)
+    kind = spec.extra_value("device_kind", config.device_kind)
+    if kind not in DEVICE_KINDS:
+        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
+    device = select_device(ib, kind, config.device_margin, config.standard_ratings_a)
     need = required_iz_a(device)
     limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
     temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
@@ -413,7 +421,7 @@ def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, g
     checks.extend(prep.report(csa, parallel))
     return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
                      methods[stretch_index], iz, total, factors, checks, vd,
-                     prep.extras(csa, parallel))
+                     prep.extras(csa, parallel), getattr(prep.disconnection, "ze", 0.0))
 
 
 def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
@@ -427,9 +435,13 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     ]
 
 
-def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras):
-    messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
+def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras,
+              ze_assumed_ohm: float = 0.0):
+    messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
     status = "fail" if messages else "ok"
+    if extras.get("ze_assumed"):
+        messages.append(ZE_ASSUMED_MESSAGE.format(ze=ze_assumed_ohm))
+        status = "warning" if status == "ok" else status
     if spec.design_length_m <= 0:
         messages.append("no length given: voltage drop not checked")
         status = "warning" if status == "ok" else status
