@@ -314,3 +314,26 @@ def test_prepared_disconnection_equals_the_plain_function_on_10000_seeded_circui
         assert prep.check(csa, parallel).value == pytest.approx(plain.zs_ohm, rel=1e-12)
         compared += 1
     assert compared > 9000
+
+
+# ------------------------------------------------------------------ item 13
+def test_cheapest_fix_of_the_drop_from_the_origin_by_hand():
+    # IEC 60364-5-52:2009 Annex G: at unity cos φ the drop scales with R, so with the
+    # IEC 60228:2004 Table 2 resistances: the final circuit 4 -> 6 mm² lowers its 4.0 %
+    # to 4.0 x 3.08 / 4.61 = 2.67 % (gain 1.33 >= the 1.0 needed), +2 mm² x 30 m = 60;
+    # the feeder needs 16 -> 35 mm² (2.0 x 0.524 / 1.15 = 0.91 %, gain 1.09; 25 mm² gives
+    # only 0.74), +19 mm² x 60 m = 1140.
+    from cablewright.sizing.chain import ChainCable, cheapest_drop_fix, upstream_chain
+
+    cables = {"L1": ChainCable(4, 1, 30, "Cu", "XLPE", 1.0, 4.0),
+              "F1": ChainCable(16, 1, 60, "Cu", "XLPE", 1.0, 2.0)}
+    chain = upstream_chain("L1", {"L1": "DB1", "F1": "MSB"}, {"DB1": "F1"})
+    assert chain == ["L1", "F1"]
+    best = cheapest_drop_fix("L1", 6.0, 5.0, chain, cables)
+    assert (best.circuit_id, best.to_csa_mm2, best.added_copper_mm2_m) == ("L1", 6, 60)
+    assert best.total_pct == pytest.approx(6.0 - (4.0 - 4.0 * 3.08 / 4.61), rel=1e-3)
+    feeder = cheapest_drop_fix("L1", 6.0, 5.0, ["F1"], cables)
+    assert (feeder.circuit_id, feeder.to_csa_mm2, feeder.added_copper_mm2_m) == ("F1", 35, 1140)
+    assert feeder.total_pct == pytest.approx(6.0 - (2.0 - 2.0 * 0.524 / 1.15), rel=1e-3)
+    # nothing single is enough: no advice
+    assert cheapest_drop_fix("L1", 12.0, 5.0, chain, cables) is None
