@@ -337,3 +337,40 @@ def test_cheapest_fix_of_the_drop_from_the_origin_by_hand():
     assert feeder.total_pct == pytest.approx(6.0 - (2.0 - 2.0 * 0.524 / 1.15), rel=1e-3)
     # nothing single is enough: no advice
     assert cheapest_drop_fix("L1", 12.0, 5.0, chain, cables) is None
+
+
+def test_prepared_motor_dip_and_short_circuit_equal_the_plain_functions_on_10000_seeded_circuits():
+    # PreparedMotorStart.dip_percent vs motor_start.starting_dip_percent (Annex G at the
+    # starting current), PreparedShortCircuit.passes vs short_circuit.adiabatic_min_csa_mm2
+    # (IEC 60364-4-43 434.5.2): the fast forms the selection runs equal the plain functions.
+    from cablewright.sizing.checks import PreparedMotorStart, PreparedShortCircuit
+    from cablewright.sizing.motor_start import starter_data, starting_dip_percent
+    from cablewright.sizing.short_circuit import adiabatic_min_csa_mm2, k_value
+
+    rng = random.Random(1515)
+    sizes = (1.5, 2.5, 4, 6, 10, 16, 25, 35, 50, 70, 95, 120, 185, 240, 300)
+    for i in range(10_000):
+        phases = rng.choice((1, 3))
+        volts = 400.0 if phases == 3 else 230.0
+        conductor = rng.choice(("Cu", "Al"))
+        insulation = rng.choice(("XLPE", "PVC"))
+        starter = rng.choice(("dol", "star_delta", "soft", "drive"))
+        fault = rng.choice((None, rng.uniform(1, 50)))
+        t = rng.uniform(0.01, 1.0)
+        ib = rng.uniform(1, 500)
+        length = rng.uniform(0, 300)
+        csa = rng.choice(sizes[4:] if conductor == "Al" else sizes)
+        parallel = rng.choice((1, 2, 3))
+        temp = rng.choice((70.0, 90.0))
+        spec = CircuitSpec(f"M{i}", Load(ib, "A"), volts, phases=phases, load_type="motor",
+                           conductor=conductor, insulation=insulation, fault_ka=fault,
+                           design_length_m=length, extra=(("starter", starter),))
+        cfg = SizingConfig(clearing_time_s=t)
+        dip = PreparedMotorStart(spec, cfg, ib, volts, temp).dip_percent(csa, parallel)
+        plain = starting_dip_percent(ib, starter_data(starter), length, csa, conductor, volts,
+                                     phases, parallel, temp, fault)
+        assert dip == pytest.approx(plain, rel=1e-12, abs=1e-12)
+        sc = PreparedShortCircuit(spec, cfg)
+        if fault is not None:
+            need = adiabatic_min_csa_mm2(fault * 1000, t, k_value(conductor, insulation, csa))
+            assert sc.passes(csa) == (need <= csa + 1e-9)
