@@ -47,7 +47,7 @@ from .disconnection import (
     max_disconnection_time_s,
 )
 from .model import Check, CheckResult, CircuitSpec
-from .motor_start import starter_data
+from .motor_start import STAR_DELTA_START_DROP_FACTOR, is_star_delta, starter_data
 from .protective_conductor import ProtectiveConductor, protective_conductor
 from .short_circuit import (
     FAULT_TEMPERATURE_C,
@@ -81,6 +81,7 @@ __all__ = [
     "ZE_ASSUMED_MESSAGE",
     "load_end_fault_ka",
     "not_checked",
+    "star_delta_cables",
 ]
 
 NOT_APPLICABLE = "not applicable"
@@ -132,6 +133,14 @@ def _u0(spec: CircuitSpec) -> float:
 
 def _line_voltage(spec: CircuitSpec) -> float:
     return spec.voltage_v if spec.phases == 3 else spec.voltage_v * math.sqrt(3.0)
+
+
+def star_delta_cables(spec: CircuitSpec, config: SizingConfig) -> bool:
+    """A 3-phase motor on a star-delta starter at the board, wired with two cables
+    (config ``star_delta_two_cables``, :mod:`.motor_start`)."""
+    return (spec.load_type == "motor" and spec.phases == 3
+            and bool(_cfg(config, "star_delta_two_cables", False))
+            and is_star_delta(spec.extra_value("starter", _cfg(config, "default_starter", "dol"))))
 
 
 def _clearing_time_s(spec: CircuitSpec, config: SizingConfig) -> float | None:
@@ -265,8 +274,11 @@ class PreparedMotorStart:
         pf = starter.power_factor
         b = math.sqrt(3.0) if phases == 3 else 2.0
         self.pf = pf
-        # voltage_drop_v(i_st, L, S, ...) = b I L (r cos + x sin) / n
+        # voltage_drop_v(i_st, L, S, ...) = b I L (r cos + x sin) / n; star-delta with
+        # two cables: the star current goes out in one cable and back in the other
         self.a_v = b * i_st * spec.design_length_m
+        if star_delta_cables(spec, config):
+            self.a_v *= STAR_DELTA_START_DROP_FACTOR
         self.x_sin = _X_OHM_PER_M * math.sqrt(max(0.0, 1.0 - pf * pf))
         self.source_v = 0.0
         self.source_error: CableRouteError | None = None
@@ -356,7 +368,7 @@ class PreparedDisconnection:
 
     __slots__ = ("text", "error", "pe", "u0", "length_m", "conductor", "insulation", "kind",
                  "rating_a", "ze", "ze_source", "ze_assumed", "curve", "magnetic", "final", "vf",
-                 "tn_error", "zs_max", "temp", "last", "multiple", "tolerance")
+                 "tn_error", "zs_max", "temp", "last", "multiple", "tolerance", "one_line")
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig, device: DeviceSelection,
                  pe: PreparedProtectiveConductor) -> None:
@@ -365,6 +377,8 @@ class PreparedDisconnection:
         self.text: str | None = None
         self.error: CableRouteError | None = None
         self.ze_assumed = False
+        # star-delta pair: the faulted winding conductor is in one cable only (conservative)
+        self.one_line = star_delta_cables(spec, config)
         earthing = _earthing(spec, config)
         if not earthing.startswith("TN"):
             self.text = f"not checked: earthing {earthing} (only TN systems are handled)"
@@ -402,6 +416,8 @@ class PreparedDisconnection:
             return True
         if self.error is not None:
             raise self.error
+        if self.one_line:
+            parallel = 1
         pe = self.pe.pe(csa_mm2)
         if self.tn_error is not None:
             return True
@@ -422,6 +438,8 @@ class PreparedDisconnection:
             return self.text
         if self.error is not None:
             raise self.error
+        if self.one_line:
+            parallel = 1
         if self.last and self.last[0] == csa_mm2 and self.last[1] == parallel:
             return self.last[2]
         pe = self.pe.pe(csa_mm2)

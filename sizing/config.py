@@ -127,6 +127,11 @@ class SizingConfig:
         common practice, see :data:`.motor_start.DEFAULT_STARTERS`.
     motor_start_include_source : bool
         Add the source impedance (from the fault level) to the dip.
+    star_delta_two_cables : bool
+        True (default): a star-delta motor has its starter at the board and two
+        cables to the motor, each carrying the winding current Ib/√3 and
+        protected by the overload relay in the delta windings (common practice);
+        False: one cable at Ib (starter at the motor).
     """
 
     device_kind: str = "breaker"
@@ -163,6 +168,7 @@ class SizingConfig:
     default_starter: str = "dol"
     starters: dict[str, tuple[float, float]] = field(default_factory=_starters)
     motor_start_include_source: bool = True
+    star_delta_two_cables: bool = True
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)

@@ -22,7 +22,7 @@ from functools import lru_cache
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import sizes_for, tabulated_capacity
-from .checks import ZE_ASSUMED_MESSAGE, PreparedChecks, _resistance_ohm_per_km
+from .checks import ZE_ASSUMED_MESSAGE, PreparedChecks, _resistance_ohm_per_km, star_delta_cables
 from .config import SizingConfig
 from .correction_tables import (
     ambient_air_factor,
@@ -31,7 +31,13 @@ from .correction_tables import (
     soil_resistivity_factor,
 )
 from .depth import REFERENCE_DEPTH_M, depth_factor_for_method
-from .device import DEVICE_KINDS, DeviceSelection, required_iz_a, select_device
+from .device import (
+    DEVICE_KINDS,
+    DeviceSelection,
+    conventional_operating_current_a,
+    required_iz_a,
+    select_device,
+)
 from .load import design_current_a
 from .model import (
     CableSelection,
@@ -41,6 +47,11 @@ from .model import (
     SizingResult,
     Stretch,
     VoltageDrop,
+)
+from .motor_start import (
+    STAR_DELTA_CABLES,
+    STAR_DELTA_RUN_DROP_FACTOR,
+    star_delta_winding_current_a,
 )
 from .voltage_drop import (
     MAX_CONDUCTOR_TEMPERATURE_C,
@@ -99,6 +110,16 @@ class SizingContext:
     cores: int
     vd_limit_pct: float
     conductor_temp_c: float
+    #: The device protecting the cable against overload when it is not ``device``
+    #: (star-delta: the overload relay in the delta windings); ``None``: ``device``.
+    cable_device: DeviceSelection | None = None
+    #: Voltage drop over the three-phase formula (star-delta running: 4/3).
+    vd_factor: float = 1.0
+
+    @property
+    def overload_device(self) -> DeviceSelection:
+        """The device the checks of 433.1 are made with."""
+        return self.cable_device or self.device
 
 
 def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> VoltageDrop:
@@ -106,12 +127,13 @@ def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext) -> Vol
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
         spec.power_factor, cand.parallel, ctx.conductor_temp_c,
     )
+    volts *= ctx.vd_factor
     percent = drop_percent(volts, ctx.voltage_v)
     per_a_m = 1000.0 * volts / (ctx.design_current_a * spec.design_length_m) if spec.design_length_m > 0 else 0.0
     annex_g = annex_g_drop_percent(
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
         spec.power_factor, ctx.voltage_v, cand.parallel,
-    )
+    ) * ctx.vd_factor
     return VoltageDrop(volts, percent, ctx.vd_limit_pct, per_a_m, annex_g)
 
 
@@ -308,7 +330,19 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     need = required_iz_a(device)
     limit = spec.vd_limit_pct if spec.vd_limit_pct is not None else config.vd_limit_pct(spec.load_type)
     temp = MAX_CONDUCTOR_TEMPERATURE_C[spec.insulation]
-    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp)
+    star = star_delta_cables(spec, config)
+    relay = None
+    if star:
+        # Each of the two cables carries the winding current Ib/√3 and is protected by
+        # the overload relay in the delta windings, set at that current (IEC 60947-4-1,
+        # common practice); the cables count as parallel pairs.
+        setting = STAR_DELTA_CABLES * star_delta_winding_current_a(ib)
+        i2, i2_source = conventional_operating_current_a("overload_relay", setting)
+        relay = DeviceSelection("overload_relay", setting, i2,
+                                f"overload relay in the delta windings at Ib/√3 per cable; {i2_source}")
+        need = required_iz_a(relay)
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, relay,
+                        STAR_DELTA_RUN_DROP_FACTOR if star else 1.0)
 
     conductor, insulation = spec.conductor, spec.insulation
     stretches = spec.stretches
@@ -326,7 +360,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
 
     # Voltage drop (voltage_drop_v, drop_percent) with its size-independent terms once.
     pf = spec.power_factor
-    vd_a = (math.sqrt(3.0) if spec.phases == 3 else 2.0) * ib * spec.design_length_m
+    vd_a = (math.sqrt(3.0) if spec.phases == 3 else 2.0) * ib * spec.design_length_m * ctx.vd_factor
     vd_x_sin = REACTANCE_MOHM_PER_M / 1000.0 * math.sqrt(max(0.0, 1.0 - pf * pf))
     voltage = spec.voltage_v
     vd_limit = limit + 1e-9
@@ -358,7 +392,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     threshold = need - 1e-9
     first_ok = None
     last_tried = None
-    for parallel in range(1, config.max_parallel + 1):
+    step = STAR_DELTA_CABLES if star else 1
+    for parallel in range(step, config.max_parallel + 1, step):
         rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays)
                  for s, k in enumerate(keys)]
         totals = [t for t, _ in rated]
@@ -428,10 +463,12 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     return [
         Check("design_current", ctx.design_current_a <= ctx.device.rating_a, ctx.design_current_a,
               ctx.device.rating_a, "A", "IEC 60364-4-43:2008 433.1 (433.1): Ib <= In"),
-        Check("capacity", ctx.device.rating_a <= iz + 1e-9, ctx.device.rating_a, iz, "A",
-              "IEC 60364-4-43:2008 433.1 (433.1): In <= Iz"),
-        Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
-              f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
+        Check("capacity", ctx.overload_device.rating_a <= iz + 1e-9, ctx.overload_device.rating_a,
+              iz, "A", "IEC 60364-4-43:2008 433.1 (433.1): In <= Iz"
+              + ("" if ctx.cable_device is None else f"; {ctx.cable_device.source}")),
+        Check("overload", ctx.overload_device.i2_a <= 1.45 * iz + 1e-9, ctx.overload_device.i2_a,
+              1.45 * iz, "A",
+              f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.overload_device.source}"),
     ]
 
 
@@ -445,7 +482,12 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
     if spec.design_length_m <= 0:
         messages.append("no length given: voltage drop not checked")
         status = "warning" if status == "ok" else status
-    if cand.parallel > 1:
+    if ctx.cable_device is not None:
+        messages.append(
+            f"star-delta: {cand.parallel} cables to the motor, each carrying the winding current "
+            f"Ib/√3 = {ctx.design_current_a / math.sqrt(3.0):.1f} A, protected by the overload "
+            "relay in the delta windings")
+    elif cand.parallel > 1:
         messages.append(
             f"{cand.parallel} cables in parallel: equal length, cross-section and route "
             "required (IEC 60364-5-52:2009 523.7)"

@@ -367,10 +367,33 @@ def test_prepared_motor_dip_and_short_circuit_equal_the_plain_functions_on_10000
                            design_length_m=length, extra=(("starter", starter),))
         cfg = SizingConfig(clearing_time_s=t)
         dip = PreparedMotorStart(spec, cfg, ib, volts, temp).dip_percent(csa, parallel)
+        star = 4.0 if (starter == "star_delta" and phases == 3) else 1.0  # two cables, star start
         plain = starting_dip_percent(ib, starter_data(starter), length, csa, conductor, volts,
-                                     phases, parallel, temp, fault)
+                                     phases, parallel, temp, fault, cable_drop_factor=star)
         assert dip == pytest.approx(plain, rel=1e-12, abs=1e-12)
         sc = PreparedShortCircuit(spec, cfg)
         if fault is not None:
             need = adiabatic_min_csa_mm2(fault * 1000, t, k_value(conductor, insulation, csa))
             assert sc.passes(csa) == (need <= csa + 1e-9)
+
+
+def test_star_delta_motor_has_two_cables_each_at_the_winding_current():
+    # Delta connection: winding current = line current / √3 (circuit theory; IEC 60050-141).
+    # Each winding is fed through one conductor of each cable, so its drop is
+    # 2 (Ib/√3) L (R cos φ + X sin φ) / U, R from IEC 60228:2004 Table 2 at 20 °C
+    # corrected to 90 °C with the Annex B coefficient, X 0.08 mΩ/m.
+    spec = CircuitSpec("P-1", Load(130, "A"), 400, power_factor=0.86, load_type="motor",
+                       design_length_m=40, fault_ka=25, stretches=(Stretch(method="E"),),
+                       extra=(("starter", "star_delta"), ("magnetic_a", "1000")))
+    r = size_circuit(spec, SizingConfig(device_margin=1.0))
+    winding = 130 / math.sqrt(3)
+    assert r.cable.parallel == 2 and r.device_rating_a == 160  # the line breaker still carries Ib
+    cap = _check(r, "capacity")
+    assert cap.value == pytest.approx(2 * winding) and "overload relay" in cap.source
+    assert any("Ib/√3 = 75.1 A" in m for m in r.messages)
+    rho = IEC_60228_CU[r.cable.csa_mm2] * (1 + ALPHA_CU * 70) / 1000
+    z = rho * 0.86 + 0.08e-3 * math.sqrt(1 - 0.86**2)
+    assert r.voltage_drop.percent == pytest.approx(100 * 2 * winding * 40 * z / 400, rel=1e-3)
+    # one cable at Ib when the starter is at the motor
+    one = size_circuit(spec, SizingConfig(device_margin=1.0, star_delta_two_cables=False))
+    assert one.cable.parallel == 1 and one.cable.capacity_a >= 160
