@@ -91,6 +91,7 @@ DISCONNECTION_ADVICE = (
 )
 
 
+@lru_cache(maxsize=256)
 def not_applicable(name: str, why: str) -> Check:
     """A ``not_applicable`` :class:`Check` that the selection leaves out of the result."""
     return Check(name, CheckResult.NOT_APPLICABLE, 0.0, 0.0, "", NOT_APPLICABLE, why)

@@ -235,9 +235,13 @@ class Check:
 
     def __post_init__(self) -> None:
         result = self.result
-        if isinstance(result, bool):
+        if result.__class__ is CheckResult:
+            return
+        if isinstance(result, str):
+            result = CheckResult(result)
+        else:  # a bool (numpy's too) reads as pass / fail
             result = CheckResult.PASS if result else CheckResult.FAIL
-        object.__setattr__(self, "result", CheckResult(result))
+        object.__setattr__(self, "result", result)
 
     @property
     def passed(self) -> bool:
