@@ -47,7 +47,7 @@ from .disconnection import (
     max_disconnection_time_s,
 )
 from .model import Check, CheckResult, CircuitSpec
-from .motor_start import STAR_DELTA_START_DROP_FACTOR, is_star_delta, starter_data
+from .motor_start import STAR_DELTA_START_DROP_FACTOR, is_star_delta, starter_data, starter_kind
 from .protective_conductor import ProtectiveConductor, protective_conductor
 from .short_circuit import (
     FAULT_TEMPERATURE_C,
@@ -517,7 +517,7 @@ class PreparedMotorTrip:
             self.error = CircuitInputError(f"circuit {spec.circuit_id}: {exc}")
             self.applicable = True
             return
-        if starter.source.startswith("variable-speed drive") or "drive" in str(kind).lower():
+        if starter_kind(kind) == "drive":
             self.why = "variable-speed drive: the drive limits the starting current"
             return
         self.applicable = True

@@ -34,6 +34,7 @@ __all__ = [
     "STAR_DELTA_RUN_DROP_FACTOR",
     "STAR_DELTA_START_DROP_FACTOR",
     "is_star_delta",
+    "starter_kind",
     "star_delta_winding_current_a",
 ]
 
@@ -206,6 +207,17 @@ STAR_DELTA_RUN_DROP_FACTOR = 4.0 / 3.0
 STAR_DELTA_START_DROP_FACTOR = 4.0
 
 
+def starter_kind(kind: str | None) -> str | None:
+    """The canonical starter kind of a schedule ``starter`` (one of :data:`STARTERS`), or None.
+
+    Examples
+    --------
+    >>> starter_kind("VFD"), starter_kind("Direct-on-line"), starter_kind("relay")
+    ('drive', 'dol', None)
+    """
+    return None if kind is None else _ALIASES.get(str(kind).strip().lower())
+
+
 def is_star_delta(kind: str | None) -> bool:
     """True when a schedule ``starter`` names a star-delta starter.
 
@@ -214,7 +226,7 @@ def is_star_delta(kind: str | None) -> bool:
     >>> is_star_delta("Y-D"), is_star_delta("dol"), is_star_delta(None)
     (True, False, False)
     """
-    return kind is not None and _ALIASES.get(str(kind).strip().lower()) == "star_delta"
+    return starter_kind(kind) == "star_delta"
 
 
 def star_delta_winding_current_a(line_current_a: float) -> float:
