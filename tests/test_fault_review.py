@@ -397,3 +397,20 @@ def test_star_delta_motor_has_two_cables_each_at_the_winding_current():
     # one cable at Ib when the starter is at the motor
     one = size_circuit(spec, SizingConfig(device_margin=1.0, star_delta_two_cables=False))
     assert one.cable.parallel == 1 and one.cable.capacity_a >= 160
+
+
+def test_report_and_console_never_show_a_check_not_made_as_ok():
+    # contract.md Extensions: a check that was not made is never "pass"; the HTML report
+    # and the calc console table print "not checked" for it.
+    from cablewright.annotate.report import render_report_html
+    from cablewright.console import calc_steps
+
+    r = size_circuit(CircuitSpec("P-2", Load(5, "kW"), 400, design_length_m=20,
+                                 stretches=(Stretch(method="E"),), extra=(("ze_ohm", "0.1"),)))
+    html = render_report_html([CircuitOutcome("P-2", "A", "B", r.status, r.messages, sizing=r)],
+                              title="t", drawing_name="d", preview_png=None, cautions="c")
+    assert 'short_circuit</td><td><span class="status warning">not checked' in html
+    assert 'short_circuit</td><td><span class="status ok">' not in html
+    text = calc_steps(r, 20)
+    line = next(ln for ln in text.splitlines() if "check: short_circuit" in ln)
+    assert "not checked" in line and "pass" not in line
