@@ -403,6 +403,7 @@ def test_report_and_console_never_show_a_check_not_made_as_ok():
     # contract.md Extensions: a check that was not made is never "pass"; the HTML report
     # and the calc console table print "not checked" for it.
     from cablewright.annotate.report import render_report_html
+
     from cablewright.console import calc_steps
 
     r = size_circuit(CircuitSpec("P-2", Load(5, "kW"), 400, design_length_m=20,
