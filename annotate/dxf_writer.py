@@ -1443,7 +1443,8 @@ def write_annotated_dxf(
     for o in outcomes:
         s = o.sizing
         if o.status != "error" and s is not None and s.device_rating_a is not None:
-            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {_rating_text(s.device_rating_a)} A")
+            assumed = ", Ze assumed" if getattr(s, "ze_assumed", False) else ""  # issue 15 item 3
+            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {_rating_text(s.device_rating_a)} A{assumed}")
         elif o.status == "error":
             tag = o.to_tag if o.to_tag in equipment else o.from_tag
             errors_by_tag[tag].append(f"{o.circuit_id}: NOT SIZED, see report")

@@ -126,6 +126,7 @@ def _check_props(outcome: CircuitOutcome) -> dict[str, Any]:
     for check in outcome.sizing.checks if outcome.sizing else ():
         w = _word(check.name)
         props[f"{w}Passed"] = bool(check.passed)
+        props[f"{w}Result"] = check.result.value
         props[f"{w}Value"] = float(check.value)
         props[f"{w}Limit"] = float(check.limit)
         props[f"{w}Unit"] = check.unit

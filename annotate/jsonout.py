@@ -20,7 +20,10 @@ _EXTRA_KEYS = (
     "fault_current_ka_source",
     "fault_current_ka_load_end",
     "fault_current_ka_load_end_min",
+    "fault_current_ka_load_end_earth_min",
     "motor_start_dip_pct",
+    "motor_start_peak_a",
+    "ze_assumed",
 )
 
 
@@ -129,6 +132,7 @@ def outcome_to_dict(outcome: CircuitOutcome, kind: str = "size") -> dict[str, An
     data["checks"] = [
         {
             "name": c.name,
+            "result": c.result.value,
             "passed": c.passed,
             "value": _round(c.value, 3),
             "limit": _round(c.limit, 3),

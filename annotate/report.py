@@ -57,8 +57,14 @@ def _num(value: float | None, digits: int = 2, unit: str = "") -> str:
     return f"{text} {unit}".strip()
 
 
+#: Words of a check's result in the report: a check not made never reads "ok".
+_CHECK_RESULT_WORD = {"pass": "ok", "fail": "fail", "not_checked": "not checked",
+                      "not_applicable": "not applicable"}
+
+
 def _status(status: str) -> str:
-    cls = status if status in ("ok", "warning", "fail", "error") else "error"
+    cls = status if status in ("ok", "warning", "fail", "error") else (
+        "warning" if status.startswith("not ") else "error")
     return f'<span class="status {cls}">{_e(status)}</span>'
 
 
@@ -160,7 +166,7 @@ def _circuit_section(o: CircuitOutcome) -> str:
         rows = [
             (
                 _e(ch.name),
-                _status("ok" if ch.passed else "fail"),
+                _status(_CHECK_RESULT_WORD.get(ch.result.value, ch.result.value)),
                 _num(ch.value, 3),
                 _num(ch.limit, 3),
                 _e(ch.unit),

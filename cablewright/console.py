@@ -55,7 +55,7 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
                      "IEC 60228 R at the temperature of check voltage_drop + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"])
         rows.append(["  Annex G simplified", f"{vd.annex_g_percent:.2f} %", "IEC 60364-5-52:2009 Annex G"])
     for check in result.checks:
-        mark = "pass" if check.passed else "FAIL"
+        mark = {"pass": "pass", "fail": "FAIL"}.get(check.result.value, check.result.value.replace("_", " "))
         rows.append([f"check: {check.name}", f"{mark}  {check.value:.3g} vs {check.limit:.3g} {check.unit}",
                      check.source])
     text = [f"circuit {result.circuit_id}: {result.status.upper()}", format_table(["step", "value", "source"], rows)]

@@ -17,7 +17,13 @@ from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract import grouping as extract_grouping
 from cablewright.extract.errors import CableRouteError
 from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
-from cablewright.sizing.chain import SupplyCycleError, cumulative_drop_percent
+from cablewright.sizing.chain import (
+    ChainCable,
+    SupplyCycleError,
+    cheapest_drop_fix,
+    cumulative_drop_percent,
+    upstream_chain,
+)
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.select import size_circuit
@@ -225,7 +231,7 @@ def size_measurement(
 
     for cid in sorted(light & set(results)):
         results[cid] = replace(results[cid], messages=results[cid].messages + (LIGHT_LOAD_NOTE,))
-    results = _with_chain_drops(results, rows)
+    results = _with_chain_drops(results, rows, specs)
     per_segment = extract_grouping.circuits_per_segment(routed, parallel)
     groups = extract_grouping.group_summary(routed, per_segment, parallel)
     outcomes: list[CircuitOutcome] = []
@@ -259,8 +265,35 @@ def _lightly_loaded(results: Mapping[str, SizingResult]) -> set[str]:
             and r.load_current_a <= LIGHT_LOAD_FRACTION * r.cable.capacity_a}
 
 
-def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow]
-                      ) -> dict[str, SizingResult]:
+def _drop_advice(cid: str, total: float, limit: float, results: Mapping[str, SizingResult],
+                 source_of: Mapping[str, str], feeder_of: Mapping[str, str],
+                 specs: Mapping[str, object]) -> str:
+    """"; cheapest: ..." naming the one cable to enlarge (sizing.chain.cheapest_drop_fix)."""
+    cables = {}
+    for c in upstream_chain(cid, source_of, feeder_of):
+        r, spec = results.get(c), specs.get(c)
+        if r is None or r.cable is None or r.voltage_drop is None or spec is None:
+            continue
+        cables[c] = ChainCable(r.cable.csa_mm2, r.cable.parallel, spec.design_length_m,
+                               r.cable.conductor, r.cable.insulation, spec.power_factor,
+                               r.voltage_drop.percent)
+    chain = list(cables)
+    feeder = cheapest_drop_fix(cid, total, limit, [c for c in chain if c != cid], cables)
+    own = cheapest_drop_fix(cid, total, limit, [cid], cables)
+    parts = []
+    if feeder is not None:
+        parts.append(f"enlarging feeder {feeder.circuit_id} from {feeder.from_csa_mm2:g} to "
+                     f"{feeder.to_csa_mm2:g} mm² fixes it most cheaply upstream "
+                     f"(+{feeder.added_copper_mm2_m:.0f} mm²·m of conductor, "
+                     f"{feeder.total_pct:.2f} % from the origin)")
+    if own is not None:
+        parts.append(f"this circuit from {own.from_csa_mm2:g} to {own.to_csa_mm2:g} mm² "
+                     f"(+{own.added_copper_mm2_m:.0f} mm²·m, {own.total_pct:.2f} %)")
+    return ("; advice: " + "; or ".join(parts)) if parts else ""
+
+
+def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow],
+                      specs: Mapping[str, object] | None = None) -> dict[str, SizingResult]:
     """Add the drop from the origin (IEC 60364-5-52:2009 Annex G) to every result.
 
     A circuit whose source is the load end of another circuit (a sub-board
@@ -284,6 +317,8 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
             message = (f"voltage drop from the origin {total:.2f} % (own {vd.percent:.2f} % plus "
                        f"feeders upstream) exceeds the {vd.limit_percent:g} % limit "
                        "(IEC 60364-5-52:2009 Annex G): enlarge this circuit or its feeder")
+            message += _drop_advice(cid, total, vd.limit_percent, results, source_of, feeder_of,
+                                    specs or {})
             status = "error" if result.status == "error" else "fail"
             out[cid] = replace(result, voltage_drop=vd, status=status, messages=result.messages + (message,))
         else:

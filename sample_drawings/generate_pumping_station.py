@@ -168,22 +168,32 @@ CIRCUITS = [
 ]
 COLUMNS = ["circuit", "from", "to", "load", "power_factor", "efficiency", "voltage", "phases",
            "load_type", "conductor", "insulation", "cores", "vd_limit_pct", "fault_ka",
-           "starter", "curve", "clearing_time_s"]
+           "starter", "curve", "clearing_time_s", "device_kind", "magnetic_a"]
 # Device data of some circuits (invented for the demo): the switchboard's feeders
 # have time-delayed (selective) breakers, so their cables must withstand the fault
 # for the delay; the large pumps start star-delta; the fan, mixer and sump pump run
 # on drives behind type B breakers; the valve actuator has a D-curve breaker, which
-# the long run to the valve chamber cannot trip in time (a fail on purpose).
+# the long run to the valve chamber cannot trip in time (a fail on purpose); the
+# direct-on-line motors at the MCC have motor-protection breakers, whose instantaneous
+# release (about 13 x setting) lets them start (a type C breaker would trip on the
+# inrush); the packaged air-conditioning unit starts its compressor softly; the
+# star-delta pumps' 200 A breakers (IEC 60947-2) have their instantaneous release set
+# at 1000 A (5 In), so that an earth fault at the end of either of their two cables
+# trips them.
 DEVICE_DATA = {
-    "F-MCC1": ("", "", "0.3"),
-    "F-DB2": ("", "", "0.2"),
-    "P-101": ("star_delta", "", ""),
-    "P-102": ("star_delta", "", ""),
-    "P-103": ("star_delta", "", ""),
-    "FAN-1": ("drive", "B", ""),
-    "MX-1": ("drive", "B", ""),
-    "SP-1": ("drive", "B", ""),
-    "MOV-1": ("dol", "D", ""),
+    "F-MCC1": ("", "", "0.3", "", ""),
+    "F-DB2": ("", "", "0.2", "", ""),
+    "F-AC1": ("soft", "", "", "", ""),
+    "P-101": ("star_delta", "", "", "", "1000"),
+    "P-102": ("star_delta", "", "", "", "1000"),
+    "P-103": ("star_delta", "", "", "", "1000"),
+    "P-104": ("dol", "", "", "motor_breaker", ""),
+    "FAN-1": ("drive", "B", "", "", ""),
+    "DP-1": ("dol", "", "", "motor_breaker", ""),
+    "DP-2": ("dol", "", "", "motor_breaker", ""),
+    "MX-1": ("drive", "B", "", "", ""),
+    "SP-1": ("drive", "B", "", "", ""),
+    "MOV-1": ("dol", "D", "", "", ""),
 }
 
 
@@ -192,7 +202,7 @@ def schedule_rows() -> list[list[str]]:
     for c in CIRCUITS:
         cid, src, dst, load, pf, eff, volt, ph, lt, cores, vd, fka, _ = c
         rows.append([cid, src, dst, load, pf, eff, volt, ph, lt, "Cu", "XLPE", cores, vd, fka,
-                     *DEVICE_DATA.get(cid, ("", "", ""))])
+                     *DEVICE_DATA.get(cid, ("", "", "", "", ""))])
     return rows
 
 

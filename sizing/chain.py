@@ -12,11 +12,25 @@ References
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+import math
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
 
 from cablewright.extract.errors import CableRouteError
 
-__all__ = ["SupplyCycleError", "cumulative_drop_percent", "exceeding_limit"]
+from .conductor_resistance import STANDARD_CSA_MM2, resistance_ohm_per_km
+from .voltage_drop import MAX_CONDUCTOR_TEMPERATURE_C, REACTANCE_MOHM_PER_M
+
+__all__ = [
+    "SupplyCycleError",
+    "cumulative_drop_percent",
+    "exceeding_limit",
+    "ChainCable",
+    "DropFix",
+    "drop_after_resize_pct",
+    "upstream_chain",
+    "cheapest_drop_fix",
+]
 
 
 class SupplyCycleError(CableRouteError, ValueError):
@@ -107,3 +121,166 @@ def exceeding_limit(
         if limit is not None and value > limit + 1e-9:
             out.append(cid)
     return out
+
+
+@dataclass(frozen=True)
+class ChainCable:
+    """What the drop advice needs of one circuit's cable.
+
+    Attributes
+    ----------
+    csa_mm2 : float
+        Cross-section of each cable [mm²].
+    parallel : int
+        Cables in parallel.
+    length_m : float
+        Design length [m].
+    conductor, insulation : str
+    power_factor : float
+        cos φ of the load.
+    own_drop_pct : float
+        The circuit's own drop at ``csa_mm2`` [%].
+    """
+
+    csa_mm2: float
+    parallel: int
+    length_m: float
+    conductor: str
+    insulation: str
+    power_factor: float
+    own_drop_pct: float
+
+
+@dataclass(frozen=True)
+class DropFix:
+    """Enlarging one circuit of the chain so the drop from the origin meets the limit.
+
+    ``added_copper_mm2_m`` (extra cross-section x parallel x length, a measure of
+    the extra conductor material) ranks the fixes: the least is the cheapest.
+    """
+
+    circuit_id: str
+    from_csa_mm2: float
+    to_csa_mm2: float
+    added_copper_mm2_m: float
+    total_pct: float
+
+
+def drop_after_resize_pct(cable: ChainCable, csa_mm2: float) -> float:
+    """The circuit's own drop with ``csa_mm2`` instead of its cross-section [%].
+
+    The Annex G drop is proportional to R cos φ + X sin φ at the same current,
+    length and parallel count:
+
+    .. math:: u' = u \\, \\frac{R(S') \\cos\\varphi + X \\sin\\varphi}{R(S) \\cos\\varphi + X \\sin\\varphi}
+
+    with R from IEC 60228 at the insulation's maximum temperature and X
+    0.08 mΩ/m (both as in :mod:`.voltage_drop`; the ratio hardly depends on
+    the temperature chosen).
+
+    Examples
+    --------
+    16 mm² -> 25 mm² copper at unity power factor: the drop scales with
+    R20 0.727 / 1.15 (IEC 60228:2004 Table 2):
+
+    >>> c = ChainCable(16, 1, 50, "Cu", "XLPE", 1.0, 4.0)
+    >>> round(drop_after_resize_pct(c, 25), 3), round(4.0 * 0.727 / 1.15, 3)
+    (2.529, 2.529)
+
+    References
+    ----------
+    .. [1] IEC 60364-5-52:2009, Annex G, formula G.1.
+    """
+    temp = MAX_CONDUCTOR_TEMPERATURE_C[cable.insulation]
+    sin_phi = math.sqrt(max(0.0, 1.0 - cable.power_factor ** 2))
+    x = REACTANCE_MOHM_PER_M * sin_phi  # mΩ/m, same unit as Ω/km
+    old = resistance_ohm_per_km(cable.csa_mm2, cable.conductor, temp) * cable.power_factor + x
+    new = resistance_ohm_per_km(csa_mm2, cable.conductor, temp) * cable.power_factor + x
+    return cable.own_drop_pct * new / old
+
+
+def upstream_chain(circuit_id: str, source_of: Mapping[str, str], feeder_of: Mapping[str, str]
+                   ) -> list[str]:
+    """The circuit and its feeders up to the origin, nearest first.
+
+    Examples
+    --------
+    >>> upstream_chain("L1", {"F1": "MSB", "F2": "DB1", "L1": "DB2"}, {"DB1": "F1", "DB2": "F2"})
+    ['L1', 'F2', 'F1']
+    """
+    chain = [circuit_id]
+    feeder = feeder_of.get(source_of.get(circuit_id, ""))
+    while feeder is not None and feeder not in chain:
+        chain.append(feeder)
+        feeder = feeder_of.get(source_of.get(feeder, ""))
+    return chain
+
+
+def cheapest_drop_fix(
+    circuit_id: str,
+    cumulative_pct: float,
+    limit_pct: float,
+    chain: Sequence[str],
+    cables: Mapping[str, ChainCable],
+    sizes_mm2: Sequence[float] = STANDARD_CSA_MM2,
+) -> DropFix | None:
+    """The least copper that brings a circuit's drop from the origin within its limit.
+
+    For each circuit of ``chain`` (the circuit and its feeders, from
+    :func:`upstream_chain`), the smallest standard size above its own that
+    lowers the total enough by itself (:func:`drop_after_resize_pct`); of those,
+    the one adding the least copper (extra mm² x parallel x length).  Advice
+    only: a larger feeder also lowers the drop of every circuit it feeds.
+
+    Parameters
+    ----------
+    circuit_id : str
+        The failing final circuit.
+    cumulative_pct, limit_pct : float
+        Its drop from the origin and its limit [%].
+    chain : sequence of str
+        Circuit ids whose cables may be enlarged.
+    cables : mapping circuit id -> ChainCable
+    sizes_mm2 : sequence of float
+        Standard sizes, ascending [mm²] (IEC 60228).
+
+    Returns
+    -------
+    DropFix or None
+        None when no single enlargement is enough.
+
+    Examples
+    --------
+    A 6 % total against 5 %: the final circuit (4 mm², 30 m) or its feeder
+    (16 mm², 60 m, 2 % own drop):
+
+    >>> cables = {"L1": ChainCable(4, 1, 30, "Cu", "XLPE", 1.0, 4.0),
+    ...           "F1": ChainCable(16, 1, 60, "Cu", "XLPE", 1.0, 2.0)}
+    >>> fix = cheapest_drop_fix("L1", 6.0, 5.0, ["L1", "F1"], cables)
+    >>> fix.circuit_id, fix.to_csa_mm2, fix.added_copper_mm2_m
+    ('L1', 6.0, 60.0)
+
+    References
+    ----------
+    .. [1] IEC 60364-5-52:2009, Annex G, G.52.1 (drop from the origin).
+    """
+    need = cumulative_pct - limit_pct
+    best: DropFix | None = None
+    for cid in chain:
+        cable = cables.get(cid)
+        if cable is None:
+            continue
+        for size in sizes_mm2:
+            if size <= cable.csa_mm2 + 1e-9:
+                continue
+            try:
+                gain = cable.own_drop_pct - drop_after_resize_pct(cable, size)
+            except CableRouteError:
+                break
+            if gain >= need - 1e-9:
+                added = (size - cable.csa_mm2) * cable.parallel * cable.length_m
+                fix = DropFix(cid, cable.csa_mm2, size, added, cumulative_pct - gain)
+                if best is None or added < best.added_copper_mm2_m - 1e-9:
+                    best = fix
+                break
+    return best

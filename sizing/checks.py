@@ -13,12 +13,14 @@ check                  module                                    on failure
                                                                  raise the size when
                                                                  ``disconnection_upsize``
 ``protective_conductor``  :mod:`.protective_conductor` (543.1)   reported
+``motor_start_trip``   :mod:`.disconnection` instantaneous       fail with advice
+                       release vs the starting peak
 =====================  ========================================  =====================
 
 A check that does not apply to a circuit (a non-motor for ``motor_start``)
 returns :func:`not_applicable`; the selection leaves it out of the result.  A
-check that cannot be made (no data) passes with a message starting
-"not checked", which the result reports as a warning.
+check that cannot be made (no data) has the result ``not_checked`` and a
+message starting "not checked" saying why; it is never a pass.
 
 Per-circuit inputs come from the schedule's further columns
 (``CircuitSpec.extra``): ``starter``, ``curve``, ``ze_ohm``, ``magnetic_a``,
@@ -31,27 +33,32 @@ import math
 from functools import lru_cache
 from typing import TYPE_CHECKING, Any
 
-from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
+from cablewright.extract.errors import CableRouteError, CircuitInputError
 
 from .conductor_resistance import resistance_ohm_per_km
 from .disconnection import (
+    INDUSTRIAL_INSTANTANEOUS_MULTIPLE,
+    INSTANTANEOUS_TOLERANCE,
     DisconnectionResult,
-    breaker_ia_a,
     check_disconnection_tn,
+    device_ia_a,
     fault_loop_temperature_c,
-    fuse_ia_a,
+    instantaneous_trip,
     max_disconnection_time_s,
 )
-from .model import Check, CircuitSpec
-from .motor_start import starter_data
+from .model import Check, CheckResult, CircuitSpec
+from .motor_start import STAR_DELTA_START_DROP_FACTOR, is_star_delta, starter_data, starter_kind
 from .protective_conductor import ProtectiveConductor, protective_conductor
 from .short_circuit import (
     FAULT_TEMPERATURE_C,
     SOURCE_R_OVER_X,
+    SOURCE_Z0_OVER_Z1,
     TABLE_43A_SOURCE,
     adiabatic_min_csa_mm2,
     fault_current_ka,
+    fault_current_line_neutral_ka,
     k_value,
+    peak_factor,
     source_impedance_ohm,
 )
 from .voltage_drop import REACTANCE_MOHM_PER_M
@@ -69,7 +76,12 @@ __all__ = [
     "PreparedMotorStart",
     "PreparedProtectiveConductor",
     "PreparedDisconnection",
+    "PreparedMotorTrip",
     "PreparedChecks",
+    "ZE_ASSUMED_MESSAGE",
+    "load_end_fault_ka",
+    "not_checked",
+    "star_delta_cables",
 ]
 
 NOT_APPLICABLE = "not applicable"
@@ -79,14 +91,20 @@ DISCONNECTION_ADVICE = (
 )
 
 
+@lru_cache(maxsize=256)
 def not_applicable(name: str, why: str) -> Check:
-    """A passing :class:`Check` that the selection leaves out of the result."""
-    return Check(name, True, 0.0, 0.0, "", NOT_APPLICABLE, why)
+    """A ``not_applicable`` :class:`Check` that the selection leaves out of the result."""
+    return Check(name, CheckResult.NOT_APPLICABLE, 0.0, 0.0, "", NOT_APPLICABLE, why)
+
+
+def not_checked(name: str, unit: str, source: str, why: str, limit: float = 0.0) -> Check:
+    """A ``not_checked`` :class:`Check`: ``why`` starts with "not checked"."""
+    return Check(name, CheckResult.NOT_CHECKED, 0.0, limit, unit, source, why)
 
 
 def is_applicable(check: Check) -> bool:
     """False for :func:`not_applicable` checks."""
-    return check.source != NOT_APPLICABLE
+    return check.result is not CheckResult.NOT_APPLICABLE
 
 
 def _cfg(config: Any, name: str, default: Any) -> Any:
@@ -116,6 +134,14 @@ def _u0(spec: CircuitSpec) -> float:
 
 def _line_voltage(spec: CircuitSpec) -> float:
     return spec.voltage_v if spec.phases == 3 else spec.voltage_v * math.sqrt(3.0)
+
+
+def star_delta_cables(spec: CircuitSpec, config: SizingConfig) -> bool:
+    """A 3-phase motor on a star-delta starter at the board, wired with two cables
+    (config ``star_delta_two_cables``, :mod:`.motor_start`)."""
+    return (spec.load_type == "motor" and spec.phases == 3
+            and bool(_cfg(config, "star_delta_two_cables", False))
+            and is_star_delta(spec.extra_value("starter", _cfg(config, "default_starter", "dol"))))
 
 
 def _clearing_time_s(spec: CircuitSpec, config: SizingConfig) -> float | None:
@@ -186,8 +212,9 @@ class PreparedShortCircuit:
         """The full :class:`Check` for a cross-section [mm²]."""
         fault = self.fault
         if fault is None:
-            return Check("short_circuit", True, 0.0, csa_mm2, "mm²", TABLE_43A_SOURCE,
-                         "not checked: no fault level (schedule fault_ka or config default_fault_ka)")
+            return not_checked("short_circuit", "mm²", TABLE_43A_SOURCE,
+                               "not checked: no fault level (schedule fault_ka or config "
+                               "default_fault_ka)", csa_mm2)
         if self.error is not None:
             raise self.error
         t = self.t
@@ -204,9 +231,9 @@ class PreparedShortCircuit:
             return Check("short_circuit", passed, need, csa_mm2, "mm²",
                          f"{TABLE_43A_SOURCE}; I²t {let_through:g} kA²s (schedule), k {k:g}", message)
         if t is None:
-            return Check("short_circuit", True, 0.0, csa_mm2, "mm²", TABLE_43A_SOURCE,
-                         "not checked: give the device's clearing time (clearing_time_s) or its "
-                         "let-through I²t (let_through_ka2s, maker's data)")
+            return not_checked("short_circuit", "mm²", TABLE_43A_SOURCE,
+                               "not checked: give the device's clearing time (clearing_time_s) or "
+                               "its let-through I²t (let_through_ka2s, maker's data)", csa_mm2)
         need = adiabatic_min_csa_mm2(fault * 1000.0, t, k)
         passed = need <= csa_mm2 + 1e-9
         message = "" if passed else (
@@ -248,8 +275,11 @@ class PreparedMotorStart:
         pf = starter.power_factor
         b = math.sqrt(3.0) if phases == 3 else 2.0
         self.pf = pf
-        # voltage_drop_v(i_st, L, S, ...) = b I L (r cos + x sin) / n
+        # voltage_drop_v(i_st, L, S, ...) = b I L (r cos + x sin) / n; star-delta with
+        # two cables: the star current goes out in one cable and back in the other
         self.a_v = b * i_st * spec.design_length_m
+        if star_delta_cables(spec, config):
+            self.a_v *= STAR_DELTA_START_DROP_FACTOR
         self.x_sin = _X_OHM_PER_M * math.sqrt(max(0.0, 1.0 - pf * pf))
         self.source_v = 0.0
         self.source_error: CableRouteError | None = None
@@ -338,8 +368,8 @@ class PreparedDisconnection:
     """
 
     __slots__ = ("text", "error", "pe", "u0", "length_m", "conductor", "insulation", "kind",
-                 "rating_a", "ze", "ze_source", "curve", "magnetic", "final", "vf", "tn_error",
-                 "zs_max", "temp", "last")
+                 "rating_a", "ze", "ze_source", "ze_assumed", "curve", "magnetic", "final", "vf",
+                 "tn_error", "zs_max", "temp", "last", "multiple", "tolerance", "one_line")
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig, device: DeviceSelection,
                  pe: PreparedProtectiveConductor) -> None:
@@ -347,12 +377,15 @@ class PreparedDisconnection:
         self.last: tuple = ()
         self.text: str | None = None
         self.error: CableRouteError | None = None
+        self.ze_assumed = False
+        # star-delta pair: the faulted winding conductor is in one cable only (conservative)
+        self.one_line = star_delta_cables(spec, config)
         earthing = _earthing(spec, config)
         if not earthing.startswith("TN"):
             self.text = f"not checked: earthing {earthing} (only TN systems are handled)"
             return
         try:
-            self.ze, self.ze_source = _ze_ohm(spec, config)
+            self.ze, self.ze_source, self.ze_assumed = _ze_ohm(spec, config)
             self.curve = spec.extra_value("curve", _cfg(config, "breaker_curve", "C"))
             self.magnetic = _extra_float(spec, "magnetic_a", _cfg(config, "magnetic_a", None))
         except CableRouteError as exc:
@@ -364,16 +397,15 @@ class PreparedDisconnection:
         self.kind, self.rating_a = device.kind, device.rating_a
         self.final = spec.load_type != "feeder"
         self.vf = _cfg(config, "disconnection_voltage_factor", 1.0)
+        self.multiple = _cfg(config, "industrial_instantaneous_multiple",
+                             INDUSTRIAL_INSTANTANEOUS_MULTIPLE)
+        self.tolerance = _cfg(config, "instantaneous_tolerance", INSTANTANEOUS_TOLERANCE)
         # The size-independent steps of check_disconnection_tn, in its order.
         self.tn_error: CableRouteError | None = None
         try:
             time_s = max_disconnection_time_s(self.u0, self.rating_a, self.final)
-            if self.kind == "breaker":
-                ia, _ = breaker_ia_a(self.rating_a, self.curve, self.magnetic)
-            elif self.kind == "fuse":
-                ia, _ = fuse_ia_a(self.rating_a, time_s)
-            else:
-                raise UnknownKeyError(f"device kind {self.kind!r} is unknown: use breaker or fuse")
+            ia, _ = device_ia_a(self.kind, self.rating_a, time_s, self.curve, self.magnetic,
+                                self.multiple, self.tolerance)
             self.temp = fault_loop_temperature_c(self.insulation)
             self.zs_max = self.vf * self.u0 / ia
         except CableRouteError as exc:
@@ -385,6 +417,8 @@ class PreparedDisconnection:
             return True
         if self.error is not None:
             raise self.error
+        if self.one_line:
+            parallel = 1
         pe = self.pe.pe(csa_mm2)
         if self.tn_error is not None:
             return True
@@ -405,6 +439,8 @@ class PreparedDisconnection:
             return self.text
         if self.error is not None:
             raise self.error
+        if self.one_line:
+            parallel = 1
         if self.last and self.last[0] == csa_mm2 and self.last[1] == parallel:
             return self.last[2]
         pe = self.pe.pe(csa_mm2)
@@ -413,7 +449,8 @@ class PreparedDisconnection:
                 self.u0, self.length_m, csa_mm2, pe.csa_mm2, self.conductor,
                 self.insulation, self.kind, self.rating_a, self.ze, parallel,
                 curve=self.curve, magnetic_a=self.magnetic, final_circuit=self.final,
-                voltage_factor=self.vf,
+                voltage_factor=self.vf, industrial_multiple=self.multiple,
+                tolerance=self.tolerance,
             )
         except CableRouteError as exc:
             out: DisconnectionResult | str = f"not checked: {exc}"
@@ -432,12 +469,82 @@ class PreparedDisconnection:
 
 def _disconnection_check(res: DisconnectionResult | str) -> Check:
     if isinstance(res, str):
-        return Check("disconnection", True, 0.0, 0.0, "Ω", "IEC 60364-4-41:2005 411.4.4", res)
+        return not_checked("disconnection", "Ω", "IEC 60364-4-41:2005 411.4.4", res)
     message = "" if res.passed else (
         f"earth-fault loop {res.zs_ohm:.3f} Ω exceeds {res.zs_max_ohm:.3f} Ω "
         f"(Ia {res.ia_a:g} A within {res.time_s:g} s): the circuit disconnects only up to "
         f"{res.max_length_m:.0f} m; {DISCONNECTION_ADVICE}")
     return Check("disconnection", res.passed, res.zs_ohm, res.zs_max_ohm, "Ω", res.source, message)
+
+
+class PreparedMotorTrip:
+    """A motor's start against the instantaneous release of its breaker, one circuit.
+
+    A start draws I_st = m Ib (the starter's multiple) with an asymmetrical
+    first peak ip = κ √2 I_st, κ = 1.02 + 0.98 e^(-3 R/X) with R/X of the
+    starting cos φ (the peak factor of IEC 60909-0 applied to the motor's
+    inrush: common practice).  The release holds below its no-trip current
+    I_nt (IEC 60898-1:2015 Table 7 lower limit, or (1 - tolerance) x Ii of an
+    IEC 60947-2 release), so the start passes when ip <= √2 I_nt.  In the
+    :class:`Check`, ``value`` is ip and ``limit`` √2 I_nt [A peak].  Not
+    applicable to non-motors, drives (the drive limits the current) and fuse
+    or overload-relay protection (no instantaneous release).
+    """
+
+    __slots__ = ("applicable", "why", "error", "peak_a", "limit_a", "source", "advice")
+
+    def __init__(self, spec: CircuitSpec, config: SizingConfig, design_current_a: float,
+                 device: DeviceSelection) -> None:
+        self.error: CableRouteError | None = None
+        self.why = ""
+        self.applicable = False
+        if spec.load_type != "motor":
+            self.why = "not a motor"
+            return
+        if device.kind not in ("breaker", "motor_breaker"):
+            self.why = f"{device.kind}: no instantaneous release"
+            return
+        kind = spec.extra_value("starter", _cfg(config, "default_starter", "dol"))
+        try:
+            starter = starter_data(kind, _cfg(config, "starters", None))
+            curve = spec.extra_value("curve", _cfg(config, "breaker_curve", "C"))
+            magnetic = _extra_float(spec, "magnetic_a", _cfg(config, "magnetic_a", None))
+            trip = instantaneous_trip(
+                device.rating_a, curve, magnetic, device.kind,
+                _cfg(config, "industrial_instantaneous_multiple", INDUSTRIAL_INSTANTANEOUS_MULTIPLE),
+                _cfg(config, "instantaneous_tolerance", INSTANTANEOUS_TOLERANCE))
+        except CableRouteError as exc:
+            self.error = CircuitInputError(f"circuit {spec.circuit_id}: {exc}")
+            self.applicable = True
+            return
+        if starter_kind(kind) == "drive":
+            self.why = "variable-speed drive: the drive limits the starting current"
+            return
+        self.applicable = True
+        pf = starter.power_factor
+        sin_phi = math.sqrt(max(0.0, 1.0 - pf * pf))
+        kappa = peak_factor(pf / sin_phi if sin_phi > 0 else math.inf)
+        i_st = starter.current_multiple * design_current_a
+        self.peak_a = kappa * math.sqrt(2.0) * i_st
+        self.limit_a = math.sqrt(2.0) * trip.no_trip_a
+        self.source = (f"starting peak κ √2 I_st, κ = 1.02 + 0.98 e^(-3R/X) = {kappa:.2f} "
+                       f"(IEC 60909-0:2016 peak factor, applied to the inrush: common practice), "
+                       f"I_st {i_st:.0f} A ({starter.source}); release: {trip.description}")
+        self.advice = ("use a motor-protection breaker (device_kind motor_breaker), a higher "
+                       "instantaneous setting (magnetic_a, curve D) or a reduced-current starter")
+
+    def check(self) -> Check:
+        """The :class:`Check` (or :func:`not_applicable`)."""
+        if not self.applicable:
+            return not_applicable("motor_start_trip", self.why)
+        if self.error is not None:
+            raise self.error
+        passed = self.peak_a <= self.limit_a + 1e-9
+        message = "" if passed else (
+            f"the starting peak {self.peak_a:.0f} A reaches the instantaneous release "
+            f"(holds up to {self.limit_a:.0f} A peak): the breaker trips when the motor "
+            f"starts; {self.advice}")
+        return Check("motor_start_trip", passed, self.peak_a, self.limit_a, "A", self.source, message)
 
 
 class PreparedChecks:
@@ -457,7 +564,7 @@ class PreparedChecks:
     """
 
     __slots__ = ("spec", "config", "short_circuit", "motor_start", "pe", "disconnection",
-                 "disconnection_upsize")
+                 "disconnection_upsize", "motor_trip")
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig, design_current_a: float,
                  device: DeviceSelection, voltage_v: float, conductor_temp_c: float) -> None:
@@ -467,6 +574,7 @@ class PreparedChecks:
                                               conductor_temp_c)
         self.pe = PreparedProtectiveConductor(spec, config)
         self.disconnection = PreparedDisconnection(spec, config, device, self.pe)
+        self.motor_trip = PreparedMotorTrip(spec, config, design_current_a, device)
         self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", False))
 
     def upsize_passes(self, name: str, csa_mm2: float, parallel: int) -> bool:
@@ -486,24 +594,33 @@ class PreparedChecks:
         motor = self.motor_start.check(csa_mm2, parallel)
         if is_applicable(motor):
             out.append(motor)
+        trip = self.motor_trip.check()
+        if is_applicable(trip):
+            out.append(trip)
         out.append(self.disconnection.check(csa_mm2, parallel))
         out.append(self.pe.check(csa_mm2))
         return out
 
-    def extras(self, csa_mm2: float, parallel: int) -> dict[str, float | None]:
+    def extras(self, csa_mm2: float, parallel: int) -> dict[str, Any]:
         """Further numbers of the result (:class:`.model.SizingResult` fields).
 
         ``protective_conductor_mm2``, ``max_length_m`` (earth-fault disconnection),
         ``earth_fault_loop_ohm``, ``fault_current_ka_source``,
         ``fault_current_ka_load_end`` (maximum, conductors at 20 °C, cmax),
         ``fault_current_ka_load_end_min`` (cmin, conductors at the end-of-fault
-        temperature), ``motor_start_dip_pct``; ``None`` where not computed.
+        temperature), both three-phase for a 3-phase circuit and line-to-neutral
+        (:func:`.short_circuit.fault_current_line_neutral_ka`) for a 1-phase one;
+        ``fault_current_ka_load_end_earth_min`` (U0 / Zs of the disconnection
+        check, line-to-earth in TN), ``motor_start_dip_pct``,
+        ``motor_start_peak_a``, ``ze_assumed``; ``None`` where not computed.
         """
         spec, config = self.spec, self.config
-        out: dict[str, float | None] = {
+        out: dict[str, Any] = {
             "protective_conductor_mm2": None, "max_length_m": None, "earth_fault_loop_ohm": None,
             "fault_current_ka_source": None, "fault_current_ka_load_end": None,
-            "fault_current_ka_load_end_min": None, "motor_start_dip_pct": None,
+            "fault_current_ka_load_end_min": None, "fault_current_ka_load_end_earth_min": None,
+            "motor_start_dip_pct": None, "motor_start_peak_a": None,
+            "ze_assumed": self.disconnection.ze_assumed,
         }
         try:
             out["protective_conductor_mm2"] = self.pe.pe(csa_mm2).csa_mm2
@@ -511,23 +628,51 @@ class PreparedChecks:
             if not isinstance(res, str):
                 out["max_length_m"] = res.max_length_m
                 out["earth_fault_loop_ohm"] = res.zs_ohm
+                out["fault_current_ka_load_end_earth_min"] = res.earth_fault_a / 1000.0
             fault = _fault_ka(spec, config)
             if fault:
-                c_max = _cfg(config, "c_max", 1.05)
-                c_min = _cfg(config, "c_min", 0.95)
-                line_v = _line_voltage(spec)
                 out["fault_current_ka_source"] = fault
-                out["fault_current_ka_load_end"] = fault_current_ka(
-                    fault, line_v, spec.design_length_m, csa_mm2, spec.conductor, parallel,
-                    20.0, c_max, c_max)
-                out["fault_current_ka_load_end_min"] = fault_current_ka(
-                    fault, line_v, spec.design_length_m, csa_mm2, spec.conductor, parallel,
-                    FAULT_TEMPERATURE_C[spec.insulation], c_min, c_max)
+                out.update(load_end_fault_ka(spec, config, fault, csa_mm2, parallel))
             if self.motor_start.applicable:
                 out["motor_start_dip_pct"] = self.motor_start.dip_percent(csa_mm2, parallel)
+            if self.motor_trip.applicable and self.motor_trip.error is None:
+                out["motor_start_peak_a"] = self.motor_trip.peak_a
         except CableRouteError:
             pass  # the checks themselves report what could not be computed
         return out
+
+
+def load_end_fault_ka(spec: CircuitSpec, config: SizingConfig, source_fault_ka: float,
+                      csa_mm2: float, parallel: int) -> dict[str, float]:
+    """Maximum and minimum fault current at the load end of a circuit [kA].
+
+    3 phases: the three-phase fault (:func:`.short_circuit.fault_current_ka`);
+    1 phase: the line-to-neutral fault through line and neutral
+    (:func:`.short_circuit.fault_current_line_neutral_ka`).  Maximum: cmax,
+    conductors at 20 °C; minimum: cmin, conductors at the end-of-fault
+    temperature of Table 43A (IEC 60909-0:2016 clauses 7 and 8).
+    """
+    c_max = _cfg(config, "c_max", 1.05)
+    c_min = _cfg(config, "c_min", 0.95)
+    line_v = _line_voltage(spec)
+    hot = FAULT_TEMPERATURE_C[spec.insulation]
+    length = spec.design_length_m
+    if spec.phases == 1:
+        z0 = _cfg(config, "source_z0_over_z1", SOURCE_Z0_OVER_Z1)
+        return {
+            "fault_current_ka_load_end": fault_current_line_neutral_ka(
+                source_fault_ka, line_v, length, csa_mm2, spec.conductor, parallel, 20.0,
+                c_max, c_max, z0_over_z1=z0),
+            "fault_current_ka_load_end_min": fault_current_line_neutral_ka(
+                source_fault_ka, line_v, length, csa_mm2, spec.conductor, parallel, hot,
+                c_min, c_max, z0_over_z1=z0),
+        }
+    return {
+        "fault_current_ka_load_end": fault_current_ka(
+            source_fault_ka, line_v, length, csa_mm2, spec.conductor, parallel, 20.0, c_max, c_max),
+        "fault_current_ka_load_end_min": fault_current_ka(
+            source_fault_ka, line_v, length, csa_mm2, spec.conductor, parallel, hot, c_min, c_max),
+    }
 
 
 # --------------------------------------------------------------- disconnection
@@ -535,17 +680,26 @@ def _earthing(spec: CircuitSpec, config: SizingConfig) -> str:
     return str(spec.extra_value("earthing", _cfg(config, "earthing", "TN"))).upper().replace("_", "-")
 
 
-def _ze_ohm(spec: CircuitSpec, config: SizingConfig) -> tuple[float | None, str]:
+def _ze_ohm(spec: CircuitSpec, config: SizingConfig) -> tuple[float, str, bool]:
+    """(Ze [Ω], where it comes from, whether it is the config's assumption)."""
     ze = _extra_float(spec, "ze_ohm", None)
     if ze is not None:
-        return ze, "schedule ze_ohm"
+        return ze, "schedule ze_ohm", False
     ze = _cfg(config, "ze_ohm", None)
     if ze is not None:
-        return float(ze), "config ze_ohm"
+        return float(ze), "config ze_ohm", False
     fault = _fault_ka(spec, config)
     if fault:
         # Loop = line + return path upstream, each taken as the source's phase
         # impedance (common practice when only the three-phase level is known).
         zq = source_impedance_ohm(fault, _line_voltage(spec), _cfg(config, "c_max", 1.05))
-        return 2.0 * zq, f"2 x ZQ from {fault:g} kA (common practice)"
-    return 0.0, "Ze not given, 0 taken: optimistic, give ze_ohm or fault_ka"
+        return 2.0 * zq, f"2 x ZQ from {fault:g} kA (common practice)", False
+    assumed = float(_cfg(config, "assumed_ze_ohm", 0.8))
+    return (assumed, "assumed: neither ze_ohm nor fault_ka given, config assumed_ze_ohm "
+            "(typical maximum of a public TN-S supply, from memory)", True)
+
+
+#: Message of a result whose Ze is the config's assumption.
+ZE_ASSUMED_MESSAGE = (
+    "Ze assumed {ze:g} Ω (neither ze_ohm nor fault_ka given; config assumed_ze_ohm): "
+    "give the measured or declared Ze")

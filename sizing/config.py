@@ -62,7 +62,9 @@ class SizingConfig:
     Attributes
     ----------
     device_kind : str
-        ``breaker`` or ``fuse`` (gG).
+        ``breaker`` or ``fuse`` (gG); the schedule column ``device_kind`` may
+        also give ``motor_breaker`` (motor-protection circuit-breaker) or
+        ``overload_relay`` (IEC 60947-4-1) per circuit.
     device_margin : float
         In >= margin x Ib; 1.0 (IEC 60364-4-43:2008 433.1: Ib <= In <= Iz, no
         margin).  1.25 (a continuous-load rule of some national codes) is an option.
@@ -138,8 +140,25 @@ class SizingConfig:
     ze_ohm : float or None
         Earth-fault loop impedance upstream of every circuit [Ω]; schedule
         column ``ze_ohm`` wins; ``None`` derives 2 x ZQ from the fault level
-        (common practice), or, with no fault level either, takes 0 (the
-        circuit's own loop only: an optimistic bound, said in the check).
+        (common practice), or, with no fault level either, takes
+        ``assumed_ze_ohm`` and marks the result ``ze_assumed``.
+    assumed_ze_ohm : float
+        Ze taken when neither ``ze_ohm`` nor a fault level is known [Ω]:
+        0.8 Ω, the typical maximum external loop impedance declared for
+        TN-S public LV supplies (0.35 Ω for TN-C-S), values of UK
+        distribution network operators as printed in BS 7671 guidance (from
+        memory); the larger, conservative one is the default.
+    industrial_instantaneous_multiple : float
+        Instantaneous setting Ii / In of IEC 60947-2 breakers (above 125 A)
+        with no ``magnetic_a``: 10 (common practice, the top of the usual
+        range; conservative for disconnection).
+    instantaneous_tolerance : float
+        Tolerance of adjustable instantaneous releases about the setting:
+        0.2, IEC 60947-2:2016 8.3.3.1.2 (from memory).
+    source_z0_over_z1 : float
+        Z(0)/Z(1) of the source for the line-to-neutral fault of 1-phase
+        circuits: 1.0 (Dyn distribution transformer, common practice, from
+        memory), IEC 60909-0:2016.
     breaker_curve : str
         ``B``/``C``/``D`` (IEC 60898-1); schedule column ``curve`` wins.
     magnetic_a : float or None
@@ -177,6 +196,11 @@ class SizingConfig:
     duct_fill_limit_pct : float
         Warning above this area fill of a conduit or duct [%]; 40 % (common
         practice for three or more cables in a conduit).
+    star_delta_two_cables : bool
+        True (default): a star-delta motor has its starter at the board and two
+        cables to the motor, each carrying the winding current Ib/√3 and
+        protected by the overload relay in the delta windings (common practice);
+        False: one cable at Ib (starter at the motor).
     """
 
     device_kind: str = "breaker"
@@ -207,6 +231,10 @@ class SizingConfig:
     pe_rule: str = "table"
     earthing: str = "TN"
     ze_ohm: float | None = None
+    assumed_ze_ohm: float = 0.8
+    industrial_instantaneous_multiple: float = 10.0
+    instantaneous_tolerance: float = 0.2
+    source_z0_over_z1: float = 1.0
     breaker_curve: str = "C"
     magnetic_a: float | None = None
     disconnection_voltage_factor: float = 1.0
@@ -220,6 +248,7 @@ class SizingConfig:
     containment_mm: dict[str, float] = field(default_factory=_containment_mm)
     tray_fill_limit_pct: float = 80.0
     duct_fill_limit_pct: float = 40.0
+    star_delta_two_cables: bool = True
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)

@@ -6,6 +6,14 @@ Device kinds (IEC 60364-4-43 433.1 applies to both):
     Circuit-breaker, IEC 60898-1 up to 125 A, IEC 60947-2 above.
 ``fuse``
     gG fuse-link, IEC 60269-1 / IEC 60269-2.
+``motor_breaker``
+    Motor-protection circuit-breaker (IEC 60947-2 with an IEC 60947-4-1
+    overload release): In is its current setting, the instantaneous release
+    about 13 x that setting (:mod:`.disconnection`).
+``overload_relay``
+    Contactor with a thermal overload relay (IEC 60947-4-1): it protects the
+    cable against overload only; short circuits and earth faults are cleared
+    by the device backing it (give its ``magnetic_a``).
 """
 
 from __future__ import annotations
@@ -36,7 +44,7 @@ STANDARD_RATINGS_A: tuple[float, ...] = (
 #: asks Ib <= In <= Iz (contract.md, Extensions); 1.25 stays an option of the config.
 DEVICE_MARGIN = 1.0
 
-DEVICE_KINDS = ("breaker", "fuse")
+DEVICE_KINDS = ("breaker", "fuse", "motor_breaker", "overload_relay")
 
 
 @dataclass(frozen=True)
@@ -70,7 +78,10 @@ def conventional_operating_current_a(kind: str, rating_a: float) -> tuple[float,
       tripping current, from memory);
     - breaker above 125 A: 1.30 In, IEC 60947-2:2016 8.3.3.4 (from memory);
     - gG fuse: 1.6 In for In >= 16 A, 1.9 In for 4 A < In < 16 A, 2.1 In up to
-      4 A, IEC 60269-1:2006 Table 2 conventional fusing current (from memory).
+      4 A, IEC 60269-1:2006 Table 2 conventional fusing current (from memory);
+    - motor-protection breaker and overload relay: 1.20 x the current setting,
+      the tripping limit of IEC 60947-4-1:2018 Table 3 for thermal overload
+      relays (trip within 2 h at 1.20 Ie, from memory).
 
     Examples
     --------
@@ -91,6 +102,8 @@ def conventional_operating_current_a(kind: str, rating_a: float) -> tuple[float,
         else:
             factor = 2.1
         return factor * rating_a, f"IEC 60269-1:2006 Table 2, gG, I2 = {factor} In"
+    if kind in ("motor_breaker", "overload_relay"):
+        return 1.20 * rating_a, "IEC 60947-4-1:2018 Table 3, overload release, I2 = 1.20 In (from memory)"
     raise UnknownKeyError(f"device kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
 
 

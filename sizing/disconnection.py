@@ -14,6 +14,8 @@ References
 .. [2] IEC 60898-1:2015, Circuit-breakers for overcurrent protection for
    household and similar installations, Table 7 (instantaneous tripping).
 .. [3] IEC 60269-1:2006, Low-voltage fuses, Table 3 (gates of gG fuse-links).
+.. [4] IEC 60947-2:2016, Low-voltage switchgear, circuit-breakers, 8.3.3.1
+   (instantaneous releases: adjustable settings, tolerance).
 """
 
 from __future__ import annotations
@@ -32,11 +34,19 @@ __all__ = [
     "TABLE_41_1_SOURCE",
     "DISTRIBUTION_TIME_S",
     "BREAKER_INSTANTANEOUS_MULTIPLE",
+    "BREAKER_NO_TRIP_MULTIPLE",
+    "IEC_60898_MAX_RATING_A",
+    "INDUSTRIAL_INSTANTANEOUS_MULTIPLE",
+    "INSTANTANEOUS_TOLERANCE",
+    "MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE",
+    "InstantaneousTrip",
+    "instantaneous_trip",
     "GG_GATES",
     "FuseGate",
     "max_disconnection_time_s",
     "breaker_ia_a",
     "fuse_ia_a",
+    "device_ia_a",
     "fault_loop_temperature_c",
     "loop_resistance_ohm_per_m",
     "loop_impedance_ohm",
@@ -65,6 +75,31 @@ DISTRIBUTION_TIME_S = {"TN": 5.0, "TT": 1.0}
 #: IEC 60898-1:2015 Table 7: type B 3-5 In, C 5-10 In, D 10-20 In.  The upper
 #: limit is the current that surely trips in < 0.1 s.
 BREAKER_INSTANTANEOUS_MULTIPLE = {"B": 5.0, "C": 10.0, "D": 20.0}
+
+#: Lower limit of the same ranges, IEC 60898-1:2015 Table 7: below this the
+#: breaker does not trip instantaneously (it must not trip within 0.1 s).
+BREAKER_NO_TRIP_MULTIPLE = {"B": 3.0, "C": 5.0, "D": 10.0}
+
+#: IEC 60898-1:2015 clause 1 (scope): household-type breakers up to 125 A;
+#: above that a circuit-breaker is an industrial one to IEC 60947-2.
+IEC_60898_MAX_RATING_A = 125.0
+
+#: Default instantaneous (magnetic) setting of an IEC 60947-2 breaker as a
+#: multiple of In when the schedule gives no ``magnetic_a``: 10 In, the top of
+#: the usual adjustable range (common practice, from memory: thermal-magnetic
+#: releases about 5-10 In, electronic 1.5-12 In); the highest setting is the
+#: conservative one for disconnection.  Config ``industrial_instantaneous_multiple``.
+INDUSTRIAL_INSTANTANEOUS_MULTIPLE = 10.0
+
+#: Tolerance of an instantaneous release about its setting: ±20 %,
+#: IEC 60947-2:2016 8.3.3.1.2 (from memory: no public copy at hand).  The
+#: breaker surely trips at 1.2 x the setting and surely holds below 0.8 x.
+INSTANTANEOUS_TOLERANCE = 0.20
+
+#: Instantaneous setting of a motor-protection circuit-breaker (IEC 60947-2 /
+#: IEC 60947-4-1 with a fixed magnetic release) as a multiple of its current
+#: setting: about 13 x (common practice, from memory of maker's data).
+MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE = 13.0
 
 
 @dataclass(frozen=True)
@@ -156,62 +191,199 @@ def max_disconnection_time_s(
     raise OutOfRangeError(f"U0 {u0_v:g} V is outside Table 41.1 (above 50 V a.c.) ({TABLE_41_1_SOURCE})")
 
 
-def breaker_ia_a(rating_a: float, curve: str = "C", magnetic_a: float | None = None) -> tuple[float, str]:
-    """Current that surely trips a circuit-breaker instantaneously, and its source.
+@dataclass(frozen=True)
+class InstantaneousTrip:
+    """The instantaneous release of a circuit-breaker.
+
+    Attributes
+    ----------
+    no_trip_a : float
+        Below this current the breaker does not trip instantaneously [A].
+    sure_trip_a : float
+        At and above this current it surely trips instantaneously (< 0.1 s) [A].
+    description : str
+        What the device is and where the figures come from.
+    """
+
+    no_trip_a: float
+    sure_trip_a: float
+    description: str
+
+
+def instantaneous_trip(
+    rating_a: float,
+    curve: str = "C",
+    magnetic_a: float | None = None,
+    kind: str = "breaker",
+    industrial_multiple: float = INDUSTRIAL_INSTANTANEOUS_MULTIPLE,
+    tolerance: float = INSTANTANEOUS_TOLERANCE,
+) -> InstantaneousTrip:
+    """The instantaneous tripping range of a circuit-breaker.
+
+    - ``breaker`` up to 125 A with no ``magnetic_a``: IEC 60898-1 type B / C / D,
+      the range of Table 7 (3-5, 5-10, 10-20 In);
+    - ``breaker`` above 125 A (IEC 60947-2) or any breaker with a
+      ``magnetic_a``: an adjustable setting Ii (``magnetic_a``, else
+      ``industrial_multiple`` x In) with ±``tolerance``;
+    - ``motor_breaker``: a motor-protection breaker, fixed setting
+      :data:`MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE` x In (unless ``magnetic_a``)
+      with the same tolerance.
 
     Parameters
     ----------
     rating_a : float
-        In [A].
+        In (for a motor-protection breaker its current setting) [A].
     curve : str
-        ``B``, ``C`` or ``D`` (IEC 60898-1).
+        ``B``, ``C`` or ``D`` (IEC 60898-1); ignored above 125 A.
     magnetic_a : float, optional
-        Adjustable instantaneous (magnetic) setting [A] of an IEC 60947-2
-        breaker; takes precedence over ``curve``.
+        Instantaneous setting Ii [A].
+    kind : str
+        ``breaker`` or ``motor_breaker``.
+    industrial_multiple : float
+        Ii / In of an IEC 60947-2 breaker with no ``magnetic_a``.
+    tolerance : float
+        Relative tolerance of an adjustable release (0.2: IEC 60947-2 ±20 %).
+
+    Returns
+    -------
+    InstantaneousTrip
+
+    Examples
+    --------
+    IEC 60898-1 Table 7, type C 16 A: 80 A to 160 A.  A 250 A IEC 60947-2
+    breaker at the default 10 In: 2000 A to 3000 A.
+
+    >>> t = instantaneous_trip(16, "C"); t.no_trip_a, t.sure_trip_a
+    (80.0, 160.0)
+    >>> t = instantaneous_trip(250, "C"); t.no_trip_a, t.sure_trip_a
+    (2000.0, 3000.0)
+
+    References
+    ----------
+    .. [1] IEC 60898-1:2015, clause 1 and Table 7.
+    .. [2] IEC 60947-2:2016, 8.3.3.1.2 (tolerance, from memory).
+    """
+    if magnetic_a is not None and magnetic_a <= 0:
+        raise OutOfRangeError(f"magnetic setting {magnetic_a:g} A must be > 0")
+    if kind == "motor_breaker":
+        setting = magnetic_a if magnetic_a is not None else MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE * rating_a
+        what = (f"motor-protection breaker (IEC 60947-2 / IEC 60947-4-1), Ii {setting:g} A"
+                + ("" if magnetic_a is not None else
+                   f" = {MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE:g} x setting (common practice, from memory)"))
+    elif magnetic_a is not None or rating_a > IEC_60898_MAX_RATING_A:
+        setting = magnetic_a if magnetic_a is not None else industrial_multiple * rating_a
+        what = (f"IEC 60947-2 breaker, adjustable instantaneous Ii {setting:g} A"
+                + (" (schedule or config magnetic_a)" if magnetic_a is not None else
+                   f" = {industrial_multiple:g} In (config industrial_instantaneous_multiple)"))
+    else:
+        key = curve.strip().upper()
+        if key not in BREAKER_INSTANTANEOUS_MULTIPLE:
+            raise UnknownKeyError(f"breaker curve {curve!r} is unknown: use B, C or D (IEC 60898-1)")
+        low, high = BREAKER_NO_TRIP_MULTIPLE[key], BREAKER_INSTANTANEOUS_MULTIPLE[key]
+        return InstantaneousTrip(low * rating_a, high * rating_a,
+                                 f"IEC 60898-1:2015 Table 7, type {key}: {low:g}-{high:g} In")
+    return InstantaneousTrip(
+        (1.0 - tolerance) * setting, (1.0 + tolerance) * setting,
+        f"{what}, ±{100 * tolerance:g} % (IEC 60947-2:2016 8.3.3.1.2, from memory)")
+
+
+def breaker_ia_a(
+    rating_a: float, curve: str = "C", magnetic_a: float | None = None, kind: str = "breaker",
+    industrial_multiple: float = INDUSTRIAL_INSTANTANEOUS_MULTIPLE,
+    tolerance: float = INSTANTANEOUS_TOLERANCE,
+) -> tuple[float, str]:
+    """Current that surely trips a circuit-breaker instantaneously, and its source.
+
+    The upper edge of :func:`instantaneous_trip` (same parameters).
 
     Examples
     --------
     >>> breaker_ia_a(16, "B")[0], breaker_ia_a(16, "C")[0], breaker_ia_a(16, "D")[0]
     (80.0, 160.0, 320.0)
+    >>> breaker_ia_a(400, "C")[1].startswith("IEC 60947-2 breaker")
+    True
 
     References
     ----------
     .. [1] IEC 60898-1:2015, Table 7.
+    .. [2] IEC 60947-2:2016, 8.3.3.1.2.
     """
-    if magnetic_a is not None:
-        if magnetic_a <= 0:
-            raise OutOfRangeError(f"magnetic setting {magnetic_a:g} A must be > 0")
-        return float(magnetic_a), "magnetic setting (schedule or config); tolerance per maker"
-    key = curve.strip().upper()
-    if key not in BREAKER_INSTANTANEOUS_MULTIPLE:
-        raise UnknownKeyError(f"breaker curve {curve!r} is unknown: use B, C or D (IEC 60898-1)")
-    mult = BREAKER_INSTANTANEOUS_MULTIPLE[key]
-    return mult * rating_a, f"IEC 60898-1:2015 Table 7, type {key}: {mult:g} In"
+    trip = instantaneous_trip(rating_a, curve, magnetic_a, kind, industrial_multiple, tolerance)
+    return trip.sure_trip_a, trip.description
 
 
 def fuse_ia_a(rating_a: float, time_s: float) -> tuple[float, str]:
     """Current that surely melts a gG fuse-link within ``time_s``.
 
-    5 s and longer: the ``Imax(5 s)`` gate; shorter: the ``Imax(0.1 s)`` gate,
-    which is conservative for 0.2 s to 0.4 s (IEC 60269-1 has no 0.4 s gate).
+    IEC 60269-1 gives the upper gates ``Imax(5 s)`` and ``Imax(0.1 s)``: 5 s
+    and longer reads the 5 s gate, 0.1 s and shorter the 0.1 s gate (below
+    0.1 s the gate is the last figure the standard gives: check the maker's
+    I²t); a time in between (0.4 s, 0.2 s of Table 41.1) is read on the
+    straight line joining the two gates on log-log axes, the way fuse
+    time-current curves are drawn (common practice; the maker's curve governs).
+
+    .. math:: I(t) = I_{5s} \\left(\\frac{I_{0.1s}}{I_{5s}}\\right)^{\\ln(5/t) / \\ln(50)}
 
     Examples
     --------
-    >>> fuse_ia_a(63, 5.0)[0], fuse_ia_a(63, 0.4)[0]
-    (320.0, 820.0)
+    >>> fuse_ia_a(63, 5.0)[0], fuse_ia_a(63, 0.1)[0], round(fuse_ia_a(63, 0.4)[0])
+    (320.0, 820.0, 587)
 
     References
     ----------
-    .. [1] IEC 60269-1:2006, Table 3.
+    .. [1] IEC 60269-1:2006, Table 3 (gates, from memory).
+    .. [2] IEC 60364-4-41:2005, Table 41.1 (the times asked).
     """
+    if time_s <= 0:
+        raise OutOfRangeError(f"disconnection time {time_s:g} s must be > 0")
     for gate in GG_GATES:
         if abs(gate.rating_a - rating_a) < 1e-9:
             if time_s >= 5.0:
-                return float(gate.imax_5s_a), f"{GG_GATES_SOURCE}: Imax(5 s)"
-            return float(gate.imax_0_1s_a), f"{GG_GATES_SOURCE}: Imax(0.1 s), conservative for {time_s:g} s"
+                return float(gate.imax_5s_a), f"{GG_GATES_SOURCE}: Imax(5 s) gate"
+            if time_s <= 0.1:
+                return float(gate.imax_0_1s_a), f"{GG_GATES_SOURCE}: Imax(0.1 s) gate"
+            share = math.log(5.0 / time_s) / math.log(5.0 / 0.1)
+            current = gate.imax_5s_a * (gate.imax_0_1s_a / gate.imax_5s_a) ** share
+            return current, (f"{GG_GATES_SOURCE}: {time_s:g} s read log-log between the Imax(5 s) "
+                             "and Imax(0.1 s) gates (common practice; the maker's curve governs)")
     raise OutOfRangeError(
         f"no gG gate value for a {rating_a:g} A fuse ({GG_GATES_SOURCE} lists 16 A to 1250 A); "
         "check the fuse maker's time-current curve")
+
+
+def device_ia_a(
+    device_kind: str, rating_a: float, time_s: float, curve: str = "C",
+    magnetic_a: float | None = None,
+    industrial_multiple: float = INDUSTRIAL_INSTANTANEOUS_MULTIPLE,
+    tolerance: float = INSTANTANEOUS_TOLERANCE,
+) -> tuple[float, str]:
+    """Ia of IEC 60364-4-41 411.4.4 for a device kind, and its source.
+
+    ``breaker`` and ``motor_breaker``: the current that surely trips the
+    instantaneous release (:func:`breaker_ia_a`); ``fuse``: the gG current for
+    ``time_s`` (:func:`fuse_ia_a`).  An ``overload_relay`` (IEC 60947-4-1)
+    does not clear faults: the short-circuit device backing it must be
+    checked, so it raises.
+
+    Examples
+    --------
+    >>> device_ia_a("fuse", 100, 5.0)[0], device_ia_a("breaker", 100, 5.0, "B")[0]
+    (580.0, 500.0)
+
+    References
+    ----------
+    .. [1] IEC 60364-4-41:2005, 411.4.4.
+    """
+    if device_kind in ("breaker", "motor_breaker"):
+        return breaker_ia_a(rating_a, curve, magnetic_a, device_kind, industrial_multiple, tolerance)
+    if device_kind == "fuse":
+        return fuse_ia_a(rating_a, time_s)
+    if device_kind == "overload_relay":
+        raise UnknownKeyError(
+            "an overload relay (IEC 60947-4-1) does not clear earth faults: give the magnetic "
+            "setting (magnetic_a) of the short-circuit device backing it")
+    raise UnknownKeyError(
+        f"device kind {device_kind!r} is unknown: use breaker, motor_breaker, fuse or overload_relay")
 
 
 def fault_loop_temperature_c(insulation: str) -> float:
@@ -367,6 +539,8 @@ def check_disconnection_tn(
     final_circuit: bool = True,
     voltage_factor: float = 1.0,
     conductor_temp_c: float | None = None,
+    industrial_multiple: float = INDUSTRIAL_INSTANTANEOUS_MULTIPLE,
+    tolerance: float = INSTANTANEOUS_TOLERANCE,
 ) -> DisconnectionResult:
     """Earth-fault disconnection of a circuit in a TN system.
 
@@ -381,7 +555,7 @@ def check_disconnection_tn(
     conductor, insulation : str
         Cable material and insulation.
     device_kind : str
-        ``breaker`` or ``fuse`` (gG).
+        ``breaker``, ``motor_breaker`` or ``fuse`` (gG), see :func:`device_ia_a`.
     rating_a : float
         In [A].
     ze_ohm : float
@@ -398,6 +572,8 @@ def check_disconnection_tn(
         See :func:`max_length_m`.
     conductor_temp_c : float, optional
         Conductor temperature for the loop; default :func:`fault_loop_temperature_c`.
+    industrial_multiple, tolerance : float
+        Instantaneous setting of IEC 60947-2 breakers, see :func:`instantaneous_trip`.
 
     Returns
     -------
@@ -414,12 +590,8 @@ def check_disconnection_tn(
     .. [1] IEC 60364-4-41:2005, 411.4.4 and Table 41.1.
     """
     time_s = max_disconnection_time_s(u0_v, rating_a, final_circuit)
-    if device_kind == "breaker":
-        ia, ia_source = breaker_ia_a(rating_a, curve, magnetic_a)
-    elif device_kind == "fuse":
-        ia, ia_source = fuse_ia_a(rating_a, time_s)
-    else:
-        raise UnknownKeyError(f"device kind {device_kind!r} is unknown: use breaker or fuse")
+    ia, ia_source = device_ia_a(device_kind, rating_a, time_s, curve, magnetic_a,
+                                industrial_multiple, tolerance)
     temp = fault_loop_temperature_c(insulation) if conductor_temp_c is None else conductor_temp_c
     r = loop_resistance_ohm_per_m(line_csa_mm2, pe_csa_mm2, conductor, temp, parallel)
     x = 2 * REACTANCE_MOHM_PER_M / 1000.0 / parallel

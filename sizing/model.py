@@ -6,8 +6,10 @@ All values carry their unit in the name.  Nothing here does I/O.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from enum import Enum
 
 __all__ = [
+    "CheckResult",
     "Load",
     "Stretch",
     "CircuitSpec",
@@ -205,20 +207,62 @@ class VoltageDrop:
     cumulative_percent: float | None = None
 
 
+class CheckResult(str, Enum):
+    """Outcome of one check: pass, fail, not checked (with why) or not applicable.
+
+    A check that was not made is never a pass (contract.md, Extensions:
+    ``checks[].result``).
+    """
+
+    PASS = "pass"
+    FAIL = "fail"
+    NOT_CHECKED = "not_checked"
+    NOT_APPLICABLE = "not_applicable"
+
+
 @dataclass(frozen=True)
 class Check:
     """One check on the chosen cable (capacity, overload, voltage drop, ...).
 
-    ``value`` and ``limit`` are in ``unit``; ``passed`` tells the outcome.
+    ``value`` and ``limit`` are in ``unit``; ``result`` tells the outcome (a
+    bool given there is read as pass / fail); ``message`` says why for a
+    failure or a check not made.
+
+    Examples
+    --------
+    >>> Check("capacity", True, 63.0, 80.0, "A", "IEC 60364-4-43:2008 433.1").result.value
+    'pass'
+    >>> Check("short_circuit", CheckResult.NOT_CHECKED, 0.0, 0.0, "mm²", "", "no data").passed
+    False
     """
 
     name: str
-    passed: bool
+    result: CheckResult
     value: float
     limit: float
     unit: str
     source: str
     message: str = ""
+
+    def __post_init__(self) -> None:
+        result = self.result
+        if result.__class__ is CheckResult:
+            return
+        if isinstance(result, str):
+            result = CheckResult(result)
+        else:  # a bool (numpy's too) reads as pass / fail
+            result = CheckResult.PASS if result else CheckResult.FAIL
+        object.__setattr__(self, "result", result)
+
+    @property
+    def passed(self) -> bool:
+        """True only for a check made and passed."""
+        return self.result is CheckResult.PASS
+
+    @property
+    def failed(self) -> bool:
+        """True only for a check made and failed."""
+        return self.result is CheckResult.FAIL
 
 
 @dataclass(frozen=True)
@@ -234,7 +278,12 @@ class SizingResult:
     fault, IEC 60364-4-41 411.4.4), ``earth_fault_loop_ohm`` (Zs at the load
     end), ``fault_current_ka_source``, ``fault_current_ka_load_end`` (maximum,
     IEC 60909-0 cmax, 20 °C), ``fault_current_ka_load_end_min`` (cmin,
-    end-of-fault temperature), ``motor_start_dip_pct``.
+    end-of-fault temperature; three-phase for 3-phase circuits, line-to-neutral
+    for 1-phase circuits), ``fault_current_ka_load_end_earth_min`` (line-to-earth
+    in a TN system: U0 / Zs of the disconnection check), ``motor_start_dip_pct``,
+    ``motor_start_peak_a`` (peak of the starting current that the
+    instantaneous release sees); ``ze_assumed`` is True when neither ``ze_ohm``
+    nor a fault level was given and the config's assumed Ze was used.
     """
 
     circuit_id: str
@@ -259,4 +308,7 @@ class SizingResult:
     fault_current_ka_source: float | None = None
     fault_current_ka_load_end: float | None = None
     fault_current_ka_load_end_min: float | None = None
+    fault_current_ka_load_end_earth_min: float | None = None
     motor_start_dip_pct: float | None = None
+    motor_start_peak_a: float | None = None
+    ze_assumed: bool = False

@@ -30,6 +30,12 @@ __all__ = [
     "DEFAULT_STARTERS",
     "starter_data",
     "starting_dip_percent",
+    "STAR_DELTA_CABLES",
+    "STAR_DELTA_RUN_DROP_FACTOR",
+    "STAR_DELTA_START_DROP_FACTOR",
+    "is_star_delta",
+    "starter_kind",
+    "star_delta_winding_current_a",
 ]
 
 STARTERS = ("dol", "star_delta", "soft", "drive")
@@ -116,6 +122,7 @@ def starting_dip_percent(
     parallel: int = 1,
     conductor_temp_c: float = 90.0,
     source_fault_ka: float | None = None,
+    cable_drop_factor: float = 1.0,
 ) -> float:
     """Voltage dip at the motor terminals while starting [%].
 
@@ -149,6 +156,9 @@ def starting_dip_percent(
         Conductor temperature [°C] (the running temperature, conservative).
     source_fault_ka : float, optional
         Fault level at the source [kA]; adds the source impedance.
+    cable_drop_factor : float
+        Multiplies the cable's part: 1, or :data:`STAR_DELTA_START_DROP_FACTOR`
+        for a star-delta motor with two cables counted as ``parallel`` = 2.
 
     Returns
     -------
@@ -168,8 +178,8 @@ def starting_dip_percent(
     .. [1] IEC 60364-5-52:2009, Annex G (formula G.1).
     """
     i_st = starter.current_multiple * full_load_current_a
-    dip_v = voltage_drop_v(i_st, length_m, csa_mm2, conductor, phases, starter.power_factor,
-                           parallel, conductor_temp_c)
+    dip_v = cable_drop_factor * voltage_drop_v(i_st, length_m, csa_mm2, conductor, phases,
+                                               starter.power_factor, parallel, conductor_temp_c)
     if source_fault_ka:
         line_voltage = voltage_v if phases == 3 else voltage_v * math.sqrt(3.0)
         zq = source_impedance_ohm(source_fault_ka, line_voltage)
@@ -179,3 +189,59 @@ def starting_dip_percent(
         b = math.sqrt(3.0) if phases == 3 else 2.0
         dip_v += b * i_st * (rq * starter.power_factor + xq * sin_phi)
     return 100.0 * dip_v / voltage_v
+
+
+#: Cables of a star-delta motor circuit with the starter at the switchboard: two,
+#: one to U1-V1-W1 and one to U2-V2-W2 (common practice).
+STAR_DELTA_CABLES = 2
+
+#: Running (delta): each winding is fed through one conductor of each cable, both
+#: carrying the winding current I = Ib/√3, so the winding sees U - 2 I z L:
+#: Δu = 2 (Ib/√3) z L / U, which is 4/3 of the three-phase formula √3 Ib z L / (2 U)
+#: with the two cables counted in parallel (circuit theory of the delta connection).
+STAR_DELTA_RUN_DROP_FACTOR = 4.0 / 3.0
+
+#: Starting (star, star point at the starter): the line current flows out in one
+#: cable and back in the other, Δu = 2 I z L / (U/√3) = 2√3 I z L / U, 4 x the
+#: three-phase formula with the two cables counted in parallel.
+STAR_DELTA_START_DROP_FACTOR = 4.0
+
+
+def starter_kind(kind: str | None) -> str | None:
+    """The canonical starter kind of a schedule ``starter`` (one of :data:`STARTERS`), or None.
+
+    Examples
+    --------
+    >>> starter_kind("VFD"), starter_kind("Direct-on-line"), starter_kind("relay")
+    ('drive', 'dol', None)
+    """
+    return None if kind is None else _ALIASES.get(str(kind).strip().lower())
+
+
+def is_star_delta(kind: str | None) -> bool:
+    """True when a schedule ``starter`` names a star-delta starter.
+
+    Examples
+    --------
+    >>> is_star_delta("Y-D"), is_star_delta("dol"), is_star_delta(None)
+    (True, False, False)
+    """
+    return starter_kind(kind) == "star_delta"
+
+
+def star_delta_winding_current_a(line_current_a: float) -> float:
+    """Current in each winding (and in each conductor of the two cables) in delta [A].
+
+    .. math:: I_{ph} = I_L / \\sqrt{3}
+
+    Examples
+    --------
+    >>> round(star_delta_winding_current_a(132.5), 1)
+    76.5
+
+    References
+    ----------
+    .. [1] IEC 60050-141:2004, polyphase circuits, delta connection (entry number
+       from memory): the line current of a balanced delta is √3 x the phase current.
+    """
+    return line_current_a / math.sqrt(3.0)

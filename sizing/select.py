@@ -22,7 +22,7 @@ from functools import lru_cache
 from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import canonical_method, sizes_for, tabulated_capacity
-from .checks import PreparedChecks, _resistance_ohm_per_km
+from .checks import ZE_ASSUMED_MESSAGE, PreparedChecks, _resistance_ohm_per_km, star_delta_cables
 from .conductor_resistance import resistance_ohm_per_km
 from .config import SizingConfig
 from .correction_tables import (
@@ -32,7 +32,13 @@ from .correction_tables import (
     soil_resistivity_factor,
 )
 from .depth import REFERENCE_DEPTH_M, depth_factor_for_method
-from .device import DeviceSelection, required_iz_a, select_device
+from .device import (
+    DEVICE_KINDS,
+    DeviceSelection,
+    conventional_operating_current_a,
+    required_iz_a,
+    select_device,
+)
 from .harmonics import HarmonicSizing, harmonic_sizing
 from .load import design_current_a
 from .model import (
@@ -43,6 +49,11 @@ from .model import (
     SizingResult,
     Stretch,
     VoltageDrop,
+)
+from .motor_start import (
+    STAR_DELTA_CABLES,
+    STAR_DELTA_RUN_DROP_FACTOR,
+    star_delta_winding_current_a,
 )
 from .voltage_drop import (
     MAX_CONDUCTOR_TEMPERATURE_C,
@@ -103,6 +114,16 @@ class SizingContext:
     vd_limit_pct: float
     conductor_temp_c: float
     harmonics: HarmonicSizing | None = None
+    #: The device protecting the cable against overload when it is not ``device``
+    #: (star-delta: the overload relay in the delta windings); ``None``: ``device``.
+    cable_device: DeviceSelection | None = None
+    #: Voltage drop over the three-phase formula (star-delta running: 4/3).
+    vd_factor: float = 1.0
+
+    @property
+    def overload_device(self) -> DeviceSelection:
+        """The device the checks of 433.1 are made with."""
+        return self.cable_device or self.device
 
 
 def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
@@ -111,12 +132,13 @@ def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
         spec.power_factor, cand.parallel, conductor_temp_c,
     )
+    volts *= ctx.vd_factor
     percent = drop_percent(volts, ctx.voltage_v)
     per_a_m = 1000.0 * volts / (ctx.design_current_a * spec.design_length_m) if spec.design_length_m > 0 else 0.0
     annex_g = annex_g_drop_percent(
         ctx.design_current_a, spec.design_length_m, cand.csa_mm2, spec.conductor, spec.phases,
         spec.power_factor, ctx.voltage_v, cand.parallel,
-    )
+    ) * ctx.vd_factor
     return VoltageDrop(volts, percent, ctx.vd_limit_pct, per_a_m, annex_g)
 
 
@@ -266,7 +288,12 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     ...                    stretches=(Stretch(method="E", other_cables=0),))
     >>> r = size_circuit(spec)
     >>> r.device_rating_a, r.cable.csa_mm2, r.status
-    (100, 16.0, 'ok')
+    (100, 16.0, 'fail')
+    >>> r.ze_assumed, [c.name for c in r.checks if c.failed]
+    (True, ['disconnection'])
+
+    No Ze nor fault level: the config's assumed 0.8 Ω (a public TN-S supply)
+    leaves no room for a 100 A type C breaker's 1000 A (IEC 60364-4-41 411.4.4).
 
     References
     ----------
@@ -344,8 +371,10 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
-    device = select_device(ib, config.device_kind, config.margin_for(spec.load_type),
-                           config.standard_ratings_a)
+    kind = spec.extra_value("device_kind", config.device_kind)
+    if kind not in DEVICE_KINDS:
+        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
+    device = select_device(ib, kind, config.margin_for(spec.load_type), config.standard_ratings_a)
     need = required_iz_a(device)
     # Third harmonics, IEC 60364-5-52:2009 Annex E: a reduction factor on every
     # stretch's capacity, and above 33 % the cable carries the neutral current.
@@ -360,7 +389,19 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         raise UnknownKeyError(
             f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'")
     operating = temp_rule == "operating"
-    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics)
+    star = star_delta_cables(spec, config)
+    relay = None
+    if star:
+        # Each of the two cables carries the winding current Ib/√3 and is protected by
+        # the overload relay in the delta windings, set at that current (IEC 60947-4-1,
+        # common practice); the cables count as parallel pairs.
+        setting = STAR_DELTA_CABLES * star_delta_winding_current_a(ib)
+        i2, i2_source = conventional_operating_current_a("overload_relay", setting)
+        relay = DeviceSelection("overload_relay", setting, i2,
+                                f"overload relay in the delta windings at Ib/√3 per cable; {i2_source}")
+        need = required_iz_a(relay)
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics=harmonics,
+                        cable_device=relay, vd_factor=STAR_DELTA_RUN_DROP_FACTOR if star else 1.0)
 
     conductor, insulation = spec.conductor, spec.insulation
     stretches = spec.stretches
@@ -379,7 +420,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
 
     # Voltage drop (voltage_drop_v, drop_percent) with its size-independent terms once.
     pf = spec.power_factor
-    vd_a = (math.sqrt(3.0) if spec.phases == 3 else 2.0) * ib * spec.design_length_m
+    vd_a = (math.sqrt(3.0) if spec.phases == 3 else 2.0) * ib * spec.design_length_m * ctx.vd_factor
     vd_x_sin = REACTANCE_MOHM_PER_M / 1000.0 * math.sqrt(max(0.0, 1.0 - pf * pf))
     voltage = spec.voltage_v
     vd_limit = limit + 1e-9
@@ -424,7 +465,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     threshold = need - 1e-9
     first_ok = None
     last_tried = None
-    for parallel in range(1, config.max_parallel + 1):
+    step = STAR_DELTA_CABLES if star else 1
+    for parallel in range(step, config.max_parallel + 1, step):
         rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays,
                                 stretches[s].containment)
                  for s, k in enumerate(keys)]
@@ -495,17 +537,19 @@ def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, g
     checks.extend(prep.report(csa, parallel))
     return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
                      methods[stretch_index], iz, total, factors, checks, vd,
-                     prep.extras(csa, parallel))
+                     prep.extras(csa, parallel), getattr(prep.disconnection, "ze", 0.0))
 
 
 def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     out = [
         Check("design_current", ctx.design_current_a <= ctx.device.rating_a, ctx.design_current_a,
               ctx.device.rating_a, "A", "IEC 60364-4-43:2008 433.1 (433.1): Ib <= In"),
-        Check("capacity", ctx.device.rating_a <= iz + 1e-9, ctx.device.rating_a, iz, "A",
-              "IEC 60364-4-43:2008 433.1 (433.1): In <= Iz"),
-        Check("overload", ctx.device.i2_a <= 1.45 * iz + 1e-9, ctx.device.i2_a, 1.45 * iz, "A",
-              f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.device.source}"),
+        Check("capacity", ctx.overload_device.rating_a <= iz + 1e-9, ctx.overload_device.rating_a,
+              iz, "A", "IEC 60364-4-43:2008 433.1 (433.1): In <= Iz"
+              + ("" if ctx.cable_device is None else f"; {ctx.cable_device.source}")),
+        Check("overload", ctx.overload_device.i2_a <= 1.45 * iz + 1e-9, ctx.overload_device.i2_a,
+              1.45 * iz, "A",
+              f"IEC 60364-4-43:2008 433.1 (433.2): I2 <= 1.45 Iz; {ctx.overload_device.source}"),
     ]
     h = ctx.harmonics
     if h is not None and h.basis == "neutral":
@@ -515,13 +559,22 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     return out
 
 
-def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras):
-    messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
+def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras,
+              ze_assumed_ohm: float = 0.0):
+    messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
     status = "fail" if messages else "ok"
+    if extras.get("ze_assumed"):
+        messages.append(ZE_ASSUMED_MESSAGE.format(ze=ze_assumed_ohm))
+        status = "warning" if status == "ok" else status
     if spec.design_length_m <= 0:
         messages.append("no length given: voltage drop not checked")
         status = "warning" if status == "ok" else status
-    if cand.parallel > 1:
+    if ctx.cable_device is not None:
+        messages.append(
+            f"star-delta: {cand.parallel} cables to the motor, each carrying the winding current "
+            f"Ib/√3 = {ctx.design_current_a / math.sqrt(3.0):.1f} A, protected by the overload "
+            "relay in the delta windings")
+    elif cand.parallel > 1:
         messages.append(
             f"{cand.parallel} cables in parallel: equal length, cross-section and route "
             "required (IEC 60364-5-52:2009 523.7)"

@@ -36,6 +36,9 @@ __all__ = [
     "adiabatic_withstand_time_s",
     "source_impedance_ohm",
     "fault_current_ka",
+    "SOURCE_Z0_OVER_Z1",
+    "fault_current_line_neutral_ka",
+    "peak_factor",
 ]
 
 
@@ -80,6 +83,13 @@ VOLTAGE_FACTOR_LV = {"max_6pct": 1.05, "max_10pct": 1.10, "min": 0.95}
 #: IEC 60909-0:2016 6.2 allows for network feeders when nothing is known
 #: (applied here to the whole upstream network: an assumption).
 SOURCE_R_OVER_X = 0.1
+
+#: Z(0)/Z(1) of the source behind a board, for the line-to-neutral fault of a
+#: single-phase circuit when only the three-phase level is known: 1.0, as for
+#: a Dyn distribution transformer whose zero-sequence impedance about equals
+#: its positive-sequence one (common practice, from memory).  With 1.0 the
+#: line-to-neutral fault at the board equals the three-phase level.
+SOURCE_Z0_OVER_Z1 = 1.0
 
 #: Final conductor temperature at the end of a fault [°C], the ``final_c`` of
 #: Table 43A by insulation (PVC up to 300 mm²).
@@ -301,3 +311,126 @@ def fault_current_ka(
     x = reactance_mohm_per_m / 1000.0 * length_m / parallel
     z = math.hypot(rq + r, xq + x)
     return c * voltage_v / (math.sqrt(3.0) * z) / 1000.0
+
+
+def fault_current_line_neutral_ka(
+    source_fault_ka: float,
+    voltage_v: float,
+    length_m: float,
+    csa_mm2: float,
+    conductor: str,
+    parallel: int = 1,
+    conductor_temp_c: float = 20.0,
+    c: float = 1.05,
+    c_source: float = 1.05,
+    neutral_csa_mm2: float | None = None,
+    z0_over_z1: float = SOURCE_Z0_OVER_Z1,
+    reactance_mohm_per_m: float = REACTANCE_MOHM_PER_M,
+) -> float:
+    """Line-to-neutral fault current at the far end of a single-phase circuit.
+
+    The single-phase (line-to-earth type) short circuit of IEC 60909-0: the
+    current flows out in the line conductor and back in the neutral, so the
+    loop holds both conductors of the cable and the source's
+    (2 Z(1) + Z(0)) / 3:
+
+    .. math::
+
+        I''_{k1} = \\frac{\\sqrt{3}\\,c\\,U_n}{|Z_{(1)} + Z_{(2)} + Z_{(0)}|}
+                 = \\frac{c\\,U_0}{|(2 Z_Q + Z_{0Q})/3 + L (r_L + r_N + 2 j x)/n|}
+
+    with Z_Q from the three-phase level at the board (R/X
+    :data:`SOURCE_R_OVER_X`), Z_0Q = ``z0_over_z1`` Z_Q, and the cable's
+    zero-sequence impedance Z_L + 3 Z_N (return in the neutral only).
+
+    Parameters
+    ----------
+    source_fault_ka : float
+        Three-phase I''k at the board feeding the circuit [kA].
+    voltage_v : float
+        Nominal line-to-line voltage Un of the system [V] (U0 = Un / √3).
+    length_m : float
+        Cable length [m], >= 0.
+    csa_mm2 : float
+        Line conductor cross-section [mm²].
+    conductor : str
+        ``Cu`` or ``Al``.
+    parallel : int
+        Cables in parallel.
+    conductor_temp_c : float
+        Conductor temperature for R [°C]: 20 °C for the maximum, the
+        end-of-fault temperature for the minimum (IEC 60909-0 clauses 7, 8).
+    c : float
+        Voltage factor of this calculation (cmax or cmin, Table 1).
+    c_source : float
+        Voltage factor behind ``source_fault_ka``.
+    neutral_csa_mm2 : float, optional
+        Neutral cross-section [mm²]; default the line's (IEC 60364-5-52:2009
+        524.2.1: in a single-phase two-wire circuit the neutral has the
+        cross-section of the line conductor).
+    z0_over_z1 : float
+        Z(0)/Z(1) of the source (:data:`SOURCE_Z0_OVER_Z1`).
+    reactance_mohm_per_m : float
+        Reactance of one conductor [mΩ/m].
+
+    Returns
+    -------
+    float
+        I''k1 at the load end [kA].
+
+    Examples
+    --------
+    A strong source (1000 kA), 50 m of 2.5 mm² copper at 20 °C, c = 1, no
+    reactance: U0 / (2 L R20) with R20 = 7.41 Ω/km of IEC 60228:2004 Table 2,
+    230.9 V / 0.741 Ω = 312 A:
+
+    >>> round(fault_current_line_neutral_ka(1000, 400, 50, 2.5, "Cu", c=1.0, c_source=1.0,
+    ...                                      reactance_mohm_per_m=0.0) * 1000)
+    312
+
+    References
+    ----------
+    .. [1] IEC 60909-0:2016, line-to-earth short circuit (I''k1 from the
+       sequence impedances), 6.2 (network feeder) and Table 1.
+    .. [2] IEC 60364-5-52:2009, 524.2.1.
+    """
+    zq = source_impedance_ohm(source_fault_ka, voltage_v, c_source)
+    xq = zq / math.sqrt(1.0 + SOURCE_R_OVER_X**2)
+    rq = SOURCE_R_OVER_X * xq
+    k_src = (2.0 + z0_over_z1) / 3.0
+    neutral = csa_mm2 if neutral_csa_mm2 is None else neutral_csa_mm2
+    r = (resistance_ohm_per_km(csa_mm2, conductor, conductor_temp_c)
+         + resistance_ohm_per_km(neutral, conductor, conductor_temp_c)) / 1000.0 * length_m / parallel
+    x = 2.0 * reactance_mohm_per_m / 1000.0 * length_m / parallel
+    z = math.hypot(k_src * rq + r, k_src * xq + x)
+    return c * voltage_v / (math.sqrt(3.0) * z) / 1000.0
+
+
+def peak_factor(r_over_x: float) -> float:
+    """Peak factor κ of an asymmetrical current: κ = 1.02 + 0.98 e^(-3 R/X).
+
+    Parameters
+    ----------
+    r_over_x : float
+        R/X of the circuit the current flows in, >= 0.
+
+    Returns
+    -------
+    float
+        κ, from 2.0 (R/X = 0) down towards 1.02; ip = κ √2 I.
+
+    Examples
+    --------
+    IEC 60909-0 gives κ = 1.02 + 0.98 e^(-3 R/X); at R/X 0.1, 1.746:
+
+    >>> round(peak_factor(0.1), 3), round(peak_factor(0.0), 2)
+    (1.746, 2.0)
+
+    References
+    ----------
+    .. [1] IEC 60909-0:2016, peak short-circuit current ip, the factor κ
+       (equation number from memory).
+    """
+    if r_over_x < 0:
+        raise OutOfRangeError(f"R/X {r_over_x:g} must be zero or more")
+    return 1.02 + 0.98 * math.exp(-3.0 * r_over_x)

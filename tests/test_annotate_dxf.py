@@ -322,3 +322,19 @@ def test_routes_drawn_backwards_still_give_upright_labels(tmp_path):
         rot = label.dxf.rotation
         # every stretch here is horizontal or vertical: upright text is 0 or 90 degrees
         assert min(abs(rot - 0.0), abs(rot - 90.0)) == pytest.approx(0.0, abs=1e-9)
+
+
+def test_device_note_says_when_ze_was_assumed(tmp_path):
+    # issue 15 item 3: a result whose Ze is the config's assumption says so on the drawing
+    from dataclasses import replace
+
+    outs = outcomes()
+    outs[1] = replace(outs[1], sizing=replace(outs[1].sizing, ze_assumed=True))
+    src = make_drawing(tmp_path / "in.dxf")
+    out = tmp_path / "annotated.dxf"
+    write_annotated_dxf(src, out, outs, segments(), PER_SEGMENT, equipment(), 1000.0)
+    texts = [e.dxf.text if e.dxftype() == "TEXT" else e.text
+             for e in ezdxf.readfile(out).modelspace().query("TEXT MTEXT")
+             if e.dxf.layer == "CW-DEVICE-NOTE"]
+    assert any("P-102: 125 A, Ze assumed" in t for t in texts), texts
+    assert not any("P-101" in t and "Ze assumed" in t for t in texts)

@@ -7,7 +7,7 @@ import math
 import pytest
 from cablewright.sizing.conductor_resistance import dc_resistance_20c_ohm_per_km
 from cablewright.sizing.config import SizingConfig
-from cablewright.sizing.model import CircuitSpec, Load, Stretch
+from cablewright.sizing.model import CheckResult, CircuitSpec, Load, Stretch
 from cablewright.sizing.protective_conductor import table_54_2_min_csa_mm2
 from cablewright.sizing.select import size_circuit
 from hypothesis import given, settings
@@ -93,13 +93,17 @@ def test_fault_level_without_device_time_is_not_checked():
     spec = CircuitSpec("S-3", Load(3, "kW"), 230, phases=1, fault_ka=10, design_length_m=10,
                        stretches=(Stretch(method="C"),))
     sc = _check(size_circuit(spec), "short_circuit")
-    assert sc.passed and "clearing_time_s" in sc.message
+    # contract.md Extensions: a check that was not made is never "pass"
+    assert sc.result is CheckResult.NOT_CHECKED and not sc.passed and "clearing_time_s" in sc.message
 
 
-def test_no_fault_level_is_not_checked_but_passes():
+def test_no_fault_level_is_not_checked_and_not_a_pass():
     spec = CircuitSpec("P-2", Load(5, "kW"), 400, design_length_m=20, stretches=(Stretch(method="E"),))
-    sc = _check(size_circuit(spec), "short_circuit")
-    assert sc.passed and sc.message.startswith("not checked")
+    r = size_circuit(spec)
+    sc = _check(r, "short_circuit")
+    # contract.md Extensions: "not_checked", never "pass"; the circuit does not fail for it
+    assert sc.result is CheckResult.NOT_CHECKED and not sc.passed and sc.message.startswith("not checked")
+    assert not sc.failed and "short_circuit check fails" not in " ".join(r.messages)
 
 
 def test_tt_earthing_is_not_checked():
