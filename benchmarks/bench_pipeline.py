@@ -70,7 +70,7 @@ class _Clock:
 def _child_stages(drawing: Path, circuits: Path) -> dict:
     """Floor and every stage, timed one by one in this process."""
     import ezdxf
-    from cablewright.annotate.dxf_writer import write_annotated_dxf
+    from cablewright.annotate.drawing import write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.schedule_files import (

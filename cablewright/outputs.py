@@ -39,7 +39,7 @@ def output_names(drawing: Path) -> dict[str, str]:
 def _annotate_config(settings: Settings):
     from dataclasses import fields, replace
 
-    from cablewright.annotate.dxf_writer import AnnotateConfig
+    from cablewright.annotate.drawing import AnnotateConfig
     from cablewright.extract.errors import ConfigError
 
     base = AnnotateConfig()
@@ -56,7 +56,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
     Returns the final paths.  Raises :class:`DrawingReadError` when the folder
     cannot be written; nothing partial is left behind.
     """
-    from cablewright.annotate.dxf_writer import write_annotated_dxf
+    from cablewright.annotate.drawing import write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.schedule_files import (

@@ -12,7 +12,7 @@ from __future__ import annotations
 import dataclasses
 
 import ezdxf
-from cablewright.annotate.dxf_writer import AnnotateConfig, write_annotated_dxf
+from cablewright.annotate.drawing import AnnotateConfig, write_annotated_dxf
 from ezdxf import bbox, disassemble
 from shapely.geometry import Polygon
 from test_annotate_fixtures import equipment, make_drawing, outcomes, segments

@@ -14,11 +14,8 @@ from pathlib import Path
 
 import ezdxf
 import pytest
-from cablewright.annotate.dxf_writer import (
-    AnnotateConfig,
-    text_height_m_for_extents,
-    write_annotated_dxf,
-)
+from cablewright.annotate.drawing import AnnotateConfig, write_annotated_dxf
+from cablewright.annotate.drawing.text_height import text_height_m_for_extents
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.model import CircuitRoute, RouteSegment

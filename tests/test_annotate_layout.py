@@ -6,12 +6,9 @@ import math
 import random
 
 import pytest
-from cablewright.annotate.layout import (
-    LabelIndex,
+from cablewright.annotate.drawing.boxes import LabelIndex, _box, boxes_overlap, label_polygon
+from cablewright.annotate.drawing.placement import (
     Stretch,
-    _box,
-    boxes_overlap,
-    label_polygon,
     place_along,
     place_near_point,
     rank_stretches,

@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import ezdxf
 import networkx as nx
-from cablewright.annotate.dxf_writer import group_runs, write_annotated_dxf
+from cablewright.annotate.drawing import write_annotated_dxf
+from cablewright.annotate.drawing.group_tags import group_runs
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract.model import CircuitRoute, RouteSegment
 from cablewright.sizing.model import CableSelection, SizingResult

@@ -13,7 +13,7 @@ import hashlib
 from collections import Counter
 
 import ezdxf
-from cablewright.annotate.dxf_writer import write_annotated_dxf
+from cablewright.annotate.drawing import write_annotated_dxf
 from cablewright.annotate.preview import render_preview_png
 from cablewright.extract.dxf_reader import read_dxf
 from cablewright.extract.model import DrawingConfig

@@ -29,23 +29,19 @@ import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
-import shapely
 from shapely.geometry import LineString, Polygon
+
+from .boxes import LabelIndex, _box, _polygon
 
 __all__ = [
     "Stretch",
     "Placement",
-    "LabelIndex",
     "readable_angle_deg",
-    "label_polygon",
     "straight_stretches",
     "rank_stretches",
     "place_along",
     "place_near_point",
     "route_obstacles",
-    "boxes_overlap",
-    "oriented_box",
-    "bounds_box",
 ]
 
 Point2 = tuple[float, float]
@@ -141,213 +137,12 @@ def readable_angle_deg(dx: float, dy: float) -> float:
     return 0.0 if abs(angle) < 1e-12 else angle
 
 
-def label_polygon(
-    cx: float, cy: float, width: float, height: float, rotation_deg: float
-) -> Polygon:
-    """The box of a label centred on ``(cx, cy)``, turned by ``rotation_deg``.
 
-    Examples
-    --------
-    >>> round(label_polygon(0, 0, 4, 2, 90).bounds[2], 9)
-    1.0
-    """
-    a = math.radians(rotation_deg)
-    ux, uy = math.cos(a), math.sin(a)
-    vx, vy = -uy, ux
-    hw, hh = width / 2.0, height / 2.0
-    return Polygon(
-        [
-            (cx - ux * hw - vx * hh, cy - uy * hw - vy * hh),
-            (cx + ux * hw - vx * hh, cy + uy * hw - vy * hh),
-            (cx + ux * hw + vx * hh, cy + uy * hw + vy * hh),
-            (cx - ux * hw + vx * hh, cy - uy * hw + vy * hh),
-        ]
-    )
+def scaled(points: Iterable[Sequence[float]], k: float) -> list[tuple[float, float, float]]:
+    return [
+        (float(p[0]) * k, float(p[1]) * k, (float(p[2]) if len(p) > 2 else 0.0) * k) for p in points
+    ]
 
-
-def oriented_box(
-    cx: float, cy: float, width: float, height: float, rotation_deg: float
-) -> tuple[float, ...]:
-    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds.
-
-    This is the form :class:`LabelIndex` stores (``cx, cy, ux, uy, hw, hh,
-    xmin, ymin, xmax, ymax``).
-
-    Examples
-    --------
-    >>> [round(v, 9) for v in oriented_box(0, 0, 4, 2, 90)[6:]]
-    [-1.0, -2.0, 1.0, 2.0]
-    """
-    return _box(cx, cy, width, height, rotation_deg)
-
-
-def bounds_box(xmin: float, ymin: float, xmax: float, ymax: float) -> tuple[float, ...]:
-    """The axis-aligned box ``(xmin, ymin)-(xmax, ymax)`` as an oriented box tuple.
-
-    Examples
-    --------
-    >>> bounds_box(0, 0, 4, 2)[:6]
-    (2.0, 1.0, 1.0, 0.0, 2.0, 1.0)
-    """
-    return _box(
-        (xmin + xmax) / 2.0, (ymin + ymax) / 2.0, abs(xmax - xmin), abs(ymax - ymin), 0.0
-    )
-
-
-def _box(cx: float, cy: float, width: float, height: float, rotation_deg: float) -> tuple:
-    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds."""
-    a = math.radians(rotation_deg)
-    ux, uy = math.cos(a), math.sin(a)
-    hw, hh = width / 2.0, height / 2.0
-    ex = hw * abs(ux) + hh * abs(uy)
-    ey = hw * abs(uy) + hh * abs(ux)
-    return (cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
-
-
-def boxes_overlap(a: tuple, b: tuple, eps: float = 0.0) -> bool:
-    """True when two oriented boxes share area (touching does not count).
-
-    Separating axis test: two convex polygons are disjoint exactly when their
-    projections on some edge normal do not overlap; for rectangles the four edge
-    directions suffice (Gottschalk, Lin & Manocha 1996).
-
-    Examples
-    --------
-    >>> boxes_overlap(_box(0, 0, 2, 2, 0), _box(1.9, 0, 2, 2, 0))
-    True
-    >>> boxes_overlap(_box(0, 0, 2, 2, 0), _box(2.0, 0, 2, 2, 0))
-    False
-    >>> boxes_overlap(_box(0, 0, 2, 2, 45), _box(1.9, 1.9, 2, 2, 45))
-    False
-
-    References
-    ----------
-    .. [1] Gottschalk, S., Lin, M. C., Manocha, D. "OBBTree: a hierarchical
-       structure for rapid interference detection", SIGGRAPH 1996, section 4.
-    """
-    if a[8] <= b[6] + eps or b[8] <= a[6] + eps or a[9] <= b[7] + eps or b[9] <= a[7] + eps:
-        return False
-    dx, dy = b[0] - a[0], b[1] - a[1]
-    for lx, ly in ((a[2], a[3]), (-a[3], a[2]), (b[2], b[3]), (-b[3], b[2])):
-        ra = a[4] * abs(a[2] * lx + a[3] * ly) + a[5] * abs(-a[3] * lx + a[2] * ly)
-        rb = b[4] * abs(b[2] * lx + b[3] * ly) + b[5] * abs(-b[3] * lx + b[2] * ly)
-        if abs(dx * lx + dy * ly) >= ra + rb - eps:
-            return False
-    return True
-
-
-class LabelIndex:
-    """Placed label boxes in a uniform grid, plus fixed obstacles.
-
-    Boxes are oriented rectangles; the overlap test is a separating axis test
-    (:func:`boxes_overlap`) against the boxes in the grid cells a candidate
-    covers, so each test looks at a few neighbours only.
-
-    There are two kinds of fixed obstacle:
-
-    * ``obstacles`` (route lines, in a shapely ``STRtree``): a label should
-      rather not cross them, but may when nothing else is free;
-    * ``blocked`` boxes (the drawing's own text and equipment symbols, in a
-      second grid): a label never goes on them; they count like placed labels
-      in :meth:`is_free` but not in :attr:`boxes`, :meth:`bounds` or ``len``.
-
-    Parameters
-    ----------
-    cell : float
-        Grid cell size [drawing units]; about a label's length works well.
-    obstacles : iterable of shapely geometries, optional
-        Fixed lines (other routes) a label should rather not cross.
-    blocked : iterable of box tuples, optional
-        Fixed boxes (see :func:`oriented_box`, :func:`bounds_box`) a label
-        must not overlap.
-    """
-
-    def __init__(
-        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[tuple] = ()
-    ) -> None:
-        if not cell > 0.0:
-            raise ValueError(f"grid cell must be > 0, got {cell!r}")
-        self.cell = float(cell)
-        self._grid: dict[tuple[int, int], list[int]] = {}
-        self._boxes: list[tuple] = []
-        self._fixed_grid: dict[tuple[int, int], list[int]] = {}
-        self._fixed: list[tuple] = []
-        geoms = [g for g in obstacles if g is not None and not g.is_empty]
-        self._obstacles = shapely.STRtree(geoms) if geoms else None
-        self._eps = 1e-9 * self.cell
-        for box in blocked:
-            self.block(box)
-
-    @property
-    def blocked(self) -> tuple[Polygon, ...]:
-        """Every fixed box (drawing text, symbols), as shapely polygons."""
-        return tuple(_polygon(b) for b in self._fixed)
-
-    def block(self, box: tuple) -> None:
-        """Record a fixed box no label may overlap (see :func:`oriented_box`)."""
-        idx = len(self._fixed)
-        self._fixed.append(box)
-        for key in self._cells(box):
-            self._fixed_grid.setdefault(key, []).append(idx)
-
-    def __len__(self) -> int:
-        return len(self._boxes)
-
-    @property
-    def boxes(self) -> tuple[Polygon, ...]:
-        """Every box placed so far, as shapely polygons."""
-        return tuple(_polygon(b) for b in self._boxes)
-
-    def bounds(self) -> tuple[float, float, float, float] | None:
-        """(xmin, ymin, xmax, ymax) of every box placed, ``None`` when empty."""
-        if not self._boxes:
-            return None
-        return (
-            min(b[6] for b in self._boxes),
-            min(b[7] for b in self._boxes),
-            max(b[8] for b in self._boxes),
-            max(b[9] for b in self._boxes),
-        )
-
-    def _cells(self, box: tuple) -> Iterable[tuple[int, int]]:
-        c = self.cell
-        for i in range(math.floor(box[6] / c), math.floor(box[8] / c) + 1):
-            for j in range(math.floor(box[7] / c), math.floor(box[9] / c) + 1):
-                yield (i, j)
-
-    def is_free(self, box: tuple) -> bool:
-        """True when ``box`` (see :func:`_box`) shares area with no placed or fixed box."""
-        cells = list(self._cells(box))
-        for grid, boxes in ((self._grid, self._boxes), (self._fixed_grid, self._fixed)):
-            if not grid:
-                continue
-            seen: set[int] = set()
-            for key in cells:
-                for idx in grid.get(key, ()):
-                    if idx in seen:
-                        continue
-                    seen.add(idx)
-                    if boxes_overlap(box, boxes[idx], self._eps):
-                        return False
-        return True
-
-    def crosses_obstacle(self, box: tuple) -> bool:
-        """True when ``box`` touches one of the fixed obstacles."""
-        if self._obstacles is None:
-            return False
-        return len(self._obstacles.query(_polygon(box), predicate="intersects")) > 0
-
-    def add(self, box: tuple) -> None:
-        """Record a placed box."""
-        idx = len(self._boxes)
-        self._boxes.append(box)
-        for key in self._cells(box):
-            self._grid.setdefault(key, []).append(idx)
-
-
-def _polygon(box: tuple) -> Polygon:
-    cx, cy, ux, uy, hw, hh = box[:6]
-    return label_polygon(cx, cy, 2.0 * hw, 2.0 * hh, math.degrees(math.atan2(uy, ux)))
 
 
 def straight_stretches(

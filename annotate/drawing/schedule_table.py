@@ -1,0 +1,155 @@
+"""The schedule table beside the drawing, with the cautions note and the title above it."""
+
+from __future__ import annotations
+
+import textwrap
+from collections.abc import Sequence
+
+from ezdxf.enums import TextEntityAlignment
+
+from ..model import CircuitOutcome
+from .entities import EntityWriter
+from .placement import Placement
+from .style import LINE_PITCH
+from .text import clean, mtext_escape, rating_text
+
+__all__ = ["schedule_table"]
+
+
+def schedule_table(
+    w: EntityWriter, outcomes: Sequence[CircuitOutcome], x0: float, y_top: float, z: float
+) -> int:
+    """Cautions, title and the schedule table, top left at (x0, y_top)."""
+    h = w.height
+    config = w.config
+    # cautions, wrapped to about the table's width
+    caution_lines = ["CAUTION"] + textwrap.wrap(config.cautions, 60)
+    bw, bh = w.block_box(caution_lines)
+    note = Placement(x0 + bw / 2.0, y_top - bh / 2.0, z, 0.0, bw, bh, None, False)  # type: ignore[arg-type]
+    w.block(caution_lines, note, role="notes", kind="cautions", ref="cautions", left=True)
+    y = y_top - bh - 2.0 * h  # title baseline: a gap, then 1.4 h title letters
+    w.text(
+        "CABLE SCHEDULE (cablewright)",
+        x0,
+        y,
+        z,
+        role="schedule",
+        kind="schedule",
+        ref="title",
+        align=TextEntityAlignment.BOTTOM_LEFT,
+        height=1.4 * h,
+    )
+    y -= 0.6 * h
+    header = ("circuit", "from", "to", "cable", "device", "length", "status")
+    rows = []
+    for o in outcomes:
+        s = o.sizing
+        cable = s.cable.describe() if s is not None and s.cable is not None else "-"
+        device = (
+            f"{rating_text(s.device_rating_a)} A"
+            if s is not None and s.device_rating_a is not None
+            else "-"
+        )
+        length = (
+            f"{o.route.routed_length_m:.1f} m"
+            if o.route is not None and getattr(o.route, "routed_length_m", None) is not None
+            else "-"
+        )
+        rows.append(
+            tuple(
+                clean(v)
+                for v in (o.circuit_id, o.from_tag, o.to_tag, cable, device, length, o.status)
+            )
+        )
+    widths = [
+        max(w.text_width(r[i]) for r in [header, *rows]) + 1.2 * h for i in range(len(header))
+    ]
+    table_w = sum(widths)
+    row_h = (1.8 if w.r12 else LINE_PITCH) * h
+    per_panel = max(1, config.schedule_rows_per_panel)
+    panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
+    for p, panel in enumerate(panels):
+        px = x0 + p * (table_w + 3.0 * h)
+        lines = [header, *panel]
+        bottom = y - len(lines) * row_h
+        if w.r12:
+            _schedule_cells_r12(w, lines, widths, px, y, z, row_h)
+            continue
+        # one MTEXT per column and two polylines for the rules: a 2,000-row schedule
+        # is a few hundred entities, not 14,000 TEXT and 2,000 LINE
+        cx = px
+        for c in range(len(header)):
+            column = "\\P".join(mtext_escape(row[c]) for row in lines)
+            entity = w.msp.add_mtext(
+                column,
+                dxfattribs={
+                    "layer": w.layers["schedule"],
+                    "style": config.text_style,
+                    "char_height": h,
+                    "attachment_point": 1,  # top left
+                    "insert": (cx + 0.6 * h, y - (row_h - h) / 2.0, z),
+                    "line_spacing_style": 2,  # exact: rows stay on the grid
+                    "line_spacing_factor": row_h / (LINE_PITCH * h),
+                    "width": 0.0,
+                },
+            )
+            w._tag(entity, "schedule", f"column {header[c]}")
+            cx += widths[c]
+        rules: list[tuple[float, float]] = []
+        for r in range(len(lines) + 1):
+            yy = y - r * row_h
+            ends = [(px, yy), (px + table_w, yy)]
+            rules += ends if r % 2 == 0 else ends[::-1]
+        cols: list[tuple[float, float]] = []
+        cx = px
+        for c in range(len(header) + 1):
+            ends = [(cx, y), (cx, bottom)]
+            cols += ends if c % 2 == 0 else ends[::-1]
+            if c < len(header):
+                cx += widths[c]
+        for pts, ref in ((rules, "grid rows"), (cols, "grid columns")):
+            entity = w.msp.add_lwpolyline(
+                pts, dxfattribs={"layer": w.layers["schedule"], "elevation": z}
+            )
+            w._tag(entity, "schedule", ref)
+    return len(rows)
+
+
+def _schedule_cells_r12(
+    w: EntityWriter,
+    lines: Sequence[Sequence[str]],
+    widths: Sequence[float],
+    px: float,
+    y: float,
+    z: float,
+    row_h: float,
+) -> None:
+    """Schedule panel for DXF R12 (no MTEXT, no LWPOLYLINE): TEXT per cell, LINE rules."""
+    h = w.height
+    for r, row in enumerate(lines):
+        yc = y - (r + 0.5) * row_h
+        cx = px
+        for c, value in enumerate(row):
+            w.text(
+                value,
+                cx + 0.6 * h,
+                yc,
+                z,
+                role="schedule",
+                kind="schedule",
+                ref=row[0] if r else "header",
+                align=TextEntityAlignment.MIDDLE_LEFT,
+            )
+            cx += widths[c]
+    table_w = sum(widths)
+    bottom = y - len(lines) * row_h
+    for r in range(len(lines) + 1):
+        yy = y - r * row_h
+        w.line((px, yy, z), (px + table_w, yy, z), role="schedule", kind="schedule", ref="grid")
+    cx = px
+    for c in range(len(widths) + 1):
+        w.line((cx, y, z), (cx, bottom, z), role="schedule", kind="schedule", ref="grid")
+        if c < len(widths):
+            cx += widths[c]
+
+
