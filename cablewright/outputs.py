@@ -56,7 +56,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
     Returns the final paths.  Raises :class:`DrawingReadError` when the folder
     cannot be written; nothing partial is left behind.
     """
-    from cablewright.annotate.drawing import write_annotated_dxf
+    from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.schedule_files import (
@@ -92,9 +92,9 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                                        "check the path or re-export it") from exc
         # our marks are added to the document in memory and it is saved under the
         # output name only; the preview is drawn from the same annotated document
-        summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
-                                      measurement.segments, job.per_segment,
-                                      measurement.equipment, units_per_m, config,
+        marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
+                                measurement.equipment, units_per_m)
+        summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config,
                                       document=document)
         write_schedule_csv(stage / names["csv"], job.outcomes)
         write_schedule_xlsx(stage / names["xlsx"], job.outcomes)

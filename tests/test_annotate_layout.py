@@ -8,13 +8,11 @@ import random
 import pytest
 from cablewright.annotate.drawing.boxes import LabelIndex, _box, boxes_overlap, label_polygon
 from cablewright.annotate.drawing.placement import (
-    Stretch,
     place_along,
     place_near_point,
-    rank_stretches,
     readable_angle_deg,
-    straight_stretches,
 )
+from cablewright.annotate.drawing.stretches import Stretch, rank_stretches, straight_stretches
 from shapely.geometry import LineString
 
 

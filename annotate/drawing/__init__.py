@@ -43,7 +43,14 @@ References
    default 2.5 mm is taken from; from memory).
 """
 
+from .inputs import AnnotationInput
 from .style import CAUTIONS, AnnotateConfig
 from .writer import AnnotationSummary, write_annotated_dxf
 
-__all__ = ["CAUTIONS", "AnnotateConfig", "AnnotationSummary", "write_annotated_dxf"]
+__all__ = [
+    "CAUTIONS",
+    "AnnotateConfig",
+    "AnnotationInput",
+    "AnnotationSummary",
+    "write_annotated_dxf",
+]

@@ -4,11 +4,32 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable
+from typing import NamedTuple
 
 import shapely
 from shapely.geometry import Polygon
 
-__all__ = ["LabelIndex", "label_polygon", "oriented_box", "bounds_box", "boxes_overlap"]
+__all__ = ["Box", "LabelIndex", "label_polygon", "oriented_box", "bounds_box", "boxes_overlap"]
+
+
+class Box(NamedTuple):
+    """An oriented rectangle in plan: centre, unit x axis, half sizes, axis-aligned bounds.
+
+    All lengths in drawing units.  The axis-aligned bounds are kept beside the
+    oriented form so that the grid of :class:`LabelIndex` and the first test of
+    :func:`boxes_overlap` need no trigonometry.
+    """
+
+    cx: float
+    cy: float
+    ux: float
+    uy: float
+    hw: float
+    hh: float
+    xmin: float
+    ymin: float
+    xmax: float
+    ymax: float
 
 
 def label_polygon(
@@ -37,26 +58,24 @@ def label_polygon(
 
 def oriented_box(
     cx: float, cy: float, width: float, height: float, rotation_deg: float
-) -> tuple[float, ...]:
-    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds.
-
-    This is the form :class:`LabelIndex` stores (``cx, cy, ux, uy, hw, hh,
-    xmin, ymin, xmax, ymax``).
+) -> Box:
+    """An oriented box: centre, unit x axis, half sizes, axis-aligned bounds (:class:`Box`).
 
     Examples
     --------
-    >>> [round(v, 9) for v in oriented_box(0, 0, 4, 2, 90)[6:]]
+    >>> b = oriented_box(0, 0, 4, 2, 90)
+    >>> [round(v, 9) for v in (b.xmin, b.ymin, b.xmax, b.ymax)]
     [-1.0, -2.0, 1.0, 2.0]
     """
     return _box(cx, cy, width, height, rotation_deg)
 
 
-def bounds_box(xmin: float, ymin: float, xmax: float, ymax: float) -> tuple[float, ...]:
-    """The axis-aligned box ``(xmin, ymin)-(xmax, ymax)`` as an oriented box tuple.
+def bounds_box(xmin: float, ymin: float, xmax: float, ymax: float) -> Box:
+    """The axis-aligned box ``(xmin, ymin)-(xmax, ymax)`` as an oriented :class:`Box`.
 
     Examples
     --------
-    >>> bounds_box(0, 0, 4, 2)[:6]
+    >>> bounds_box(0, 0, 4, 2)[:6]  # cx, cy, ux, uy, hw, hh
     (2.0, 1.0, 1.0, 0.0, 2.0, 1.0)
     """
     return _box(
@@ -64,17 +83,17 @@ def bounds_box(xmin: float, ymin: float, xmax: float, ymax: float) -> tuple[floa
     )
 
 
-def _box(cx: float, cy: float, width: float, height: float, rotation_deg: float) -> tuple:
-    """An oriented box as a tuple: centre, unit x axis, half sizes, axis-aligned bounds."""
+def _box(cx: float, cy: float, width: float, height: float, rotation_deg: float) -> Box:
+    """An oriented box: centre, unit x axis, half sizes, axis-aligned bounds."""
     a = math.radians(rotation_deg)
     ux, uy = math.cos(a), math.sin(a)
     hw, hh = width / 2.0, height / 2.0
     ex = hw * abs(ux) + hh * abs(uy)
     ey = hw * abs(uy) + hh * abs(ux)
-    return (cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
+    return Box(cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
 
 
-def boxes_overlap(a: tuple, b: tuple, eps: float = 0.0) -> bool:
+def boxes_overlap(a: Box, b: Box, eps: float = 0.0) -> bool:
     """True when two oriented boxes share area (touching does not count).
 
     Separating axis test: two convex polygons are disjoint exactly when their
@@ -95,12 +114,17 @@ def boxes_overlap(a: tuple, b: tuple, eps: float = 0.0) -> bool:
     .. [1] Gottschalk, S., Lin, M. C., Manocha, D. "OBBTree: a hierarchical
        structure for rapid interference detection", SIGGRAPH 1996, section 4.
     """
-    if a[8] <= b[6] + eps or b[8] <= a[6] + eps or a[9] <= b[7] + eps or b[9] <= a[7] + eps:
+    if (
+        a.xmax <= b.xmin + eps
+        or b.xmax <= a.xmin + eps
+        or a.ymax <= b.ymin + eps
+        or b.ymax <= a.ymin + eps
+    ):
         return False
-    dx, dy = b[0] - a[0], b[1] - a[1]
-    for lx, ly in ((a[2], a[3]), (-a[3], a[2]), (b[2], b[3]), (-b[3], b[2])):
-        ra = a[4] * abs(a[2] * lx + a[3] * ly) + a[5] * abs(-a[3] * lx + a[2] * ly)
-        rb = b[4] * abs(b[2] * lx + b[3] * ly) + b[5] * abs(-b[3] * lx + b[2] * ly)
+    dx, dy = b.cx - a.cx, b.cy - a.cy
+    for lx, ly in ((a.ux, a.uy), (-a.uy, a.ux), (b.ux, b.uy), (-b.uy, b.ux)):
+        ra = a.hw * abs(a.ux * lx + a.uy * ly) + a.hh * abs(-a.uy * lx + a.ux * ly)
+        rb = b.hw * abs(b.ux * lx + b.uy * ly) + b.hh * abs(-b.uy * lx + b.ux * ly)
         if abs(dx * lx + dy * ly) >= ra + rb - eps:
             return False
     return True
@@ -127,21 +151,21 @@ class LabelIndex:
         Grid cell size [drawing units]; about a label's length works well.
     obstacles : iterable of shapely geometries, optional
         Fixed lines (other routes) a label should rather not cross.
-    blocked : iterable of box tuples, optional
+    blocked : iterable of Box, optional
         Fixed boxes (see :func:`oriented_box`, :func:`bounds_box`) a label
         must not overlap.
     """
 
     def __init__(
-        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[tuple] = ()
+        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[Box] = ()
     ) -> None:
         if not cell > 0.0:
             raise ValueError(f"grid cell must be > 0, got {cell!r}")
         self.cell = float(cell)
         self._grid: dict[tuple[int, int], list[int]] = {}
-        self._boxes: list[tuple] = []
+        self._boxes: list[Box] = []
         self._fixed_grid: dict[tuple[int, int], list[int]] = {}
-        self._fixed: list[tuple] = []
+        self._fixed: list[Box] = []
         geoms = [g for g in obstacles if g is not None and not g.is_empty]
         self._obstacles = shapely.STRtree(geoms) if geoms else None
         self._eps = 1e-9 * self.cell
@@ -153,7 +177,7 @@ class LabelIndex:
         """Every fixed box (drawing text, symbols), as shapely polygons."""
         return tuple(_polygon(b) for b in self._fixed)
 
-    def block(self, box: tuple) -> None:
+    def block(self, box: Box) -> None:
         """Record a fixed box no label may overlap (see :func:`oriented_box`)."""
         idx = len(self._fixed)
         self._fixed.append(box)
@@ -173,19 +197,19 @@ class LabelIndex:
         if not self._boxes:
             return None
         return (
-            min(b[6] for b in self._boxes),
-            min(b[7] for b in self._boxes),
-            max(b[8] for b in self._boxes),
-            max(b[9] for b in self._boxes),
+            min(b.xmin for b in self._boxes),
+            min(b.ymin for b in self._boxes),
+            max(b.xmax for b in self._boxes),
+            max(b.ymax for b in self._boxes),
         )
 
-    def _cells(self, box: tuple) -> Iterable[tuple[int, int]]:
+    def _cells(self, box: Box) -> Iterable[tuple[int, int]]:
         c = self.cell
-        for i in range(math.floor(box[6] / c), math.floor(box[8] / c) + 1):
-            for j in range(math.floor(box[7] / c), math.floor(box[9] / c) + 1):
+        for i in range(math.floor(box.xmin / c), math.floor(box.xmax / c) + 1):
+            for j in range(math.floor(box.ymin / c), math.floor(box.ymax / c) + 1):
                 yield (i, j)
 
-    def is_free(self, box: tuple) -> bool:
+    def is_free(self, box: Box) -> bool:
         """True when ``box`` (see :func:`_box`) shares area with no placed or fixed box."""
         cells = list(self._cells(box))
         for grid, boxes in ((self._grid, self._boxes), (self._fixed_grid, self._fixed)):
@@ -201,13 +225,13 @@ class LabelIndex:
                         return False
         return True
 
-    def crosses_obstacle(self, box: tuple) -> bool:
+    def crosses_obstacle(self, box: Box) -> bool:
         """True when ``box`` touches one of the fixed obstacles."""
         if self._obstacles is None:
             return False
         return len(self._obstacles.query(_polygon(box), predicate="intersects")) > 0
 
-    def add(self, box: tuple) -> None:
+    def add(self, box: Box) -> None:
         """Record a placed box."""
         idx = len(self._boxes)
         self._boxes.append(box)
@@ -215,8 +239,9 @@ class LabelIndex:
             self._grid.setdefault(key, []).append(idx)
 
 
-def _polygon(box: tuple) -> Polygon:
-    cx, cy, ux, uy, hw, hh = box[:6]
-    return label_polygon(cx, cy, 2.0 * hw, 2.0 * hh, math.degrees(math.atan2(uy, ux)))
+def _polygon(box: Box) -> Polygon:
+    return label_polygon(
+        box.cx, box.cy, 2.0 * box.hw, 2.0 * box.hh, math.degrees(math.atan2(box.uy, box.ux))
+    )
 
 

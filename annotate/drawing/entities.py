@@ -16,7 +16,16 @@ from shapely.ops import nearest_points
 
 from .old_marks import is_ours
 from .placement import Placement
-from .style import DEFAULT_CONFIG, AnnotateConfig
+from .style import (
+    DEFAULT_CONFIG,
+    LABEL_BOX_H,
+    LABEL_MARGIN_H,
+    NOTE_INSET_H,
+    NOTE_MARGIN_H,
+    NOTE_TOP_INSET_H,
+    R12_LINE_PITCH_H,
+    AnnotateConfig,
+)
 from .text import clean, dxf_escape, mtext_escape
 
 __all__ = ["EntityWriter"]
@@ -77,17 +86,20 @@ class EntityWriter:
     def line_box(self, text: str) -> tuple[float, float]:
         """Box of a one-line TEXT label with a margin: (width, height)."""
         h = self.height
-        return self.text_width(text) + 0.4 * h, 1.7 * h
+        return self.text_width(text) + LABEL_MARGIN_H * h, LABEL_BOX_H * h
 
     def block_box(self, lines: Sequence[str]) -> tuple[float, float]:
         """Box of a multi-line note with a margin: (width, height)."""
         h = self.height
         width = max(self.text_width(line) for line in lines)
         if self.r12:
-            return width + 0.4 * h, (len(lines) - 1) * 1.667 * h + 1.7 * h
+            return (
+                width + LABEL_MARGIN_H * h,
+                (len(lines) - 1) * R12_LINE_PITCH_H * h + LABEL_BOX_H * h,
+            )
         content = "\\P".join(mtext_escape(line) for line in lines)
         w, hh = estimate_mtext_content_extents(content, self.font, 0.0, 1.0)
-        return max(w, width) + 0.4 * h, hh + 0.7 * h
+        return max(w, width) + LABEL_MARGIN_H * h, hh + NOTE_MARGIN_H * h
 
     # writing ---------------------------------------------------------------
     def _tag(self, entity: Any, kind: str, ref: str) -> Any:
@@ -145,8 +157,8 @@ class EntityWriter:
                 "attachment_point": 1 if left else 5,  # top left / middle centre
                 "insert": (
                     (
-                        place.x - place.width / 2.0 + 0.2 * self.height,
-                        place.y + place.height / 2.0 - 0.35 * self.height,
+                        place.x - place.width / 2.0 + NOTE_INSET_H * self.height,
+                        place.y + place.height / 2.0 - NOTE_TOP_INSET_H * self.height,
                         place.z,
                     )
                     if left
@@ -161,10 +173,10 @@ class EntityWriter:
             return [self._tag(self.msp.add_mtext(content, dxfattribs=attribs), kind, ref)]
         a = math.radians(place.rotation_deg)
         vx, vy = -math.sin(a), math.cos(a)
-        pitch = 1.667 * self.height
+        pitch = R12_LINE_PITCH_H * self.height
         top = (len(lines) - 1) * pitch / 2.0
         ux, uy = math.cos(a), math.sin(a)
-        shift = -place.width / 2.0 + 0.2 * self.height if left else 0.0
+        shift = -place.width / 2.0 + NOTE_INSET_H * self.height if left else 0.0
         out = []
         for i, line in enumerate(lines):
             d = top - i * pitch

@@ -6,10 +6,18 @@ from collections import defaultdict
 from collections.abc import Mapping, Sequence
 from typing import Any
 
+from shapely.geometry import Point
+
 from ..model import CircuitOutcome
+from .boxes import LabelIndex
+from .entities import EntityWriter
+from .inputs import AnnotationInput
+from .placement import place_along
+from .stretches import rank_stretches, scaled, straight_stretches
+from .style import GROUP_LEADER_AFTER_H
 from .text import clean
 
-__all__ = ["group_runs", "group_tag_lines"]
+__all__ = ["group_runs", "group_tag_lines", "segment_cables", "place_group_tags"]
 
 
 def group_runs(
@@ -180,3 +188,47 @@ def segment_cables(
     return cables
 
 
+def place_group_tags(
+    w: EntityWriter, index: LabelIndex, marks: AnnotationInput
+) -> tuple[int, int]:
+    """One tag per run of shared segments (see :func:`group_runs`); (tags, overlapping)."""
+    k = float(marks.units_per_m)
+    segments, per_segment = marks.segments, marks.per_segment
+    h = w.height
+    group_tags = overlapping = 0
+    cables = segment_cables(marks.outcomes, per_segment)
+    for run in group_runs(segments, per_segment, k, min_circuits=2):
+        by_count: dict[tuple[int, int], list[str]] = defaultdict(list)
+        for seg_id in run:
+            n_circuits = len(set(per_segment[seg_id]))
+            by_count[(n_circuits, cables.get(seg_id, n_circuits))].append(seg_id)
+        counts = [(sids, nc, nk) for (nc, nk), sids in sorted(by_count.items(), reverse=True)]
+        busiest = counts[0][0][0]
+        circuits = list(per_segment[busiest])
+        lines = group_tag_lines(
+            run,
+            circuits,
+            counts[0][2],
+            ids_per_line=w.config.ids_per_line,
+            max_ids=w.config.group_tag_max_ids,
+            counts=counts,
+        )
+        stretches = [
+            st
+            for seg_id in run
+            for st in straight_stretches(
+                scaled(segments[seg_id].points_m, k),
+                crowd=len(per_segment[seg_id]),
+                key=seg_id,
+            )
+        ]
+        if not stretches:
+            continue
+        bw, bh = w.block_box(lines)
+        place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+        overlapping += place.overlaps
+        w.block(lines, place, role="group", kind="group-tag", ref=",".join(run))
+        if place.polygon.distance(Point(place.anchor)) > GROUP_LEADER_AFTER_H * h:
+            w.leader(place, place.z, role="group", kind="group-leader", ref=run[0])
+        group_tags += 1
+    return group_tags, overlapping

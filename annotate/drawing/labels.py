@@ -2,14 +2,23 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+import logging
+from collections import defaultdict
+from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
 from ..model import CircuitOutcome
-from .placement import Stretch, scaled, straight_stretches
+from .boxes import LabelIndex
+from .entities import EntityWriter
+from .inputs import AnnotationInput
+from .placement import place_along
+from .stretches import Stretch, rank_stretches, scaled, straight_stretches
+from .style import FAIL_COLOR
 from .text import clean
 
-__all__ = ["label_text"]
+__all__ = ["label_text", "route_stretches", "place_cable_labels"]
+
+log = logging.getLogger(__name__)
 
 
 def label_text(outcome: CircuitOutcome) -> str:
@@ -65,3 +74,52 @@ def route_stretches(
     return stretches
 
 
+def place_cable_labels(
+    w: EntityWriter,
+    index: LabelIndex,
+    marks: AnnotationInput,
+    progress: Callable[[int], None] | None = None,
+) -> tuple[int, int, list[str]]:
+    """One label per sized circuit along its route; (labels, overlapping, unlabelled)."""
+    k = float(marks.units_per_m)
+    from_count: dict[str, int] = defaultdict(int)
+    to_count: dict[str, int] = defaultdict(int)
+    for o in marks.outcomes:
+        if o.route is not None:
+            from_count[o.from_tag] += 1
+            to_count[o.to_tag] += 1
+
+    labels = overlapping = 0
+    unlabelled: list[str] = []
+    cut_cache: dict[str, list[Stretch]] = {}
+    for o in marks.outcomes:
+        if o.status == "error" or o.sizing is None or o.sizing.cable is None:
+            continue
+        stretches = route_stretches(
+            o, marks.segments, marks.per_segment, k, from_count, to_count, cut_cache
+        )
+        if not stretches:
+            unlabelled.append(f"{o.circuit_id}: no route geometry to put a label on")
+            log.warning(
+                "circuit %s: sized but has no route geometry; no label on the drawing", o.circuit_id
+            )
+            continue
+        text = label_text(o)
+        bw, bh = w.line_box(text)
+        place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+        overlapping += place.overlaps
+        w.text(
+            text,
+            place.x,
+            place.y,
+            place.z,
+            role="label",
+            kind="cable-label",
+            ref=o.circuit_id,
+            rotation=place.rotation_deg,
+            color=FAIL_COLOR if o.status == "fail" else None,
+        )
+        labels += 1
+        if progress is not None:
+            progress(1)
+    return labels, overlapping, unlabelled

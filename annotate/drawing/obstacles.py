@@ -14,15 +14,15 @@ from typing import Any
 import ezdxf
 from ezdxf import bbox as ezbbox
 
-from .boxes import oriented_box
-from .style import LINE_PITCH
+from .boxes import Box, oriented_box
+from .style import BOX_SIDES_PER_HALF, LINE_PITCH, AnnotateConfig
 
-__all__ = ["DrawingScan", "scan_modelspace", "extents"]
+__all__ = ["DrawingScan", "scan_modelspace", "extents", "keep_clear_boxes"]
 
 log = logging.getLogger(__name__)
 
 
-def _text_box(entity: Any, measure: Callable[[str], float]) -> tuple | None:
+def _text_box(entity: Any, measure: Callable[[str], float]) -> Box | None:
     """Oriented box of a TEXT or ATTRIB in plan, from its alignment [drawing units].
 
     The width is the font's advance width of the plain text (``measure`` at
@@ -66,7 +66,7 @@ def _text_box(entity: Any, measure: Callable[[str], float]) -> tuple | None:
     )
 
 
-def _mtext_box(entity: Any, measure: Callable[[str], float]) -> tuple | None:
+def _mtext_box(entity: Any, measure: Callable[[str], float]) -> Box | None:
     """Oriented box of an MTEXT from its attachment point, column width and lines."""
     text = entity.plain_text(split=False)
     lines = [line for line in text.split("\n")]
@@ -103,8 +103,8 @@ class DrawingScan:
     ymin: float = math.inf
     xmax: float = -math.inf
     ymax: float = -math.inf
-    texts: list[tuple] = field(default_factory=list)
-    symbols: list[tuple] = field(default_factory=list)
+    texts: list[Box] = field(default_factory=list)
+    symbols: list[Box] = field(default_factory=list)
 
     def take(self, x: float, y: float) -> None:
         if math.isfinite(x) and math.isfinite(y):
@@ -113,9 +113,9 @@ class DrawingScan:
             self.ymin = min(self.ymin, y)
             self.ymax = max(self.ymax, y)
 
-    def take_box(self, box: tuple) -> None:
-        self.take(box[6], box[7])
-        self.take(box[8], box[9])
+    def take_box(self, box: Box) -> None:
+        self.take(box.xmin, box.ymin)
+        self.take(box.xmax, box.ymax)
 
 
 def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
@@ -227,3 +227,22 @@ def extents(
     return (box.xmin, box.ymin, box.xmax, box.ymax)
 
 
+def keep_clear_boxes(scan: DrawingScan, config: AnnotateConfig, height: float) -> list[Box]:
+    """The drawing's own text and its equipment symbols: no mark goes on them.
+
+    A symbol bigger than ``symbol_max_text_heights`` text heights (a frame, a room
+    block) is not an obstacle, or nothing could be placed inside it.
+
+    Parameters
+    ----------
+    scan : DrawingScan
+    config : AnnotateConfig
+        ``avoid_drawing_text``, ``avoid_symbols``, ``symbol_max_text_heights``.
+    height : float
+        Text height [drawing units].
+    """
+    big = config.symbol_max_text_heights * height
+    blocked = list(scan.texts) if config.avoid_drawing_text else []
+    if config.avoid_symbols:
+        blocked += [b for b in scan.symbols if BOX_SIDES_PER_HALF * max(b.hw, b.hh) <= big]
+    return blocked

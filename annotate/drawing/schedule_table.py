@@ -10,10 +10,24 @@ from ezdxf.enums import TextEntityAlignment
 from ..model import CircuitOutcome
 from .entities import EntityWriter
 from .placement import Placement
-from .style import LINE_PITCH
+from .style import (
+    CAUTIONS_WRAP_CHARS,
+    CELL_INSET_H,
+    COLUMN_PADDING_H,
+    LINE_PITCH,
+    PANEL_GAP_H,
+    R12_ROW_PITCH_H,
+    TITLE_GAP_H,
+    TITLE_HEIGHT_H,
+    TITLE_TO_TABLE_H,
+)
 from .text import clean, mtext_escape, rating_text
 
-__all__ = ["schedule_table"]
+__all__ = ["HEADER", "schedule_table", "cautions_and_title", "schedule_rows"]
+
+
+#: Columns of the schedule table on the drawing (contract.md, "The annotated DXF").
+HEADER = ("circuit", "from", "to", "cable", "device", "length", "status")
 
 
 def schedule_table(
@@ -21,13 +35,39 @@ def schedule_table(
 ) -> int:
     """Cautions, title and the schedule table, top left at (x0, y_top)."""
     h = w.height
-    config = w.config
+    y = cautions_and_title(w, x0, y_top, z)
+    y -= TITLE_TO_TABLE_H * h
+    rows = schedule_rows(outcomes)
+    widths = [
+        max(w.text_width(r[i]) for r in [HEADER, *rows]) + COLUMN_PADDING_H * h
+        for i in range(len(HEADER))
+    ]
+    table_w = sum(widths)
+    row_h = (R12_ROW_PITCH_H if w.r12 else LINE_PITCH) * h
+    per_panel = max(1, w.config.schedule_rows_per_panel)
+    panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
+    for p, panel in enumerate(panels):
+        px = x0 + p * (table_w + PANEL_GAP_H * h)
+        lines = [HEADER, *panel]
+        if w.r12:
+            _schedule_cells_r12(w, lines, widths, px, y, z, row_h)
+        else:
+            _schedule_panel(w, lines, widths, px, y, z, row_h)
+    return len(rows)
+
+
+def cautions_and_title(w: EntityWriter, x0: float, y_top: float, z: float) -> float:
+    """The cautions note and the schedule's title, top left at (x0, y_top).
+
+    Returns the title's baseline [drawing units].
+    """
+    h = w.height
     # cautions, wrapped to about the table's width
-    caution_lines = ["CAUTION"] + textwrap.wrap(config.cautions, 60)
+    caution_lines = ["CAUTION"] + textwrap.wrap(w.config.cautions, CAUTIONS_WRAP_CHARS)
     bw, bh = w.block_box(caution_lines)
     note = Placement(x0 + bw / 2.0, y_top - bh / 2.0, z, 0.0, bw, bh, None, False)  # type: ignore[arg-type]
     w.block(caution_lines, note, role="notes", kind="cautions", ref="cautions", left=True)
-    y = y_top - bh - 2.0 * h  # title baseline: a gap, then 1.4 h title letters
+    y = y_top - bh - TITLE_GAP_H * h  # title baseline: a gap, then the title letters
     w.text(
         "CABLE SCHEDULE (cablewright)",
         x0,
@@ -37,10 +77,13 @@ def schedule_table(
         kind="schedule",
         ref="title",
         align=TextEntityAlignment.BOTTOM_LEFT,
-        height=1.4 * h,
+        height=TITLE_HEIGHT_H * h,
     )
-    y -= 0.6 * h
-    header = ("circuit", "from", "to", "cable", "device", "length", "status")
+    return y
+
+
+def schedule_rows(outcomes: Sequence[CircuitOutcome]) -> list[tuple[str, ...]]:
+    """One row of :data:`HEADER` per circuit, ``"-"`` where there is no value."""
     rows = []
     for o in outcomes:
         s = o.sizing
@@ -61,58 +104,61 @@ def schedule_table(
                 for v in (o.circuit_id, o.from_tag, o.to_tag, cable, device, length, o.status)
             )
         )
-    widths = [
-        max(w.text_width(r[i]) for r in [header, *rows]) + 1.2 * h for i in range(len(header))
-    ]
+    return rows
+
+
+def _schedule_panel(
+    w: EntityWriter,
+    lines: Sequence[Sequence[str]],
+    widths: Sequence[float],
+    px: float,
+    y: float,
+    z: float,
+    row_h: float,
+) -> None:
+    """One panel: one MTEXT per column and two polylines for the rules.
+
+    A 2,000-row schedule is then a few hundred entities, not 14,000 TEXT and 2,000 LINE.
+    """
+    h = w.height
+    config = w.config
     table_w = sum(widths)
-    row_h = (1.8 if w.r12 else LINE_PITCH) * h
-    per_panel = max(1, config.schedule_rows_per_panel)
-    panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
-    for p, panel in enumerate(panels):
-        px = x0 + p * (table_w + 3.0 * h)
-        lines = [header, *panel]
-        bottom = y - len(lines) * row_h
-        if w.r12:
-            _schedule_cells_r12(w, lines, widths, px, y, z, row_h)
-            continue
-        # one MTEXT per column and two polylines for the rules: a 2,000-row schedule
-        # is a few hundred entities, not 14,000 TEXT and 2,000 LINE
-        cx = px
-        for c in range(len(header)):
-            column = "\\P".join(mtext_escape(row[c]) for row in lines)
-            entity = w.msp.add_mtext(
-                column,
-                dxfattribs={
-                    "layer": w.layers["schedule"],
-                    "style": config.text_style,
-                    "char_height": h,
-                    "attachment_point": 1,  # top left
-                    "insert": (cx + 0.6 * h, y - (row_h - h) / 2.0, z),
-                    "line_spacing_style": 2,  # exact: rows stay on the grid
-                    "line_spacing_factor": row_h / (LINE_PITCH * h),
-                    "width": 0.0,
-                },
-            )
-            w._tag(entity, "schedule", f"column {header[c]}")
+    bottom = y - len(lines) * row_h
+    cx = px
+    for c in range(len(HEADER)):
+        column = "\\P".join(mtext_escape(row[c]) for row in lines)
+        entity = w.msp.add_mtext(
+            column,
+            dxfattribs={
+                "layer": w.layers["schedule"],
+                "style": config.text_style,
+                "char_height": h,
+                "attachment_point": 1,  # top left
+                "insert": (cx + CELL_INSET_H * h, y - (row_h - h) / 2.0, z),
+                "line_spacing_style": 2,  # exact: rows stay on the grid
+                "line_spacing_factor": row_h / (LINE_PITCH * h),
+                "width": 0.0,
+            },
+        )
+        w._tag(entity, "schedule", f"column {HEADER[c]}")
+        cx += widths[c]
+    rules: list[tuple[float, float]] = []
+    for r in range(len(lines) + 1):
+        yy = y - r * row_h
+        ends = [(px, yy), (px + table_w, yy)]
+        rules += ends if r % 2 == 0 else ends[::-1]
+    cols: list[tuple[float, float]] = []
+    cx = px
+    for c in range(len(HEADER) + 1):
+        ends = [(cx, y), (cx, bottom)]
+        cols += ends if c % 2 == 0 else ends[::-1]
+        if c < len(HEADER):
             cx += widths[c]
-        rules: list[tuple[float, float]] = []
-        for r in range(len(lines) + 1):
-            yy = y - r * row_h
-            ends = [(px, yy), (px + table_w, yy)]
-            rules += ends if r % 2 == 0 else ends[::-1]
-        cols: list[tuple[float, float]] = []
-        cx = px
-        for c in range(len(header) + 1):
-            ends = [(cx, y), (cx, bottom)]
-            cols += ends if c % 2 == 0 else ends[::-1]
-            if c < len(header):
-                cx += widths[c]
-        for pts, ref in ((rules, "grid rows"), (cols, "grid columns")):
-            entity = w.msp.add_lwpolyline(
-                pts, dxfattribs={"layer": w.layers["schedule"], "elevation": z}
-            )
-            w._tag(entity, "schedule", ref)
-    return len(rows)
+    for pts, ref in ((rules, "grid rows"), (cols, "grid columns")):
+        entity = w.msp.add_lwpolyline(
+            pts, dxfattribs={"layer": w.layers["schedule"], "elevation": z}
+        )
+        w._tag(entity, "schedule", ref)
 
 
 def _schedule_cells_r12(
@@ -132,7 +178,7 @@ def _schedule_cells_r12(
         for c, value in enumerate(row):
             w.text(
                 value,
-                cx + 0.6 * h,
+                cx + CELL_INSET_H * h,
                 yc,
                 z,
                 role="schedule",

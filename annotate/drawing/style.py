@@ -13,9 +13,60 @@ CAUTIONS = (
     "wiring rules, the cable maker's data and the installation as built."
 )
 
-#: Usual drawing scale denominators (1:n), common practice in building and plant drawings.
+# -- spacing, in text heights h (our own choices unless a source is named) ----------
 
-LINE_PITCH = 5.0 / 3.0  # MTEXT line pitch / char height at spacing factor 1 (ezdxf, DXF ref.)
+#: MTEXT line pitch / char height at spacing factor 1 (ezdxf, DXF reference).
+LINE_PITCH = 5.0 / 3.0
+#: Line pitch of stacked TEXT lines on DXF R12 (no MTEXT there): the MTEXT pitch
+#: rounded to three places, so R12 notes look like the MTEXT ones.
+R12_LINE_PITCH_H = 1.667
+#: Margin added to a label's text width: 0.2 h clear at each end, so two labels
+#: placed end to end never touch.
+LABEL_MARGIN_H = 0.4
+#: Height of a one-line label box: cap height (1 h) plus the descender (0.2 h)
+#: plus 0.25 h clear above and below.
+LABEL_BOX_H = 1.7
+#: Extra height of a multi-line note box over its MTEXT content: 0.35 h clear
+#: above and below, so stacked notes keep a visible gap.
+NOTE_MARGIN_H = 0.7
+#: Left inset of left-aligned note lines in their box (half of :data:`LABEL_MARGIN_H`).
+NOTE_INSET_H = 0.2
+#: Top inset of a left-aligned MTEXT note in its box (half of :data:`NOTE_MARGIN_H`).
+NOTE_TOP_INSET_H = 0.35
+#: Grid cell of the placed-label index: about one label's length (a 20-30
+#: character label is 12-18 h wide), so an overlap test looks at a few cells.
+INDEX_CELL_H = 12.0
+#: A group tag further than this from its run gets a leader: beyond a line or
+#: so of clear space the reader no longer sees which run it belongs to.
+GROUP_LEADER_AFTER_H = 1.5
+#: Clear space between the drawing's extents (and every placed mark) and the
+#: cautions note and schedule table on their right.
+SCHEDULE_GAP_H = 10.0
+#: Characters per line of the wrapped cautions note (about the table's width).
+CAUTIONS_WRAP_CHARS = 60
+#: Gap between the cautions note and the schedule title's baseline.
+TITLE_GAP_H = 2.0
+#: Letter height of the schedule title (one step up the ISO 3098 series from
+#: 2.5 mm is 3.5 mm, 1.4 h; from memory).
+TITLE_HEIGHT_H = 1.4
+#: Gap between the title's baseline and the table's top rule.
+TITLE_TO_TABLE_H = 0.6
+#: Padding added to a schedule column's widest text (0.6 h each side).
+COLUMN_PADDING_H = 1.2
+#: Inset of a schedule cell's text from the column's left rule.
+CELL_INSET_H = 0.6
+#: Row pitch of the schedule on DXF R12 (TEXT per cell, middle aligned).
+R12_ROW_PITCH_H = 1.8
+#: Gap between two panels (columns of rows) of the schedule.
+PANEL_GAP_H = 3.0
+#: A block reference (equipment symbol) is a keep-clear box when its larger side is
+#: at most ``symbol_max_text_heights`` text heights; a box's side is twice its half size.
+BOX_SIDES_PER_HALF = 2.0
+
+# -- colours (AutoCAD Color Index) ------------------------------------------------
+
+#: Colour of the label of a failing circuit: ACI 1, red, the usual colour of a warning.
+FAIL_COLOR = 1
 
 
 @dataclass(frozen=True)

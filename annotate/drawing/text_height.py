@@ -2,15 +2,33 @@
 
 from __future__ import annotations
 
+import logging
 import math
 from collections.abc import Callable, Mapping, Sequence
 
 from ..model import CircuitOutcome
+from .inputs import AnnotationInput
 from .labels import label_text
-from .style import LINE_PITCH, AnnotateConfig
+from .style import LABEL_BOX_H, LABEL_MARGIN_H, LINE_PITCH, AnnotateConfig
 
-__all__ = ["USUAL_SCALES", "text_height_m_for_extents", "crowded_text_height_m", "mark_area_per_h2"]
+#: A typical device note or group tag, for the estimate of :func:`mark_area_per_h2`:
+#: three lines of 24 characters, a character 0.6 h wide (about the mean advance
+#: width of a sans-serif font; common practice).
+_NOTE_LINES = 3
+_NOTE_CHARS = 24
+_CHAR_WIDTH_H = 0.6
 
+__all__ = [
+    "USUAL_SCALES",
+    "text_height_m_for_extents",
+    "crowded_text_height_m",
+    "mark_area_per_h2",
+    "choose_text_height_m",
+]
+
+log = logging.getLogger(__name__)
+
+#: Usual drawing scale denominators (1:n), common practice in building and plant drawings.
 USUAL_SCALES = (1, 2, 5, 10, 20, 25, 50, 100, 200, 250, 500, 1000, 2000, 2500, 5000, 10000)
 
 
@@ -132,12 +150,72 @@ def mark_area_per_h2(
     loads = set()
     for o in outcomes:
         if o.status != "error" and o.sizing is not None and o.sizing.cable is not None:
-            area += (measure(label_text(o)) + 0.4) * 1.7
+            area += (measure(label_text(o)) + LABEL_MARGIN_H) * LABEL_BOX_H
             loads.add(o.to_tag)
-    block = (24 * 0.6 + 0.4) * (2 * LINE_PITCH + 1.7)
+    block = (_NOTE_CHARS * _CHAR_WIDTH_H + LABEL_MARGIN_H) * (
+        (_NOTE_LINES - 1) * LINE_PITCH + LABEL_BOX_H
+    )
     if config.device_notes:
         area += len(loads) * block
     if config.group_tags:
         area += sum(1 for c in per_segment.values() if len(set(c)) >= 2) * block
     return area
 
+
+
+def choose_text_height_m(
+    marks: AnnotationInput,
+    extents_m: tuple[float, float],
+    measure: Callable[[str], float],
+    config: AnnotateConfig,
+    source: str = "",
+) -> float:
+    """The text height of this drawing [m]: fixed, sheet-fitted, or lowered when crowded.
+
+    Parameters
+    ----------
+    marks : AnnotationInput
+        What will be written (for the crowding estimate).
+    extents_m : (float, float)
+        Width and height of the drawing's extents [m].
+    measure : callable
+        Advance width of a text at height 1 [-].
+    config : AnnotateConfig
+        ``text_height_m`` (fixed), else the sheet fit (:func:`text_height_m_for_extents`)
+        and, with ``crowd_fraction``, :func:`crowded_text_height_m`.
+    source : str
+        The drawing, named in the log.
+
+    Returns
+    -------
+    float
+        Text height [m].
+    """
+    if config.text_height_m is not None:
+        return float(config.text_height_m)
+    width_m, height_m = extents_m
+    h_m = text_height_m_for_extents(
+        width_m,
+        height_m,
+        paper_text_height_mm=config.paper_text_height_mm,
+        sheet_mm=config.sheet_mm,
+        min_m=config.min_text_height_m,
+        max_m=config.max_text_height_m,
+    )
+    if config.crowd_fraction is not None:
+        demand = mark_area_per_h2(marks.outcomes, marks.per_segment, measure, config)
+        crowded = crowded_text_height_m(
+            demand,
+            width_m,
+            height_m,
+            fraction=config.crowd_fraction,
+            paper_text_height_mm=config.paper_text_height_mm,
+            min_m=config.min_text_height_m,
+        )
+        if crowded < h_m:
+            log.info(
+                "%s: crowded drawing (%d circuits); text height %.3g m instead of %.3g m",
+                source, len(marks.outcomes), crowded, h_m,
+            )
+            h_m = crowded
+    return h_m
