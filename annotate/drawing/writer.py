@@ -164,8 +164,8 @@ def write_annotated_dxf(
     # everything placed so far widens the extents the schedule sits beside
     placed = index.bounds()
     if placed is not None:
-        ymax = max(ymax, placed[3])
-        xmax = max(xmax, placed[2])
+        _, _, placed_xmax, placed_ymax = placed
+        xmax, ymax = max(xmax, placed_xmax), max(ymax, placed_ymax)
     schedule_rows = 0
     if config.schedule:
         schedule_rows = schedule_table(w, marks.outcomes, xmax + SCHEDULE_GAP_H * h, ymax, 0.0)
