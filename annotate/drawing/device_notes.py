@@ -6,7 +6,7 @@ from collections import defaultdict
 from collections.abc import Mapping
 
 from .boxes import LabelIndex
-from .entities import EntityWriter
+from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .placement import place_near_point
 from .stretches import scaled
@@ -53,8 +53,8 @@ def _notes_at_equipment(
         bw, bh = w.block_box(lines)
         place = place_near_point(index, x, y, z, bw, bh)
         overlaps += place.overlaps
-        w.block(lines, place, role=role, kind=f"{kind}-note", ref=tag)
-        w.leader(place, z, role=role, kind=f"{kind}-leader", ref=tag)
+        w.block(lines, place, Mark(role, f"{kind}-note", tag))
+        w.leader(place, z, Mark(role, f"{kind}-leader", tag))
         placed += 1
     return placed, overlaps
 

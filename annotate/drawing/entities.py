@@ -5,7 +5,7 @@ from __future__ import annotations
 import logging
 import math
 from collections.abc import Sequence
-from typing import Any
+from typing import Any, NamedTuple
 
 from cablewright.extract.errors import DrawingReadError
 from ezdxf.enums import TextEntityAlignment
@@ -28,9 +28,27 @@ from .style import (
 )
 from .text import clean, dxf_escape, mtext_escape
 
-__all__ = ["EntityWriter"]
+__all__ = ["EntityWriter", "Mark"]
 
 log = logging.getLogger(__name__)
+
+
+class Mark(NamedTuple):
+    """What an entity we add is: its layer role, its kind and what it refers to.
+
+    Attributes
+    ----------
+    role : str
+        Layer role (``label``, ``group``, ``device``, ``schedule``, ``notes``).
+    kind : str
+        Kind of mark, written in our XDATA (``cable-label``, ``group-tag`` ...).
+    ref : str
+        What it refers to (circuit id, segment ids, equipment tag), in our XDATA.
+    """
+
+    role: str
+    kind: str
+    ref: str
 
 
 def our_layer(doc: Any, wanted: str, color: int, appid: str) -> str:
@@ -109,20 +127,17 @@ class EntityWriter:
     def text(
         self,
         content: str,
-        x: float,
-        y: float,
-        z: float,
+        at: Sequence[float],
+        mark: Mark,
         *,
-        role: str,
-        kind: str,
-        ref: str,
         rotation: float = 0.0,
         align: TextEntityAlignment = TextEntityAlignment.MIDDLE_CENTER,
         color: int | None = None,
         height: float | None = None,
     ) -> Any:
+        """One line of TEXT at ``at`` (x, y, z), aligned there by ``align``."""
         attribs: dict[str, Any] = {
-            "layer": self.layers[role],
+            "layer": self.layers[mark.role],
             "style": self.config.text_style,
             "rotation": rotation,
         }
@@ -131,17 +146,15 @@ class EntityWriter:
         entity = self.msp.add_text(
             dxf_escape(clean(content)), height=self.height if height is None else height, dxfattribs=attribs
         )
-        entity.set_placement((x, y, z), align=align)
-        return self._tag(entity, kind, ref)
+        entity.set_placement(tuple(at), align=align)
+        return self._tag(entity, mark.kind, mark.ref)
 
     def block(
         self,
         lines: Sequence[str],
         place: Placement,
+        mark: Mark,
         *,
-        role: str,
-        kind: str,
-        ref: str,
         color: int | None = None,
         left: bool = False,
     ) -> list[Any]:
@@ -151,7 +164,7 @@ class EntityWriter:
         """
         if not self.r12:
             attribs: dict[str, Any] = {
-                "layer": self.layers[role],
+                "layer": self.layers[mark.role],
                 "style": self.config.text_style,
                 "char_height": self.height,
                 "attachment_point": 1 if left else 5,  # top left / middle centre
@@ -170,7 +183,7 @@ class EntityWriter:
             if color is not None:
                 attribs["color"] = color
             content = "\\P".join(mtext_escape(line) for line in lines)
-            return [self._tag(self.msp.add_mtext(content, dxfattribs=attribs), kind, ref)]
+            return [self._tag(self.msp.add_mtext(content, dxfattribs=attribs), mark.kind, mark.ref)]
         a = math.radians(place.rotation_deg)
         vx, vy = -math.sin(a), math.cos(a)
         pitch = R12_LINE_PITCH_H * self.height
@@ -183,12 +196,8 @@ class EntityWriter:
             out.append(
                 self.text(
                     line,
-                    place.x + vx * d + ux * shift,
-                    place.y + vy * d + uy * shift,
-                    place.z,
-                    role=role,
-                    kind=kind,
-                    ref=ref,
+                    (place.x + vx * d + ux * shift, place.y + vy * d + uy * shift, place.z),
+                    mark,
                     rotation=place.rotation_deg,
                     color=color,
                     align=TextEntityAlignment.MIDDLE_LEFT
@@ -202,26 +211,23 @@ class EntityWriter:
         self,
         a: Sequence[float],
         b: Sequence[float],
+        mark: Mark,
         *,
-        role: str,
-        kind: str,
-        ref: str,
         color: int | None = None,
     ) -> Any:
-        attribs: dict[str, Any] = {"layer": self.layers[role]}
+        """A LINE from ``a`` to ``b``."""
+        attribs: dict[str, Any] = {"layer": self.layers[mark.role]}
         if color is not None:
             attribs["color"] = color
         entity = self.msp.add_line(tuple(a), tuple(b), dxfattribs=attribs)
-        return self._tag(entity, kind, ref)
+        return self._tag(entity, mark.kind, mark.ref)
 
     def leader(
         self,
         place: Placement,
         z: float,
+        mark: Mark,
         *,
-        role: str,
-        kind: str,
-        ref: str,
         color: int | None = None,
     ) -> None:
         """A straight leader from the anchor point to the nearest edge of the note."""
@@ -230,9 +236,7 @@ class EntityWriter:
         self.line(
             (place.anchor[0], place.anchor[1], z),
             (near.x, near.y, z),
-            role=role,
-            kind=kind,
-            ref=ref,
+            mark,
             color=color,
         )
 

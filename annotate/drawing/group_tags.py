@@ -10,7 +10,7 @@ from shapely.geometry import Point
 
 from ..model import CircuitOutcome
 from .boxes import LabelIndex
-from .entities import EntityWriter
+from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .placement import place_along
 from .stretches import rank_stretches, scaled, straight_stretches
@@ -227,8 +227,8 @@ def place_group_tags(
         bw, bh = w.block_box(lines)
         place = place_along(index, rank_stretches(stretches, bw), bw, bh)
         overlapping += place.overlaps
-        w.block(lines, place, role="group", kind="group-tag", ref=",".join(run))
+        w.block(lines, place, Mark("group", "group-tag", ",".join(run)))
         if place.polygon.distance(Point(place.anchor)) > GROUP_LEADER_AFTER_H * h:
-            w.leader(place, place.z, role="group", kind="group-leader", ref=run[0])
+            w.leader(place, place.z, Mark("group", "group-leader", run[0]))
         group_tags += 1
     return group_tags, overlapping

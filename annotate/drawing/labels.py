@@ -9,7 +9,7 @@ from typing import Any
 
 from ..model import CircuitOutcome
 from .boxes import LabelIndex
-from .entities import EntityWriter
+from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .placement import place_along
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
@@ -110,12 +110,8 @@ def place_cable_labels(
         overlapping += place.overlaps
         w.text(
             text,
-            place.x,
-            place.y,
-            place.z,
-            role="label",
-            kind="cable-label",
-            ref=o.circuit_id,
+            (place.x, place.y, place.z),
+            Mark("label", "cable-label", o.circuit_id),
             rotation=place.rotation_deg,
             color=FAIL_COLOR if o.status == "fail" else None,
         )

@@ -131,41 +131,11 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
     block_boxes: dict[str, Any] = {}
     fallback = []
     for e in doc.modelspace():
-        t = e.dxftype()
         try:
-            if t == "LINE":
-                scan.take(e.dxf.start[0], e.dxf.start[1])
-                scan.take(e.dxf.end[0], e.dxf.end[1])
-            elif t == "LWPOLYLINE":
-                for x, y in e.get_points("xy"):
-                    scan.take(x, y)
-            elif t in ("CIRCLE", "ARC"):
-                c, r = e.dxf.center, float(e.dxf.radius)
-                scan.take(c[0] - r, c[1] - r)
-                scan.take(c[0] + r, c[1] + r)
-            elif t == "TEXT":
-                box = _text_box(e, measure)
-                if box is not None:
-                    scan.texts.append(box)
-                    scan.take_box(box)
-            elif t == "MTEXT":
-                box = _mtext_box(e, measure)
-                if box is not None:
-                    scan.texts.append(box)
-                    scan.take_box(box)
-            elif t == "INSERT":
-                _scan_insert(doc, e, measure, scan, block_boxes)
-            elif t == "HATCH" and all(hasattr(p, "vertices") for p in e.paths):
-                for path in e.paths:
-                    for v in path.vertices:
-                        scan.take(v[0], v[1])
-            elif t == "POLYLINE":
-                for v in e.points():
-                    scan.take(v[0], v[1])
-            else:
+            if not _scan_entity(doc, e, measure, scan, block_boxes):
                 fallback.append(e)
         except (AttributeError, ValueError, ArithmeticError, ezdxf.DXFError) as exc:
-            log.debug("entity %s (%s) not measured: %s", e.dxf.get("handle", "?"), t, exc)
+            log.debug("entity %s (%s) not measured: %s", e.dxf.get("handle", "?"), e.dxftype(), exc)
     if fallback:
         try:
             box = ezbbox.extents(fallback, fast=True)
@@ -175,6 +145,78 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
         except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
             log.warning("could not measure %d entities of the drawing (%s)", len(fallback), exc)
     return scan
+
+
+def _take_line(e: Any, scan: DrawingScan) -> None:
+    scan.take(e.dxf.start[0], e.dxf.start[1])
+    scan.take(e.dxf.end[0], e.dxf.end[1])
+
+
+def _take_lwpolyline(e: Any, scan: DrawingScan) -> None:
+    for x, y in e.get_points("xy"):
+        scan.take(x, y)
+
+
+def _take_circle(e: Any, scan: DrawingScan) -> None:
+    c, r = e.dxf.center, float(e.dxf.radius)
+    scan.take(c[0] - r, c[1] - r)
+    scan.take(c[0] + r, c[1] + r)
+
+
+def _take_polyline(e: Any, scan: DrawingScan) -> None:
+    for v in e.points():
+        scan.take(v[0], v[1])
+
+
+def _take_hatch(e: Any, scan: DrawingScan) -> None:
+    for path in e.paths:
+        for v in path.vertices:
+            scan.take(v[0], v[1])
+
+
+#: Entity types measured from their own points (circles and arcs as their full circle).
+_TAKE_POINTS: dict[str, Callable[[Any, DrawingScan], None]] = {
+    "LINE": _take_line,
+    "LWPOLYLINE": _take_lwpolyline,
+    "CIRCLE": _take_circle,
+    "ARC": _take_circle,
+    "POLYLINE": _take_polyline,
+}
+
+#: Entity types that are text: their box is kept clear of our marks.
+_TEXT_BOXES: dict[str, Callable[[Any, Callable[[str], float]], Box | None]] = {
+    "TEXT": _text_box,
+    "MTEXT": _mtext_box,
+}
+
+
+def _scan_entity(
+    doc: Any,
+    e: Any,
+    measure: Callable[[str], float],
+    scan: DrawingScan,
+    block_boxes: dict[str, Any],
+) -> bool:
+    """Measure one entity into ``scan``; False when it needs the general fallback."""
+    t = e.dxftype()
+    take = _TAKE_POINTS.get(t)
+    if take is not None:
+        take(e, scan)
+        return True
+    box_of = _TEXT_BOXES.get(t)
+    if box_of is not None:
+        box = box_of(e, measure)
+        if box is not None:
+            scan.texts.append(box)
+            scan.take_box(box)
+        return True
+    if t == "INSERT":
+        _scan_insert(doc, e, measure, scan, block_boxes)
+        return True
+    if t == "HATCH" and all(hasattr(p, "vertices") for p in e.paths):
+        _take_hatch(e, scan)
+        return True
+    return False
 
 
 def _scan_insert(

@@ -34,7 +34,7 @@ from shapely.geometry import Polygon
 from .boxes import Box, LabelIndex, _box, _polygon
 from .stretches import Point2, Stretch
 
-__all__ = ["Placement", "readable_angle_deg", "place_along", "place_near_point"]
+__all__ = ["Placement", "SearchLimits", "readable_angle_deg", "place_along", "place_near_point"]
 
 
 @dataclass(frozen=True)
@@ -111,36 +111,18 @@ def _along_offsets(length: float, width: float, step: float, max_steps: int) -> 
     return offs
 
 
-def place_along(
-    index: LabelIndex,
-    stretches: Sequence[Stretch],
-    width: float,
-    height: float,
-    *,
-    gap: float | None = None,
-    level_step: float | None = None,
-    max_levels: int = 5,
-    max_stretches: int = 4,
-    along_steps: int = 3,
-    fallback_levels: int = 10,
-    max_candidates: int = 160,
-) -> Placement:
-    """Place a label along the best free spot of ``stretches`` and record it.
+@dataclass(frozen=True)
+class SearchLimits:
+    """How far :func:`place_along` searches for a free spot (our own choices).
 
-    Parameters
+    Attributes
     ----------
-    index : LabelIndex
-        Placed labels (updated) and obstacles.
-    stretches : sequence of Stretch
-        Candidate stretches, best first (see :func:`rank_stretches`).
-    width, height : float
-        Label box [drawing units].
-    gap : float, optional
-        Clear space between the route line and the label [drawing units];
-        default a quarter of ``height``.
-    level_step : float, optional
-        Sideways step from one level to the next [drawing units]; default
-        1.25 x ``height``.
+    gap_h : float
+        Clear space between the route line and the label, in label heights
+        (a quarter: the label reads as belonging to the line without touching it).
+    level_step_h : float
+        Sideways step from one level to the next, in label heights (1.25: a
+        quarter height clear between two labels stacked beside one route).
     max_levels : int
         Sideways levels tried per side in the normal passes.
     max_stretches : int
@@ -152,6 +134,39 @@ def place_along(
     max_candidates : int
         Spots tested in the normal passes before going to the fallback; on a
         crowded drawing this bounds the time per label.
+    """
+
+    gap_h: float = 0.25
+    level_step_h: float = 1.25
+    max_levels: int = 5
+    max_stretches: int = 4
+    along_steps: int = 3
+    fallback_levels: int = 10
+    max_candidates: int = 160
+
+
+DEFAULT_LIMITS = SearchLimits()
+
+
+def place_along(
+    index: LabelIndex,
+    stretches: Sequence[Stretch],
+    width: float,
+    height: float,
+    limits: SearchLimits = DEFAULT_LIMITS,
+) -> Placement:
+    """Place a label along the best free spot of ``stretches`` and record it.
+
+    Parameters
+    ----------
+    index : LabelIndex
+        Placed labels (updated) and obstacles.
+    stretches : sequence of Stretch
+        Candidate stretches, best first (see :func:`rank_stretches`).
+    width, height : float
+        Label box [drawing units].
+    limits : SearchLimits
+        Gap, level step and how many spots to try.
 
     Returns
     -------
@@ -164,12 +179,29 @@ def place_along(
     """
     if not stretches:
         raise ValueError("no stretch to place a label on")
-    gap = height * 0.25 if gap is None else gap
-    level_step = height * 1.25 if level_step is None else level_step
-    base = height / 2.0 + gap
-    tried = list(stretches[:max_stretches])
+    search = _Search(index, width, height, limits)
+    tried = list(stretches[: limits.max_stretches])
+    found = search.normal_passes(tried)
+    if found is not None:
+        return search.done(*found)
+    return search.fallback(tried[0])
 
-    def candidate(s: Stretch, t: float, off: float) -> tuple[Box, Placement]:
+
+class _Search:
+    """One label's search along stretches: the spots, the passes and the record."""
+
+    def __init__(self, index: LabelIndex, width: float, height: float, limits: SearchLimits):
+        self.index = index
+        self.width = width
+        self.height = height
+        self.limits = limits
+        gap = height * limits.gap_h
+        self.level_step = height * limits.level_step_h
+        self.base = height / 2.0 + gap
+
+    def candidate(self, s: Stretch, t: float, off: float) -> tuple[Box, Placement]:
+        """The spot ``t`` along the stretch from its middle, ``off`` beside it."""
+        width, height = self.width, self.height
         dx, dy = s.end[0] - s.start[0], s.end[1] - s.start[1]
         n = math.hypot(dx, dy)
         ux, uy = dx / n, dy / n
@@ -191,54 +223,63 @@ def place_along(
             (mx, my),  # type: ignore[arg-type]
         )
 
-    def offsets(levels: int) -> Iterable[float]:
+    def offsets(self, levels: int) -> Iterable[float]:
+        """Sideways offsets, level by level, alternating sides."""
         for level in range(levels):
-            d = base + level * level_step
+            d = self.base + level * self.level_step
             yield d
             yield -d
 
-    def done(box: Box, place: Placement, overlaps: bool = False) -> Placement:
-        index.add(box)
+    def done(self, box: Box, place: Placement, overlaps: bool = False) -> Placement:
+        """Record the box in the index; the placement with its polygon."""
+        self.index.add(box)
         return Placement(
             place.x,
             place.y,
             place.z,
             place.rotation_deg,
-            width,
-            height,
+            self.width,
+            self.height,
             _polygon(box),
             overlaps,
             place.anchor,
         )
 
-    crossing: tuple[Box, Placement] | None = None  # first free spot that crosses a route
-    budget = max(1, max_candidates)
-    for s in tried:
-        along = _along_offsets(s.length, width, max(width * 0.5, height), along_steps)
-        for off in offsets(max_levels):
-            for t in along:
-                budget -= 1
-                if budget < 0:
-                    break
-                box, place = candidate(s, t, off)
-                if not index.is_free(box):
-                    continue
-                if index.crosses_obstacle(box):
-                    if crossing is None:
-                        crossing = (box, place)
-                    continue
-                return done(box, place)
-    if crossing is not None:
-        return done(*crossing)
-    best = tried[0]
-    for off in offsets(max_levels + fallback_levels):
-        if abs(off) < base + max_levels * level_step - 1e-9:
-            continue  # tried above
-        box, place = candidate(best, 0.0, off)
-        if index.is_free(box):
-            return done(box, place)
-    # nothing free: beside the best stretch, flagged
-    return done(*candidate(best, 0.0, base), overlaps=True)
+    def normal_passes(self, tried: Sequence[Stretch]) -> tuple[Box, Placement] | None:
+        """The first free spot off route lines, else the first free one crossing a route."""
+        index, limits = self.index, self.limits
+        crossing: tuple[Box, Placement] | None = None  # first free spot that crosses a route
+        budget = max(1, limits.max_candidates)
+        for s in tried:
+            along = _along_offsets(
+                s.length, self.width, max(self.width * 0.5, self.height), limits.along_steps
+            )
+            for off in self.offsets(limits.max_levels):
+                for t in along:
+                    budget -= 1
+                    if budget < 0:
+                        break
+                    box, place = self.candidate(s, t, off)
+                    if not index.is_free(box):
+                        continue
+                    if index.crosses_obstacle(box):
+                        if crossing is None:
+                            crossing = (box, place)
+                        continue
+                    return box, place
+        return crossing
+
+    def fallback(self, best: Stretch) -> Placement:
+        """Further out beside the best stretch; if nothing is free, beside it, flagged."""
+        limits = self.limits
+        for off in self.offsets(limits.max_levels + limits.fallback_levels):
+            if abs(off) < self.base + limits.max_levels * self.level_step - 1e-9:
+                continue  # tried above
+            box, place = self.candidate(best, 0.0, off)
+            if self.index.is_free(box):
+                return self.done(box, place)
+        # nothing free: beside the best stretch, flagged
+        return self.done(*self.candidate(best, 0.0, self.base), overlaps=True)
 
 
 def place_near_point(

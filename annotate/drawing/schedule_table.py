@@ -8,7 +8,7 @@ from collections.abc import Sequence
 from ezdxf.enums import TextEntityAlignment
 
 from ..model import CircuitOutcome
-from .entities import EntityWriter
+from .entities import EntityWriter, Mark
 from .placement import Placement
 from .style import (
     CAUTIONS_WRAP_CHARS,
@@ -28,6 +28,9 @@ __all__ = ["HEADER", "schedule_table", "cautions_and_title", "schedule_rows"]
 
 #: Columns of the schedule table on the drawing (contract.md, "The annotated DXF").
 HEADER = ("circuit", "from", "to", "cable", "device", "length", "status")
+
+#: The rules of an R12 schedule (LINE entities).
+_GRID = Mark("schedule", "schedule", "grid")
 
 
 def schedule_table(
@@ -66,16 +69,12 @@ def cautions_and_title(w: EntityWriter, x0: float, y_top: float, z: float) -> fl
     caution_lines = ["CAUTION"] + textwrap.wrap(w.config.cautions, CAUTIONS_WRAP_CHARS)
     bw, bh = w.block_box(caution_lines)
     note = Placement(x0 + bw / 2.0, y_top - bh / 2.0, z, 0.0, bw, bh, None, False)  # type: ignore[arg-type]
-    w.block(caution_lines, note, role="notes", kind="cautions", ref="cautions", left=True)
+    w.block(caution_lines, note, Mark("notes", "cautions", "cautions"), left=True)
     y = y_top - bh - TITLE_GAP_H * h  # title baseline: a gap, then the title letters
     w.text(
         "CABLE SCHEDULE (cablewright)",
-        x0,
-        y,
-        z,
-        role="schedule",
-        kind="schedule",
-        ref="title",
+        (x0, y, z),
+        Mark("schedule", "schedule", "title"),
         align=TextEntityAlignment.BOTTOM_LEFT,
         height=TITLE_HEIGHT_H * h,
     )
@@ -178,12 +177,8 @@ def _schedule_cells_r12(
         for c, value in enumerate(row):
             w.text(
                 value,
-                cx + CELL_INSET_H * h,
-                yc,
-                z,
-                role="schedule",
-                kind="schedule",
-                ref=row[0] if r else "header",
+                (cx + CELL_INSET_H * h, yc, z),
+                Mark("schedule", "schedule", row[0] if r else "header"),
                 align=TextEntityAlignment.MIDDLE_LEFT,
             )
             cx += widths[c]
@@ -191,10 +186,10 @@ def _schedule_cells_r12(
     bottom = y - len(lines) * row_h
     for r in range(len(lines) + 1):
         yy = y - r * row_h
-        w.line((px, yy, z), (px + table_w, yy, z), role="schedule", kind="schedule", ref="grid")
+        w.line((px, yy, z), (px + table_w, yy, z), _GRID)
     cx = px
     for c in range(len(widths) + 1):
-        w.line((cx, y, z), (cx, bottom, z), role="schedule", kind="schedule", ref="grid")
+        w.line((cx, y, z), (cx, bottom, z), _GRID)
         if c < len(widths):
             cx += widths[c]
 
