@@ -315,3 +315,10 @@ def test_routes_drawn_backwards_still_give_upright_labels(tmp_path):
         rot = label.dxf.rotation
         # every stretch here is horizontal or vertical: upright text is 0 or 90 degrees
         assert min(abs(rot - 0.0), abs(rot - 90.0)) == pytest.approx(0.0, abs=1e-9)
+
+
+@pytest.mark.parametrize("units_per_m", [0.0, -1000.0, float("nan")])
+def test_input_needs_positive_drawing_units(units_per_m):
+    """Drawing units per metre must be > 0 (a NaN fails the comparison too)."""
+    with pytest.raises(ValueError, match="units_per_m"):
+        AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), units_per_m)

@@ -120,7 +120,8 @@ class EntityWriter:
         return max(w, width) + LABEL_MARGIN_H * h, hh + NOTE_MARGIN_H * h
 
     # writing ---------------------------------------------------------------
-    def _tag(self, entity: Any, kind: str, ref: str) -> Any:
+    def tag(self, entity: Any, kind: str, ref: str) -> Any:
+        """Mark an entity as ours: XDATA with its kind and what it refers to."""
         entity.set_xdata(self.config.appid, [(1000, kind), (1000, ref[:200])])
         return entity
 
@@ -147,7 +148,7 @@ class EntityWriter:
             dxf_escape(clean(content)), height=self.height if height is None else height, dxfattribs=attribs
         )
         entity.set_placement(tuple(at), align=align)
-        return self._tag(entity, mark.kind, mark.ref)
+        return self.tag(entity, mark.kind, mark.ref)
 
     def block(
         self,
@@ -183,7 +184,7 @@ class EntityWriter:
             if color is not None:
                 attribs["color"] = color
             content = "\\P".join(mtext_escape(line) for line in lines)
-            return [self._tag(self.msp.add_mtext(content, dxfattribs=attribs), mark.kind, mark.ref)]
+            return [self.tag(self.msp.add_mtext(content, dxfattribs=attribs), mark.kind, mark.ref)]
         a = math.radians(place.rotation_deg)
         vx, vy = -math.sin(a), math.cos(a)
         pitch = R12_LINE_PITCH_H * self.height
@@ -220,7 +221,7 @@ class EntityWriter:
         if color is not None:
             attribs["color"] = color
         entity = self.msp.add_line(tuple(a), tuple(b), dxfattribs=attribs)
-        return self._tag(entity, mark.kind, mark.ref)
+        return self.tag(entity, mark.kind, mark.ref)
 
     def leader(
         self,

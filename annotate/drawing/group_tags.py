@@ -23,7 +23,6 @@ __all__ = ["group_runs", "group_tag_lines", "segment_cables", "place_group_tags"
 def group_runs(
     segments: Mapping[str, Any],
     per_segment: Mapping[str, Sequence[str]],
-    k: float = 1.0,
     *,
     min_circuits: int = 2,
 ) -> list[tuple[str, ...]]:
@@ -43,8 +42,6 @@ def group_runs(
         Segment id -> RouteSegment (``points_m`` [m]).
     per_segment : mapping
         Segment id -> circuit ids routed through it.
-    k : float
-        Unused scale, kept for symmetry with the writer (drawing units per m).
     min_circuits : int
         Segments with fewer circuits are not tagged.
 
@@ -65,7 +62,6 @@ def group_runs(
     ...                   "S4": ("A", "B")})
     [('S1', 'S2'), ('S3',), ('S4',)]
     """
-    del k
     shared = [
         sid
         for sid, cids in per_segment.items()
@@ -197,7 +193,7 @@ def place_group_tags(
     h = w.height
     group_tags = overlapping = 0
     cables = segment_cables(marks.outcomes, per_segment)
-    for run in group_runs(segments, per_segment, k, min_circuits=2):
+    for run in group_runs(segments, per_segment, min_circuits=2):
         by_count: dict[tuple[int, int], list[str]] = defaultdict(list)
         for seg_id in run:
             n_circuits = len(set(per_segment[seg_id]))

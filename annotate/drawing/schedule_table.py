@@ -139,7 +139,7 @@ def _schedule_panel(
                 "width": 0.0,
             },
         )
-        w._tag(entity, "schedule", f"column {HEADER[c]}")
+        w.tag(entity, "schedule", f"column {HEADER[c]}")
         cx += widths[c]
     rules: list[tuple[float, float]] = []
     for r in range(len(lines) + 1):
@@ -157,7 +157,7 @@ def _schedule_panel(
         entity = w.msp.add_lwpolyline(
             pts, dxfattribs={"layer": w.layers["schedule"], "elevation": z}
         )
-        w._tag(entity, "schedule", ref)
+        w.tag(entity, "schedule", ref)
 
 
 def _schedule_cells_r12(
