@@ -3,12 +3,14 @@
 What is already on the drawing (:mod:`.obstacles`); what we add - cable labels
 (:mod:`.labels`), group tags (:mod:`.group_tags`), device and error notes
 (:mod:`.device_notes`), the schedule table with the cautions note and title
-(:mod:`.schedule_table`); where it goes (:mod:`.placement`, :mod:`.boxes`); the
+(:mod:`.schedule_table`); where it goes (:mod:`.stretches`, :mod:`.placement`,
+:mod:`.boxes`); the
 style (:mod:`.style`, :mod:`.text_height`); the text as DXF stores it (:mod:`.text`);
 the removal of an earlier run's marks (:mod:`.old_marks`); the pen that adds our
-entities (:mod:`.entities`); and the one writer that orchestrates (:mod:`.writer`).
+entities (:mod:`.entities`); and the one writer that orchestrates (:mod:`.writer`),
+fed one :class:`AnnotationInput` (:mod:`.inputs`).
 
-Write the annotated DXF: cable labels, group tags, device notes, schedule and cautions.
+It writes the annotated DXF: cable labels, group tags, device notes, schedule and cautions.
 
 The input drawing is read with ezdxf and never written to; everything we add goes
 on layers of our own (see :class:`AnnotateConfig`) and carries extended data

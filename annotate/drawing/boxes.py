@@ -210,7 +210,7 @@ class LabelIndex:
                 yield (i, j)
 
     def is_free(self, box: Box) -> bool:
-        """True when ``box`` (see :func:`_box`) shares area with no placed or fixed box."""
+        """True when ``box`` (a :class:`Box`) shares area with no placed or fixed box."""
         cells = list(self._cells(box))
         for grid, boxes in ((self._grid, self._boxes), (self._fixed_grid, self._fixed)):
             if not grid:
