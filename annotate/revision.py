@@ -1,6 +1,6 @@
 """Revision and fill marks for the annotated drawing: what to mark, where, and the shape.
 
-Pure geometry, no DXF: the writer (annotate/dxf_writer.py) is to place one
+Pure geometry, no DXF: the writer (annotate/drawing/) is to place one
 mark beside the label of every circuit that is new or changed since the run
 it was compared with, on a layer of its own.  The mark is ours: a diamond
 (a square on its corner) holding the revision number, beside the label's end.

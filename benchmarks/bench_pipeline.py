@@ -70,7 +70,7 @@ class _Clock:
 def _child_stages(drawing: Path, circuits: Path) -> dict:
     """Floor and every stage, timed one by one in this process."""
     import ezdxf
-    from cablewright.annotate.dxf_writer import write_annotated_dxf
+    from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.schedule_files import (
@@ -158,8 +158,9 @@ def _child_stages(drawing: Path, circuits: Path) -> dict:
     dxf_out = out / "annotated.dxf"
     config = _annotate_config(settings)
     with clock("out_dxf"):
-        summary = write_annotated_dxf(drawing, dxf_out, job.outcomes, measurement.segments,
-                                      job.per_segment, measurement.equipment, units_per_m, config,
+        marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
+                                measurement.equipment, units_per_m)
+        summary = write_annotated_dxf(drawing, dxf_out, marks, config,
                                       document=measurement.source_document)
     info.update(labels=summary.labels, group_tags=summary.group_tags,
                 overlapping=summary.overlapping, text_height=summary.text_height)

@@ -243,7 +243,7 @@ def output_session(out_dir: str | os.PathLike[str],
 def _annotate_config(settings: Settings):
     from dataclasses import fields, replace
 
-    from cablewright.annotate.dxf_writer import AnnotateConfig
+    from cablewright.annotate.drawing import AnnotateConfig
     from cablewright.extract.errors import ConfigError
 
     base = AnnotateConfig()
@@ -299,7 +299,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
 def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, extras,
                changes=None, previous_name: str = "") -> dict[str, str]:
     """Every output file into ``stage``; returns key -> file name, in writing order."""
-    from cablewright.annotate.dxf_writer import write_annotated_dxf
+    from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
@@ -337,10 +337,9 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     _record_units(document, measurement)
     # our marks are added to the document in memory and it is saved under the
     # output name only; the preview is drawn from the same annotated document
-    summary = write_annotated_dxf(dxf_input, stage / names["dxf"], job.outcomes,
-                                  measurement.segments, job.per_segment,
-                                  measurement.equipment, units_per_m, config,
-                                  document=document)
+    marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
+                            measurement.equipment, units_per_m)
+    summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document)
     write_schedule_csv(stage / names["csv"], job.outcomes)
     write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
     write_schedule_json(stage / names["json"], job.outcomes, extras)

@@ -12,7 +12,7 @@ from __future__ import annotations
 import dataclasses
 
 import ezdxf
-from cablewright.annotate.dxf_writer import AnnotateConfig, write_annotated_dxf
+from cablewright.annotate.drawing import AnnotateConfig, AnnotationInput, write_annotated_dxf
 from ezdxf import bbox, disassemble
 from shapely.geometry import Polygon
 from test_annotate_fixtures import equipment, make_drawing, outcomes, segments
@@ -44,10 +44,10 @@ def _label_boxes(path):
 def test_crowded_labels_get_smaller_lettering_and_fit(tmp_path):
     src = make_drawing(tmp_path / "in.dxf")
     outs, per_segment = _crowd()
-    args = (outs, segments(), per_segment, equipment(), 1000.0)
-    sheet = write_annotated_dxf(src, tmp_path / "sheet.dxf", *args,
+    marks = AnnotationInput(outs, segments(), per_segment, equipment(), 1000.0)
+    sheet = write_annotated_dxf(src, tmp_path / "sheet.dxf", marks,
                                 config=AnnotateConfig(crowd_fraction=None))
-    fitted = write_annotated_dxf(src, tmp_path / "fitted.dxf", *args)
+    fitted = write_annotated_dxf(src, tmp_path / "fitted.dxf", marks)
     assert fitted.text_height < sheet.text_height
     assert fitted.overlapping <= sheet.overlapping
     # the labels cover at most the configured share (25 %) of the drawing's extents

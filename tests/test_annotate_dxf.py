@@ -14,11 +14,8 @@ from pathlib import Path
 
 import ezdxf
 import pytest
-from cablewright.annotate.dxf_writer import (
-    AnnotateConfig,
-    text_height_m_for_extents,
-    write_annotated_dxf,
-)
+from cablewright.annotate.drawing import AnnotateConfig, AnnotationInput, write_annotated_dxf
+from cablewright.annotate.drawing.text_height import text_height_m_for_extents
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.model import CircuitRoute, RouteSegment
@@ -47,11 +44,7 @@ def _annotate(tmp_path: Path, **kw):
     summary = write_annotated_dxf(
         src,
         out_dir / "annotated.dxf",
-        outcomes(),
-        segments(),
-        PER_SEGMENT,
-        equipment(),
-        1000.0,
+        AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0),
         **kw,
     )
     return src, out_dir / "annotated.dxf", summary
@@ -151,7 +144,7 @@ def test_second_run_replaces_earlier_marks(tmp_path):
     _, out, first = _annotate(tmp_path)
     again = tmp_path / "out" / "again.dxf"
     second = write_annotated_dxf(
-        out, again, outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0
+        out, again, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
     )
     d1, d2 = ezdxf.readfile(out), ezdxf.readfile(again)
     assert len(_labels(d2)) == len(_labels(d1)) == 2
@@ -166,11 +159,11 @@ def test_input_bytes_unchanged_and_input_never_overwritten(tmp_path):
     src = make_drawing(tmp_path / "in.dxf")
     digest = hashlib.sha256(src.read_bytes()).hexdigest()
     write_annotated_dxf(
-        src, tmp_path / "o.dxf", outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0
+        src, tmp_path / "o.dxf", AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
     )
     assert hashlib.sha256(src.read_bytes()).hexdigest() == digest
     with pytest.raises(DrawingReadError, match="overwrite the input"):
-        write_annotated_dxf(src, src, outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
+        write_annotated_dxf(src, src, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0))
     assert hashlib.sha256(src.read_bytes()).hexdigest() == digest
 
 
@@ -186,7 +179,7 @@ def test_failure_while_saving_leaves_no_file(tmp_path, monkeypatch):
     monkeypatch.setattr(ezdxf.document.Drawing, "saveas", broken_saveas)
     with pytest.raises(OSError, match="disk full"):
         write_annotated_dxf(
-            src, out_dir / "annotated.dxf", outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0
+            src, out_dir / "annotated.dxf", AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
         )
     assert list(out_dir.iterdir()) == []
 
@@ -206,11 +199,11 @@ def test_user_layer_with_our_name_is_left_alone(tmp_path):
     doc.saveas(src)
     out = tmp_path / "o.dxf"
     summary = write_annotated_dxf(
-        src, out, outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0
+        src, out, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
     )
     assert summary.layers["label"] == "CW-CABLE-LABEL-2"
     again = tmp_path / "o2.dxf"
-    write_annotated_dxf(out, again, outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
+    write_annotated_dxf(out, again, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0))
     texts = [
         e.dxf.text
         for e in ezdxf.readfile(again).modelspace().query("TEXT")
@@ -232,7 +225,7 @@ def test_r12_drawing_in_metres(tmp_path):
     src = tmp_path / "r12.dxf"
     doc.saveas(src)
     out = tmp_path / "r12-out.dxf"
-    summary = write_annotated_dxf(src, out, outcomes(), segments(), PER_SEGMENT, equipment(), 1.0)
+    summary = write_annotated_dxf(src, out, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1.0))
     back = ezdxf.readfile(out)
     assert back.dxfversion == "AC1009"
     assert not back.audit().has_errors
@@ -278,7 +271,7 @@ def test_crowded_trays_labels_never_overlap(tmp_path):
     doc.saveas(src)
     segs, per_seg, outs = _crowded_case()
     out = tmp_path / "c-out.dxf"
-    summary = write_annotated_dxf(src, out, outs, segs, per_seg, {}, 1.0)
+    summary = write_annotated_dxf(src, out, AnnotationInput(outs, segs, per_seg, {}, 1.0))
     assert summary.labels == len(outs) == 240
     assert summary.overlapping == 0
     back = ezdxf.readfile(out)
@@ -317,7 +310,7 @@ def test_routes_drawn_backwards_still_give_upright_labels(tmp_path):
         for sid, s in segments().items()
     }
     out = tmp_path / "o.dxf"
-    write_annotated_dxf(src, out, outcomes(), segs, PER_SEGMENT, equipment(), 1000.0)
+    write_annotated_dxf(src, out, AnnotationInput(outcomes(), segs, PER_SEGMENT, equipment(), 1000.0))
     for label in _labels(ezdxf.readfile(out)):
         rot = label.dxf.rotation
         # every stretch here is horizontal or vertical: upright text is 0 or 90 degrees
@@ -332,9 +325,16 @@ def test_device_note_says_when_ze_was_assumed(tmp_path):
     outs[1] = replace(outs[1], sizing=replace(outs[1].sizing, ze_assumed=True))
     src = make_drawing(tmp_path / "in.dxf")
     out = tmp_path / "annotated.dxf"
-    write_annotated_dxf(src, out, outs, segments(), PER_SEGMENT, equipment(), 1000.0)
+    write_annotated_dxf(src, out, AnnotationInput(outs, segments(), PER_SEGMENT, equipment(), 1000.0))
     texts = [e.dxf.text if e.dxftype() == "TEXT" else e.text
              for e in ezdxf.readfile(out).modelspace().query("TEXT MTEXT")
              if e.dxf.layer == "CW-DEVICE-NOTE"]
     assert any("P-102: 125 A, Ze assumed" in t for t in texts), texts
     assert not any("P-101" in t and "Ze assumed" in t for t in texts)
+
+
+@pytest.mark.parametrize("units_per_m", [0.0, -1000.0, float("nan")])
+def test_input_needs_positive_drawing_units(units_per_m):
+    """Drawing units per metre must be > 0 (a NaN fails the comparison too)."""
+    with pytest.raises(ValueError, match="units_per_m"):
+        AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), units_per_m)

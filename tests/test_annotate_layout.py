@@ -6,18 +6,19 @@ import math
 import random
 
 import pytest
-from cablewright.annotate.layout import (
+from cablewright.annotate.drawing.boxes import (
     LabelIndex,
-    Stretch,
     _box,
     boxes_overlap,
     label_polygon,
+    oriented_box,
+)
+from cablewright.annotate.drawing.placement import (
     place_along,
     place_near_point,
-    rank_stretches,
     readable_angle_deg,
-    straight_stretches,
 )
+from cablewright.annotate.drawing.stretches import Stretch, rank_stretches, straight_stretches
 from shapely.geometry import LineString
 
 
@@ -112,3 +113,15 @@ def test_note_near_point_does_not_cover_it():
     for n in notes:
         assert not n.polygon.contains(Point(0, 0))
         assert not n.overlaps
+
+
+def test_box_bounds_are_shapely_bounds():
+    """A Box's axis-aligned bounds equal shapely's bounds of the same rotated rectangle."""
+    rnd = random.Random(11)
+    for _ in range(500):
+        cx, cy = rnd.uniform(-50, 50), rnd.uniform(-50, 50)
+        w, h, rot = rnd.uniform(0.1, 20), rnd.uniform(0.1, 5), rnd.uniform(-180, 180)
+        box = oriented_box(cx, cy, w, h, rot)
+        ref = label_polygon(cx, cy, w, h, rot).bounds  # shapely (xmin, ymin, xmax, ymax)
+        assert (box.xmin, box.ymin, box.xmax, box.ymax) == pytest.approx(ref, abs=1e-9)
+        assert (box.cx, box.cy, 2 * box.hw, 2 * box.hh) == pytest.approx((cx, cy, w, h))

@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import ezdxf
 import networkx as nx
-from cablewright.annotate.dxf_writer import group_runs, write_annotated_dxf
+from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
+from cablewright.annotate.drawing.group_tags import group_runs
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.extract.model import CircuitRoute, RouteSegment
 from cablewright.sizing.model import CableSelection, SizingResult
@@ -44,7 +45,7 @@ def test_marks_avoid_drawing_text_and_symbols(tmp_path):
     src = _drawing_with_text_on_the_tray(tmp_path / "in.dxf")
     out = tmp_path / "out.dxf"
     summary = write_annotated_dxf(
-        src, out, outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0
+        src, out, AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
     )
     assert summary.labels == 2 and summary.overlapping == 0
     doc = ezdxf.readfile(out)
@@ -91,7 +92,7 @@ def test_text_content_with_percent_codes_reads_back_literally(tmp_path):
         for o in outcomes()
     ]
     out = tmp_path / "out.dxf"
-    write_annotated_dxf(src, out, odd, segments(), PER_SEGMENT, equipment(), 1000.0)
+    write_annotated_dxf(src, out, AnnotationInput(odd, segments(), PER_SEGMENT, equipment(), 1000.0))
     doc = ezdxf.readfile(out)
     labels = [
         e.plain_text() for e in doc.modelspace().query("TEXT") if e.dxf.layer == "CW-CABLE-LABEL"
@@ -177,7 +178,7 @@ def test_every_shared_segment_is_named_on_a_group_tag(tmp_path):
                 SizingResult(cid, "ok", device_rating_a=63, cable=cable, method="E"),
             )
         )
-    summary = write_annotated_dxf(src, tmp_path / "o.dxf", outs, segs, per_seg, {}, 1.0)
+    summary = write_annotated_dxf(src, tmp_path / "o.dxf", AnnotationInput(outs, segs, per_seg, {}, 1.0))
     assert summary.group_tags == 1  # S1-S4 are one run (see the test above)
     tags = [
         e.plain_text()

@@ -13,7 +13,7 @@ import hashlib
 from collections import Counter
 
 import ezdxf
-from cablewright.annotate.dxf_writer import write_annotated_dxf
+from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
 from cablewright.annotate.preview import render_preview_png
 from cablewright.extract.dxf_reader import read_dxf
 from cablewright.extract.model import DrawingConfig
@@ -40,10 +40,10 @@ def test_read_dxf_keeps_the_parsed_document(tmp_path):
 def test_annotating_the_kept_document_equals_parsing_again(tmp_path):
     src = make_drawing(tmp_path / "in.dxf")
     digest = hashlib.sha256(src.read_bytes()).hexdigest()
-    args = (outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
-    again = write_annotated_dxf(src, tmp_path / "again.dxf", *args)
+    marks = AnnotationInput(outcomes(), segments(), PER_SEGMENT, equipment(), 1000.0)
+    again = write_annotated_dxf(src, tmp_path / "again.dxf", marks)
     doc = ezdxf.readfile(src)
-    kept = write_annotated_dxf(src, tmp_path / "kept.dxf", *args, document=doc)
+    kept = write_annotated_dxf(src, tmp_path / "kept.dxf", marks, document=doc)
     assert _kinds(tmp_path / "kept.dxf") == _kinds(tmp_path / "again.dxf")
     assert (kept.labels, kept.group_tags, kept.device_notes) == (
         again.labels, again.group_tags, again.device_notes,

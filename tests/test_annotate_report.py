@@ -11,7 +11,7 @@ import re
 from dataclasses import replace
 from html.parser import HTMLParser
 
-from cablewright.annotate.dxf_writer import CAUTIONS
+from cablewright.annotate.drawing import CAUTIONS
 from cablewright.annotate.preview import render_preview_png
 from cablewright.annotate.report import write_report_html
 from test_annotate_fixtures import make_drawing, outcomes

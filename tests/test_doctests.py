@@ -10,7 +10,13 @@ import pytest
 
 import cablewright
 
-PACKAGES = ["cablewright.extract", "cablewright.sizing", "cablewright.annotate", "cablewright"]
+PACKAGES = [
+    "cablewright.extract",
+    "cablewright.sizing",
+    "cablewright.annotate",
+    "cablewright.annotate.drawing",
+    "cablewright",
+]
 
 
 def _modules():

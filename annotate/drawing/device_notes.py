@@ -1,0 +1,75 @@
+"""Device notes at each load (``"P-101: 125 A"``) and error notes for circuits not sized."""
+
+from __future__ import annotations
+
+from collections import defaultdict
+from collections.abc import Mapping
+
+from .boxes import LabelIndex
+from .entities import EntityWriter, Mark
+from .inputs import AnnotationInput
+from .placement import place_near_point
+from .stretches import scaled
+from .text import rating_text
+
+__all__ = ["equipment_notes", "place_equipment_notes"]
+
+
+def equipment_notes(
+    marks: AnnotationInput,
+) -> tuple[dict[str, list[str]], dict[str, list[str]]]:
+    """Note lines per equipment tag: (device ratings per load, errors per load or source).
+
+    An error note goes to the load when it is on the drawing, else to the source.
+    """
+    notes_by_load: dict[str, list[str]] = defaultdict(list)
+    errors_by_tag: dict[str, list[str]] = defaultdict(list)
+    for o in marks.outcomes:
+        s = o.sizing
+        if o.status != "error" and s is not None and s.device_rating_a is not None:
+            assumed = ", Ze assumed" if getattr(s, "ze_assumed", False) else ""  # no Ze nor fault level given
+            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {rating_text(s.device_rating_a)} A{assumed}")
+        elif o.status == "error":
+            tag = o.to_tag if o.to_tag in marks.equipment else o.from_tag
+            errors_by_tag[tag].append(f"{o.circuit_id}: NOT SIZED, see report")
+    return notes_by_load, errors_by_tag
+
+
+def _notes_at_equipment(
+    w: EntityWriter,
+    index: LabelIndex,
+    marks: AnnotationInput,
+    by_tag: Mapping[str, list[str]],
+    role: str,
+) -> tuple[int, int]:
+    """Place one note with a leader at each equipment; (notes placed, overlaps)."""
+    kind = "device" if role == "device" else "error"
+    k = float(marks.units_per_m)
+    placed = overlaps = 0
+    for tag, lines in by_tag.items():
+        eq = marks.equipment.get(tag)
+        if eq is None:
+            continue
+        x, y, z = scaled([eq.position_m], k)[0]
+        bw, bh = w.block_box(lines)
+        place = place_near_point(index, x, y, z, bw, bh)
+        overlaps += place.overlaps
+        w.block(lines, place, Mark(role, f"{kind}-note", tag))
+        w.leader(place, z, Mark(role, f"{kind}-leader", tag))
+        placed += 1
+    return placed, overlaps
+
+
+def place_equipment_notes(
+    w: EntityWriter, index: LabelIndex, marks: AnnotationInput
+) -> tuple[int, int, int]:
+    """Device notes, then error notes, as the config asks; (device, error, overlapping)."""
+    notes_by_load, errors_by_tag = equipment_notes(marks)
+    device_notes = error_notes = overlapping = 0
+    if w.config.device_notes:
+        device_notes, extra = _notes_at_equipment(w, index, marks, notes_by_load, "device")
+        overlapping += extra
+    if w.config.error_notes:
+        error_notes, extra = _notes_at_equipment(w, index, marks, errors_by_tag, "notes")
+        overlapping += extra
+    return device_notes, error_notes, overlapping
