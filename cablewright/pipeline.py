@@ -52,37 +52,8 @@ class JobResult:
 
 
 def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
-    """The extract stage's config from the ``[drawing]`` and ``[routes]`` sections."""
-    from cablewright.extract.errors import ConfigError
-
-    base = DrawingConfig()
-    values = dict(settings.drawing)
-    layers = dict(base.route_layers)
-    for name, kind in dict(values.pop("route_layers", {})).items():
-        layers[name.upper()] = _layer_kind(name, kind, settings.source)
-    patterns = {p: _layer_kind(p, k, settings.source) for p, k in dict(values.pop("layer_patterns", {})).items()}
-    known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor"}
-    for key in values:
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [drawing]; known: {', '.join(sorted(known))}")
-    route_values = dict(settings.routes)
-    for key in route_values:
-        if key not in ("slack_fraction", "end_allowance_m"):
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [routes]; known: slack_fraction, end_allowance_m")
-    return replace(base, route_layers=layers, extra_layer_patterns=patterns, recover=recover,
-                   **values, **route_values)
-
-
-def _layer_kind(name: str, kind, source: str) -> tuple[str, str]:
-    from cablewright.extract.errors import ConfigError
-    from cablewright.extract.model import CONTAINMENTS
-
-    if not (isinstance(kind, (list, tuple)) and len(kind) == 2 and kind[0] in CONTAINMENTS):
-        raise ConfigError(
-            f"{source}: route layer {name!r} must be [containment, method] with containment one of "
-            f"{', '.join(CONTAINMENTS)}"
-        )
-    return str(kind[0]), str(kind[1]).upper()
+    """The extract stage's config (``[drawing]`` and ``[routes]``, validated at start-up)."""
+    return replace(settings.drawing, recover=recover)
 
 
 def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
@@ -95,22 +66,8 @@ def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: 
 
 
 def ifc_config(settings: Settings):
-    """The IFC reader's config from the ``[ifc]`` section (lists become tuples)."""
-    from dataclasses import fields
-
-    from cablewright.extract.errors import ConfigError
-    from cablewright.extract.ifc_reader import IfcConfig
-
-    known = {f.name: f for f in fields(IfcConfig)}
-    values = {}
-    for key, value in settings.ifc.items():
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [ifc]; known: {', '.join(sorted(known))}")
-        values[key] = tuple(value) if isinstance(value, list) else value
-    try:
-        return IfcConfig(**values)
-    except (TypeError, ValueError) as exc:
-        raise ConfigError(f"{settings.source}: [ifc] {exc}") from exc
+    """The IFC reader's config (``[ifc]``, validated at start-up)."""
+    return settings.ifc
 
 
 def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None = None

@@ -36,6 +36,9 @@ class SizingConfig:
     ----------
     device_kind : str
         ``breaker`` or ``fuse`` (gG).
+    standard : str
+        Rule set: ``iec`` (IEC 60364, the only one written so far); ``nec`` is
+        refused at start-up as not available yet.
     device_margin : float
         In >= margin x Ib (1.25, common practice).
     standard_ratings_a : tuple of float
@@ -95,9 +98,16 @@ class SizingConfig:
     disconnection_voltage_factor : float
         c in Zs Ia <= c U0: 1.0 as IEC 60364-4-41:2005 411.4.4 is written.
     disconnection_upsize : bool
-        False: a circuit that does not disconnect in time fails with advice;
-        True: the cross-section is raised instead (``governed_by``
-        ``disconnection``).
+        True (default): a circuit that does not disconnect in time gets a
+        larger cross-section (``governed_by`` ``disconnection``), up to
+        ``disconnection_upsize_max_steps`` standard sizes; False: it fails with
+        advice at once.
+    disconnection_upsize_max_steps : int
+        Most standard sizes the cross-section is raised for disconnection
+        above the size the other checks need (3, common practice: beyond
+        that a residual-current device, IEC 60364-4-41:2005 411.4.5, is the
+        usual remedy); past it the circuit keeps the smaller size and fails
+        with that advice.
     motor_start_dip_pct : float
         Limit of the voltage dip at a motor's terminals while starting [%];
         15 % (common practice: 10 % to 15 %).
@@ -111,6 +121,7 @@ class SizingConfig:
     """
 
     device_kind: str = "breaker"
+    standard: str = "iec"
     device_margin: float = DEVICE_MARGIN
     standard_ratings_a: tuple[float, ...] = STANDARD_RATINGS_A
     voltage_3ph_v: float = 400.0
@@ -135,7 +146,8 @@ class SizingConfig:
     breaker_curve: str = "C"
     magnetic_a: float | None = None
     disconnection_voltage_factor: float = 1.0
-    disconnection_upsize: bool = False
+    disconnection_upsize: bool = True
+    disconnection_upsize_max_steps: int = 3
     motor_start_dip_pct: float = 15.0
     default_starter: str = "dol"
     starters: dict[str, tuple[float, float]] = field(default_factory=_starters)

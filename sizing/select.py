@@ -325,6 +325,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     prep = PreparedChecks(spec, config, ib, device, voltage, temp)
     short_circuit, motor, disconnection = prep.short_circuit, prep.motor_start, prep.disconnection
     disconnection_upsize = prep.disconnection_upsize
+    max_steps = int(getattr(config, "disconnection_upsize_max_steps", 3))
 
     def first_failing(csa: float, parallel: int) -> str | None:
         # the upsize checks in order: voltage_drop, short_circuit, motor_start, disconnection.
@@ -335,9 +336,19 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             return "short_circuit"
         if not motor.passes(csa, parallel):
             return "motor_start"
-        if disconnection_upsize and not disconnection.passes(csa, parallel):
-            return "disconnection"
         return None
+
+    def disconnection_index(index: int, parallel: int) -> int:
+        # Earth-fault disconnection (IEC 60364-4-41:2005 411.4.4): raise the size by at
+        # most max_steps standard sizes above the one the other checks need; past that
+        # the smaller size is kept and the check fails with the advice of an RCD.
+        if not disconnection_upsize or disconnection.passes(allowed[index], parallel):
+            return index
+        for step in range(index + 1, min(n_sizes, index + max_steps + 1)):
+            if disconnection.passes(allowed[step], parallel):
+                return step
+        disconnection.upsize_limited = max_steps
+        return index
 
     def capacity(index: int, parallel: int, totals: list[float]) -> tuple[float, int]:
         best, best_s = parallel * amps[0][index] * totals[0], 0
@@ -378,6 +389,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         while True:
             failing = first_failing(allowed[index], parallel)
             if failing is None:
+                upsized = disconnection_index(index, parallel)
+                if upsized != index:
+                    index, governed = upsized, "disconnection"
                 return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel,
                                         governed, rated, capacity(index, parallel, totals))
             index += 1
