@@ -56,6 +56,7 @@ else:  # pragma: no cover
 __all__ = [
     "Settings",
     "load_settings",
+    "validate",
     "settings_keys",
     "SettingKey",
     "Range",
@@ -389,7 +390,17 @@ def _convert(value: Any, hint: Any, rng: Range | None, choices: tuple[str, ...] 
         if len(value) != len(args):
             raise _Bad(f"must be {_type_name(hint)}")
         return tuple(_convert(v, a, rng, choices) for v, a in zip(value, args, strict=True))
-    raise _Bad(f"must be {_type_name(hint)}")  # pragma: no cover - a hint of a kind we lack
+    if _is_union(hint):  # e.g. int | str: the first that fits
+        problems = []
+        for arg in typing.get_args(hint):
+            if arg is type(None):
+                continue
+            try:
+                return _convert(value, arg, rng, choices)
+            except _Bad as bad:
+                problems.append(str(bad))
+        raise _Bad(" or ".join(problems))
+    return value  # a hint of a kind the model does not know: the dataclass gets the TOML value
 
 
 def _allowed(rng: Range | None) -> str:
