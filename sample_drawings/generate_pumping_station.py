@@ -170,7 +170,8 @@ COLUMNS = ["circuit", "from", "to", "load", "power_factor", "efficiency", "volta
 # have time-delayed (selective) breakers, so their cables must withstand the fault
 # for the delay; the large pumps start star-delta; the fan, mixer and sump pump run
 # on drives behind type B breakers; the valve actuator has a D-curve breaker, which
-# the long run to the valve chamber cannot trip in time (a fail on purpose).
+# the long run to the valve chamber cannot trip in time on 1.5 mm² (the default
+# disconnection upsizing raises it two sizes; with disconnection_upsize = false it fails).
 DEVICE_DATA = {
     "F-MCC1": ("", "", "0.3"),
     "F-DB2": ("", "", "0.2"),
