@@ -10,7 +10,9 @@ OUT    ?= demo_out
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install --quiet --upgrade pip
-	$(PY) -m pip install --quiet -e ".[test]"
+	@# setuptools tells every editable install to mind same-named folders (an information
+	@# notice, not a problem of this project); the filter hides that notice only
+	PYTHONWARNINGS="ignore:Editable installation" $(PY) -m pip install --quiet -e ".[test]"
 	touch $(STAMP)
 
 ## make demo: the whole job on the bundled sample drawing (DXF), and on the same plant

@@ -11,6 +11,7 @@ import argparse
 import logging
 import sys
 import traceback
+import typing
 import warnings
 from collections.abc import Sequence
 from pathlib import Path
@@ -39,6 +40,22 @@ _STAGE_OF_MODULE = (
 )
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse with one-line errors: what is wrong and where to look (exit code 2)."""
+
+    def error(self, message: str) -> typing.NoReturn:
+        self.exit(EXIT_INPUT, f"{self.prog}: error: {message} (see {self.prog} --help)\n")
+
+
+def _version() -> str:
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        return version("cablewright")
+    except PackageNotFoundError:  # pragma: no cover - run from a source tree
+        return "unknown"
+
+
 def _common(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--config", metavar="FILE", help="TOML config (see cablewright/default_config.toml)")
     parser.add_argument("--json", action="store_true", help="print the JSON document on stdout, nothing else")
@@ -60,12 +77,14 @@ def _units_arg(parser: argparse.ArgumentParser) -> None:
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    """The ``cablewright`` argument parser with its sub-commands (contract.md, "Commands")."""
+    parser = _Parser(
         prog="cablewright",
         description="Route, group and size low-voltage cables from a drawing (IEC 60364). "
         "Results are a design aid, to be checked by a qualified person.",
     )
-    sub = parser.add_subparsers(dest="command", required=True)
+    parser.add_argument("--version", action="version", version=f"cablewright {_version()}")
+    sub = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
     size = sub.add_parser("size", help="the whole job: routes, grouping, sizing, annotated DXF, schedule, report")
     _drawing_args(size)
@@ -90,24 +109,10 @@ def build_parser() -> argparse.ArgumentParser:
     routes = sub.add_parser("routes", help="measure routed lengths and grouping only")
     _drawing_args(routes)
 
-    calc = sub.add_parser("calc", help="size one circuit, no drawing")
-    calc.add_argument("--load", required=True, help="e.g. '55 kW', '75 hp', '40 kVA', '32 A'")
-    calc.add_argument("--voltage", help="line-to-line for 3 phases, line-to-neutral for 1 [V]")
-    calc.add_argument("--phases", help="3 (default) or 1")
-    calc.add_argument("--power-factor", help="cos phi in (0, 1] (default 0.85)")
-    calc.add_argument("--efficiency", help="motor efficiency in (0, 1] (default 1)")
-    calc.add_argument("--length", default="0", help="route length [m] used for voltage drop")
-    calc.add_argument("--method", default="E", help="IEC 60364-5-52 reference method (A1 ... G, default E)")
-    calc.add_argument("--ambient", help="air (or ground for D1/D2) temperature [°C]")
-    calc.add_argument("--soil", help="soil thermal resistivity for D1/D2 [K.m/W]")
-    calc.add_argument("--group", default="1", help="circuits in the group, this one included (default 1)")
-    calc.add_argument("--load-type", help="motor, lighting, general (default) or feeder")
-    calc.add_argument("--conductor", help="Cu (default) or Al")
-    calc.add_argument("--insulation", help="XLPE (default) or PVC")
-    calc.add_argument("--cores", help="cores of one cable (default 4 for 3 phases, 3 for 1)")
-    calc.add_argument("--vd-limit-pct", help="voltage-drop limit [%%]")
-    calc.add_argument("--fault-ka", help="prospective short-circuit current at the source [kA]")
-    calc.add_argument("--id", default="CALC-1", help="circuit id shown in the output")
+    from .calc_options import add_calc_options
+
+    calc = sub.add_parser("calc", help="size one circuit, no drawing; every schedule column is an option")
+    add_calc_options(calc)
     _common(calc)
 
     layers = sub.add_parser("layers", help="what a drawing holds: layers, blocks, texts, units; a starting config")
@@ -177,7 +182,10 @@ def internal_error_line(exc: BaseException, args: argparse.Namespace | None = No
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``cablewright`` console script; returns the exit code."""
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # --help, --version, or a usage error (one line, exit 2)
+        return int(exc.code or 0) if not isinstance(exc.code, str) else EXIT_INPUT
     logging.basicConfig(level=logging.DEBUG if args.debug else logging.WARNING,
                         format="cablewright: %(message)s", stream=sys.stderr)
     if not args.debug:  # a library's warning is one line too, without its source line
@@ -205,7 +213,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     except CableRouteError as exc:
         if args.debug:
             raise
-        print(f"cablewright: error: {exc}", file=sys.stderr)
+        for line in str(exc).splitlines() or [type(exc).__name__]:  # a config: one line per problem
+            print(f"cablewright: error: {line}", file=sys.stderr)
         return _exit_code_for(exc)
     except BrokenPipeError:  # output piped into a program that stopped reading (e.g. head)
         sys.stderr.close()

@@ -14,7 +14,8 @@ from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.select import size_circuit
 
-from .config import load_settings
+from .calc_options import calc_fields
+from .config import UNAVAILABLE_STANDARDS, load_settings
 from .console import calc_steps
 
 __all__ = ["run"]
@@ -44,14 +45,7 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
             soil_resistivity_k_m_w=_float("soil", args.soil),
             length_m=length_m,
         )
-        fields = {
-            "load": args.load, "voltage": args.voltage, "phases": args.phases,
-            "power_factor": args.power_factor, "efficiency": args.efficiency,
-            "load_type": args.load_type, "conductor": args.conductor,
-            "insulation": args.insulation, "cores": args.cores,
-            "vd_limit_pct": args.vd_limit_pct, "fault_ka": args.fault_ka,
-        }
-        spec = spec_from_fields(args.id, fields, settings.sizing, length_m, (stretch,))
+        spec = spec_from_fields(args.id, calc_fields(args), settings.sizing, length_m, (stretch,))
     except CableRouteError as exc:
         if type(exc).__name__ == "ConfigError":
             raise
@@ -61,6 +55,10 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
 
 def run(args: argparse.Namespace) -> int:
     """Size the circuit described by the arguments; 0 pass, 1 fail or error, 2 bad config."""
+    if args.standard in UNAVAILABLE_STANDARDS:
+        print(f"cablewright: error: --standard {args.standard}: the {args.standard.upper()} rule set "
+              "is not available yet; use --standard iec", file=sys.stderr)
+        return 2
     result, length_m = _result(args)
     outcome = CircuitOutcome(args.id, "", "", result.status, result.messages, sizing=result)
     if args.json:

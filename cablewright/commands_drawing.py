@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+import textwrap
 from collections.abc import Callable
 from contextlib import contextmanager
 from pathlib import Path
@@ -12,7 +13,7 @@ from cablewright.annotate.jsonout import dumps
 from cablewright.annotate.model import CircuitOutcome
 
 from .config import load_settings
-from .console import CAUTION, format_table
+from .console import CAUTION, TABLE_WIDTH, format_table
 from .outputs import drawing_entry, job_document, job_takeoff, output_session, write_outputs
 from .pipeline import measure_drawing, route_outcomes, size_measurement
 
@@ -58,10 +59,12 @@ def _stages(quiet: bool):
 
 def settings_for(args: argparse.Namespace):
     """The config file's settings, with ``--units`` (when given) as ``[drawing] units``."""
+    from dataclasses import replace
+
     settings = load_settings(args.config)
     units = getattr(args, "units", None)
     if units:
-        settings.drawing["units"] = units
+        settings = replace(settings, drawing=replace(settings.drawing, units=units))
     return settings
 
 
@@ -87,6 +90,35 @@ def _issues(measurement) -> None:
         print(f"cablewright: warning: {issue.message}{where}", file=sys.stderr)
 
 
+def _circuits_from_attributes(args: argparse.Namespace, measurement) -> None:
+    """Say on stderr when the circuits come from the drawing, not from a schedule."""
+    if args.circuits is None:
+        print(f"cablewright: no --circuits schedule given: {len(measurement.rows)} circuits read "
+              f"from the equipment attributes of {Path(args.drawing).name}", file=sys.stderr)
+
+
+def _failed(check) -> bool:
+    result = getattr(check, "result", None)
+    if result is not None:
+        return str(getattr(result, "value", result)).lower() == "fail"
+    return not check.passed
+
+
+def _reason(outcome: CircuitOutcome) -> str:
+    """Why a circuit fails or is in error: the failing checks, else its first message."""
+    if outcome.status not in ("fail", "error"):
+        return ""
+    sizing = outcome.sizing
+    failing = [c.name for c in sizing.checks if _failed(c)] if sizing is not None else []
+    if failing:
+        return ", ".join(failing)
+    if not outcome.messages:
+        return outcome.status
+    first = outcome.messages[0]  # its opening words; the whole message is in the report
+    short = first.split(" (")[0].split(": ")[0]
+    return short if len(short) <= 40 else short[:39] + "\u2026"
+
+
 def _fmt(value, digits: int = 1) -> str:
     return "-" if value is None else f"{value:.{digits}f}"
 
@@ -95,6 +127,7 @@ def run_routes(args: argparse.Namespace) -> int:
     """Measure only: routed length and group count per circuit."""
     settings = settings_for(args)
     measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover)
+    _circuits_from_attributes(args, measurement)
     outcomes, _ = route_outcomes(measurement)
     _issues(measurement)
     _report_errors(outcomes)
@@ -127,11 +160,11 @@ def default_out(drawing: Path) -> Path:
 
 def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = None) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
+    settings = settings_for(args)  # validated before any drawing is read, batch too
     if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
         from .batch import run_batch
 
         return run_batch(args)
-    settings = settings_for(args)
     drawing = Path(args.drawing)
     previous = getattr(args, "previous", None)
     previous_doc = None
@@ -145,6 +178,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
     with output_session(out_dir, inputs), _stages(args.json) as stage:
         stage(f"reading and routing {drawing.name}")
         measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+        _circuits_from_attributes(args, measurement)
         stage("sizing")
         with _progress(len(measurement.rows), args.json, "sizing") as tick:
             job = size_measurement(measurement, settings, tick)
@@ -172,9 +206,10 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
                 f"{s.device_rating_a:g}" if s and s.device_rating_a else "-",
                 s.cable.describe() if s and s.cable else "-",
                 _fmt(s.voltage_drop.percent if s and s.voltage_drop else None, 2),
-                o.status,
+                o.status, _reason(o),
             ])
-        print(format_table(["circuit", "from", "to", "routed [m]", "Ib [A]", "In [A]", "cable", "VD [%]", "status"], rows))
+        print(format_table(["circuit", "from", "to", "route m", "Ib A", "In A", "cable", "VD %", "status",
+                            "reason"], rows, min_last=16, keep=(6,)))
         counts = {k: sum(1 for o in job.outcomes if o.status == k) for k in ("ok", "warning", "fail", "error")}
         print(f"\n{len(job.outcomes)} circuits: " + ", ".join(f"{v} {k}" for k, v in counts.items()))
         if changes is not None:
@@ -185,7 +220,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         print("outputs:")
         for path in written:
             print(f"  {path}")
-        print(CAUTION)
+        print("\n".join(textwrap.wrap(CAUTION, TABLE_WIDTH)))
     return _exit_code(job.outcomes, ("ok", "warning"))
 
 

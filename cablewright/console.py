@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Iterable
 
 from cablewright.sizing.model import SizingResult
@@ -14,17 +15,62 @@ CAUTION = (
 )
 
 
-def format_table(headers: list[str], rows: Iterable[list[str]]) -> str:
-    """A plain text table with aligned columns."""
+#: Width of the terminal the tables are fitted to (issue 10: a 100-column terminal).
+TABLE_WIDTH = 100
+#: The last column (reason, source) is wrapped, never narrower than this.
+MIN_LAST_WIDTH = 24
+
+
+def _cut(text: str, width: int) -> str:
+    return text if len(text) <= width else text[: max(0, width - 1)] + "\u2026"
+
+
+def format_table(headers: list[str], rows: Iterable[list[str]], width: int = TABLE_WIDTH,
+                 min_last: int = MIN_LAST_WIDTH, keep: tuple[int, ...] = ()) -> str:
+    """A plain text table with aligned columns, fitted to ``width`` characters.
+
+    The last column is wrapped onto further lines; when that is not enough,
+    the widest other columns (except those in ``keep``) are cut, ending in an
+    ellipsis.
+
+    Examples
+    --------
+    >>> print(format_table(["a", "note"], [["1", "one two three"]], width=10, min_last=7))
+    a  note
+    -  -------
+    1  one two
+       three
+    """
     rows = [list(map(str, r)) for r in rows]
     widths = [len(h) for h in headers]
     for row in rows:
         for i, cell in enumerate(row):
             widths[i] = max(widths[i], len(cell))
-    line = "  ".join(h.ljust(w) for h, w in zip(headers, widths, strict=False))
-    rule = "  ".join("-" * w for w in widths)
-    body = ["  ".join(c.ljust(w) for c, w in zip(row, widths, strict=False)) for row in rows]
-    return "\n".join([line, rule, *body])
+    budget = width - 2 * (len(widths) - 1)
+    last_min = min(widths[-1], max(min_last, len(headers[-1])))
+    while sum(widths) > budget and widths[-1] > last_min:
+        widths[-1] -= 1
+    while sum(widths) > budget:
+        cuttable = [k for k in range(len(widths) - 1) if k not in keep]
+        if not cuttable:
+            break
+        i = max(cuttable, key=lambda k: widths[k] - len(headers[k]))
+        if widths[i] <= max(len(headers[i]), 4):
+            break
+        widths[i] -= 1
+    indent = sum(widths[:-1]) + 2 * (len(widths) - 1)
+
+    def render(cells: list[str]) -> list[str]:
+        head = "  ".join(_cut(c, w).ljust(w) for c, w in zip(cells[:-1], widths, strict=False))
+        last = textwrap.wrap(cells[-1], widths[-1]) if len(cells) == len(widths) else []
+        first = (head + "  " if len(widths) > 1 else "") + (last[0] if last else "")
+        return [first.rstrip()] + [(" " * indent + more).rstrip() for more in last[1:]]
+
+    out = render(headers)
+    out.append("  ".join("-" * w for w in widths))
+    for row in rows:
+        out.extend(render(row))
+    return "\n".join(out)
 
 
 def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
@@ -60,7 +106,7 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
                      check.source])
     text = [f"circuit {result.circuit_id}: {result.status.upper()}", format_table(["step", "value", "source"], rows)]
     for message in result.messages:
-        text.append(f"  - {message}")
+        text.extend(textwrap.wrap(message, TABLE_WIDTH, initial_indent="  - ", subsequent_indent="    "))
     text.append("")
-    text.append(CAUTION)
+    text.extend(textwrap.wrap(CAUTION, TABLE_WIDTH))
     return "\n".join(text)

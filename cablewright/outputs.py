@@ -241,17 +241,8 @@ def output_session(out_dir: str | os.PathLike[str],
 
 
 def _annotate_config(settings: Settings):
-    from dataclasses import fields, replace
-
-    from cablewright.annotate.drawing import AnnotateConfig
-    from cablewright.extract.errors import ConfigError
-
-    base = AnnotateConfig()
-    known = {f.name for f in fields(AnnotateConfig)}
-    for key in settings.annotate:
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [annotate]; known: {', '.join(sorted(known))}")
-    return replace(base, **settings.annotate)
+    """The annotate stage's config (``[annotate]``, validated at start-up)."""
+    return settings.annotate
 
 
 def _umask() -> int:

@@ -58,57 +58,8 @@ class JobResult:
 
 
 def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
-    """The extract stage's config from the ``[drawing]`` and ``[routes]`` sections."""
-    from cablewright.extract.errors import ConfigError
-
-    base = DrawingConfig()
-    values = dict(settings.drawing)
-    layers = dict(base.route_layers)
-    for name, kind in dict(values.pop("route_layers", {})).items():
-        layers[name.upper()] = _layer_kind(name, kind, settings.source)
-    patterns = {p: _layer_kind(p, k, settings.source) for p, k in dict(values.pop("layer_patterns", {})).items()}
-    tiers = dict(values.pop("route_tiers", {}))
-    for name, count in tiers.items():
-        if isinstance(count, bool) or not isinstance(count, int) or count < 1:
-            raise ConfigError(f"{settings.source}: [drawing.route_tiers] {name!r} = {count!r} must be "
-                              "a whole number of tiers >= 1")
-    known = {"units", "snap_tolerance_m", "max_tail_m", "tag_attribute", "near_miss_factor",
-             "tags_from_text", "tag_text_max_m", "tag_symbol_layers", "flatten_tolerance_m"}
-    for key in values:
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [drawing]; known: {', '.join(sorted(known))}")
-    if "tags_from_text" in values and not isinstance(values["tags_from_text"], bool):
-        raise ConfigError(f"{settings.source}: [drawing] tags_from_text must be true or false")
-    for key in ("tag_text_max_m", "flatten_tolerance_m"):
-        value = values.get(key, 1.0)
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or not value > 0:
-            raise ConfigError(f"{settings.source}: [drawing] {key} = {value!r} must be a length > 0 in metres")
-    if "tag_symbol_layers" in values:
-        layers_given = values["tag_symbol_layers"]
-        if not (isinstance(layers_given, list) and all(isinstance(n, str) for n in layers_given)):
-            raise ConfigError(f"{settings.source}: [drawing] tag_symbol_layers must be a list of layer names")
-        values["tag_symbol_layers"] = tuple(layers_given)
-    route_values = dict(settings.routes)
-    for key in route_values:
-        if key not in ("slack_fraction", "end_allowance_m"):
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [routes]; known: slack_fraction, end_allowance_m")
-    return replace(base, route_layers=layers, extra_layer_patterns=patterns, recover=recover,
-                   route_tiers=tiers,
-                   **values, **route_values)
-
-
-def _layer_kind(name: str, kind, source: str) -> tuple[str, str]:
-    from cablewright.extract.errors import ConfigError
-    from cablewright.extract.model import CONTAINMENTS
-
-    if not (isinstance(kind, (list, tuple)) and len(kind) == 2 and kind[0] in CONTAINMENTS):
-        raise ConfigError(
-            f"{source}: route layer {name!r} must be [containment, method] with containment one of "
-            f"{', '.join(CONTAINMENTS)}"
-        )
-    from cablewright.sizing.capacity_tables import canonical_method
-
-    return str(kind[0]), canonical_method(str(kind[1]))
+    """The extract stage's config (``[drawing]`` and ``[routes]``, validated at start-up)."""
+    return replace(settings.drawing, recover=recover)
 
 
 def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
@@ -121,22 +72,8 @@ def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: 
 
 
 def ifc_config(settings: Settings):
-    """The IFC reader's config from the ``[ifc]`` section (lists become tuples)."""
-    from dataclasses import fields
-
-    from cablewright.extract.errors import ConfigError
-    from cablewright.extract.ifc_reader import IfcConfig
-
-    known = {f.name: f for f in fields(IfcConfig)}
-    values = {}
-    for key, value in settings.ifc.items():
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [ifc]; known: {', '.join(sorted(known))}")
-        values[key] = tuple(value) if isinstance(value, list) else value
-    try:
-        return IfcConfig(**values)
-    except (TypeError, ValueError) as exc:
-        raise ConfigError(f"{settings.source}: [ifc] {exc}") from exc
+    """The IFC reader's config (``[ifc]``, validated at start-up)."""
+    return settings.ifc
 
 
 def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None = None

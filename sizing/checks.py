@@ -369,12 +369,14 @@ class PreparedDisconnection:
 
     __slots__ = ("text", "error", "pe", "u0", "length_m", "conductor", "insulation", "kind",
                  "rating_a", "ze", "ze_source", "ze_assumed", "curve", "magnetic", "final", "vf",
-                 "tn_error", "zs_max", "temp", "last", "multiple", "tolerance", "one_line")
+                 "tn_error", "zs_max", "temp", "last", "multiple", "tolerance", "one_line",
+                 "upsize_limited")
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig, device: DeviceSelection,
                  pe: PreparedProtectiveConductor) -> None:
         self.pe = pe
         self.last: tuple = ()
+        self.upsize_limited: int | None = None  # set by the selection when upsizing stopped
         self.text: str | None = None
         self.error: CableRouteError | None = None
         self.ze_assumed = False
@@ -464,16 +466,20 @@ class PreparedDisconnection:
 
     def check(self, csa_mm2: float, parallel: int) -> Check:
         """The full :class:`Check`."""
-        return _disconnection_check(self.result(csa_mm2, parallel))
+        return _disconnection_check(self.result(csa_mm2, parallel), self.upsize_limited)
 
 
-def _disconnection_check(res: DisconnectionResult | str) -> Check:
+def _disconnection_check(res: DisconnectionResult | str, upsize_limited: int | None = None) -> Check:
     if isinstance(res, str):
         return not_checked("disconnection", "Ω", "IEC 60364-4-41:2005 411.4.4", res)
+    advice = DISCONNECTION_ADVICE if upsize_limited is None else (
+        f"a cable up to {upsize_limited} standard sizes larger would not do either "
+        "([sizing] disconnection_upsize_max_steps): protect the circuit with a residual-current "
+        "device (IEC 60364-4-41:2005 411.4.5) or lower the magnetic setting")
     message = "" if res.passed else (
         f"earth-fault loop {res.zs_ohm:.3f} Ω exceeds {res.zs_max_ohm:.3f} Ω "
         f"(Ia {res.ia_a:g} A within {res.time_s:g} s): the circuit disconnects only up to "
-        f"{res.max_length_m:.0f} m; {DISCONNECTION_ADVICE}")
+        f"{res.max_length_m:.0f} m; {advice}")
     return Check("disconnection", res.passed, res.zs_ohm, res.zs_max_ohm, "Ω", res.source, message)
 
 
@@ -575,7 +581,7 @@ class PreparedChecks:
         self.pe = PreparedProtectiveConductor(spec, config)
         self.disconnection = PreparedDisconnection(spec, config, device, self.pe)
         self.motor_trip = PreparedMotorTrip(spec, config, design_current_a, device)
-        self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", False))
+        self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", True))
 
     def upsize_passes(self, name: str, csa_mm2: float, parallel: int) -> bool:
         """The outcome of the upsize check ``name``: short_circuit, motor_start, disconnection."""

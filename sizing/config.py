@@ -65,6 +65,9 @@ class SizingConfig:
         ``breaker`` or ``fuse`` (gG); the schedule column ``device_kind`` may
         also give ``motor_breaker`` (motor-protection circuit-breaker) or
         ``overload_relay`` (IEC 60947-4-1) per circuit.
+    standard : str
+        Rule set: ``iec`` (IEC 60364, the only one written so far); ``nec`` is
+        refused at start-up as not available yet.
     device_margin : float
         In >= margin x Ib; 1.0 (IEC 60364-4-43:2008 433.1: Ib <= In <= Iz, no
         margin).  1.25 (a continuous-load rule of some national codes) is an option.
@@ -167,9 +170,16 @@ class SizingConfig:
     disconnection_voltage_factor : float
         c in Zs Ia <= c U0: 1.0 as IEC 60364-4-41:2005 411.4.4 is written.
     disconnection_upsize : bool
-        False: a circuit that does not disconnect in time fails with advice;
-        True: the cross-section is raised instead (``governed_by``
-        ``disconnection``).
+        True (default): a circuit that does not disconnect in time gets a
+        larger cross-section (``governed_by`` ``disconnection``), up to
+        ``disconnection_upsize_max_steps`` standard sizes; False: it fails with
+        advice at once.
+    disconnection_upsize_max_steps : int
+        Most standard sizes the cross-section is raised for disconnection
+        above the size the other checks need (3, common practice: beyond
+        that a residual-current device, IEC 60364-4-41:2005 411.4.5, is the
+        usual remedy); past it the circuit keeps the smaller size and fails
+        with that advice.
     motor_start_dip_pct : float
         Limit of the voltage dip at a motor's terminals while starting [%];
         15 % (common practice: 10 % to 15 %).
@@ -196,6 +206,11 @@ class SizingConfig:
     duct_fill_limit_pct : float
         Warning above this area fill of a conduit or duct [%]; 40 % (common
         practice for three or more cables in a conduit).
+    dol_motor_device_kind : str
+        Device of a direct-on-line motor whose schedule row gives no
+        ``device_kind``, ``curve`` or ``magnetic_a``: ``motor_breaker`` (common
+        practice: a type C breaker trips on the starting peak); ``""`` uses
+        ``device_kind``.
     star_delta_two_cables : bool
         True (default): a star-delta motor has its starter at the board and two
         cables to the motor, each carrying the winding current Ib/√3 and
@@ -204,6 +219,7 @@ class SizingConfig:
     """
 
     device_kind: str = "breaker"
+    standard: str = "iec"
     device_margin: float = DEVICE_MARGIN
     device_margin_by_load_type: dict[str, float] = field(default_factory=dict)
     standard_ratings_a: tuple[float, ...] = STANDARD_RATINGS_A
@@ -238,7 +254,8 @@ class SizingConfig:
     breaker_curve: str = "C"
     magnetic_a: float | None = None
     disconnection_voltage_factor: float = 1.0
-    disconnection_upsize: bool = False
+    disconnection_upsize: bool = True
+    disconnection_upsize_max_steps: int = 3
     motor_start_dip_pct: float = 15.0
     default_starter: str = "dol"
     starters: dict[str, tuple[float, float]] = field(default_factory=_starters)
@@ -249,6 +266,7 @@ class SizingConfig:
     tray_fill_limit_pct: float = 80.0
     duct_fill_limit_pct: float = 40.0
     star_delta_two_cables: bool = True
+    dol_motor_device_kind: str = "motor_breaker"
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)

@@ -367,11 +367,37 @@ def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingC
     return method, insulation, float(ambient), float(soil), float(depth)
 
 
+def device_kind_for(spec: CircuitSpec, config: SizingConfig) -> str:
+    """The kind of protective device of a circuit.
+
+    The schedule's ``device_kind`` wins; a direct-on-line motor with no curve and
+    no instantaneous setting given gets ``config.dol_motor_device_kind`` (a
+    motor-protection circuit-breaker, IEC 60947-2 / IEC 60947-4-1, common
+    practice: its high instantaneous release lets the motor start, where a type C
+    breaker would trip on the starting peak); otherwise ``config.device_kind``.
+
+    Examples
+    --------
+    >>> from cablewright.sizing.model import Load
+    >>> motor = CircuitSpec("M-1", Load(11, "kW"), 400, load_type="motor")
+    >>> device_kind_for(motor, SizingConfig()), device_kind_for(motor, SizingConfig(dol_motor_device_kind=""))
+    ('motor_breaker', 'breaker')
+    """
+    given = spec.extra_value("device_kind")
+    if given:
+        return given
+    dol = spec.extra_value("starter", config.default_starter) == "dol"
+    if (config.dol_motor_device_kind and spec.load_type == "motor" and dol
+            and not spec.extra_value("curve") and not spec.extra_value("magnetic_a")):
+        return config.dol_motor_device_kind
+    return config.device_kind
+
+
 def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
-    kind = spec.extra_value("device_kind", config.device_kind)
+    kind = device_kind_for(spec, config)
     if kind not in DEVICE_KINDS:
         raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
     device = select_device(ib, kind, config.margin_for(spec.load_type), config.standard_ratings_a)
@@ -427,6 +453,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     prep = PreparedChecks(spec, config, ib, device, voltage, temp)
     short_circuit, motor, disconnection = prep.short_circuit, prep.motor_start, prep.disconnection
     disconnection_upsize = prep.disconnection_upsize
+    max_steps = int(getattr(config, "disconnection_upsize_max_steps", 3))
 
     def vd_temperature(index: int, parallel: int, totals: list[float]) -> float:
         # operating_temperature_c on every stretch, the hottest taken for the whole run
@@ -450,9 +477,19 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             return "short_circuit"
         if not motor.passes(csa, parallel):
             return "motor_start"
-        if disconnection_upsize and not disconnection.passes(csa, parallel):
-            return "disconnection"
         return None
+
+    def disconnection_index(index: int, parallel: int) -> int:
+        # Earth-fault disconnection (IEC 60364-4-41:2005 411.4.4): raise the size by at
+        # most max_steps standard sizes above the one the other checks need; past that
+        # the smaller size is kept and the check fails with the advice of an RCD.
+        if not disconnection_upsize or disconnection.passes(allowed[index], parallel):
+            return index
+        for step in range(index + 1, min(n_sizes, index + max_steps + 1)):
+            if disconnection.passes(allowed[step], parallel):
+                return step
+        disconnection.upsize_limited = max_steps
+        return index
 
     def capacity(index: int, parallel: int, totals: list[float]) -> tuple[float, int]:
         best, best_s = parallel * amps[0][index] * totals[0], 0
@@ -499,6 +536,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         while True:
             failing = first_failing(index, parallel, totals)
             if failing is None:
+                upsized = disconnection_index(index, parallel)
+                if upsized != index:
+                    index, governed = upsized, "disconnection"
                 return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel,
                                         governed, rated, capacity(index, parallel, totals),
                                         vd_temperature(index, parallel, totals), temp_rule,

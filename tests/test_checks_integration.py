@@ -30,7 +30,7 @@ MARGIN_125 = SizingConfig(device_margin=1.25)
 
 
 def test_long_final_circuit_fails_disconnection_with_advice():
-    r = size_circuit(_final(), MARGIN_125)
+    r = size_circuit(_final(), SizingConfig(device_margin=1.25, disconnection_upsize=False))
     assert r.status == "fail"
     assert _check(r, "capacity").passed and _check(r, "voltage_drop").passed
     dis = _check(r, "disconnection")
@@ -47,11 +47,35 @@ def test_long_final_circuit_fails_disconnection_with_advice():
     assert r.max_length_m < 28.0
 
 
-def test_disconnection_upsize_option():
-    r = size_circuit(_final(), SizingConfig(device_margin=1.25, disconnection_upsize=True))
+def test_disconnection_upsize_is_the_default():
+    r = size_circuit(_final(), MARGIN_125)
     assert r.status == "ok"
     assert r.cable.governed_by == "disconnection" and r.cable.csa_mm2 > 1.5
     assert r.max_length_m >= 28.0
+
+
+def _max_length_m(csa_mm2):
+    # As in the test above: IEC 60228 Table 2 R20 at 170 °C, line + PE (PE = line up
+    # to 16 mm², IEC 60364-5-54 Table 54.2), X 0.08 mΩ/m each, Zs max = 230 / 200 Ω.
+    r_per_m = 2 * dc_resistance_20c_ohm_per_km(csa_mm2, "Cu") / 1000 * (234.5 + 170) / 254.5
+    return (230 / 200 - 0.35) / math.hypot(r_per_m, 2 * 0.08e-3)
+
+
+@pytest.mark.parametrize(("steps", "csa", "status"), [(0, 2.5, "fail"), (1, 4, "ok"), (3, 4, "ok")])
+def test_disconnection_upsize_stops_at_the_limit_then_advises_an_rcd(steps, csa, status):
+    # 40 m: the 5 % drop needs 2.5 mm² (IEC 60364-5-52 Annex G), which disconnects only
+    # up to ~34 m; 4 mm² (one standard size up, IEC 60228) reaches ~54 m.  As worked
+    # here: In 20 A (margin 1.25) and the drop at the maximum conductor temperature.
+    assert _max_length_m(2.5) < 40.0 < _max_length_m(4)
+    r = size_circuit(_final(40.0), SizingConfig(device_margin=1.25, conductor_temp_for_vd="max",
+                                                disconnection_upsize_max_steps=steps))
+    assert r.status == status and r.cable.csa_mm2 == csa
+    dis = _check(r, "disconnection")
+    if status == "fail":
+        assert r.cable.governed_by == "voltage_drop"
+        assert "residual-current device" in dis.message and "disconnection_upsize_max_steps" in dis.message
+    else:
+        assert r.cable.governed_by == "disconnection" and dis.passed
 
 
 def test_short_circuit_raises_the_size():

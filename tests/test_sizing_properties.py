@@ -69,6 +69,14 @@ def _drop_unmet(result) -> bool:
     return any(c.name == "voltage_drop" and not c.passed for c in result.checks)
 
 
+def _upsizing_given_up(result) -> bool:
+    # Past [sizing] disconnection_upsize_max_steps the selection keeps the cable the
+    # other checks need and advises an RCD (IEC 60364-4-41:2005 411.4.5) instead of
+    # more copper: a smaller cable with a fail, by design.
+    return any(c.name == "disconnection" and c.failed and "disconnection_upsize_max_steps" in c.message
+               for c in result.checks)
+
+
 def _never_less(base: dict, worse: dict) -> None:
     a = size_circuit(_spec(base), CONFIG)
     b = size_circuit(_spec(worse), CONFIG)
@@ -82,6 +90,8 @@ def _never_less(base: dict, worse: dict) -> None:
         # No size and count up to max_parallel meets the drop: select.py then
         # falls back to the capacity-only choice (fewer cables); pinned in
         # test_unmet_voltage_drop_falls_back_to_fewer_cables below.
+        return
+    if _upsizing_given_up(b):
         return
     assert b.cable.parallel >= a.cable.parallel, (base, worse, a.cable, b.cable)
     if b.cable.parallel == a.cable.parallel:

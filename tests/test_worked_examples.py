@@ -105,7 +105,8 @@ def test_eig2008_example2_lighting_circuit_through_cli(tmp_path, capsys):
     (2 loaded): 1.5 mm² 19.5 A < In 20 A, 2.5 mm² 27 A -> the guide's 2.5 mm².
     """
     config = tmp_path / "no_margin.toml"
-    config.write_text("[sizing]\ndevice_margin = 1.0\n", encoding="utf-8")
+    # the example is about ampacity and drop: disconnection (with the assumed Ze) only reported
+    config.write_text("[sizing]\ndevice_margin = 1.0\ndisconnection_upsize = false\n", encoding="utf-8")
     code = main(["calc", "--load", "20 A", "--voltage", "230", "--phases", "1",
                  "--power-factor", "1", "--length", "20", "--method", "C",
                  "--insulation", "PVC", "--config", str(config), "--json"])
