@@ -46,6 +46,7 @@ from pathlib import Path
 from typing import Any
 
 import ezdxf
+from cablewright.extract.dxf_reader import block_problems
 from cablewright.extract.errors import DrawingReadError
 from ezdxf import bbox as ezbbox
 from ezdxf.enums import TextEntityAlignment
@@ -597,10 +598,14 @@ def _scan_modelspace(doc: Any, measure: Callable[[str], float]) -> _DrawingScan:
     back to ``ezdxf.bbox.extents(fast=True)``.
     """
     scan = _DrawingScan()
-    block_boxes: dict[str, Any] = {}
+    # blocks that insert themselves, nest too deep or are undefined get no box (ezdxf's
+    # bounding box would recurse without end); the reader reports them
+    block_boxes: dict[str, Any] = dict.fromkeys(block_problems(doc))
     fallback = []
     for e in doc.modelspace():
         t = e.dxftype()
+        if t == "INSERT" and e.dxf.name in block_boxes and block_boxes[e.dxf.name] is None:
+            continue
         try:
             if t == "LINE":
                 scan.take(e.dxf.start[0], e.dxf.start[1])
@@ -643,7 +648,14 @@ def _scan_modelspace(doc: Any, measure: Callable[[str], float]) -> _DrawingScan:
                 scan.take(box.extmax.x, box.extmax.y)
         except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
             log.warning("could not measure %d entities of the drawing (%s)", len(fallback), exc)
+    scan.texts = [b for b in scan.texts if _usable_box(b)]
+    scan.symbols = [b for b in scan.symbols if _usable_box(b)]
     return scan
+
+
+def _usable_box(box: tuple) -> bool:
+    """A box whose numbers are finite (an entity at NaN or infinity, refused by the reader)."""
+    return all(math.isfinite(v) for v in box)
 
 
 def _scan_insert(

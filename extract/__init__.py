@@ -105,7 +105,7 @@ def measure(
         return measure_ifc(p, schedule_path, config, ifc_config)
     else:
         raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
-    network = build_network(polylines, equipment, config)
+    network = build_network(polylines, equipment, config, source=str(p))
     issues.extend(network.issues)
     rows = read_schedule(schedule_path) if schedule_path is not None else rows_from_equipment(equipment)
     routes, failures = route_circuits(network, rows, config)

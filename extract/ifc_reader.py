@@ -874,7 +874,7 @@ def measure_ifc(
     config = config or DrawingConfig()
     content = read_ifc(model_path, config, ifc_config)
     issues = list(content.issues)
-    network = build_network(content.polylines, content.equipment, config)
+    network = build_network(content.polylines, content.equipment, config, source=content.path)
     issues.extend(network.issues)
     failures: dict[str, str] = {}
     if schedule_path is not None:
