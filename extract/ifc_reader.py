@@ -278,6 +278,94 @@ def open_model(path: str | os.PathLike[str]) -> Any:
     return model
 
 
+#: The last line of a complete STEP exchange structure (ISO 10303-21:2016, clause 5.3).
+STEP_END = b"END-ISO-10303-21;"
+
+#: Bytes read from the end of a file to check that it is complete.
+_TAIL_BYTES = 65536
+
+
+def step_damage(path: str | os.PathLike[str]) -> str | None:
+    """What is wrong with the end of a STEP (IFC) file, or None when it ends as it must.
+
+    A complete file ends with the DATA section's ``ENDSEC;`` and ``END-ISO-10303-21;``
+    (ISO 10303-21:2016, clause 5.3).  A file cut short (an interrupted copy or export)
+    parses in part: whatever came after the cut, routes included, would be missing
+    without a word, so the reader refuses it unless recover mode is asked for.
+
+    Parameters
+    ----------
+    path : path-like
+        The IFC file.
+
+    Returns
+    -------
+    str or None
+        One line: where the file ends, naming the entity it ends in.
+    """
+    import re
+
+    p = Path(path)
+    size = p.stat().st_size
+    with p.open("rb") as fh:
+        fh.seek(max(0, size - _TAIL_BYTES))
+        tail = fh.read()
+    end = tail.rstrip()
+    if end.endswith(STEP_END) and end[: -len(STEP_END)].rstrip().endswith(b"ENDSEC;"):
+        return None
+    lines = end.split(b"\n")
+    last_line = lines[-1].strip()
+    done = list(re.finditer(rb"(?m)^\s*#(\d+)\s*=", b"\n".join(lines[:-1])))
+    after = f", after entity #{done[-1].group(1).decode()}" if done else ""
+    if last_line.endswith(b";"):
+        return f"the file ends without ENDSEC; and END-ISO-10303-21;{after}"
+    shown = last_line[:60].decode("latin-1")
+    return f"the file ends inside an entity ('{shown}...'{after})"
+
+
+def lost_entities(path: str | os.PathLike[str]) -> list[str]:
+    """Entities a truncated STEP file refers to but no longer holds, as ``"#id"``, in order.
+
+    Parameters
+    ----------
+    path : path-like
+        The IFC file.
+
+    Returns
+    -------
+    list of str
+        Ids referenced by some entity and defined by none (cut off by the end of the file).
+    """
+    import re
+
+    text = Path(path).read_bytes()
+    data = text[text.find(b"DATA;"):] if b"DATA;" in text else text
+    defined = {int(m) for m in re.findall(rb"(?m)^\s*#(\d+)\s*=", data)}
+    referenced = {int(m) for m in re.findall(rb"#(\d+)", data)}
+    return [f"#{k}" for k in sorted(referenced - defined)]
+
+
+def _check_complete(p: Path, config: DrawingConfig, issues: list[Issue]) -> None:
+    """Refuse a truncated file; in recover mode list what was lost instead."""
+    damage = step_damage(p)
+    if damage is None:
+        return
+    if not config.recover:
+        raise DrawingReadError(
+            f"{p}: the IFC file is damaged: {damage}; missing elements would give wrong lengths. "
+            "Export the model again, or use --recover to measure what can be read"
+        )
+    lost = lost_entities(p)
+    shown = ", ".join(lost[:20]) + (f" and {len(lost) - 20} more" if len(lost) > 20 else "")
+    issues.append(Issue("recovered", f"{p}: damaged file read in recover mode: {damage}"))
+    issues.append(Issue(
+        "recover-lost",
+        f"{p}: lost with the end of the file: the entity cut off"
+        + (f" and {len(lost)} entities referred to: {shown}" if lost else "")
+        + " - check the routes against the model",
+    ))
+
+
 def _schema_ok(name: str) -> bool:
     n = name.upper()
     return n in ("IFC2X3", "IFC4") or n.startswith("IFC4X3")
@@ -462,9 +550,11 @@ def read_ifc(
     config = config or DrawingConfig()
     ic = ifc_config or IfcConfig()
     p = Path(path)
+    issues: list[Issue] = []
+    if p.is_file() and p.stat().st_size:
+        _check_complete(p, config, issues)
     model = open_model(p)
     scale, unit_name = _unit_scale(model, p, config)
-    issues: list[Issue] = []
     cache: dict[int, np.ndarray] = {}
 
     # ------------------------------------------------------------ route elements
@@ -532,6 +622,14 @@ def read_ifc(
                 world_matrix(port, cache)[:3, 3] * scale if port.ObjectPlacement is not None else None
             )
 
+    if not pieces and elements:
+        shown = ", ".join(_label(el) for el in elements[:3]) + (
+            f" and {len(elements) - 3} more" if len(elements) > 3 else ""
+        )
+        raise DrawingReadError(
+            f"{p}: the model's {len(elements)} route element(s) ({shown}) have no usable geometry; "
+            "give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF"
+        )
     if not pieces:
         raise DrawingReadError(
             f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); "
