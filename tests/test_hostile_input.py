@@ -17,9 +17,9 @@ import math
 import sys
 from pathlib import Path
 
+import hostile_inputs as hi
 import pytest
 
-import hostile_inputs as hi
 from cablewright.cli import main
 
 ROOT = Path(__file__).resolve().parents[1]
