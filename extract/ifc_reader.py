@@ -39,7 +39,7 @@ from typing import Any
 
 import numpy as np
 
-from .errors import DrawingReadError, Issue, ScheduleError
+from .errors import CableRouteError, DrawingReadError, Issue, ScheduleError
 from .model import (
     CONTAINMENTS,
     DEFAULT_ROUTE_LAYERS,
@@ -506,37 +506,12 @@ def _nearest_on(polys: list[np.ndarray], p: np.ndarray) -> np.ndarray:
     return best
 
 
-def read_ifc(
+def _read_ifc(
     path: str | os.PathLike[str],
     config: DrawingConfig | None = None,
     ifc_config: IfcConfig | None = None,
 ) -> IfcContent:
-    """Read route pieces, equipment and circuit groups from an IFC model.
-
-    Parameters
-    ----------
-    path : str or path-like
-        The ``.ifc`` file (IFC2X3, IFC4 or IFC4X3).
-    config : DrawingConfig, optional
-        ``snap_tolerance_m`` decides which connected ports need a joining piece;
-        ``units`` is used only when the model states no length unit.
-    ifc_config : IfcConfig, optional
-        Tag attributes, below-ground level, classes read as equipment.
-
-    Returns
-    -------
-    IfcContent
-        Polylines and equipment in world metres, issues, circuits from groups.
-
-    Raises
-    ------
-    DrawingReadError
-        Unreadable file, unsupported schema, no length unit, no cable carriers.
-
-    References
-    ----------
-    .. [1] contract.md, "IFC input".
-    """
+    """The reading itself; :func:`read_ifc` turns a damaged entity into one line."""
     import ifcopenshell.util.system as us
 
     from .ifc_geometry import (
@@ -782,6 +757,51 @@ def read_ifc(
         circuit_rows=tuple(rows),
         circuit_failures=failures,
     )
+
+
+def read_ifc(
+    path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> IfcContent:
+    """Read route pieces, equipment and circuit groups from an IFC model.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The ``.ifc`` file (IFC2X3, IFC4 or IFC4X3).
+    config : DrawingConfig, optional
+        ``snap_tolerance_m`` decides which connected ports need a joining piece;
+        ``units`` is used only when the model states no length unit.
+    ifc_config : IfcConfig, optional
+        Tag attributes, below-ground level, classes read as equipment.
+
+    Returns
+    -------
+    IfcContent
+        Polylines and equipment in world metres, issues, circuits from groups.
+
+    Raises
+    ------
+    DrawingReadError
+        Unreadable file, unsupported schema, no length unit, no cable carriers.
+
+    References
+    ----------
+    .. [1] contract.md, "IFC input".
+    """
+    try:
+        return _read_ifc(path, config, ifc_config)
+    except (ValueError, TypeError, AttributeError, IndexError, KeyError, RuntimeError) as exc:
+        if isinstance(exc, CableRouteError):
+            raise
+        # a damaged entity (a malformed number, a reference of the wrong type, a list of the
+        # wrong length) surfaces from ifcopenshell or numpy while the geometry is read
+        first = (str(exc).splitlines() or [""])[0][:160]
+        raise DrawingReadError(
+            f"{path}: the model holds an entity that cannot be read ({type(exc).__name__}: {first}); "
+            "check the file with an IFC validator or export the model again"
+        ) from exc
 
 
 def _attach(piece: _Piece, port_at: np.ndarray | None, other: np.ndarray | None) -> np.ndarray:
