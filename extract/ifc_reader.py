@@ -511,17 +511,7 @@ def _read_ifc(
     config: DrawingConfig | None = None,
     ifc_config: IfcConfig | None = None,
 ) -> IfcContent:
-    """The reading itself; :func:`read_ifc` turns a damaged entity into one line."""
-    import ifcopenshell.util.system as us
-
-    from .ifc_geometry import (
-        UnsupportedGeometry,
-        axis_points,
-        body_axis_points,
-        transform,
-        world_matrix,
-    )
-
+    """The reading itself, step by step; :func:`read_ifc` turns a damaged entity into one line."""
     config = config or DrawingConfig()
     ic = ifc_config or IfcConfig()
     p = Path(path)
@@ -531,8 +521,38 @@ def _read_ifc(
     model = open_model(p)
     scale, unit_name = _unit_scale(model, p, config)
     cache: dict[int, np.ndarray] = {}
+    roles, elements = _route_elements(model)
+    seen = set(roles)
+    pieces, port_owner, port_pos = _route_pieces(elements, roles, p, scale, cache, issues)
+    links, neighbours, link_ports = _port_links(model, port_owner)
+    _assign_kinds(pieces, roles, p, ic, issues)
+    _fitting_kinds(pieces, neighbours, ic, config.snap_tolerance_m)
+    polylines, joins = _polylines(pieces, link_ports, port_pos, config.snap_tolerance_m)
+    _unlinked_issue(pieces, neighbours, links, p, config.snap_tolerance_m, issues)
+    equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
+    rows, failures = _read_circuits(model, p, ic, equipment)
+    logger.info(
+        "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
+        p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
+    )
+    return IfcContent(
+        path=str(p),
+        schema=str(model.schema).upper(),
+        model_units=unit_name,
+        polylines=tuple(polylines),
+        equipment=tuple(equipment),
+        issues=tuple(issues),
+        port_links=len(links),
+        port_joins=joins,
+        circuit_rows=tuple(rows),
+        circuit_failures=failures,
+    )
 
-    # ------------------------------------------------------------ route elements
+
+
+
+def _route_elements(model: Any) -> tuple[dict[int, str], list[Any]]:
+    """The route elements of the model (by step id) and their roles, in id order."""
     roles: dict[int, str] = {}
     elements: list[Any] = []
     for el in _by_type(model, "IfcFlowSegment") + _by_type(model, "IfcFlowFitting"):
@@ -546,7 +566,24 @@ def _read_ifc(
         roles[el.id()] = role
         elements.append(el)
     elements.sort(key=lambda e: e.id())
-    seen = set(roles)
+
+    return roles, elements
+
+
+def _route_pieces(
+    elements: list[Any], roles: dict[int, str], p: Path, scale: float, cache: dict[int, np.ndarray],
+    issues: list[Issue],
+) -> tuple[list[_Piece], dict[int, int], dict[int, np.ndarray | None]]:
+    """Each element's world polylines [m] and its ports (owner piece, world position [m])."""
+    import ifcopenshell.util.system as us
+
+    from .ifc_geometry import (
+        UnsupportedGeometry,
+        axis_points,
+        body_axis_points,
+        transform,
+        world_matrix,
+    )
 
     pieces: list[_Piece] = []
     port_owner: dict[int, int] = {}
@@ -611,7 +648,13 @@ def _read_ifc(
             "model the trays, ladders and conduits, or export the routes to DXF"
         )
 
-    # ------------------------------------------------------------ port links
+    return pieces, port_owner, port_pos
+
+
+def _port_links(
+    model: Any, port_owner: dict[int, int]
+) -> tuple[set[tuple[int, int]], dict[int, set[int]], dict[tuple[int, int], tuple[int, int]]]:
+    """Connected port pairs between two different pieces, and the pieces' neighbours."""
     links: set[tuple[int, int]] = set()
     link_ports: dict[tuple[int, int], tuple[int, int]] = {}
     for rel in _by_type(model, "IfcRelConnectsPorts"):
@@ -631,7 +674,11 @@ def _read_ifc(
         neighbours[ib].add(ia)
         link_ports[(pa, pb)] = (ia, ib)
 
-    # ------------------------------------------------------------ containment and method
+    return links, neighbours, link_ports
+
+
+def _assign_kinds(pieces: list[_Piece], roles: dict[int, str], p: Path, ic: IfcConfig, issues: list[Issue]) -> None:
+    """Containment and method of every carrier, cable and duct (fittings after, from them)."""
     for piece in pieces:
         el = piece.element
         ov = _override(el, issues)
@@ -665,7 +712,12 @@ def _read_ifc(
         else:
             piece.kind = base
 
-    # fittings: the kind of their carriers, through port links, then by touching ends
+
+
+def _fitting_kinds(
+    pieces: list[_Piece], neighbours: dict[int, set[int]], ic: IfcConfig, snap_tolerance_m: float
+) -> None:
+    """Fittings take the kind of their carriers, through port links, then by touching ends."""
     for i, piece in enumerate(pieces):
         if piece.kind is not None:
             continue
@@ -686,14 +738,22 @@ def _read_ifc(
                 break
             frontier = nxt
         if not found:
-            found.update(_touching_kinds(pieces, i, config.snap_tolerance_m))
+            found.update(_touching_kinds(pieces, i, snap_tolerance_m))
         if found:
             piece.kind = max(found.items(), key=lambda kv: (kv[1], kv[0] == ic.default_kind))[0]
         else:
             top_z = max((float(v[:, 2].max()) for v in piece.polys), default=float(piece.origin[2]))
             piece.kind = ic.below_ground_kind if top_z < ic.below_ground_z_m else ic.default_kind
 
-    # ------------------------------------------------------------ polylines
+
+
+def _polylines(
+    pieces: list[_Piece],
+    link_ports: dict[tuple[int, int], tuple[int, int]],
+    port_pos: dict[int, np.ndarray | None],
+    snap_tolerance_m: float,
+) -> tuple[list[RoutePolyline], int]:
+    """Route polylines of the pieces, plus a join for each port link the drawing rules miss."""
     polylines: list[RoutePolyline] = []
     for piece in pieces:
         containment, method = piece.kind  # type: ignore[misc]
@@ -705,7 +765,7 @@ def _read_ifc(
             ))
 
     joins = 0
-    tol = float(config.snap_tolerance_m)
+    tol = float(snap_tolerance_m)
     for (pa, pb), (ia, ib) in sorted(link_ports.items()):
         a_pt = _attach(pieces[ia], port_pos[pa], port_pos[pb])
         b_pt = _attach(pieces[ib], port_pos[pb], a_pt)
@@ -722,6 +782,14 @@ def _read_ifc(
         ))
         joins += 1
 
+    return polylines, joins
+
+
+def _unlinked_issue(
+    pieces: list[_Piece], neighbours: dict[int, set[int]], links: set[tuple[int, int]], p: Path,
+    tol: float, issues: list[Issue],
+) -> None:
+    """One issue for the pieces without connected ports (joined by the drawing rules)."""
     unlinked = [pc.gid for i, pc in enumerate(pieces) if i not in neighbours]
     if unlinked and not links:
         issues.append(Issue(
@@ -739,24 +807,6 @@ def _read_ifc(
             unlinked[0],
         ))
 
-    equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
-    rows, failures = _read_circuits(model, p, ic, equipment)
-    logger.info(
-        "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
-        p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
-    )
-    return IfcContent(
-        path=str(p),
-        schema=str(model.schema).upper(),
-        model_units=unit_name,
-        polylines=tuple(polylines),
-        equipment=tuple(equipment),
-        issues=tuple(issues),
-        port_links=len(links),
-        port_joins=joins,
-        circuit_rows=tuple(rows),
-        circuit_failures=failures,
-    )
 
 
 def read_ifc(
