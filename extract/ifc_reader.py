@@ -35,11 +35,11 @@ from collections import Counter, defaultdict
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .errors import CableRouteError, DrawingReadError, Issue, ScheduleError
+from .errors import CableRouteError, DrawingReadError, Issue
 from .model import (
     CONTAINMENTS,
     DEFAULT_ROUTE_LAYERS,
@@ -66,6 +66,9 @@ __all__ = [
     "route_layer",
     "measure_ifc",
 ]
+
+if TYPE_CHECKING:  # pragma: no cover
+    from . import ReaderResult
 
 logger = logging.getLogger(__name__)
 
@@ -308,6 +311,9 @@ def step_damage(path: str | os.PathLike[str]) -> str | None:
     p = Path(path)
     size = p.stat().st_size
     with p.open("rb") as fh:
+        head = fh.read(_TAIL_BYTES)
+        if b"DATA;" not in head:  # not a STEP file with data: the parser says what it is
+            return None
         fh.seek(max(0, size - _TAIL_BYTES))
         tail = fh.read()
     end = tail.rstrip()
@@ -318,7 +324,7 @@ def step_damage(path: str | os.PathLike[str]) -> str | None:
     done = list(re.finditer(rb"(?m)^\s*#(\d+)\s*=", b"\n".join(lines[:-1])))
     after = f", after entity #{done[-1].group(1).decode()}" if done else ""
     if last_line.endswith(b";"):
-        return f"the file ends without ENDSEC; and END-ISO-10303-21;{after}"
+        return f"the file ends without its closing 'ENDSEC;' and 'END-ISO-10303-21;'{after}"
     shown = last_line[:60].decode("latin-1")
     return f"the file ends inside an entity ('{shown}...'{after})"
 
@@ -1035,45 +1041,42 @@ def measure_ifc(
     ----------
     .. [1] contract.md, "IFC input", "Lengths and grouping".
     """
-    from .network import build_network
-    from .routing import route_circuits
-    from .schedule import read_schedule, rows_from_equipment
+    from . import measure_content
 
     config = config or DrawingConfig()
+    return measure_content(reader_result(model_path, config, ifc_config), schedule_path, config)
+
+
+def reader_result(
+    model_path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> ReaderResult:
+    """:func:`read_ifc` as the common :class:`~cablewright.extract.ReaderResult`.
+
+    Parameters
+    ----------
+    model_path : str or path-like
+        The ``.ifc`` model.
+    config : DrawingConfig, optional
+        Snap tolerance, recover mode.
+    ifc_config : IfcConfig, optional
+        IFC reading options.
+
+    Returns
+    -------
+    ReaderResult
+        Polylines, equipment, issues and the model's own circuits; units ``"m"``.
+    """
+    from . import ReaderResult
+
     content = read_ifc(model_path, config, ifc_config)
-    issues = list(content.issues)
-    network = build_network(content.polylines, content.equipment, config, source=content.path)
-    issues.extend(network.issues)
-    failures: dict[str, str] = {}
-    if schedule_path is not None:
-        rows = read_schedule(schedule_path)
-    elif content.circuit_rows or content.circuit_failures:
-        rows = list(content.circuit_rows)
-        failures.update(content.circuit_failures)
-    else:
-        try:
-            rows = rows_from_equipment(content.equipment)
-        except ScheduleError as exc:
-            raise ScheduleError(
-                f"{content.path}: no --circuits schedule given and the model has no circuit "
-                f"groups (IfcDistributionCircuit with a {CIRCUIT_PSET} property set) nor equipment "
-                f"with {EQUIPMENT_PSET} circuit properties; give the schedule with --circuits FILE"
-            ) from exc
-    routes, route_failures = route_circuits(network, rows, config)
-    failures.update(route_failures)
-    if failures:
-        # keep the schedule's order of circuits that come only from failed groups
-        known = {r.circuit_id for r in rows}
-        for n, cid in enumerate(sorted(c for c in failures if c not in known), start=len(rows) + 1):
-            rows.append(ScheduleRow(content.path, n, cid, "", ""))
-    return Measurement(
-        drawing=content.path,
-        units=content.units,
-        segments=network.segments,
-        equipment=network.equipment,
-        rows=rows,
-        routes=routes,
-        failures=failures,
-        issues=issues,
-        graph=network.graph,
+    hint = (
+        f"{content.path}: no --circuits schedule given and the model has no circuit "
+        f"groups (IfcDistributionCircuit with a {CIRCUIT_PSET} property set) nor equipment "
+        f"with {EQUIPMENT_PSET} circuit properties; give the schedule with --circuits FILE"
+    )
+    return ReaderResult(
+        content.path, content.units, content.polylines, content.equipment, content.issues,
+        content.circuit_rows, content.circuit_failures, hint,
     )
