@@ -392,38 +392,63 @@ class _Walker:
         depth: int,
         stack: tuple[str, ...],
     ) -> None:
+        from ezdxf import DXFError
+
         for e in entities:
-            t = e.dxftype()
-            layer = e.dxf.layer
-            if parent_layer is not None and layer == "0":
-                layer = parent_layer
-            sid = prefix + e.dxf.handle if e.dxf.handle else prefix + "?"
-            if t in _ROUTE_TYPES:
-                if self.config.layer_kind(layer) is None:
-                    continue
-                pts = _entity_points(e)
-                if pts is None:
-                    self.content.issues.append(
-                        Issue(
-                            "unsupported-entity",
-                            f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
-                            "route line; ignored - redraw it as a polyline",
-                            sid,
-                        )
-                    )
-                    continue
-                self.add_route(e, layer, pts, matrix, sid)
-            elif t == "INSERT":
-                self.insert(e, matrix, layer, prefix, depth, stack, sid)
-            elif t in {"SPLINE", "ELLIPSE", "CIRCLE", "MLINE"} and self.config.layer_kind(layer):
+            try:
+                self.entity(e, matrix, parent_layer, prefix, depth, stack)
+            except (DXFError, AttributeError, ValueError, TypeError, IndexError, KeyError, ArithmeticError) as exc:
+                # a damaged entity (recover mode keeps some): refused alone, the others go on
+                handle = getattr(getattr(e, "dxf", None), "handle", None) or "?"
+                sid = prefix + str(handle)
+                self.content.issues.append(Issue(
+                    "unreadable-entity",
+                    f"{self.path}: {e.dxftype()} {sid} cannot be read ({type(exc).__name__}: "
+                    f"{(str(exc).splitlines() or [''])[0][:120]}); ignored - check it in the drawing",
+                    sid,
+                ))
+
+    def entity(
+        self,
+        e,
+        matrix: Matrix44 | None,
+        parent_layer: str | None,
+        prefix: str,
+        depth: int,
+        stack: tuple[str, ...],
+    ) -> None:
+        """Read one entity: a route piece, a block reference, or an unsupported one reported."""
+        t = e.dxftype()
+        layer = e.dxf.layer
+        if parent_layer is not None and layer == "0":
+            layer = parent_layer
+        sid = prefix + e.dxf.handle if e.dxf.handle else prefix + "?"
+        if t in _ROUTE_TYPES:
+            if self.config.layer_kind(layer) is None:
+                return
+            pts = _entity_points(e)
+            if pts is None:
                 self.content.issues.append(
                     Issue(
                         "unsupported-entity",
-                        f"{self.path}: {t} {sid} on route layer {layer} is not a route entity "
-                        "(LINE, LWPOLYLINE, POLYLINE, ARC); ignored - redraw it as a polyline",
+                        f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
+                        "route line; ignored - redraw it as a polyline",
                         sid,
                     )
                 )
+                return
+            self.add_route(e, layer, pts, matrix, sid)
+        elif t == "INSERT":
+            self.insert(e, matrix, layer, prefix, depth, stack, sid)
+        elif t in {"SPLINE", "ELLIPSE", "CIRCLE", "MLINE"} and self.config.layer_kind(layer):
+            self.content.issues.append(
+                Issue(
+                    "unsupported-entity",
+                    f"{self.path}: {t} {sid} on route layer {layer} is not a route entity "
+                    "(LINE, LWPOLYLINE, POLYLINE, ARC); ignored - redraw it as a polyline",
+                    sid,
+                )
+            )
 
     def insert(self, e, matrix, layer: str, prefix: str, depth: int, stack, sid: str) -> None:
         name = e.dxf.name
