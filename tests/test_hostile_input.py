@@ -204,3 +204,42 @@ def test_ifc2x3_copy_is_typed_flow_segments_that_validate(tmp_path):
     assert code == 0, err
     f2 = ifcopenshell.open(str(again / "x3_sized_sized.ifc"))
     assert len([el for el in f2.by_type("IfcFlowSegment") if ue.get_pset(el, SIZING_PSET)]) == 1
+
+
+# --------------------------------------------------------------------------- units
+
+
+def test_block_problems_finds_loops_depth_and_undefined_names():
+    import ezdxf
+    from cablewright.extract.dxf_reader import MAX_BLOCK_DEPTH, block_problems
+
+    doc = ezdxf.new()
+    doc.blocks.new("A").add_blockref("B", (0, 0))
+    doc.blocks.new("B").add_blockref("A", (0, 0))  # A > B > A
+    doc.blocks.new("OK0")
+    for k in range(1, MAX_BLOCK_DEPTH):  # OK{MAX-1} holds MAX levels: allowed
+        doc.blocks.new(f"OK{k}").add_blockref(f"OK{k - 1}", (0, 0))
+    doc.blocks.new("DEEP").add_blockref(f"OK{MAX_BLOCK_DEPTH - 1}", (0, 0))  # one level more
+    doc.blocks.new("HOLE").add_blockref("NOWHERE", (0, 0))
+    problems = block_problems(doc)
+    assert problems["A"].kind == problems["B"].kind == "recursion"
+    assert f"OK{MAX_BLOCK_DEPTH - 1}" not in problems
+    assert problems["DEEP"].kind == "too-deep" and f"{MAX_BLOCK_DEPTH + 1} levels" in problems["DEEP"].message
+    assert problems["NOWHERE"].kind == problems["HOLE"].kind == "undefined"
+
+
+def test_a_long_chain_is_one_segment_of_its_whole_length():
+    # reference: shapely's length of the same chain merged into one line
+    import shapely
+    from cablewright.extract.model import Equipment, RoutePolyline
+    from cablewright.extract.network import build_network
+
+    n = 20_000
+    pieces = [RoutePolyline(((float(k), 0.0, 0.0), (k + 1.0, 0.0, 0.0)), "ROUTE-TRAY", "tray", "E", f"L{k}")
+              for k in range(n)]
+    eq = [Equipment("A", "a", (0.0, -0.5, 0.0), "MCC"), Equipment("B", "b", (float(n), 0.5, 0.0), "M")]
+    net = build_network(pieces, eq)
+    merged = shapely.line_merge(shapely.MultiLineString([p.points_m for p in pieces]))
+    assert len(net.segments) == 1
+    (seg,) = net.segments.values()
+    assert len(seg.source_ids) == n and seg.length_m == pytest.approx(merged.length, rel=1e-12)
