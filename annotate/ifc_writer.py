@@ -178,14 +178,57 @@ def _storey_of(f: Any, tag: str) -> Any:
     return buildings[0] if buildings else None
 
 
+#: Name of the one cable type our IFC2X3 cables share.
+CABLE_TYPE_NAME = "cablewright sized cable"
+
+
+def _cable_type(f: Any) -> Any:
+    """The IfcCableSegmentType our IFC2X3 cables are typed by (made once per model).
+
+    IFC2X3 has no IfcCableSegment occurrence: a cable is an IfcFlowSegment whose type,
+    an IfcCableSegmentType, says what it is (ISO/PAS 16739:2005, IFC2x Edition 3,
+    IfcElectricalDomain: IfcCableSegmentType, IfcCableSegmentTypeEnum CABLESEGMENT).
+    """
+    import ifcopenshell.api.root
+
+    for tp in f.by_type("IfcCableSegmentType"):
+        if tp.Name == CABLE_TYPE_NAME:
+            return tp
+    return ifcopenshell.api.root.create_entity(
+        f, ifc_class="IfcCableSegmentType", name=CABLE_TYPE_NAME, predefined_type="CABLESEGMENT"
+    )
+
+
+def _create_cable_element(f: Any, name: str) -> Any:
+    """An IfcCableSegment (IFC4, IFC4X3), or an IfcFlowSegment typed as a cable (IFC2X3)."""
+    import ifcopenshell.api.root
+    import ifcopenshell.api.type
+
+    if str(f.schema).upper() == "IFC2X3":
+        cable = ifcopenshell.api.root.create_entity(f, ifc_class="IfcFlowSegment", name=name)
+        ifcopenshell.api.type.assign_type(f, related_objects=[cable], relating_type=_cable_type(f))
+        return cable
+    return ifcopenshell.api.root.create_entity(
+        f, ifc_class="IfcCableSegment", name=name, predefined_type="CABLESEGMENT"
+    )
+
+
+def _existing_cables(f: Any) -> list[Any]:
+    """Cable occurrences of the model: IfcCableSegment, or in IFC2X3 segments typed as cables."""
+    import ifcopenshell.util.element as ue
+
+    if str(f.schema).upper() != "IFC2X3":
+        return list(f.by_type("IfcCableSegment"))
+    return [el for el in f.by_type("IfcFlowSegment")
+            if (tp := ue.get_type(el)) is not None and tp.is_a("IfcCableSegmentType")]
+
+
 def _new_cable(f: Any, outcome: CircuitOutcome, scale: float) -> Any:
     import ifcopenshell.api.geometry
-    import ifcopenshell.api.root
     import ifcopenshell.api.spatial
     import numpy as np
 
-    kw = {} if f.schema == "IFC2X3" else {"predefined_type": "CABLESEGMENT"}
-    cable = ifcopenshell.api.root.create_entity(f, ifc_class="IfcCableSegment", name=outcome.circuit_id, **kw)
+    cable = _create_cable_element(f, outcome.circuit_id)
     cable.Tag = outcome.circuit_id
     cable.Description = f"{outcome.from_tag} -> {outcome.to_tag}"
     container = _storey_of(f, outcome.from_tag)
@@ -246,7 +289,7 @@ def write_ifc_copy(
     f = open_model(src)
     scale = float(uu.calculate_unit_scale(f))
     existing: dict[str, Any] = {}
-    for cable in f.by_type("IfcCableSegment"):
+    for cable in _existing_cables(f):
         key = cable.Tag or cable.Name
         if key and key not in existing:
             existing[key] = cable
@@ -274,7 +317,7 @@ def write_ifc_copy(
             updated.append(outcome.circuit_id)
         _set_pset(f, cable, SIZING_PSET, _sizing_props(outcome))
         _set_pset(f, cable, CHECKS_PSET, _check_props(outcome))
-    stable_relation_order(f, [c for c in f.by_type("IfcCableSegment") if (c.Tag or c.Name) in added])
+    stable_relation_order(f, [c for c in _existing_cables(f) if (c.Tag or c.Name) in added])
     try:
         dst.parent.mkdir(parents=True, exist_ok=True)
         with atomic_path(dst) as tmp:

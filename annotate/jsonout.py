@@ -172,7 +172,9 @@ def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size",
       ]
     }
     """
-    encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": ")).encode
+    # allow_nan=False: NaN and infinity are not JSON (RFC 8259, section 6); a value that
+    # slipped through raises here instead of writing a document no reader accepts
+    encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "), allow_nan=False).encode
     lines = [encode(outcome_to_dict(o, kind)) for o in outcomes]
     body = ",\n".join("    " + line for line in lines)
     text = '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]"

@@ -42,6 +42,7 @@ from collections.abc import Iterable
 from typing import Any
 
 import ezdxf
+from cablewright.extract.dxf_reader import block_problems
 from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
 from ezdxf.addons.drawing.matplotlib import MatplotlibBackend
@@ -305,7 +306,15 @@ def render_preview_png(
     if lean:
         skip |= {layer.upper() for layer in lean_skip_layers}
 
+    # a reference to a block that is undefined, inserts itself or nests too deep is not
+    # drawn (ezdxf's drawing add-on would raise or recurse without end); the reader reports it
+    bad_blocks = set(block_problems(doc))
+
     def wanted(entity: Any) -> bool:
+        if entity.dxftype() == "INSERT" and (
+            entity.dxf.name in bad_blocks or doc.blocks.get(entity.dxf.name) is None
+        ):
+            return False
         layer = entity.dxf.get("layer", "0").upper()
         if layer in skip or (only is not None and layer not in only):
             return False

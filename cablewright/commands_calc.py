@@ -62,7 +62,7 @@ def run(args: argparse.Namespace) -> int:
     result, length_m = _result(args)
     outcome = CircuitOutcome(args.id, "", "", result.status, result.messages, sizing=result)
     if args.json:
-        print(json.dumps(document([outcome], kind="calc"), indent=2, ensure_ascii=False))
+        print(json.dumps(document([outcome], kind="calc"), indent=2, ensure_ascii=False, allow_nan=False))
     else:
         print(calc_steps(result, length_m))
     if result.status == "error":

@@ -9,11 +9,13 @@ from __future__ import annotations
 
 import logging
 import os
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from .dxf_reader import DxfContent, read_dxf
-from .errors import DrawingReadError, Issue
+from .errors import DrawingReadError, Issue, ScheduleError
 from .grouping import GroupInfo, circuits_per_segment, group_summary
 from .model import (
     UNIT_TO_M,
@@ -31,6 +33,9 @@ from .schedule import POSITION_COLUMNS, load_positions, read_schedule, rows_from
 
 __all__ = [
     "measure",
+    "measure_content",
+    "read_drawing",
+    "ReaderResult",
     "read_dxf",
     "DxfContent",
     "build_network",
@@ -55,6 +60,85 @@ __all__ = [
 logger = logging.getLogger(__name__)
 
 
+@dataclass(frozen=True)
+class ReaderResult:
+    """What every reader hands to :func:`measure`: the same shape for DXF and IFC.
+
+    Attributes
+    ----------
+    path : str
+        The drawing or model read.
+    units : str
+        Units reported for the drawing (the DXF's units; ``"m"`` for IFC, converted on reading).
+    polylines : sequence of RoutePolyline
+        Route pieces, [m].
+    equipment : sequence of Equipment
+        Tagged equipment, [m].
+    issues : sequence of Issue
+        Problems the reader found.
+    circuit_rows : sequence of ScheduleRow
+        Circuits the model itself holds (IFC circuit groups); empty for DXF.
+    circuit_failures : mapping
+        Circuit id -> message, for circuits of the model that cannot be told.
+    no_circuits_hint : str or None
+        The message when no schedule is given and the input holds no circuits.
+    document : object or None
+        The parsed DXF document (kept for the annotated copy and the preview).
+    summary : object or None
+        Units, where they came from, extents and scale check of a DXF drawing.
+    """
+
+    path: str
+    units: str
+    polylines: Sequence[RoutePolyline]
+    equipment: Sequence[Equipment]
+    issues: Sequence[Issue] = ()
+    circuit_rows: Sequence[ScheduleRow] = ()
+    circuit_failures: Mapping[str, str] = field(default_factory=dict)
+    no_circuits_hint: str | None = None
+    document: object | None = field(default=None, repr=False, compare=False)
+    summary: Any = None
+
+
+def read_drawing(
+    drawing_path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: Any = None,
+) -> ReaderResult:
+    """Read a ``.dxf`` drawing or an ``.ifc`` model into a :class:`ReaderResult`.
+
+    Parameters
+    ----------
+    drawing_path : str or path-like
+        The drawing or model.
+    config : DrawingConfig, optional
+        Drawing conventions.
+    ifc_config : IfcConfig, optional
+        How an IFC model is read.
+
+    Returns
+    -------
+    ReaderResult
+
+    Raises
+    ------
+    DrawingReadError
+        The drawing cannot be used at all, or its suffix is neither .dxf nor .ifc.
+    """
+    config = config or DrawingConfig()
+    p = Path(drawing_path)
+    suffix = p.suffix.lower()
+    if suffix == ".dxf":
+        content = read_dxf(p, config)
+        return ReaderResult(str(p), content.units, content.polylines, content.equipment,
+                            tuple(content.issues), document=content.document, summary=content.summary)
+    if suffix == ".ifc":
+        from .ifc_reader import reader_result  # ifcopenshell only when an IFC model is given
+
+        return reader_result(p, config, ifc_config)
+    raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
+
+
 def measure(
     drawing_path: str | os.PathLike[str],
     schedule_path: str | os.PathLike[str] | None = None,
@@ -67,10 +151,11 @@ def measure(
     ----------
     drawing_path : str or path-like
         ``.dxf`` drawing or ``.ifc`` model (IFC2X3, IFC4, IFC4X3; see
-        :func:`~cablewright.extract.ifc_reader.measure_ifc`).
+        :func:`~cablewright.extract.ifc_reader.read_ifc`).
     schedule_path : str or path-like, optional
         ``.csv`` or ``.xlsx`` schedule; without it the schedule is built from the
-        equipment blocks' attributes (contract.md, ``--circuits``).
+        equipment blocks' attributes (contract.md, ``--circuits``), or for IFC from the
+        model's circuit groups.
     config : DrawingConfig, optional
         Drawing conventions; defaults from contract.md.
     ifc_config : IfcConfig, optional
@@ -93,36 +178,71 @@ def measure(
     .. [1] contract.md, "Drawing conventions", "Lengths and grouping".
     """
     config = config or DrawingConfig()
-    p = Path(drawing_path)
-    suffix = p.suffix.lower()
-    if suffix == ".dxf":
-        content = read_dxf(p, config)
-        polylines, equipment, issues, units = (
-            content.polylines, content.equipment, list(content.issues), content.units,
-        )
-    elif suffix == ".ifc":
-        from .ifc_reader import measure_ifc  # ifcopenshell only when an IFC model is given
+    return measure_content(read_drawing(drawing_path, config, ifc_config), schedule_path, config)
 
-        measurement = measure_ifc(p, schedule_path, config, ifc_config)
-        if any(row.get(c) for row in measurement.rows for c in POSITION_COLUMNS):
-            measurement.issues.append(Issue(
-                "schedule-position", f"{p}: to_x/to_y/to_z in the schedule place loads in DXF drawings "
-                "only; ignored for this IFC model - give the loads' tags"))
-        return measurement
+
+def measure_content(
+    content: ReaderResult,
+    schedule_path: str | os.PathLike[str] | None = None,
+    config: DrawingConfig | None = None,
+) -> Measurement:
+    """The one measuring path after reading: network, schedule rows, routes.
+
+    Parameters
+    ----------
+    content : ReaderResult
+        What the reader found.
+    schedule_path : str or path-like, optional
+        ``.csv`` or ``.xlsx`` schedule.
+    config : DrawingConfig, optional
+        Drawing conventions.
+
+    Returns
+    -------
+    Measurement
+
+    Raises
+    ------
+    ScheduleError
+        The schedule cannot be used, or there is none and the input holds no circuits.
+    """
+    config = config or DrawingConfig()
+    issues = list(content.issues)
+    failures: dict[str, str] = {}
+    if schedule_path is not None:
+        rows = read_schedule(schedule_path)
+    elif content.circuit_rows or content.circuit_failures:
+        rows = list(content.circuit_rows)
+        failures.update(content.circuit_failures)
     else:
-        raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
-    rows = (read_schedule(schedule_path) if schedule_path is not None
-            else rows_from_equipment(equipment, str(p)))
-    rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[units], issues)
-    network = build_network(polylines, equipment, config)
+        try:
+            rows = rows_from_equipment(content.equipment, content.path)
+        except ScheduleError as exc:
+            if content.no_circuits_hint is None:
+                raise
+            raise ScheduleError(content.no_circuits_hint) from exc
+    equipment = list(content.equipment)
+    position_errors: dict[str, str] = {}
+    if content.document is not None:  # a DXF drawing: the schedule may place loads
+        rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[content.units], issues)
+    elif any(row.get(c) for row in rows for c in POSITION_COLUMNS):
+        issues.append(Issue(
+            "schedule-position", f"{content.path}: to_x/to_y/to_z in the schedule place loads in DXF "
+            "drawings only; ignored for this IFC model - give the loads' tags"))
+    network = build_network(content.polylines, equipment, config, source=content.path)
     issues.extend(network.issues)
-    routes, failures = route_circuits(network, rows, config)
+    routes, route_failures = route_circuits(network, rows, config)
+    failures.update(route_failures)
     for cid, message in position_errors.items():
         routes.pop(cid, None)
         failures[cid] = message
+    known = {r.circuit_id for r in rows}
+    # circuits that come only from failed groups of the model, in a stable order
+    for n, cid in enumerate(sorted(c for c in failures if c not in known), start=len(rows) + 1):
+        rows.append(ScheduleRow(content.path, n, cid, "", ""))
     return Measurement(
-        drawing=str(p),
-        units=units,
+        drawing=content.path,
+        units=content.units,
         segments=network.segments,
         equipment=network.equipment,
         rows=rows,

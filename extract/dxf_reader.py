@@ -14,7 +14,7 @@ import os
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, NamedTuple
 
 from .dxf_flatten import FLATTEN_TYPES, flatten_points
 from .dxf_tags import Symbol, TagMarks, TextMark, first_word, tag_symbols, text_anchor
@@ -27,7 +27,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from ezdxf.document import Drawing
     from ezdxf.math import Matrix44
 
-__all__ = ["DxfContent", "read_dxf", "INSUNITS_NAMES", "ARC_STEP_RAD"]
+__all__ = ["DxfContent", "read_dxf", "block_problems", "BlockProblem", "INSUNITS_NAMES", "ARC_STEP_RAD", "MAX_BLOCK_DEPTH"]
 
 logger = logging.getLogger(__name__)
 
@@ -39,6 +39,84 @@ INSUNITS_NAMES = {code: name for code, (name, _) in INSUNITS.items()}
 #: The chord/arc ratio is sin(a/2)/(a/2) ~ 1 - a**2/24, so 2 degrees loses
 #: 5e-5 of an arc's length (well inside the 0.5 % we promise).
 ARC_STEP_RAD = math.radians(2.0)
+
+#: Deepest nesting of block references followed, [levels].  Drawings nest symbols a few
+#: levels deep (a skid holding a motor holding a terminal box); 32 leaves room for any
+#: real drawing while keeping a hostile one (a block nested 1,000 deep) from exhausting
+#: the interpreter's stack here, in ezdxf's bounding boxes and in its drawing add-on.
+MAX_BLOCK_DEPTH = 32
+
+
+class BlockProblem(NamedTuple):
+    """Why a block cannot be followed: ``kind`` is ``"recursion"``, ``"too-deep"`` or ``"undefined"``."""
+
+    kind: str
+    message: str
+    cause: str = ""  # the first block found bad, for the message of the blocks holding it
+
+
+def block_problems(doc: Drawing) -> dict[str, BlockProblem]:
+    """Blocks that cannot be followed, by name, with what is wrong with each.
+
+    A block is unusable when it inserts itself (directly or through others), nests
+    more than :data:`MAX_BLOCK_DEPTH` levels deep, or inserts a block that is not
+    defined (then also the undefined name is listed).  Found by one iterative
+    depth-first pass over the BLOCKS section (no recursion: any depth is safe here).
+
+    Parameters
+    ----------
+    doc : ezdxf.document.Drawing
+        The drawing.
+
+    Returns
+    -------
+    dict
+        Block name -> :class:`BlockProblem`; blocks that are fine are absent.
+    """
+    children: dict[str, list[str]] = {}
+    for block in doc.blocks:
+        if not block.name.startswith("*"):  # not the model and paper space layouts
+            children[block.name] = [e.dxf.name for e in block if e.dxftype() == "INSERT"]
+    problems: dict[str, BlockProblem] = {}
+    depth: dict[str, int] = {}  # levels of blocks, this one included
+    for root in children:
+        if root not in depth and root not in problems:
+            _visit_blocks(root, children, depth, problems)
+    return problems
+
+
+def _visit_blocks(
+    root: str, children: dict[str, list[str]], depth: dict[str, int], problems: dict[str, BlockProblem]
+) -> None:
+    stack: list[tuple[str, int]] = [(root, 0)]
+    on_path: list[str] = []
+    while stack:
+        name, k = stack.pop()
+        if k == 0:
+            on_path.append(name)
+        kids = children[name]
+        if k < len(kids):
+            stack.append((name, k + 1))
+            kid = kids[k]
+            if kid in on_path:
+                loop = " > ".join(on_path[on_path.index(kid):] + [kid])
+                problems.setdefault(kid, BlockProblem("recursion", f"block {kid} inserts itself ({loop})"))
+            elif kid not in children:
+                problems.setdefault(kid, BlockProblem("undefined", f"block {kid} is not defined in the drawing"))
+            elif kid not in depth and kid not in problems:
+                stack.append((kid, 0))
+            continue
+        on_path.pop()
+        bad = next((problems[c] for c in kids if c in problems), None)
+        if bad is not None:
+            cause = bad.cause or bad.message
+            problems.setdefault(name, BlockProblem(bad.kind, f"block {name} holds a bad block ({cause})", cause))
+            continue
+        depth[name] = 1 + max((depth[c] for c in kids), default=0)
+        if depth[name] > MAX_BLOCK_DEPTH:
+            problems[name] = BlockProblem(
+                "too-deep", f"block {name} nests blocks {depth[name]} levels deep, more than {MAX_BLOCK_DEPTH}"
+            )
 
 
 @dataclass
@@ -257,12 +335,13 @@ class _Walker:
     tag_key: str
     _block_info: dict[str, tuple[bool, bool, bool]] = field(default_factory=dict)
     marks: TagMarks = field(default_factory=TagMarks)
+    problems: dict[str, BlockProblem] = field(default_factory=dict)
 
     def block_info(self, name: str, stack: tuple[str, ...] = ()) -> tuple[bool, bool, bool]:
         """(has explicit route-layer geometry, has layer-0 geometry, has inserts) of a block."""
         if name in self._block_info:
             return self._block_info[name]
-        if name in stack:  # self-referencing block: stop
+        if name in stack or (name in self.problems and self.problems[name].kind != "undefined"):
             return (False, False, False)
         explicit = layer0 = inserts = False
         block = self.doc.blocks.get(name)
@@ -360,39 +439,73 @@ class _Walker:
         depth: int,
         stack: tuple[str, ...],
     ) -> None:
+        from ezdxf import DXFError
+
         for e in entities:
-            t = e.dxftype()
-            layer = e.dxf.layer
-            if parent_layer is not None and layer == "0":
-                layer = parent_layer
-            sid = prefix + e.dxf.handle if e.dxf.handle else prefix + "?"
-            if t in _ROUTE_TYPES:
-                if self.config.layer_kind(layer) is None:
-                    continue
-                pts = _entity_points(e)
-                if pts is None:
-                    self.content.issues.append(
-                        Issue(
-                            "unsupported-entity",
-                            f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
-                            "route line; ignored - redraw it as a polyline",
-                            sid,
-                        )
+            try:
+                self.entity(e, matrix, parent_layer, prefix, depth, stack)
+            except (DXFError, AttributeError, ValueError, TypeError, IndexError, KeyError, ArithmeticError) as exc:
+                # a damaged entity (recover mode keeps some): refused alone, the others go on
+                handle = getattr(getattr(e, "dxf", None), "handle", None) or "?"
+                sid = prefix + str(handle)
+                self.content.issues.append(Issue(
+                    "unreadable-entity",
+                    f"{self.path}: {e.dxftype()} {sid} cannot be read ({type(exc).__name__}: "
+                    f"{(str(exc).splitlines() or [''])[0][:120]}); ignored - check it in the drawing",
+                    sid,
+                ))
+
+    def entity(
+        self,
+        e,
+        matrix: Matrix44 | None,
+        parent_layer: str | None,
+        prefix: str,
+        depth: int,
+        stack: tuple[str, ...],
+    ) -> None:
+        """Read one entity: a route piece, a block reference, a curve, or a mark for tags."""
+        t = e.dxftype()
+        layer = e.dxf.layer
+        if parent_layer is not None and layer == "0":
+            layer = parent_layer
+        sid = prefix + e.dxf.handle if e.dxf.handle else prefix + "?"
+        if t in _ROUTE_TYPES:
+            if self.config.layer_kind(layer) is None:
+                return
+            pts = _entity_points(e)
+            if pts is None:
+                self.content.issues.append(
+                    Issue(
+                        "unsupported-entity",
+                        f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
+                        "route line; ignored - redraw it as a polyline",
+                        sid,
                     )
-                    continue
-                self.add_route(e, layer, pts, matrix, sid)
-            elif t == "INSERT":
-                self.insert(e, matrix, layer, prefix, depth, stack, sid)
-            elif t in FLATTEN_TYPES and self.config.layer_kind(layer):
-                self.add_curve(e, layer, matrix, sid)
-            elif t in _MARK_TYPES:
-                self.mark(e, t, layer, matrix, sid)
+                )
+                return
+            self.add_route(e, layer, pts, matrix, sid)
+        elif t == "INSERT":
+            self.insert(e, matrix, layer, prefix, depth, stack, sid)
+        elif t in FLATTEN_TYPES and self.config.layer_kind(layer):
+            self.add_curve(e, layer, matrix, sid)
+        elif t in _MARK_TYPES:
+            self.mark(e, t, layer, matrix, sid)
 
     def insert(self, e, matrix, layer: str, prefix: str, depth: int, stack, sid: str) -> None:
         name = e.dxf.name
-        if depth > 32 or name in stack:
+        found = self.problems.get(name)
+        problem = found.message if found is not None and found.kind != "undefined" else None
+        if problem is None and (depth > MAX_BLOCK_DEPTH or name in stack):  # pragma: no cover
+            problem = f"block {name} nests itself or too deep"  # block_problems finds these first
+        if problem is not None:
             self.content.issues.append(
-                Issue("block-recursion", f"{self.path}: block {name} ({sid}) nests itself; skipped", sid)
+                Issue(
+                    "block-recursion",
+                    f"{self.path}: INSERT {sid}: {problem}; its contents are skipped - "
+                    "fix the block definitions in the drawing",
+                    sid,
+                )
             )
             return
         inserts = list(e.multi_insert()) if e.mcount > 1 else [e]
@@ -417,15 +530,20 @@ class _Walker:
                         attributes=tuple(sorted(attribs.items())),
                     )
                 )
-            explicit, layer0, has_inserts = self.block_info(name)
-            route_layer = self.config.layer_kind(layer) is not None
-            if not (explicit or (layer0 and route_layer) or has_inserts):
-                continue
             block = self.doc.blocks.get(name)
             if block is None:
                 self.content.issues.append(
-                    Issue("missing-block", f"{self.path}: INSERT {isid} names missing block {name}", isid)
+                    Issue(
+                        "missing-block",
+                        f"{self.path}: INSERT {isid} names block {name}, which is not defined; "
+                        "its contents are missing - insert a defined block",
+                        isid,
+                    )
                 )
+                continue
+            explicit, layer0, has_inserts = self.block_info(name)
+            route_layer = self.config.layer_kind(layer) is not None
+            if not (explicit or (layer0 and route_layer) or has_inserts):
                 continue
             self.walk(block, m, layer, isid + "/", depth + 1, stack + (name,))
 
@@ -488,6 +606,7 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     units = _units(doc, p, config, issues)
     content = DxfContent(path=str(p), units=units, issues=issues, document=doc)
     walker = _Walker(doc, p, config, UNIT_TO_M[units], content, config.tag_attribute.upper())
+    walker.problems = block_problems(doc)
     _walk_layout(walker, iter(doc.modelspace()))
     _tag_from_text(walker)
     if not content.polylines:

@@ -35,11 +35,11 @@ from collections import Counter, defaultdict
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .errors import DrawingReadError, Issue, ScheduleError
+from .errors import CableRouteError, DrawingReadError, Issue
 from .model import (
     CONTAINMENTS,
     DEFAULT_ROUTE_LAYERS,
@@ -66,6 +66,9 @@ __all__ = [
     "route_layer",
     "measure_ifc",
 ]
+
+if TYPE_CHECKING:  # pragma: no cover
+    from . import ReaderResult
 
 logger = logging.getLogger(__name__)
 
@@ -278,6 +281,97 @@ def open_model(path: str | os.PathLike[str]) -> Any:
     return model
 
 
+#: The last line of a complete STEP exchange structure (ISO 10303-21:2016, clause 5.3).
+STEP_END = b"END-ISO-10303-21;"
+
+#: Bytes read from the end of a file to check that it is complete.
+_TAIL_BYTES = 65536
+
+
+def step_damage(path: str | os.PathLike[str]) -> str | None:
+    """What is wrong with the end of a STEP (IFC) file, or None when it ends as it must.
+
+    A complete file ends with the DATA section's ``ENDSEC;`` and ``END-ISO-10303-21;``
+    (ISO 10303-21:2016, clause 5.3).  A file cut short (an interrupted copy or export)
+    parses in part: whatever came after the cut, routes included, would be missing
+    without a word, so the reader refuses it unless recover mode is asked for.
+
+    Parameters
+    ----------
+    path : path-like
+        The IFC file.
+
+    Returns
+    -------
+    str or None
+        One line: where the file ends, naming the entity it ends in.
+    """
+    import re
+
+    p = Path(path)
+    size = p.stat().st_size
+    with p.open("rb") as fh:
+        head = fh.read(_TAIL_BYTES)
+        if b"DATA;" not in head:  # not a STEP file with data: the parser says what it is
+            return None
+        fh.seek(max(0, size - _TAIL_BYTES))
+        tail = fh.read()
+    end = tail.rstrip()
+    if end.endswith(STEP_END) and end[: -len(STEP_END)].rstrip().endswith(b"ENDSEC;"):
+        return None
+    lines = end.split(b"\n")
+    last_line = lines[-1].strip()
+    done = list(re.finditer(rb"(?m)^\s*#(\d+)\s*=", b"\n".join(lines[:-1])))
+    after = f", after entity #{done[-1].group(1).decode()}" if done else ""
+    if last_line.endswith(b";"):
+        return f"the file ends without its closing 'ENDSEC;' and 'END-ISO-10303-21;'{after}"
+    shown = last_line[:60].decode("latin-1")
+    return f"the file ends inside an entity ('{shown}...'{after})"
+
+
+def lost_entities(path: str | os.PathLike[str]) -> list[str]:
+    """Entities a truncated STEP file refers to but no longer holds, as ``"#id"``, in order.
+
+    Parameters
+    ----------
+    path : path-like
+        The IFC file.
+
+    Returns
+    -------
+    list of str
+        Ids referenced by some entity and defined by none (cut off by the end of the file).
+    """
+    import re
+
+    text = Path(path).read_bytes()
+    data = text[text.find(b"DATA;"):] if b"DATA;" in text else text
+    defined = {int(m) for m in re.findall(rb"(?m)^\s*#(\d+)\s*=", data)}
+    referenced = {int(m) for m in re.findall(rb"#(\d+)", data)}
+    return [f"#{k}" for k in sorted(referenced - defined)]
+
+
+def _check_complete(p: Path, config: DrawingConfig, issues: list[Issue]) -> None:
+    """Refuse a truncated file; in recover mode list what was lost instead."""
+    damage = step_damage(p)
+    if damage is None:
+        return
+    if not config.recover:
+        raise DrawingReadError(
+            f"{p}: the IFC file is damaged: {damage}; missing elements would give wrong lengths. "
+            "Export the model again, or use --recover to measure what can be read"
+        )
+    lost = lost_entities(p)
+    shown = ", ".join(lost[:20]) + (f" and {len(lost) - 20} more" if len(lost) > 20 else "")
+    issues.append(Issue("recovered", f"{p}: damaged file read in recover mode: {damage}"))
+    issues.append(Issue(
+        "recover-lost",
+        f"{p}: lost with the end of the file: the entity cut off"
+        + (f" and {len(lost)} entities referred to: {shown}" if lost else "")
+        + " - check the routes against the model",
+    ))
+
+
 def _schema_ok(name: str) -> bool:
     n = name.upper()
     return n in ("IFC2X3", "IFC4") or n.startswith("IFC4X3")
@@ -418,56 +512,53 @@ def _nearest_on(polys: list[np.ndarray], p: np.ndarray) -> np.ndarray:
     return best
 
 
-def read_ifc(
+def _read_ifc(
     path: str | os.PathLike[str],
     config: DrawingConfig | None = None,
     ifc_config: IfcConfig | None = None,
 ) -> IfcContent:
-    """Read route pieces, equipment and circuit groups from an IFC model.
-
-    Parameters
-    ----------
-    path : str or path-like
-        The ``.ifc`` file (IFC2X3, IFC4 or IFC4X3).
-    config : DrawingConfig, optional
-        ``snap_tolerance_m`` decides which connected ports need a joining piece;
-        ``units`` is used only when the model states no length unit.
-    ifc_config : IfcConfig, optional
-        Tag attributes, below-ground level, classes read as equipment.
-
-    Returns
-    -------
-    IfcContent
-        Polylines and equipment in world metres, issues, circuits from groups.
-
-    Raises
-    ------
-    DrawingReadError
-        Unreadable file, unsupported schema, no length unit, no cable carriers.
-
-    References
-    ----------
-    .. [1] contract.md, "IFC input".
-    """
-    import ifcopenshell.util.system as us
-
-    from .ifc_geometry import (
-        UnsupportedGeometry,
-        axis_points,
-        body_axis_points,
-        transform,
-        world_matrix,
-    )
-
+    """The reading itself, step by step; :func:`read_ifc` turns a damaged entity into one line."""
     config = config or DrawingConfig()
     ic = ifc_config or IfcConfig()
     p = Path(path)
+    issues: list[Issue] = []
+    if p.is_file() and p.stat().st_size:
+        _check_complete(p, config, issues)
     model = open_model(p)
     scale, unit_name = _unit_scale(model, p, config)
-    issues: list[Issue] = []
     cache: dict[int, np.ndarray] = {}
+    roles, elements = _route_elements(model)
+    seen = set(roles)
+    pieces, port_owner, port_pos = _route_pieces(elements, roles, p, scale, cache, issues)
+    links, neighbours, link_ports = _port_links(model, port_owner)
+    _assign_kinds(pieces, roles, p, ic, issues)
+    _fitting_kinds(pieces, neighbours, ic, config.snap_tolerance_m)
+    polylines, joins = _polylines(pieces, link_ports, port_pos, config.snap_tolerance_m)
+    _unlinked_issue(pieces, neighbours, links, p, config.snap_tolerance_m, issues)
+    equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
+    rows, failures = _read_circuits(model, p, ic, equipment)
+    logger.info(
+        "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
+        p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
+    )
+    return IfcContent(
+        path=str(p),
+        schema=str(model.schema).upper(),
+        model_units=unit_name,
+        polylines=tuple(polylines),
+        equipment=tuple(equipment),
+        issues=tuple(issues),
+        port_links=len(links),
+        port_joins=joins,
+        circuit_rows=tuple(rows),
+        circuit_failures=failures,
+    )
 
-    # ------------------------------------------------------------ route elements
+
+
+
+def _route_elements(model: Any) -> tuple[dict[int, str], list[Any]]:
+    """The route elements of the model (by step id) and their roles, in id order."""
     roles: dict[int, str] = {}
     elements: list[Any] = []
     for el in _by_type(model, "IfcFlowSegment") + _by_type(model, "IfcFlowFitting"):
@@ -481,7 +572,24 @@ def read_ifc(
         roles[el.id()] = role
         elements.append(el)
     elements.sort(key=lambda e: e.id())
-    seen = set(roles)
+
+    return roles, elements
+
+
+def _route_pieces(
+    elements: list[Any], roles: dict[int, str], p: Path, scale: float, cache: dict[int, np.ndarray],
+    issues: list[Issue],
+) -> tuple[list[_Piece], dict[int, int], dict[int, np.ndarray | None]]:
+    """Each element's world polylines [m] and its ports (owner piece, world position [m])."""
+    import ifcopenshell.util.system as us
+
+    from .ifc_geometry import (
+        UnsupportedGeometry,
+        axis_points,
+        body_axis_points,
+        transform,
+        world_matrix,
+    )
 
     pieces: list[_Piece] = []
     port_owner: dict[int, int] = {}
@@ -532,13 +640,27 @@ def read_ifc(
                 world_matrix(port, cache)[:3, 3] * scale if port.ObjectPlacement is not None else None
             )
 
+    if not pieces and elements:
+        shown = ", ".join(_label(el) for el in elements[:3]) + (
+            f" and {len(elements) - 3} more" if len(elements) > 3 else ""
+        )
+        raise DrawingReadError(
+            f"{p}: the model's {len(elements)} route element(s) ({shown}) have no usable geometry; "
+            "give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF"
+        )
     if not pieces:
         raise DrawingReadError(
             f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); "
             "model the trays, ladders and conduits, or export the routes to DXF"
         )
 
-    # ------------------------------------------------------------ port links
+    return pieces, port_owner, port_pos
+
+
+def _port_links(
+    model: Any, port_owner: dict[int, int]
+) -> tuple[set[tuple[int, int]], dict[int, set[int]], dict[tuple[int, int], tuple[int, int]]]:
+    """Connected port pairs between two different pieces, and the pieces' neighbours."""
     links: set[tuple[int, int]] = set()
     link_ports: dict[tuple[int, int], tuple[int, int]] = {}
     for rel in _by_type(model, "IfcRelConnectsPorts"):
@@ -558,7 +680,11 @@ def read_ifc(
         neighbours[ib].add(ia)
         link_ports[(pa, pb)] = (ia, ib)
 
-    # ------------------------------------------------------------ containment and method
+    return links, neighbours, link_ports
+
+
+def _assign_kinds(pieces: list[_Piece], roles: dict[int, str], p: Path, ic: IfcConfig, issues: list[Issue]) -> None:
+    """Containment and method of every carrier, cable and duct (fittings after, from them)."""
     for piece in pieces:
         el = piece.element
         ov = _override(el, issues)
@@ -592,7 +718,12 @@ def read_ifc(
         else:
             piece.kind = base
 
-    # fittings: the kind of their carriers, through port links, then by touching ends
+
+
+def _fitting_kinds(
+    pieces: list[_Piece], neighbours: dict[int, set[int]], ic: IfcConfig, snap_tolerance_m: float
+) -> None:
+    """Fittings take the kind of their carriers, through port links, then by touching ends."""
     for i, piece in enumerate(pieces):
         if piece.kind is not None:
             continue
@@ -613,14 +744,22 @@ def read_ifc(
                 break
             frontier = nxt
         if not found:
-            found.update(_touching_kinds(pieces, i, config.snap_tolerance_m))
+            found.update(_touching_kinds(pieces, i, snap_tolerance_m))
         if found:
             piece.kind = max(found.items(), key=lambda kv: (kv[1], kv[0] == ic.default_kind))[0]
         else:
             top_z = max((float(v[:, 2].max()) for v in piece.polys), default=float(piece.origin[2]))
             piece.kind = ic.below_ground_kind if top_z < ic.below_ground_z_m else ic.default_kind
 
-    # ------------------------------------------------------------ polylines
+
+
+def _polylines(
+    pieces: list[_Piece],
+    link_ports: dict[tuple[int, int], tuple[int, int]],
+    port_pos: dict[int, np.ndarray | None],
+    snap_tolerance_m: float,
+) -> tuple[list[RoutePolyline], int]:
+    """Route polylines of the pieces, plus a join for each port link the drawing rules miss."""
     polylines: list[RoutePolyline] = []
     for piece in pieces:
         containment, method = piece.kind  # type: ignore[misc]
@@ -632,7 +771,7 @@ def read_ifc(
             ))
 
     joins = 0
-    tol = float(config.snap_tolerance_m)
+    tol = float(snap_tolerance_m)
     for (pa, pb), (ia, ib) in sorted(link_ports.items()):
         a_pt = _attach(pieces[ia], port_pos[pa], port_pos[pb])
         b_pt = _attach(pieces[ib], port_pos[pb], a_pt)
@@ -649,6 +788,14 @@ def read_ifc(
         ))
         joins += 1
 
+    return polylines, joins
+
+
+def _unlinked_issue(
+    pieces: list[_Piece], neighbours: dict[int, set[int]], links: set[tuple[int, int]], p: Path,
+    tol: float, issues: list[Issue],
+) -> None:
+    """One issue for the pieces without connected ports (joined by the drawing rules)."""
     unlinked = [pc.gid for i, pc in enumerate(pieces) if i not in neighbours]
     if unlinked and not links:
         issues.append(Issue(
@@ -666,24 +813,51 @@ def read_ifc(
             unlinked[0],
         ))
 
-    equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
-    rows, failures = _read_circuits(model, p, ic, equipment)
-    logger.info(
-        "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
-        p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
-    )
-    return IfcContent(
-        path=str(p),
-        schema=str(model.schema).upper(),
-        model_units=unit_name,
-        polylines=tuple(polylines),
-        equipment=tuple(equipment),
-        issues=tuple(issues),
-        port_links=len(links),
-        port_joins=joins,
-        circuit_rows=tuple(rows),
-        circuit_failures=failures,
-    )
+
+
+def read_ifc(
+    path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> IfcContent:
+    """Read route pieces, equipment and circuit groups from an IFC model.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The ``.ifc`` file (IFC2X3, IFC4 or IFC4X3).
+    config : DrawingConfig, optional
+        ``snap_tolerance_m`` decides which connected ports need a joining piece;
+        ``units`` is used only when the model states no length unit.
+    ifc_config : IfcConfig, optional
+        Tag attributes, below-ground level, classes read as equipment.
+
+    Returns
+    -------
+    IfcContent
+        Polylines and equipment in world metres, issues, circuits from groups.
+
+    Raises
+    ------
+    DrawingReadError
+        Unreadable file, unsupported schema, no length unit, no cable carriers.
+
+    References
+    ----------
+    .. [1] contract.md, "IFC input".
+    """
+    try:
+        return _read_ifc(path, config, ifc_config)
+    except (ValueError, TypeError, AttributeError, IndexError, KeyError, RuntimeError) as exc:
+        if isinstance(exc, CableRouteError):
+            raise
+        # a damaged entity (a malformed number, a reference of the wrong type, a list of the
+        # wrong length) surfaces from ifcopenshell or numpy while the geometry is read
+        first = (str(exc).splitlines() or [""])[0][:160]
+        raise DrawingReadError(
+            f"{path}: the model holds an entity that cannot be read ({type(exc).__name__}: {first}); "
+            "check the file with an IFC validator or export the model again"
+        ) from exc
 
 
 def _attach(piece: _Piece, port_at: np.ndarray | None, other: np.ndarray | None) -> np.ndarray:
@@ -867,45 +1041,42 @@ def measure_ifc(
     ----------
     .. [1] contract.md, "IFC input", "Lengths and grouping".
     """
-    from .network import build_network
-    from .routing import route_circuits
-    from .schedule import read_schedule, rows_from_equipment
+    from . import measure_content
 
     config = config or DrawingConfig()
+    return measure_content(reader_result(model_path, config, ifc_config), schedule_path, config)
+
+
+def reader_result(
+    model_path: str | os.PathLike[str],
+    config: DrawingConfig | None = None,
+    ifc_config: IfcConfig | None = None,
+) -> ReaderResult:
+    """:func:`read_ifc` as the common :class:`~cablewright.extract.ReaderResult`.
+
+    Parameters
+    ----------
+    model_path : str or path-like
+        The ``.ifc`` model.
+    config : DrawingConfig, optional
+        Snap tolerance, recover mode.
+    ifc_config : IfcConfig, optional
+        IFC reading options.
+
+    Returns
+    -------
+    ReaderResult
+        Polylines, equipment, issues and the model's own circuits; units ``"m"``.
+    """
+    from . import ReaderResult
+
     content = read_ifc(model_path, config, ifc_config)
-    issues = list(content.issues)
-    network = build_network(content.polylines, content.equipment, config)
-    issues.extend(network.issues)
-    failures: dict[str, str] = {}
-    if schedule_path is not None:
-        rows = read_schedule(schedule_path)
-    elif content.circuit_rows or content.circuit_failures:
-        rows = list(content.circuit_rows)
-        failures.update(content.circuit_failures)
-    else:
-        try:
-            rows = rows_from_equipment(content.equipment)
-        except ScheduleError as exc:
-            raise ScheduleError(
-                f"{content.path}: no --circuits schedule given and the model has no circuit "
-                f"groups (IfcDistributionCircuit with a {CIRCUIT_PSET} property set) nor equipment "
-                f"with {EQUIPMENT_PSET} circuit properties; give the schedule with --circuits FILE"
-            ) from exc
-    routes, route_failures = route_circuits(network, rows, config)
-    failures.update(route_failures)
-    if failures:
-        # keep the schedule's order of circuits that come only from failed groups
-        known = {r.circuit_id for r in rows}
-        for n, cid in enumerate(sorted(c for c in failures if c not in known), start=len(rows) + 1):
-            rows.append(ScheduleRow(content.path, n, cid, "", ""))
-    return Measurement(
-        drawing=content.path,
-        units=content.units,
-        segments=network.segments,
-        equipment=network.equipment,
-        rows=rows,
-        routes=routes,
-        failures=failures,
-        issues=issues,
-        graph=network.graph,
+    hint = (
+        f"{content.path}: no --circuits schedule given and the model has no circuit "
+        f"groups (IfcDistributionCircuit with a {CIRCUIT_PSET} property set) nor equipment "
+        f"with {EQUIPMENT_PSET} circuit properties; give the schedule with --circuits FILE"
+    )
+    return ReaderResult(
+        content.path, content.units, content.polylines, content.equipment, content.issues,
+        content.circuit_rows, content.circuit_failures, hint,
     )

@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 import ezdxf
+from cablewright.extract.dxf_reader import block_problems
 from ezdxf import bbox as ezbbox
 
 from .boxes import Box, oriented_box
@@ -128,9 +129,13 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
     back to ``ezdxf.bbox.extents(fast=True)``.
     """
     scan = DrawingScan()
-    block_boxes: dict[str, Any] = {}
+    # blocks that insert themselves, nest too deep or are undefined get no box (ezdxf's
+    # bounding box would recurse without end); the reader reports them
+    block_boxes: dict[str, Any] = dict.fromkeys(block_problems(doc))
     fallback = []
     for e in doc.modelspace():
+        if e.dxftype() == "INSERT" and e.dxf.name in block_boxes and block_boxes[e.dxf.name] is None:
+            continue
         try:
             if not _scan_entity(doc, e, measure, scan, block_boxes):
                 fallback.append(e)
@@ -144,7 +149,14 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
                 scan.take(box.extmax.x, box.extmax.y)
         except (ezdxf.DXFError, ValueError, ArithmeticError) as exc:  # pragma: no cover
             log.warning("could not measure %d entities of the drawing (%s)", len(fallback), exc)
+    scan.texts = [b for b in scan.texts if _usable_box(b)]
+    scan.symbols = [b for b in scan.symbols if _usable_box(b)]
     return scan
+
+
+def _usable_box(box: tuple) -> bool:
+    """A box whose numbers are finite (an entity at NaN or infinity, refused by the reader)."""
+    return all(math.isfinite(v) for v in box)
 
 
 def _take_line(e: Any, scan: DrawingScan) -> None:

@@ -1,0 +1,92 @@
+"""Compare two copies of extract/network.py on the same drawings: routes and grouping identical.
+
+Reads each drawing once, builds the network with the installed code and with another
+copy (``--before``, e.g. ``git show <commit>:extract/network.py > /tmp/network_before.py``),
+routes every circuit of the schedule and compares: segments (ids, sources, layer,
+lengths, points), segment ends and graph nodes, tails, tag failures, issues, the graph's
+edges with their attributes, every circuit's route and the circuits on every segment.
+Exit 0 when everything is identical, 1 with the first differences listed.
+
+Run: ``python benchmarks/compare_network.py --before /tmp/network_before.py DRAWING [SCHEDULE] ...``
+(drawing and schedule as pairs ``plant.dxf:plant_circuits.csv``).
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib.util
+import sys
+from pathlib import Path
+
+
+def _load(path: str):
+    import cablewright.extract  # noqa: F401
+
+    spec = importlib.util.spec_from_file_location("cablewright.extract._network_before", path)
+    module = importlib.util.module_from_spec(spec)
+    sys.modules[spec.name] = module
+    spec.loader.exec_module(module)
+    return module
+
+
+def _content(drawing: Path, config):
+    if drawing.suffix.lower() == ".ifc":
+        from cablewright.extract.ifc_reader import read_ifc
+
+        c = read_ifc(drawing, config)
+    else:
+        from cablewright.extract.dxf_reader import read_dxf
+
+        c = read_dxf(drawing, config)
+    return c.polylines, c.equipment
+
+
+def _snapshot(net, rows, config) -> dict:
+    from cablewright.extract.grouping import circuits_per_segment
+    from cablewright.extract.routing import route_circuits
+
+    routes, failures = route_circuits(net, rows, config)
+    g = net.graph
+    return {
+        "segments": net.segments,
+        "segment_ends": net.segment_ends,
+        "segment_nodes": net.segment_nodes,
+        "source_segments": net.source_segments,
+        "tails": {k: (t.tag, t.node, t.length_m, t.start_m, t.end_m) for k, t in net.tails.items()},
+        "tag_failures": net.tag_failures,
+        "issues": [i for i in net.issues if i.code != "bad-coordinate"],
+        "nodes": sorted((n, repr(d)) for n, d in g.nodes(data=True)),
+        "edges": sorted((min(u, v), max(u, v), repr(sorted(d.items()))) for u, v, d in g.edges(data=True)),
+        "routes": routes,
+        "failures": failures,
+        "per_segment": circuits_per_segment(routes),
+    }
+
+
+def main() -> int:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--before", required=True, help="the other copy of extract/network.py")
+    ap.add_argument("drawings", nargs="+", help="DRAWING or DRAWING:SCHEDULE")
+    args = ap.parse_args()
+    from cablewright.extract.model import DrawingConfig
+    from cablewright.extract.network import build_network
+    from cablewright.extract.schedule import read_schedule, rows_from_equipment
+
+    before = _load(args.before)
+    config = DrawingConfig()
+    bad = 0
+    for item in args.drawings:
+        drawing, _, schedule = item.partition(":")
+        polylines, equipment = _content(Path(drawing), config)
+        rows = read_schedule(schedule) if schedule else rows_from_equipment(equipment)
+        a = _snapshot(before.build_network(polylines, equipment, config), rows, config)
+        b = _snapshot(build_network(polylines, equipment, config), rows, config)
+        diff = [k for k in a if a[k] != b[k]]
+        print(f"{drawing}: {len(polylines)} pieces, {len(b['segments'])} segments, "
+              f"{len(b['routes'])} routes: {'identical' if not diff else 'DIFFERENT in ' + ', '.join(diff)}")
+        bad += bool(diff)
+    return 1 if bad else 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
