@@ -113,6 +113,8 @@ def load_settings(path: str | Path | None = None) -> Settings:
         raise ConfigError(f"{path}: {exc}") from exc
     if settings.sizing.device_kind not in ("breaker", "fuse"):
         raise ConfigError(f"{path}: [sizing] device_kind must be 'breaker' or 'fuse'")
+    if settings.sizing.standard not in ("iec", "nec"):
+        raise ConfigError(f"{path}: [sizing] standard must be 'iec' or 'nec'")
     settings.drawing = dict(data.get("drawing", {}))
     settings.routes = dict(data.get("routes", {}))
     settings.annotate = dict(data.get("annotate", {}))

@@ -177,6 +177,10 @@ class SizingConfig:
     duct_fill_limit_pct : float
         Warning above this area fill of a conduit or duct [%]; 40 % (common
         practice for three or more cables in a conduit).
+    standard : str
+        The rule set that sizes the circuits (contract.md Extensions):
+        ``"iec"`` (default, IEC 60364, :func:`.select.size_circuit`) or ``"nec"``
+        (NFPA 70:2023, AWG/kcmil, :func:`.nec.select.size_circuit_nec`).
     """
 
     device_kind: str = "breaker"
@@ -220,6 +224,7 @@ class SizingConfig:
     containment_mm: dict[str, float] = field(default_factory=_containment_mm)
     tray_fill_limit_pct: float = 80.0
     duct_fill_limit_pct: float = 40.0
+    standard: str = "iec"
 
     def __hash__(self) -> int:  # dict fields: identity is enough for caching
         return id(self)
