@@ -43,15 +43,20 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cablewright.extract.errors import CableRouteError, CircuitInputError, OutOfRangeError, UnknownKeyError
+from cablewright.extract.errors import (
+    CableRouteError,
+    CircuitInputError,
+    OutOfRangeError,
+    UnknownKeyError,
+)
 
 from ..config import SizingConfig
 from ..load import design_current_a
 from ..model import CableSelection, Check, CircuitSpec, Factor, SizingResult, Stretch, VoltageDrop
 from .motors import full_load_current_a
 from .tables import (
-    AMBIENT_310_15_B_1,
     ADJUSTMENT_310_15_C_1,
+    AMBIENT_310_15_B_1,
     AREA_CH9_T5,
     EGC_250_122,
     EMT_AREA_CH9_T4,
