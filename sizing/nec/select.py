@@ -253,11 +253,12 @@ def _demand(spec: CircuitSpec, config: SizingConfig) -> _Demand:
     if motor:
         need = 1.25 * load_a  # 430.22
         pct = MOTOR_DEVICE_PCT.get(config.device_kind, 250.0)
-        device = next_standard_rating_a(pct / 100.0 * load_a)  # 430.52(C)(1) Exception No. 1
+        # 430.52(C)(1) Exception No. 1: the next higher standard rating
+        device = next_standard_rating_a(pct / 100.0 * load_a, fuse=config.device_kind == "fuse")
         return _Demand(load_a, need, device, 75, True, tuple(notes))
     continuous = _is_yes(spec.extra_value("continuous"), True)
     need = (1.25 if continuous else 1.0) * load_a  # 210.19(A)(1)(a), 215.2(A)(1)(a)
-    device = next_standard_rating_a(need)  # 210.20(A), 215.3
+    device = next_standard_rating_a(need, fuse=config.device_kind == "fuse")  # 210.20(A), 215.3
     termination = spec.extra_value("termination_c")
     if termination is not None:
         if termination not in ("60", "75", "90"):

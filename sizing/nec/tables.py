@@ -2,10 +2,11 @@
 
 Every table is a frozen dataclass constant carrying ``standard``, ``edition``,
 ``table`` and ``unit`` beside the values as printed.  The values were entered
-from memory of the printed tables (no public copy was at hand while writing
-them); the tests check them against published relations that hold outside the
-code (AWG geometry of ASTM B258, Table 9's own effective-impedance note, the
-rounding of the ampacity tables) and against the worked examples named there.
+from memory of the printed tables, then checked cell by cell against the public
+reproductions named beside each table (tests/test_nec_tables.py names the same
+copies); where no public copy was found the table says "from memory" and the
+tests check it against relations that hold outside the code (the temperature
+formula of 310.15(B), AWG geometry of ASTM B258, Table 9's Note 2).
 
 Sizes are written as the code writes them: ``"14"`` ... ``"1"`` (AWG),
 ``"1/0"`` ... ``"4/0"`` (AWG), ``"250"`` ... ``"2000"`` (kcmil).
@@ -126,8 +127,9 @@ class NecTable:
 
 
 # Allowable ampacities [A]: (Cu 60, Cu 75, Cu 90, Al 60, Al 75, Al 90); None where not listed.
-# Values from memory of the printed table (unchanged in substance from the 2017 edition's
-# Table 310.15(B)(16)).
+# Checked against a public reproduction of the 2023 table (wiresizes.com, "NEC Table 310.16,
+# 2023 Edition": 14 AWG to 1000 kcmil less 700/800/900); 700, 800, 900 and 1250-2000 kcmil
+# from memory (the 2017 edition's Table 310.15(B)(16) prints the same values).
 AMPACITY_310_16 = NecTable(NEC, EDITION, "Table 310.16", "A", {
     "14": (15, 20, 25, None, None, None),
     "12": (20, 25, 30, 15, 20, 25),
@@ -159,7 +161,9 @@ AMPACITY_310_16 = NecTable(NEC, EDITION, "Table 310.16", "A", {
     "2000": (555, 665, 750, 470, 560, 630),
 })
 
-# Single-insulated conductors in free air [A], same columns; from memory of the printed table.
+# Single-insulated conductors in free air [A], same columns; from memory of the printed table
+# (8 AWG to 4/0 AWG Cu agree with the one-conductor column of Table 400.5(B) as reproduced in
+# the Set Lighting Technician's Handbook, 4th ed., Appendix D Table D.1).
 AMPACITY_310_17 = NecTable(NEC, EDITION, "Table 310.17", "A", {
     "14": (25, 30, 35, None, None, None),
     "12": (30, 35, 40, 25, 30, 35),
@@ -239,7 +243,8 @@ def ampacity_a(size: str, conductor: str, temp_c: int, free_air: bool = False) -
 
 # Ambient temperature correction, based on 30 °C: rows (upper end of the range [°C],
 # factor at 60, 75, 90 °C).  NFPA 70:2023 Table 310.15(B)(1)(1) (Table 310.15(B)(1)
-# in the 2020 edition); from memory of the printed table.
+# in the 2020 edition); checked against wiresizes.com's reproduction of the 2023 table
+# (10 to 60 °C); every cell also follows 310.15(B)'s formula (tests).
 AMBIENT_310_15_B_1 = NecTable(NEC, EDITION, "Table 310.15(B)(1)(1)", "1", {
     10: (1.29, 1.20, 1.15),
     15: (1.22, 1.15, 1.12),
@@ -292,7 +297,8 @@ def ambient_factor(ambient_c: float, temp_c: int) -> float:
 
 
 # Adjustment factors for more than three current-carrying conductors: (most conductors,
-# percent of the values of Table 310.16).  NFPA 70:2023 Table 310.15(C)(1); from memory.
+# percent of the values of Table 310.16).  NFPA 70:2023 Table 310.15(C)(1); checked against
+# wiresizes.com's reproduction (2023 edition).
 ADJUSTMENT_310_15_C_1 = NecTable(NEC, EDITION, "Table 310.15(C)(1)", "%", {
     3: 100, 6: 80, 9: 70, 20: 50, 30: 45, 40: 40, 10 ** 9: 35,
 })
@@ -337,17 +343,20 @@ def small_conductor_limit_a(size: str, conductor: str) -> float | None:
     return None if value is None else float(value)
 
 
-# Standard ampere ratings of fuses and inverse time circuit breakers.  NFPA 70:2023
-# 240.6(A), Table 240.6(A) (the fuse-only ratings 1, 3, 6 and 601 A are left out).
+# Standard ampere ratings of fuses and inverse time circuit breakers, and the further
+# standard ratings of fuses.  NFPA 70:2023 240.6(A), Table 240.6(A); checked against the
+# 2023 text as reproduced by callout.app ("NEC 2023 240.6") and sparkshift.app.
 STANDARD_RATINGS_240_6_A = NecTable(NEC, EDITION, "Table 240.6(A)", "A", {"ratings": (
-    10, 15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225,
+    15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225,
     250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200, 1600, 2000, 2500, 3000, 4000,
     5000, 6000,
-)})
+), "fuses_only": (1, 3, 6, 10)})
 
 
-def next_standard_rating_a(current_a: float, strictly_above: bool = False) -> float:
+def next_standard_rating_a(current_a: float, strictly_above: bool = False, fuse: bool = False) -> float:
     """Smallest standard rating of Table 240.6(A) >= ``current_a`` (> with ``strictly_above``).
+
+    ``fuse`` adds the further fuse ratings 1, 3, 6 and 10 A.
 
     Raises
     ------
@@ -358,8 +367,12 @@ def next_standard_rating_a(current_a: float, strictly_above: bool = False) -> fl
     --------
     >>> next_standard_rating_a(42.5), next_standard_rating_a(50), next_standard_rating_a(50, True)
     (45.0, 50.0, 60.0)
+    >>> next_standard_rating_a(4.3), next_standard_rating_a(4.3, fuse=True)
+    (15.0, 6.0)
     """
-    for rating in STANDARD_RATINGS_240_6_A.rows["ratings"]:
+    rows = STANDARD_RATINGS_240_6_A.rows
+    ratings = sorted(rows["ratings"] + (rows["fuses_only"] if fuse else ()))
+    for rating in ratings:
         if rating > current_a + 1e-9 or (not strictly_above and rating >= current_a - 1e-9):
             return float(rating)
     raise OutOfRangeError(f"{current_a:.0f} A is above the largest rating of "
@@ -367,7 +380,8 @@ def next_standard_rating_a(current_a: float, strictly_above: bool = False) -> fl
 
 
 # Minimum equipment grounding conductor: (rating of the overcurrent device not exceeding [A],
-# Cu size, Al size).  NFPA 70:2023 Table 250.122; from memory of the printed table.
+# Cu size, Al size).  NFPA 70:2023 Table 250.122; checked against public reproductions
+# (brunsengineering.com "NEC Table 250.122", field-pm.com EGC chart).
 EGC_250_122 = NecTable(NEC, EDITION, "Table 250.122", "A", {
     15: ("14", "12"), 20: ("12", "10"), 60: ("10", "8"), 100: ("8", "6"), 200: ("6", "4"),
     300: ("4", "2"), 400: ("3", "1"), 500: ("2", "1/0"), 600: ("1", "2/0"), 800: ("1/0", "3/0"),
@@ -395,8 +409,9 @@ def egc_size(device_a: float, conductor: str) -> str:
 # AC resistance and reactance, 600 V cables, 3 phase, 60 Hz, 75 °C, three single
 # conductors in conduit [ohm per 1000 ft]: XL (PVC or aluminium conduit, steel conduit),
 # R copper (PVC, aluminium, steel conduit), R aluminium (PVC, aluminium, steel).
-# NFPA 70:2023 Chapter 9 Table 9; from memory of the printed table (sizes 700, 800, 900
-# and above 1000 kcmil are not listed in it).
+# NFPA 70:2023 Chapter 9 Table 9 (sizes 700, 800, 900 and above 1000 kcmil are not listed
+# in it); checked against sfasoft.com's reproduction ("A.C. for 600 Volt", every cell) and
+# studylib.net's "AC Resistance and Reactance" engineering data sheet.
 IMPEDANCE_CH9_T9 = NecTable(NEC, EDITION, "Chapter 9 Table 9", "ohm/1000 ft", {
     "14": ((0.058, 0.073), (3.1, 3.1, 3.1), None),
     "12": ((0.054, 0.068), (2.0, 2.0, 2.0), (3.2, 3.2, 3.2)),
@@ -421,7 +436,7 @@ IMPEDANCE_CH9_T9 = NecTable(NEC, EDITION, "Chapter 9 Table 9", "ohm/1000 ft", {
     "1000": ((0.037, 0.046), (0.015, 0.019, 0.018), (0.023, 0.027, 0.025)),
 })
 #: Effective Z at 0.85 power factor, copper in steel conduit, printed in the same table
-#: (from memory); used by the tests to check Note 2's Ze = R cos θ + X sin θ.
+#: (sfasoft.com reproduction); the tests check Note 2's Ze = R cos θ + X sin θ against it.
 EFFECTIVE_Z_CU_STEEL_085 = {"12": 1.7, "8": 0.70, "4": 0.30, "1/0": 0.13, "4/0": 0.080,
                             "250": 0.073, "500": 0.050, "1000": 0.040}
 
@@ -456,7 +471,8 @@ def impedance_ohm_per_m(size: str, conductor: str, raceway: str = "steel") -> tu
 
 
 # Dimensions of insulated conductors: approximate area [in²], types THHN/THWN-2 and
-# XHHW/XHHW-2.  NFPA 70:2023 Chapter 9 Table 5; from memory of the printed table.
+# XHHW/XHHW-2.  NFPA 70:2023 Chapter 9 Table 5; checked against a public reproduction of
+# the 2008 edition's table (buildmyowncabin.com "NEC 2008: Chapter 9 Table 5", same values).
 AREA_CH9_T5 = NecTable(NEC, EDITION, "Chapter 9 Table 5", "in²", {
     "THHN": {"14": 0.0097, "12": 0.0133, "10": 0.0211, "8": 0.0366, "6": 0.0507, "4": 0.0824,
              "3": 0.0973, "2": 0.1158, "1": 0.1562, "1/0": 0.1855, "2/0": 0.2223, "3/0": 0.2679,
@@ -471,14 +487,16 @@ AREA_CH9_T5 = NecTable(NEC, EDITION, "Chapter 9 Table 5", "in²", {
 })
 
 # Electrical metallic tubing (EMT), total internal area [in²] by trade size.
-# NFPA 70:2023 Chapter 9 Table 4 ("Article 358"); from memory.
+# NFPA 70:2023 Chapter 9 Table 4 ("Article 358"); checked against the 2011 NEC Handbook's
+# table as reproduced on vdocument.in ("Chapter 9 Tables.pdf"), 1/2 to 2 trade size;
+# 2-1/2 to 4 from memory.
 EMT_AREA_CH9_T4 = NecTable(NEC, EDITION, "Chapter 9 Table 4 (EMT)", "in²", {
     "1/2": 0.304, "3/4": 0.533, "1": 0.864, "1-1/4": 1.496, "1-1/2": 2.036, "2": 3.356,
     "2-1/2": 5.858, "3": 8.846, "3-1/2": 11.545, "4": 14.753,
 })
 
 # Percent of cross section of conduit and tubing for conductors and cables:
-# (conductors, fill %).  NFPA 70:2023 Chapter 9 Table 1.
+# (conductors, fill %).  NFPA 70:2023 Chapter 9 Table 1 (thenecwiki.com reproduction).
 FILL_CH9_T1 = NecTable(NEC, EDITION, "Chapter 9 Table 1", "%", {1: 53, 2: 31, 3: 40})
 
 
