@@ -346,6 +346,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         limit = float(config.vd_limits_pct.get(spec.load_type, VD_BRANCH_PCT))
     raceway = (spec.extra_value("raceway") or "steel").lower()
     ambients = [_ambient(s, config) for s in spec.stretches]
+    for ambient in ambients:  # outside Table 310.15(B)(1)(1): the circuit's error, said once
+        ambient_factor(ambient, INSULATION_TEMP_C)
 
     def rate(size: str, parallel: int):
         ratings = []
@@ -464,16 +466,16 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
         f"(informational: {VD_TOTAL_PCT:g} % feeder and branch together)",
         "" if vd_pct <= limit + 1e-9 else f"voltage drop {vd_pct:.2f} % exceeds the {limit:g} % guidance"))
     egc, egc_rule = _egc(demand.device_a, spec.conductor, size, minimum_size)
+    egc_text = (f"EGC {size_label(egc)} {spec.conductor}: {egc_rule}"
+                + ("; one full-size EGC in every parallel raceway, 250.122(F)" if parallel > 1 else ""))
     checks.append(Check("protective_conductor", True, area_cmil(egc), area_cmil(egc), "cmil",
-                        f"NFPA 70:2023 {EGC_250_122.table}", f"EGC {size_label(egc)} {spec.conductor}: "
-                        f"{egc_rule}" + ("; one full-size EGC in every parallel raceway, 250.122(F)"
-                                         if parallel > 1 else "")))
+                        f"NFPA 70:2023 {EGC_250_122.table}", egc_text))
     if stretch.containment == "conduit":
         checks.append(_fill(spec, _TYPES[spec.insulation][1], size, egc, cores))
     messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
     status = "fail" if messages else "ok"
     messages = list(demand.notes) + messages
-    messages.append(f"{wire} conductors, {label} {spec.conductor}, EGC {size_label(egc)} {spec.conductor}")
+    messages.append(f"{wire} conductors, {label} {spec.conductor}; {egc_text}")
     if spec.design_length_m <= 0:
         messages.append("no length given: voltage drop not checked")
         status = "warning" if status == "ok" else status
