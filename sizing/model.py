@@ -272,3 +272,5 @@ class SizingResult:
     fault_current_ka_load_end: float | None = None
     fault_current_ka_load_end_min: float | None = None
     motor_start_dip_pct: float | None = None
+    #: The rule set that sized it: ``"iec"`` or ``"nec"`` (``[sizing] standard``).
+    standard: str = "iec"

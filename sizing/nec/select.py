@@ -109,9 +109,18 @@ def conductor_type(insulation: str) -> str:
         raise UnknownKeyError(f"insulation {insulation!r} is unknown: use XLPE or PVC") from None
 
 
+#: A stretch without a containment (``calc``) read from its IEC 60364-5-52 method letter.
+_METHOD_CONTAINMENT = {"A1": "conduit", "A2": "conduit", "B1": "conduit", "B2": "conduit",
+                       "C": "clipped", "D1": "duct", "D2": "buried", "E": "tray", "F": "tray",
+                       "G": "tray"}
+
+
+def _containment(stretch: Stretch) -> str:
+    return stretch.containment or _METHOD_CONTAINMENT.get(stretch.method.upper()[:2], "")
+
+
 def _is_tray(stretch: Stretch) -> bool:
-    return stretch.containment in ("tray", "ladder") or (
-        not stretch.containment and stretch.method.upper() in ("E", "F", "G"))
+    return _containment(stretch) in ("tray", "ladder")
 
 
 @dataclass(frozen=True)
@@ -316,13 +325,13 @@ def size_circuit_nec(spec: CircuitSpec, config: SizingConfig | None = None) -> S
     try:
         return _size(spec, config)
     except CableRouteError as exc:
-        return SizingResult(spec.circuit_id, "error", (str(exc), AHJ_CAUTION))
+        return SizingResult(spec.circuit_id, "error", (str(exc), AHJ_CAUTION), standard="nec")
 
 
 def _ambient(stretch: Stretch, config: SizingConfig) -> float:
     if stretch.ambient_c is not None:
         return float(stretch.ambient_c)
-    return config.ground_c if stretch.containment in GROUND else config.ambient_air_c
+    return config.ground_c if _containment(stretch) in GROUND else config.ambient_air_c
 
 
 def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
@@ -470,7 +479,7 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
                 + ("; one full-size EGC in every parallel raceway, 250.122(F)" if parallel > 1 else ""))
     checks.append(Check("protective_conductor", True, area_cmil(egc), area_cmil(egc), "cmil",
                         f"NFPA 70:2023 {EGC_250_122.table}", egc_text))
-    if stretch.containment == "conduit":
+    if _containment(stretch) == "conduit":
         checks.append(_fill(spec, _TYPES[spec.insulation][1], size, egc, cores))
     messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
     status = "fail" if messages else "ok"
@@ -499,5 +508,5 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
         grouping_factor=grouping.value if grouping else 1.0, correction_factor=total,
         factors=rating.factors, required_capacity_a=need / total,
         cable=cable, voltage_drop=vd, checks=tuple(checks),
-        protective_conductor_mm2=round(area_mm2(egc), 2),
+        protective_conductor_mm2=round(area_mm2(egc), 2), standard="nec",
     )
