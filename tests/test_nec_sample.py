@@ -66,6 +66,10 @@ def test_only_the_sizing_differs(both):
         assert any("authority having jurisdiction" in m for m in b["messages"])
         assert not any("NFPA" in m for m in a["messages"])
         assert any(c["source"].startswith("NFPA 70:2023") for c in b["checks"])
+    # the bill of quantities names each cable as its rule set writes it
+    assert all("mm²" in q["cable"] for q in iec["quantities"])
+    assert all(("AWG" in q["cable"] or "kcmil" in q["cable"]) and "mm²" not in q["cable"]
+               for q in nec["quantities"])
 
 
 def test_nec_outputs_name_awg_and_kcmil(both):
