@@ -152,3 +152,17 @@ def test_bad_input_is_one_circuit_error():
     assert r.status == "error" and "ambient" in r.messages[0]
     assert math.isfinite(size_circuit_nec(CircuitSpec("X-4", Load(25, "hp"), 400, load_type="motor"),
                                           NEC).load_current_a)
+
+
+def test_neutral_of_nonlinear_loads_is_counted():
+    """NFPA 70:2023 310.15(E)(3): 4-wire wye, mainly nonlinear loads: the neutral counts.
+    Hand-worked: one 4-core circuit alone in conduit, 4 current-carrying conductors -> 80 %
+    (Table 310.15(C)(1)); without harmonics 3 -> 100 %."""
+    base = CircuitSpec("H-1", Load(40, "A"), 480, cores=4, stretches=(Stretch(containment="conduit"),))
+    plain = size_circuit_nec(base, NEC)
+    harm = size_circuit_nec(CircuitSpec("H-2", Load(40, "A"), 480, cores=4,
+                                        stretches=(Stretch(containment="conduit"),),
+                                        extra=(("third_harmonic_pct", "20"),)), NEC)
+    assert {f.name: f.value for f in plain.factors}["grouping"] == 1.0
+    assert {f.name: f.value for f in harm.factors}["grouping"] == 0.8
+    assert any("310.15(E)(3)" in m for m in harm.messages)

@@ -41,7 +41,7 @@ The procedure, each step with its clause (NFPA 70:2023):
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from cablewright.extract.errors import (
     CableRouteError,
@@ -53,6 +53,7 @@ from cablewright.extract.errors import (
 from ..config import SizingConfig
 from ..load import design_current_a
 from ..model import CableSelection, Check, CircuitSpec, Factor, SizingResult, Stretch, VoltageDrop
+from ..select import third_harmonic_pct
 from .motors import full_load_current_a
 from .tables import (
     ADJUSTMENT_310_15_C_1,
@@ -347,6 +348,13 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     demand = _demand(spec, config)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ccc = 3 if spec.phases == 3 else 2  # 310.15(E)(1): a balanced neutral is not counted
+    notes: list[str] = []
+    if spec.phases == 3 and cores >= 4 and third_harmonic_pct(spec, config) > 0:
+        # 310.15(E)(3): the neutral of a 4-wire wye circuit feeding mainly nonlinear loads is
+        # counted; any third-harmonic content given is read so (our conservative reading)
+        ccc = 4
+        notes.append("neutral counted as a current-carrying conductor: third harmonics given "
+                     "(NFPA 70:2023 310.15(E)(3))")
     single = cores == 1
     sizes = [s for s in SIZES if s in IMPEDANCE_CH9_T9.rows
              and IMPEDANCE_CH9_T9.rows[s][1 if spec.conductor == "Cu" else 2] is not None]
@@ -414,6 +422,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                 "conditions; split the load, change the route or raise max_parallel in the config")
     size, parallel, governed, minimum_size = chosen
     _, ampacity, rating, index, term = capacity_ok(size, parallel)
+    if notes:
+        demand = replace(demand, notes=demand.notes + tuple(notes))
     return _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size,
                    ampacity, rating, index, term, vd_of(size, parallel), limit, raceway)
 
