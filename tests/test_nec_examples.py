@@ -166,3 +166,20 @@ def test_neutral_of_nonlinear_loads_is_counted():
     assert {f.name: f.value for f in plain.factors}["grouping"] == 1.0
     assert {f.name: f.value for f in harm.factors}["grouping"] == 0.8
     assert any("310.15(E)(3)" in m for m in harm.messages)
+
+
+def test_an_unknown_standard_is_refused_at_the_door(tmp_path):
+    # contract.md Extensions: [sizing] standard is "iec" or "nec"; anything else is a bad
+    # config (exit code 2), named with its file, before any drawing is read.
+    from cablewright.cli import main
+    from cablewright.config import load_settings
+    from cablewright.extract.errors import ConfigError
+
+    bad = tmp_path / "bad.toml"
+    bad.write_text('[sizing]\nstandard = "bs7671"\n', encoding="utf-8")
+    with pytest.raises(ConfigError, match="standard"):
+        load_settings(bad)
+    assert main(["calc", "--load", "10 kW", "--config", str(bad)]) == 2
+    good = tmp_path / "nec.toml"
+    good.write_text('[sizing]\nstandard = "nec"\n', encoding="utf-8")
+    assert load_settings(good).sizing.standard == "nec"
