@@ -36,6 +36,10 @@ The procedure, each step with its clause (NFPA 70:2023):
    the circular-mil area when the phase conductors are increased (250.122(B)),
    full size in every parallel raceway (250.122(F)); raceway fill of Chapter 9
    Table 1 in EMT where the route is conduit (areas of Chapter 9 Tables 4 and 5).
+
+Clause numbers are those of the 2023 edition as recalled, from memory (no public copy of
+the clause text was read); the informational-note numbers in particular have moved
+between editions.  The tables themselves were checked (see :mod:`.tables`).
 """
 
 from __future__ import annotations
@@ -88,7 +92,8 @@ AHJ_CAUTION = ("NEC rule set (NFPA 70:2023): a design aid; the authority having 
 _TYPES = {"XLPE": ("XHHW-2", "XHHW"), "PVC": ("THHN/THWN-2", "THHN")}
 INSULATION_TEMP_C = 90
 #: Informational voltage-drop guidance [%]: 3 % for a branch circuit or a feeder,
-#: 5 % for both together (210.19(A) Informational Note No. 4, 215.2(A)(2) Note No. 2).
+#: 5 % for both together (210.19(A) Informational Note No. 4, 215.2(A)(2) Note No. 2;
+#: note numbers from memory).
 VD_BRANCH_PCT = 3.0
 VD_TOTAL_PCT = 5.0
 #: Table 430.52: inverse time breaker 250 %, dual-element (time-delay) fuse 175 % of FLC.
