@@ -15,12 +15,14 @@ $(STAMP): pyproject.toml
 	PYTHONWARNINGS="ignore:Editable installation" $(PY) -m pip install --quiet -e ".[test]"
 	touch $(STAMP)
 
-## make demo: the whole job on the bundled sample drawing (DXF), and on the same plant
-## modelled in IFC; outputs in ./demo_out and ./demo_out/ifc
+## make demo: the whole job on the bundled sample drawing (DXF), on the same plant
+## modelled in IFC, and the DXF sized to the NEC rule set; outputs in ./demo_out,
+## ./demo_out/ifc and ./demo_out/nec
 demo: $(STAMP)
 	$(VENV)/bin/cablewright demo --out $(OUT)
 	$(VENV)/bin/cablewright size sample_drawings/pumping_station.ifc \
 		--circuits sample_drawings/pumping_station_circuits.csv --out $(OUT)/ifc || test $$? -eq 1
+	$(VENV)/bin/cablewright size sample_drawings/pumping_station.dxf --circuits sample_drawings/pumping_station_circuits.csv --config sample_drawings/pumping_station_nec.toml --out $(OUT)/nec || test $$? -eq 1
 
 ## make test: the full test suite (unit, doctests, published-value checks)
 test: $(STAMP)

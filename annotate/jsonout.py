@@ -106,6 +106,7 @@ def outcome_to_dict(outcome: CircuitOutcome, kind: str = "size") -> dict[str, An
         cable = asdict(sizing.cable)
         csa = cable["csa_mm2"]
         cable["csa_mm2"] = int(csa) if float(csa).is_integer() else csa
+        cable["size_label"] = sizing.cable.label  # contract.md Extensions: "95 mm²", "6 AWG"
         cable["capacity_a"] = _round(cable["capacity_a"], 1)
         data["cable"] = cable
     else:

@@ -68,7 +68,8 @@ def _cable_text(cable: dict[str, Any] | None) -> str | None:
     if not cable:
         return None
     lead = f"{cable['parallel']}x " if cable["parallel"] > 1 else ""
-    return f"{lead}{cable['cores']}C {cable['csa_mm2']:g} mm² {cable['conductor']}/{cable['insulation']}"
+    size = cable.get("size_label") or f"{cable['csa_mm2']:g} mm²"
+    return f"{lead}{cable['cores']}C {size} {cable['conductor']}/{cable['insulation']}"
 
 
 def _order_length(data: dict[str, Any]) -> float | None:

@@ -64,8 +64,8 @@ def cable_runs(outcomes: Iterable[CircuitOutcome]) -> list[CableRun]:
         if s is None or s.cable is None or o.route is None:
             continue
         c = s.cable
-        runs.append(CableRun(o.circuit_id, CableType(int(c.cores), float(c.csa_mm2), c.conductor, c.insulation),
-                             float(o.route.design_length_m), int(c.parallel)))
+        cable = CableType(int(c.cores), float(c.csa_mm2), c.conductor, c.insulation, c.size_label)
+        runs.append(CableRun(o.circuit_id, cable, float(o.route.design_length_m), int(c.parallel)))
     return runs
 
 

@@ -166,8 +166,8 @@ def add_calc_options(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--soil", type=number(), help="soil thermal resistivity for D1/D2 [K.m/W]")
     parser.add_argument("--group", default="1", type=number(),
                         help="circuits in the group, this one included (default 1)")
-    parser.add_argument("--standard", default="iec", type=choice(("iec", "nec")), metavar="{iec,nec}",
-                        help="rule set: iec (default); nec is not available yet")
+    parser.add_argument("--standard", default=None, type=choice(("iec", "nec")), metavar="{iec,nec}",
+                        help="rule set: iec (default, IEC 60364) or nec (NFPA 70:2023, AWG/kcmil)")
     parser.add_argument("--id", default="CALC-1", help="circuit id shown in the output")
 
 

@@ -12,7 +12,7 @@ from cablewright.extract.errors import CableRouteError, CircuitInputError
 from cablewright.sizing.capacity_tables import canonical_method
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
-from cablewright.sizing.select import size_circuit
+from cablewright.sizing.standards import size_for_standard
 
 from .calc_options import calc_fields
 from .config import UNAVAILABLE_STANDARDS, load_settings
@@ -50,7 +50,12 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
         if type(exc).__name__ == "ConfigError":
             raise
         return SizingResult(args.id, "error", (str(exc),)), length_m
-    return size_circuit(spec, settings.sizing), length_m
+    sizing = settings.sizing
+    if getattr(args, "standard", None):  # --standard wins over the config's [sizing] standard
+        from dataclasses import replace
+
+        sizing = replace(sizing, standard=args.standard)
+    return size_for_standard(spec, sizing), length_m
 
 
 def run(args: argparse.Namespace) -> int:

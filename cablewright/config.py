@@ -210,7 +210,7 @@ CHOICES: dict[tuple[str, str], tuple[str, ...]] = {
     ("sizing", "standard"): ("iec", "nec"),
 }
 #: Rule sets of ``[sizing] standard`` that are not written yet.
-UNAVAILABLE_STANDARDS = ("nec",)
+UNAVAILABLE_STANDARDS: tuple[str, ...] = ()  # rule sets named in the contract but not written
 #: Pairs ``[containment, method]``: tables and fields whose value is one.
 _KIND_KEYS = {("drawing", "route_layers"), ("drawing", "layer_patterns")}
 

@@ -73,33 +73,50 @@ def format_table(headers: list[str], rows: Iterable[list[str]], width: int = TAB
     return "\n".join(out)
 
 
+#: Sources of the calc steps under each rule set ([sizing] standard).
+_STEP_SOURCES = {
+    "iec": {"ib": "IEC 60050-131, P = k U I cos phi",
+            "in": "smallest standard rating >= margin x Ib ([sizing] device_margin, 1.0: IEC 60364-4-43 433.1)",
+            "method": "IEC 60364-5-52:2009 Table B.52.1",
+            "need": "max(In, I2/1.45) / correction, IEC 60364-4-43 433.1",
+            "iz": "IEC 60364-5-52:2009 Annex B",
+            "vd": "IEC 60228 R at the temperature of check voltage_drop + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"},
+    "nec": {"ib": "NFPA 70:2023 Table 430.248/430.250 for motors in hp, else P = k U I cos phi",
+            "in": "NFPA 70:2023 Table 240.6(A): 210.20(A), 215.3; motors 430.52",
+            "method": "route's installation (NFPA 70:2023 310.16, 310.17, 392.80(A))",
+            "need": "load (or In) / correction, NFPA 70:2023 310.15, 240.4",
+            "iz": "NFPA 70:2023 Table 310.16/310.17 x 310.15(B)(1), 310.15(C)(1); 110.14(C)",
+            "vd": "NFPA 70:2023 Chapter 9 Table 9, Ze = R cos θ + X sin θ"},
+}
+
+
 def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
     """The calculation of one circuit, step by step, with the source of each value."""
     rows: list[list[str]] = []
+    src = _STEP_SOURCES.get(result.standard, _STEP_SOURCES["iec"])
     if result.load_current_a is not None:
-        rows.append(["design current Ib", f"{result.load_current_a:.1f} A", "IEC 60050-131, P = k U I cos phi"])
+        rows.append(["design current Ib", f"{result.load_current_a:.1f} A", src["ib"]])
     if result.device_rating_a is not None:
-        rows.append(["device rating In", f"{result.device_rating_a:g} A ({result.device_kind})",
-                     "smallest standard rating >= margin x Ib ([sizing] device_margin, 1.0: IEC 60364-4-43 433.1)"])
+        rows.append(["device rating In", f"{result.device_rating_a:g} A ({result.device_kind})", src["in"]])
     if result.method:
-        rows.append(["reference method", result.method, "IEC 60364-5-52:2009 Table B.52.1"])
+        rows.append(["reference method", result.method, src["method"]])
     for factor in result.factors:
         rows.append([f"factor: {factor.name}", f"{factor.value:.3f}", f"{factor.source} ({factor.detail})"])
     if result.correction_factor is not None:
         rows.append(["correction (product)", f"{result.correction_factor:.3f}", ""])
     if result.required_capacity_a is not None:
-        rows.append(["required tabulated capacity", f"{result.required_capacity_a:.1f} A",
-                     "max(In, I2/1.45) / correction, IEC 60364-4-43 433.1"])
+        rows.append(["required tabulated capacity", f"{result.required_capacity_a:.1f} A", src["need"]])
     if result.cable is not None:
         cable = result.cable
         rows.append(["cable", cable.describe(), f"governed by {cable.governed_by}"])
-        rows.append(["corrected capacity Iz", f"{cable.capacity_a:.1f} A", "IEC 60364-5-52:2009 Annex B"])
+        rows.append(["corrected capacity Iz", f"{cable.capacity_a:.1f} A", src["iz"]])
     if result.voltage_drop is not None:
         vd = result.voltage_drop
         where = f" over {length_m:g} m" if length_m else ""
         rows.append(["voltage drop", f"{vd.volts:.2f} V = {vd.percent:.2f} %{where} (limit {vd.limit_percent:g} %)",
-                     "IEC 60228 R at the temperature of check voltage_drop + 0.08 mOhm/m (IEC 60364-5-52 Annex G)"])
-        rows.append(["  Annex G simplified", f"{vd.annex_g_percent:.2f} %", "IEC 60364-5-52:2009 Annex G"])
+                     src["vd"]])
+        if result.standard == "iec":
+            rows.append(["  Annex G simplified", f"{vd.annex_g_percent:.2f} %", "IEC 60364-5-52:2009 Annex G"])
     for check in result.checks:
         mark = {"pass": "pass", "fail": "FAIL"}.get(check.result.value, check.result.value.replace("_", " "))
         rows.append([f"check: {check.name}", f"{mark}  {check.value:.3g} vs {check.limit:.3g} {check.unit}",

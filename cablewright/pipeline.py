@@ -26,7 +26,7 @@ from cablewright.sizing.chain import (
 )
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
-from cablewright.sizing.select import size_circuit
+from cablewright.sizing.standards import size_for_standard
 
 from .config import Settings
 
@@ -154,7 +154,7 @@ def size_measurement(
         cables_on = {seg: sum(counted[c] for c in cids) for seg, cids in per_segment.items()}
         for cid, spec in specs.items():
             stretches = _stretches(measurement, routed[cid], counted[cid], cables_on, tiers_of)
-            results[cid] = size_circuit(replace(spec, stretches=stretches), config)
+            results[cid] = size_for_standard(replace(spec, stretches=stretches), config)
             if progress is not None and rounds == 1:
                 progress(1)
         new = {cid: (r.cable.parallel if r.cable else parallel[cid]) for cid, r in results.items()}
@@ -250,12 +250,12 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
     for cid, total in cumulative.items():
         result = results[cid]
         vd = replace(result.voltage_drop, cumulative_percent=total)
-        if total > vd.limit_percent + 1e-9 and total > vd.percent + 1e-9:
+        limit = vd.limit_percent if vd.total_limit_percent is None else vd.total_limit_percent
+        if total > limit + 1e-9 and total > vd.percent + 1e-9:
             message = (f"voltage drop from the origin {total:.2f} % (own {vd.percent:.2f} % plus "
-                       f"feeders upstream) exceeds the {vd.limit_percent:g} % limit "
-                       "(IEC 60364-5-52:2009 Annex G): enlarge this circuit or its feeder")
-            message += _drop_advice(cid, total, vd.limit_percent, results, source_of, feeder_of,
-                                    specs or {})
+                       f"feeders upstream) exceeds the {limit:g} % limit "
+                       f"({vd.total_limit_source}): enlarge this circuit or its feeder")
+            message += _drop_advice(cid, total, limit, results, source_of, feeder_of, specs or {})
             status = "error" if result.status == "error" else "fail"
             out[cid] = replace(result, voltage_drop=vd, status=status, messages=result.messages + (message,))
         else:

@@ -66,8 +66,9 @@ class SizingConfig:
         also give ``motor_breaker`` (motor-protection circuit-breaker) or
         ``overload_relay`` (IEC 60947-4-1) per circuit.
     standard : str
-        Rule set: ``iec`` (IEC 60364, the only one written so far); ``nec`` is
-        refused at start-up as not available yet.
+        The rule set that sizes the circuits (contract.md Extensions):
+        ``"iec"`` (default, IEC 60364, :func:`.select.size_circuit`) or ``"nec"``
+        (NFPA 70:2023, AWG/kcmil, :func:`.nec.select.size_circuit_nec`).
     device_margin : float
         In >= margin x Ib; 1.0 (IEC 60364-4-43:2008 433.1: Ib <= In <= Iz, no
         margin).  1.25 (a continuous-load rule of some national codes) is an option.

@@ -185,12 +185,19 @@ class CableSelection:
     parallel: int
     capacity_a: float
     governed_by: str
+    #: The size as the rule set writes it ("6 AWG", "250 kcmil"); "" for the IEC
+    #: rule set, whose label is the area (:attr:`label`, contract.md Extensions).
+    size_label: str = ""
+
+    @property
+    def label(self) -> str:
+        """``size_label``, or ``"95 mm²"`` from the area when the rule set gave none."""
+        return self.size_label or f"{self.csa_mm2:g} mm²"
 
     def describe(self) -> str:
         """Short text for labels, e.g. ``"2x 4C 240 mm² Cu/XLPE"``."""
-        size = f"{self.csa_mm2:g}"
         lead = f"{self.parallel}x " if self.parallel > 1 else ""
-        return f"{lead}{self.cores}C {size} mm² {self.conductor}/{self.insulation}"
+        return f"{lead}{self.cores}C {self.label} {self.conductor}/{self.insulation}"
 
 
 @dataclass(frozen=True)
@@ -205,6 +212,11 @@ class VoltageDrop:
     #: Drop from the origin of the installation: this circuit's own plus every
     #: feeder's upstream (IEC 60364-5-52:2009 Annex G); ``None`` until known.
     cumulative_percent: float | None = None
+    #: Limit of the drop from the origin [%] when the rule set gives one of its own
+    #: (NEC: 5 %, 215.2(A)(2) Informational Note No. 2), and its source; ``None``:
+    #: ``limit_percent`` applies to the total (IEC 60364-5-52:2009 Annex G).
+    total_limit_percent: float | None = None
+    total_limit_source: str = "IEC 60364-5-52:2009 Annex G"
 
 
 class CheckResult(str, Enum):
@@ -312,3 +324,5 @@ class SizingResult:
     motor_start_dip_pct: float | None = None
     motor_start_peak_a: float | None = None
     ze_assumed: bool = False
+    #: The rule set that sized it: ``"iec"`` or ``"nec"`` (``[sizing] standard``).
+    standard: str = "iec"

@@ -45,10 +45,13 @@ class CableType:
     csa_mm2: float
     conductor: str
     insulation: str
+    #: The size as the rule set writes it ("6 AWG"); "" writes the area in mm².
+    size_label: str = ""
 
     def text(self) -> str:
         """The cable as written in the schedule, e.g. ``"4C 95 mm² Cu/XLPE"``."""
-        return f"{self.cores}C {self.csa_mm2:g} mm² {self.conductor}/{self.insulation}"
+        size = self.size_label or f"{self.csa_mm2:g} mm²"
+        return f"{self.cores}C {size} {self.conductor}/{self.insulation}"
 
 
 @dataclass(frozen=True)

@@ -71,7 +71,6 @@ def test_calc_options_reach_the_sizing(capsys):
     (["--load", "10 kW", "--curve", "K"], "B, C, D"),
     (["--load", "10 kW", "--starter", "magic"], "dol, star_delta, soft, drive"),
     (["--load", "10 kW", "--standard", "bs"], "iec, nec"),
-    (["--load", "10 kW", "--standard", "nec"], "not available yet"),
 ])
 def test_calc_unusable_value_is_one_line_exit_2(capsys, args, needle):
     code = main(["calc", *args])
@@ -131,3 +130,13 @@ def test_size_says_when_circuits_come_from_attributes(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "no --circuits schedule given" in err and "equipment attributes of attrs.dxf" in err
     assert code in (0, 1)
+
+
+def test_calc_standard_nec_sizes_in_awg(capsys):
+    # NFPA 70:2023: 25 hp, 460 V three-phase: FLC 34 A (Table 430.250); conductors at
+    # 125 % = 42.5 A (430.22) -> 8 AWG Cu, 75 °C column 50 A (Table 310.16, 110.14(C)).
+    code = main(["calc", "--load", "25 hp", "--voltage", "460", "--load-type", "motor",
+                 "--standard", "nec", "--length", "30", "--json"])
+    c = json.loads(capsys.readouterr().out)["circuits"][0]
+    assert code == 0 and c["load_current_a"] == pytest.approx(34.0)
+    assert c["cable"]["size_label"] == "8 AWG" and c["cable"]["csa_mm2"] == pytest.approx(8.37, abs=0.01)

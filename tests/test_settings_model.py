@@ -265,9 +265,10 @@ def test_every_problem_of_a_file_is_one_line(tmp_path):
     assert len(lines) == 4
 
 
-def test_nec_is_refused_at_start_up(tmp_path):
-    (line,) = _problems(tmp_path, '[sizing]\nstandard = "nec"\n')
-    assert "not available yet" in line
+def test_nec_is_a_rule_set_and_others_are_refused(tmp_path):
+    assert load_settings(_write(tmp_path, '[sizing]\nstandard = "nec"\n')).sizing.standard == "nec"
+    (line,) = _problems(tmp_path, '[sizing]\nstandard = "bs"\n')
+    assert "standard" in line and "nec" in line
 
 
 def test_a_good_file_reaches_every_stage(tmp_path):
