@@ -19,7 +19,7 @@ from cablewright.extract.model import UNIT_TO_M
 from .config import Settings
 from .console import CAUTION
 
-__all__ = ["write_outputs", "output_names", "job_takeoff", "job_document", "changes_json",
+__all__ = ["write_outputs", "output_names", "report_config", "job_takeoff", "job_document", "changes_json",
            "drawing_entry", "drawing_facts"]
 
 log = logging.getLogger(__name__)
@@ -33,6 +33,7 @@ def output_names(drawing: Path) -> dict[str, str]:
         "xlsx": "schedule.xlsx",
         "json": "schedule.json",
         "html": "report.html",
+        "pdf": "report.pdf",
         "png": "preview.png",
         "changes": "changes.json",
     }
@@ -61,14 +62,34 @@ def _annotate_config(settings: Settings):
     from dataclasses import fields, replace
 
     from cablewright.annotate.dxf_writer import AnnotateConfig
+    from cablewright.annotate.report_trace import ReportConfig
     from cablewright.extract.errors import ConfigError
 
     base = AnnotateConfig()
     known = {f.name for f in fields(AnnotateConfig)}
+    report_keys = {f.name for f in fields(ReportConfig)}
     for key in settings.annotate:
-        if key not in known:
-            raise ConfigError(f"{settings.source}: unknown key {key!r} in [annotate]; known: {', '.join(sorted(known))}")
-    return replace(base, **settings.annotate)
+        if key not in known | report_keys:
+            raise ConfigError(f"{settings.source}: unknown key {key!r} in [annotate]; "
+                              f"known: {', '.join(sorted(known | report_keys))}")
+    return replace(base, **{k: v for k, v in settings.annotate.items() if k in known})
+
+
+def report_config(settings: Settings):
+    """The report's ``[annotate]`` keys (project, revision, date), each a string."""
+    from dataclasses import fields
+
+    from cablewright.annotate.report_trace import ReportConfig
+    from cablewright.extract.errors import ConfigError
+
+    values = {}
+    for f in fields(ReportConfig):
+        if f.name in settings.annotate:
+            value = settings.annotate[f.name]
+            if not isinstance(value, (str, int, float)) or isinstance(value, bool):
+                raise ConfigError(f"{settings.source}: [annotate] {f.name} = {value!r} must be text")
+            values[f.name] = str(value)
+    return ReportConfig(**values)
 
 
 def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False,
@@ -84,6 +105,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
     from cablewright.annotate.dxf_writer import write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
+    from cablewright.annotate.report_pdf import write_report_pdf
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
@@ -140,10 +162,16 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
                                  keep_layers=tuple(ours.values()))
         (stage / names["png"]).write_bytes(png)
+        report_cfg = report_config(settings)
+        version = extras.get("tool", {}).get("version", "")
         write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
-                          extra_sections=sections, drawing_facts=drawing_facts(measurement))
-        keys = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else [])
+                          extra_sections=sections, drawing_facts=drawing_facts(measurement),
+                          config=report_cfg, tool_version=version)
+        write_report_pdf(stage / names["pdf"], job.outcomes, title=f"Cable sizing: {drawing.name}",
+                         drawing_name=drawing.name, cautions=CAUTION, config=report_cfg,
+                         tool_version=version)
+        keys = ["dxf", "csv", "xlsx", "json", "png", "html", "pdf"] + (["changes"] if changes is not None else [])
         if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
             from cablewright.annotate.ifc_writer import write_ifc_copy
 

@@ -235,6 +235,13 @@ class SizingResult:
     end), ``fault_current_ka_source``, ``fault_current_ka_load_end`` (maximum,
     IEC 60909-0 cmax, 20 °C), ``fault_current_ka_load_end_min`` (cmin,
     end-of-fault temperature), ``motor_start_dip_pct``.
+
+    For the report's trace (added fields, empty where not sized): ``spec`` the
+    circuit as given (load, power factor, efficiency, voltage, phases);
+    ``device_margin`` the factor In >= margin x Ib was chosen with and
+    ``device_source`` where I2 comes from; ``tabulated_capacity_a`` It of one
+    cable on the governing stretch, read in ``capacity_table`` (standard,
+    edition, table, column) at ``capacity_detail`` (row and column in words).
     """
 
     circuit_id: str
@@ -260,3 +267,9 @@ class SizingResult:
     fault_current_ka_load_end: float | None = None
     fault_current_ka_load_end_min: float | None = None
     motor_start_dip_pct: float | None = None
+    spec: CircuitSpec | None = None
+    device_margin: float | None = None
+    device_source: str = ""
+    tabulated_capacity_a: float | None = None
+    capacity_table: str = ""
+    capacity_detail: str = ""

@@ -103,6 +103,7 @@ class SizingContext:
     vd_limit_pct: float
     conductor_temp_c: float
     harmonics: HarmonicSizing | None = None
+    device_margin: float | None = None
 
 
 def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
@@ -277,7 +278,7 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     try:
         return _size(spec, config)
     except CableRouteError as exc:
-        return SizingResult(spec.circuit_id, "error", (str(exc),))
+        return SizingResult(spec.circuit_id, "error", (str(exc),), spec=spec)
 
 
 # ------------------------------------------------------------- prepared path
@@ -360,7 +361,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         raise UnknownKeyError(
             f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'")
     operating = temp_rule == "operating"
-    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics)
+    ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics,
+                        config.margin_for(spec.load_type))
 
     conductor, insulation = spec.conductor, spec.insulation
     stretches = spec.stretches
@@ -527,6 +529,8 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
             "required (IEC 60364-5-52:2009 523.7)"
         )
     grouping = next((f for f in factors if f.name == "grouping"), None)
+    tab = tabulated_capacity(method, spec.conductor, spec.insulation,
+                             loaded_conductors(spec.phases), cand.csa_mm2)
     cable = CableSelection(spec.conductor, spec.insulation, ctx.cores, cand.csa_mm2,
                            cand.parallel, iz, governed)
     return SizingResult(
@@ -547,4 +551,10 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
         voltage_drop=vd,
         checks=tuple(checks),
         **extras,
+        spec=spec,
+        device_margin=ctx.device_margin,
+        device_source=ctx.device.source,
+        tabulated_capacity_a=tab.current_a,
+        capacity_table=tab.source,
+        capacity_detail=tab.detail,
     )
