@@ -220,7 +220,7 @@ def circuit_trace(o: CircuitOutcome) -> CircuitTrace:
         tables.append(TraceTable("3. Correction factors", ("factor", "table", "row read", "value"), rows))
     capacity = None
     cap_rows: list[tuple[str, ...]] = [
-        ("required It ≥ max(In, I2/1.45) / k", _n(s.required_capacity_a, 1, "A"),
+        ("required n × It ≥ max(In, I2/1.45) / k", _n(s.required_capacity_a, 1, "A"),
          "IEC 60364-4-43:2008 433.1 (In ≤ Iz, I2 ≤ 1.45 Iz)"),
     ]
     c = s.cable
