@@ -48,7 +48,20 @@ def job_takeoff(job, drawing: Path, settings: Settings):
     entry = drawing_entry(job.measurement)
     if entry:
         extras["drawing"] = entry
+    extras["header"] = _document_header(job, drawing, settings)
     return takeoff, extras
+
+
+def _document_header(job, drawing: Path, settings: Settings) -> dict:
+    """``header``: tool, input and its hash, config and its hash, date, standard editions."""
+    import dataclasses
+
+    from cablewright.annotate.doc_header import document_header
+
+    source = None if settings.source == "defaults" else settings.source
+    values = {"drawing": settings.drawing, "routes": settings.routes, "annotate": settings.annotate,
+              "ifc": settings.ifc, "sizing": dataclasses.asdict(settings.sizing)}
+    return document_header(job.outcomes, drawing, source, values)
 
 
 def job_document(job, extras) -> dict:
