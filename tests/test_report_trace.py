@@ -175,3 +175,10 @@ def test_pdf_keeps_each_circuit_block_whole_on_one_page(job, pdf_pages):
             assert needle in block, (o.circuit_id, needle)
         for ch in s.checks:
             assert _squash(ch.name) in block, (o.circuit_id, ch.name)
+
+
+def test_pdf_is_the_same_bytes_on_a_re_run(job, monkeypatch):
+    monkeypatch.delenv("SOURCE_DATE_EPOCH", raising=False)
+    kwargs = dict(title="t", drawing_name=DXF.name, cautions="design aid", config=CONFIG)
+    first = render_report_pdf(job.outcomes[:3], **kwargs)
+    assert first.startswith(b"%PDF-") and render_report_pdf(job.outcomes[:3], **kwargs) == first
