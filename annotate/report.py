@@ -47,7 +47,7 @@ font-weight:600}
 .status{display:inline-block;padding:.05em .6em;border-radius:.8em;font-size:.85em;
 font-weight:600;color:#fff}
 .ok{background:#2e7d32}.warning{background:#b26a00}.fail{background:#c62828}
-.error{background:#6a1b9a}
+.error{background:#6a1b9a}.status.not_checked{background:#fff3cd;color:#6d4c00;border:1px dashed #b26a00}
 .circuit{border:1px solid #ddd;border-radius:6px;padding:.5em 1em;margin:1em 0}
 .msgs li{color:#8a4b00}.preview img{max-width:100%;border:1px solid #ccc}
 .muted{color:#666;font-size:.9em}ol.steps>li{margin:.35em 0}
@@ -112,7 +112,9 @@ def _circuit_section(o: CircuitOutcome) -> str:
     t = circuit_trace(o)
     parts = [
         f'<section class="circuit" id="c-{_e(o.circuit_id)}">',
-        f"<h3>{_e(t.title)} {_status(o.status)}</h3>",
+        f"<h3>{_e(t.title)} {_status(o.status)}"
+        + (f" <span class='status not_checked'>{t.not_checked} not checked</span>" if t.not_checked else "")
+        + "</h3>",
     ]
     if t.messages:
         parts.append('<ul class="msgs">' + "".join(f"<li>{_e(m)}</li>" for m in t.messages) + "</ul>")

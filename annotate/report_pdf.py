@@ -102,8 +102,13 @@ def _make_pdf(header: str):
     return pdf
 
 
-def _widths(pdf, columns: int) -> list[float]:
-    shares = COLUMN_SHARES.get(columns) or tuple(1.0 / columns for _ in range(columns))
+#: Column shares of the "load as given" table (6 or 7 columns: no cos φ, η for kVA and A).
+LOAD_SHARES = {7: (0.12, 0.13, 0.17, 0.1, 0.16, 0.16, 0.16), 5: (0.2, 0.2, 0.2, 0.2, 0.2)}
+
+
+def _widths(pdf, columns: int, headers: Sequence[str] = ()) -> list[float]:
+    shares = (LOAD_SHARES.get(columns) if headers[:1] == ("load",) else None) \
+        or COLUMN_SHARES.get(columns) or tuple(1.0 / columns for _ in range(columns))
     return [pdf.epw * s for s in shares]
 
 
@@ -117,7 +122,7 @@ def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool =
 
 
 def _table_height(pdf, t: TraceTable) -> float:
-    widths = _widths(pdf, len(t.headers))
+    widths = _widths(pdf, len(t.headers), t.headers)
     height = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
     return height + sum(_row_height(pdf, widths, r) for r in t.rows)
 
@@ -153,7 +158,7 @@ def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
 
 
 def _draw_table(pdf, t: TraceTable) -> None:
-    widths = _widths(pdf, len(t.headers))
+    widths = _widths(pdf, len(t.headers), t.headers)
     head = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
     first = _row_height(pdf, widths, t.rows[0]) if t.rows else 0.0
     if head + first > _room(pdf):  # keep the caption and header with the first row
@@ -180,8 +185,13 @@ def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0
     pdf.ln(0.8)
 
 
+def _title(t: CircuitTrace) -> str:
+    extra = f", {t.not_checked} not checked" if t.not_checked else ""
+    return f"{t.title}   [{t.status}{extra}]"
+
+
 def _block_height(pdf, t: CircuitTrace) -> float:
-    height = _paragraph_height(pdf, f"{t.title}   [{t.status}]", 10, True) + 2
+    height = _paragraph_height(pdf, _title(t), 10, True) + 2
     height += sum(_paragraph_height(pdf, "- " + m) for m in t.messages)
     height += sum(_paragraph_height(pdf, line) for line in t.lines)
     return height + sum(_table_height(pdf, table) + 1.5 for table in t.tables) + 4
@@ -195,7 +205,7 @@ def _circuit_block(pdf, t: CircuitTrace) -> None:
     pdf.set_draw_color(120, 120, 120)
     pdf.line(pdf.l_margin, pdf.get_y(), pdf.w - pdf.r_margin, pdf.get_y())
     pdf.ln(1)
-    _paragraph(pdf, f"{t.title}   [{t.status}]", 10, True)
+    _paragraph(pdf, _title(t), 10, True)
     for m in t.messages:
         _paragraph(pdf, "- " + m, color=(138, 75, 0))
     for line in t.lines:

@@ -99,6 +99,11 @@ class CircuitTrace:
     #: The capacity table and its tabulated value, e.g. ("IEC 60364-5-52:2009 Table B.52.12, column E", "246 A").
     capacity: tuple[str, str] | None = None
 
+    @property
+    def not_checked(self) -> int:
+        """Checks of this circuit that could not be made (shown beside its status)."""
+        return sum(r == "not_checked" for t in self.tables for r in t.results)
+
 
 def check_result(check: Any) -> str:
     """The outcome of a check: ``pass``, ``fail``, ``not_checked`` or ``not_applicable``.

@@ -182,3 +182,29 @@ def test_pdf_is_the_same_bytes_on_a_re_run(job, monkeypatch):
     kwargs = dict(title="t", drawing_name=DXF.name, cautions="design aid", config=CONFIG)
     first = render_report_pdf(job.outcomes[:3], **kwargs)
     assert first.startswith(b"%PDF-") and render_report_pdf(job.outcomes[:3], **kwargs) == first
+
+
+def test_pdf_block_taller_than_a_page_breaks_between_rows_never_inside_one(job):
+    import io
+
+    from cablewright.annotate.model import CircuitOutcome
+
+    pypdf = pytest.importorskip("pypdf")
+    base = next(o for o in job.outcomes if o.circuit_id == "P-101")
+    clause = "IEC 60364-4-43:2008 433.1, a clause written long enough to wrap onto a second line " * 2
+    many = tuple(Check(f"chk{i:02d}", i % 7 != 0, 100.0 + i, 200.0 + i, "A", f"{clause}end{i:02d}")
+                 for i in range(60))
+    from dataclasses import replace
+
+    tall = CircuitOutcome("T-1", "MCC-1", "T-1", "fail", (), base.route, base.group,
+                          replace(base.sizing, checks=many))
+    data = render_report_pdf([tall], title="t", drawing_name="x.dxf", cautions="c", config=CONFIG)
+    pages = [_squash(p.extract_text()) for p in pypdf.PdfReader(io.BytesIO(data)).pages]
+    body = [i for i, t in enumerate(pages) if "chk" in t]
+    assert len(body) >= 2  # the block does not fit one page
+    for i in range(60):
+        where = [p for p, t in enumerate(pages) if f"chk{i:02d}" in t]
+        assert len(where) == 1
+        page = pages[where[0]]
+        # the whole row is on that page: its value, its limit and the end of its wrapped clause
+        assert f"{100.0 + i:.3f}" in page and f"{200.0 + i:.3f}" in page and f"end{i:02d}" in page
