@@ -208,3 +208,34 @@ def test_pdf_block_taller_than_a_page_breaks_between_rows_never_inside_one(job):
         page = pages[where[0]]
         # the whole row is on that page: its value, its limit and the end of its wrapped clause
         assert f"{100.0 + i:.3f}" in page and f"{200.0 + i:.3f}" in page and f"end{i:02d}" in page
+
+
+def test_printed_html_keeps_each_circuit_on_one_page(job, report_html, tmp_path):
+    """Headless Chromium prints report.html; pypdf reads the pages back (skipped without Chromium)."""
+    import io
+    import shutil
+    import subprocess
+
+    pypdf = pytest.importorskip("pypdf")
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    if browser is None:
+        pytest.skip("no Chromium to print with")
+    page = tmp_path / "report.html"
+    page.write_text(report_html, encoding="utf-8")
+    out = tmp_path / "printed.pdf"
+    cmd = [browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
+           "--disable-component-update", "--no-first-run", f"--user-data-dir={tmp_path / 'profile'}",
+           "--no-pdf-header-footer", f"--print-to-pdf={out}", page.as_uri()]
+    subprocess.run(cmd, capture_output=True, timeout=120, check=False)
+    if not out.exists():
+        pytest.skip("Chromium did not print")
+    pages = [_squash(p.extract_text()) for p in pypdf.PdfReader(io.BytesIO(out.read_bytes())).pages]
+    for i, text in enumerate(pages, start=1):
+        assert f"page{i}of{len(pages)}" in text  # @page margin box
+        assert _squash("Project: Test pumping station | revision C") in text
+    for o in job.outcomes:
+        title = _squash(f"{o.circuit_id}: {o.from_tag} → {o.to_tag}")
+        where = [i for i, t in enumerate(pages) if title in t]
+        assert len(where) == 1, o.circuit_id
+        block = pages[where[0]][pages[where[0]].index(title):]
+        assert "5.Checks" in block and _squash(o.sizing.checks[-1].source) in block, o.circuit_id
