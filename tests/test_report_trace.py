@@ -239,3 +239,27 @@ def test_printed_html_keeps_each_circuit_on_one_page(job, report_html, tmp_path)
         assert len(where) == 1, o.circuit_id
         block = pages[where[0]][pages[where[0]].index(title):]
         assert "5.Checks" in block and _squash(o.sizing.checks[-1].source) in block, o.circuit_id
+
+
+@pytest.mark.parametrize("load, phases, pf, eta, volts, expected", [
+    # 10 hp shaft power: P = 10 x 0.746 kW (contract.md); Ib = P / (η √3 U cos φ), 131-11-42
+    (("10", "hp"), 3, 0.85, 0.9, 400.0, 7460.0 / 0.9 / (math.sqrt(3) * 400.0 * 0.85)),
+    # one phase, 2.3 kW at 230 V, cos φ 1: Ib = P / (U cos φ) = 10 A
+    (("2.3", "kW"), 1, 1.0, 1.0, 230.0, 10.0),
+    # one phase, 4.6 kVA at 230 V: Ib = S / U = 20 A, 131-11-41
+    (("4.6", "kVA"), 1, 0.8, 1.0, 230.0, 20.0),
+])
+def test_design_current_formula_shows_the_numbers_put_in(load, phases, pf, eta, volts, expected):
+    from cablewright.annotate.report_trace import design_current_formula
+    from cablewright.sizing.load import design_current_a
+    from cablewright.sizing.model import CircuitSpec, Load
+
+    spec = CircuitSpec("X", Load(float(load[0]), load[1]), volts, phases=phases, power_factor=pf,
+                       efficiency=eta)
+    ib = design_current_a(spec.load, volts, phases, pf, eta)
+    assert ib == pytest.approx(expected, rel=1e-12)
+    text = design_current_formula(spec, ib)
+    assert f"= {expected:.1f} A; IEC 60050-131:2002" in text
+    assert ("√3" in text) == (phases == 3)
+    if load[1] == "hp":
+        assert "10 hp × 0.746 kW/hp = 7.46 kW" in text
