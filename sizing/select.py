@@ -287,6 +287,10 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
 # per (methods, conductor, insulation, loaded conductors); the steps, their order
 # and every float operation are those of the general path, so the result is the same.
 
+#: :func:`tabulated_capacity` memoised: the cell (value, table, row) a result reports.
+_tabulated = lru_cache(maxsize=4096)(tabulated_capacity)
+
+
 @lru_cache(maxsize=256)
 def _column(method: str, conductor: str, insulation: str, loaded: int) -> dict[float, float]:
     """Size -> It of one column of IEC 60364-5-52:2009 Annex B (:func:`tabulated_capacity`)."""
@@ -529,8 +533,8 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
             "required (IEC 60364-5-52:2009 523.7)"
         )
     grouping = next((f for f in factors if f.name == "grouping"), None)
-    tab = tabulated_capacity(method, spec.conductor, spec.insulation,
-                             loaded_conductors(spec.phases), cand.csa_mm2)
+    tab = _tabulated(method, spec.conductor, spec.insulation, loaded_conductors(spec.phases),
+                     cand.csa_mm2)
     cable = CableSelection(spec.conductor, spec.insulation, ctx.cores, cand.csa_mm2,
                            cand.parallel, iz, governed)
     return SizingResult(
