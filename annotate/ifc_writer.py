@@ -11,7 +11,13 @@ of the same name when there is one, and carrying two property sets of ours:
     rating [A], design current [A], reference method, correction factor, cables in
     group, routed and design length [m], voltage drop [%] and its limit [%].
 ``CW_CableChecks``
-    per check: ``<Name>Passed``, ``<Name>Value``, ``<Name>Limit``, ``<Name>Unit``.
+    per check: ``<Name>Passed``, ``<Name>Result`` (pass / fail / not_checked /
+    not_applicable), ``<Name>Value``, ``<Name>Limit``, ``<Name>Unit``.
+
+Values are typed (IfcElectricCurrentMeasure, IfcAreaMeasure, IfcPositiveLengthMeasure,
+IfcLabel ..., with the unit on the property) and the standard sets
+Pset_CableSegmentOccurrence and Pset_CableSegmentTypeCableSegment (on an
+IfcCableSegmentType per cable kind) are filled where they fit (:mod:`.ifc_props`).
 
 Where the model already has an ``IfcCableSegment`` tagged with the circuit id (ours
 from an earlier run, or one the designer modelled), the property sets are put on it
@@ -41,6 +47,7 @@ from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.ifc_reader import SIZING_PSET, open_model
 
 from .atomic import atomic_path
+from .ifc_props import WriteState, finish_cable
 from .model import CircuitOutcome
 from .reproducible import stable_relation_order
 
@@ -302,6 +309,7 @@ def write_ifc_copy(
         except RuntimeError:
             continue
     added, updated, skipped = [], [], []
+    state = WriteState(f)
     for outcome in outcomes:
         if outcome.sizing is None or outcome.sizing.cable is None:
             skipped.append(outcome.circuit_id)
@@ -317,6 +325,7 @@ def write_ifc_copy(
             updated.append(outcome.circuit_id)
         _set_pset(f, cable, SIZING_PSET, _sizing_props(outcome))
         _set_pset(f, cable, CHECKS_PSET, _check_props(outcome))
+        finish_cable(f, cable, outcome, state)  # typed values, standard psets (ifc_props.py)
     stable_relation_order(f, [c for c in _existing_cables(f) if (c.Tag or c.Name) in added])
     try:
         dst.parent.mkdir(parents=True, exist_ok=True)

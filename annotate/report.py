@@ -23,8 +23,16 @@ from typing import Any
 
 from .atomic import write_text_atomic
 from .model import CircuitOutcome
+from .report_trace import (
+    ReportConfig,
+    TraceTable,
+    check_counts,
+    circuit_trace,
+    failures_first,
+    report_date,
+)
 
-__all__ = ["render_report_html", "write_report_html"]
+__all__ = ["render_report_html", "write_report_html", "header_text"]
 
 _CSS = """
 body{font-family:system-ui,-apple-system,"Segoe UI",Roboto,Arial,sans-serif;margin:2em auto;
@@ -39,10 +47,17 @@ font-weight:600}
 .status{display:inline-block;padding:.05em .6em;border-radius:.8em;font-size:.85em;
 font-weight:600;color:#fff}
 .ok{background:#2e7d32}.warning{background:#b26a00}.fail{background:#c62828}
-.error{background:#6a1b9a}
+.error{background:#6a1b9a}.status.not_checked{background:#fff3cd;color:#6d4c00;border:1px dashed #b26a00}
 .circuit{border:1px solid #ddd;border-radius:6px;padding:.5em 1em;margin:1em 0}
 .msgs li{color:#8a4b00}.preview img{max-width:100%;border:1px solid #ccc}
 .muted{color:#666;font-size:.9em}ol.steps>li{margin:.35em 0}
+table.trace{width:100%}table.trace caption{text-align:left;font-weight:600;padding:.2em 0}
+.res{display:inline-block;padding:0 .4em;border-radius:.3em}
+.res.pass{background:#e3f1e4;color:#1b5e20}.res.fail{background:#c62828;color:#fff;font-weight:700}
+.res.not_checked{background:#fff3cd;color:#6d4c00;border:1px dashed #b26a00}
+.res.not_applicable{background:#eee;color:#555}
+.pagehead{color:#555;font-size:.85em;border-bottom:1px solid #ccc;padding-bottom:.2em}
+@media print{.pagehead{display:none}}
 """
 
 
@@ -82,105 +97,75 @@ def _table(headers: Sequence[str], rows: Iterable[Sequence[str]], numeric: set[i
     return "".join(out)
 
 
+def _trace_table(t: TraceTable) -> str:
+    out = [f"<table class='trace'><caption>{_e(t.caption)}</caption><thead><tr>"]
+    out += [f"<th>{_e(h)}</th>" for h in t.headers]
+    out.append("</tr></thead><tbody>")
+    for i, row in enumerate(t.rows):
+        result = t.results[i] if i < len(t.results) else ""
+        out.append(f"<tr class='{_e(result)}'>" if result else "<tr>")
+        for j, cell in enumerate(row):
+            if result and j == 1:
+                out.append(f"<td><span class='res {_e(result)}'>{_e(cell)}</span></td>")
+            else:
+                out.append(f"<td>{_e(cell)}</td>")
+        out.append("</tr>")
+    out.append("</tbody></table>")
+    return "".join(out)
+
+
 def _circuit_section(o: CircuitOutcome) -> str:
+    t = circuit_trace(o)
     parts = [
         f'<section class="circuit" id="c-{_e(o.circuit_id)}">',
-        f"<h3>{_e(o.circuit_id)}: {_e(o.from_tag)} → {_e(o.to_tag)} {_status(o.status)}</h3>",
+        f"<h3>{_e(t.title)} {_status(o.status)}"
+        + (f" <span class='status not_checked'>{t.not_checked} not checked</span>" if t.not_checked else "")
+        + "</h3>",
     ]
-    if o.messages:
-        parts.append(
-            '<ul class="msgs">' + "".join(f"<li>{_e(m)}</li>" for m in o.messages) + "</ul>"
-        )
-    route = o.route
-    if route is not None:
-        segs = ", ".join(getattr(route, "segment_ids", ()) or ()) or "–"
-        parts.append(
-            "<p>Route: routed length "
-            f"<b>{_num(getattr(route, 'routed_length_m', None), 1, 'm')}</b> "
-            f"(tails {_num(getattr(route, 'source_tail_m', None), 1, 'm')} + "
-            f"{_num(getattr(route, 'load_tail_m', None), 1, 'm')}), design length "
-            f"<b>{_num(getattr(route, 'design_length_m', None), 1, 'm')}</b>; "
-            f"segments {_e(segs)}.</p>"
-        )
-    group = o.group
-    if group is not None:
-        parts.append(
-            f"<p>Grouping: {_e(getattr(group, 'circuits_in_group', '–'))} circuits, "
-            f"{_e(getattr(group, 'cables_in_group', '–'))} cables on the most crowded segment.</p>"
-        )
-    s = o.sizing
-    if s is None:
-        parts.append("<p class='muted'>Not sized.</p></section>")
-        return "".join(parts)
-    steps = ['<ol class="steps">']
-    steps.append(f"<li>Design current I<sub>b</sub> = <b>{_num(s.load_current_a, 1, 'A')}</b></li>")
-    kind = f" ({_e(s.device_kind)})" if s.device_kind else ""
-    steps.append(
-        f"<li>Protective device rating I<sub>n</sub> = <b>{_num(s.device_rating_a, 0, 'A')}</b>{kind}</li>"
-    )
-    steps.append(
-        f"<li>Installation method <b>{_e(s.method or '–')}</b>"
-        + (f", governing segment {_e(s.governing_segment)}" if s.governing_segment else "")
-        + (f", {s.cables_in_group} cables in the group" if s.cables_in_group else "")
-        + "</li>"
-    )
-    if s.factors:
-        rows = [(_e(f.name), _num(f.value, 3), _e(f.source), _e(f.detail)) for f in s.factors]
-        steps.append(
-            "<li>Correction factors:"
-            + _table(("factor", "value", "source", "read at"), rows, {1})
-            + f"Overall correction factor k = <b>{_num(s.correction_factor, 3)}</b></li>"
-        )
-    else:
-        steps.append(
-            f"<li>Overall correction factor k = <b>{_num(s.correction_factor, 3)}</b></li>"
-        )
-    steps.append(
-        "<li>Required tabulated capacity I<sub>n</sub> / k = "
-        f"<b>{_num(s.required_capacity_a, 1, 'A')}</b></li>"
-    )
-    if s.cable is not None:
-        c = s.cable
-        steps.append(
-            f"<li>Chosen cable <b>{_e(c.describe())}</b>: corrected capacity I<sub>z</sub> = "
-            f"<b>{_num(c.capacity_a, 1, 'A')}</b> (all {c.parallel} in parallel), "
-            f"size set by <b>{_e(c.governed_by)}</b></li>"
-        )
-    else:
-        steps.append("<li>No cable chosen.</li>")
-    vd = s.voltage_drop
-    if vd is not None:
-        vd_sources = sorted(
-            {ch.source for ch in s.checks if "drop" in ch.name.lower() and ch.source}
-        )
-        src = f" (source: {_e('; '.join(vd_sources))})" if vd_sources else ""
-        steps.append(
-            f"<li>Voltage drop at I<sub>b</sub> over the design length: <b>{_num(vd.volts, 2, 'V')}</b> = "
-            f"<b>{_num(vd.percent, 2, '%')}</b>, limit {_num(vd.limit_percent, 2, '%')}; "
-            f"{_num(vd.mv_per_a_m, 3, 'mV/A/m')}; simplified formula "
-            f"{_num(vd.annex_g_percent, 2, '%')}{src}</li>"
-        )
-    steps.append("</ol>")
-    parts += steps
-    if s.checks:
-        rows = [
-            (
-                _e(ch.name),
-                _status(_CHECK_RESULT_WORD.get(ch.result.value, ch.result.value)),
-                _num(ch.value, 3),
-                _num(ch.limit, 3),
-                _e(ch.unit),
-                _e(ch.source),
-                _e(ch.message),
-            )
-            for ch in s.checks
-        ]
-        parts.append("<h4>Checks</h4>")
-        parts.append(
-            _table(("check", "result", "value", "limit", "unit", "source", "note"), rows, {2, 3})
-        )
+    if t.messages:
+        parts.append('<ul class="msgs">' + "".join(f"<li>{_e(m)}</li>" for m in t.messages) + "</ul>")
+    parts += [f"<p>{_e(line)}</p>" for line in t.lines]
+    parts += [_trace_table(table) for table in t.tables]
     parts.append("</section>")
     return "".join(parts)
+
+
+def _css_string(text: str) -> str:
+    """``text`` as a CSS string literal (for the page header of the print style)."""
+    out = "".join(ch if ch.isalnum() or ch in " .,:;-_/()+#" else f"\\{ord(ch):x} " for ch in text)
+    return f'"{out}"'
+
+
+def header_text(config: ReportConfig, drawing_name: str, tool_version: str = "") -> str:
+    """The line at the head of every printed page: project, revision, date, drawing, tool."""
+    parts = [f"Project: {config.project or drawing_name}",
+             f"revision {config.revision or '-'}"]
+    date = report_date(config)
+    if date:
+        parts.append(date)
+    parts.append(f"drawing {drawing_name}")
+    if tool_version:
+        parts.append(f"cablewright {tool_version}")
+    return " | ".join(parts)
+
+
+def _print_css(header: str) -> str:
+    # Printed as a submittal (CSS Paged Media Level 3, @page margin boxes): A4, the
+    # project line on every page, "page n of N" below; each circuit starts a page and
+    # its block and every table row are kept whole (CSS Fragmentation Level 3,
+    # break-before: page, break-inside: avoid); 7.5 pt fits a circuit on one A4 page.
+    return (
+        "@page{size:A4;margin:16mm 12mm 16mm 12mm;"
+        f"@top-left{{content:{_css_string(header)};font-size:8pt;color:#444}}"
+        '@bottom-right{content:"page " counter(page) " of " counter(pages);font-size:8pt}}'
+        "@media print{body{max-width:none;margin:0;padding:0;font-size:7.5pt;line-height:1.25}"
+        ".circuit,tr,.caution,.summary{break-inside:avoid;page-break-inside:avoid}"
+        ".circuit{break-before:page;page-break-before:always;border:0;padding:0;margin:0}"
+        "table.trace{margin:.2em 0 .5em 0}th,td{padding:.1em .4em}h3{margin:.2em 0}"
+        "h2,h3{break-after:avoid;page-break-after:avoid}thead{display:table-header-group}"
+        ".preview{break-inside:avoid}.preview img{max-height:240mm}a{color:inherit;"
+        "text-decoration:none}.screen-only{display:none}}"
+    )
 
 
 def render_report_html(
@@ -192,17 +177,22 @@ def render_report_html(
     cautions: str,
     extra_sections: Sequence[str] = (),
     drawing_facts: Sequence[tuple[str, str]] = (),
+    config: ReportConfig | None = None,
+    tool_version: str = "",
 ) -> str:
     """The report as one HTML string (see :func:`write_report_html`)."""
+    config = config or ReportConfig()
+    header = header_text(config, drawing_name, tool_version)
     counts = Counter(o.status for o in outcomes)
+    checks = check_counts(outcomes)
     caution = f'<div class="caution">{_e(cautions)}</div>'
     out = [
         "<!DOCTYPE html><html lang='en'><head><meta charset='utf-8'>",
-        f"<title>{_e(title)}</title><style>{_CSS}</style></head><body>",
+        f"<title>{_e(title)}</title><style>{_CSS}{_print_css(header)}</style></head><body>",
+        f"<p class='pagehead'>{_e(header)}</p>",
         f"<h1>{_e(title)}</h1><p class='muted'>Drawing: {_e(drawing_name)}</p>",
         caution,
-        *_facts_table(drawing_facts),
-        "<h2>Summary</h2>",
+        "<h2>Summary</h2><div class='summary'>",
         _table(
             ("circuits", "ok", "warning", "fail", "error"),
             [
@@ -216,7 +206,21 @@ def render_report_html(
             ],
             {0, 1, 2, 3, 4},
         ),
+        _table(
+            ("checks made", "pass", "fail", "not checked", "not applicable"),
+            [(str(checks["pass"] + checks["fail"]), str(checks["pass"]), str(checks["fail"]),
+              str(checks["not_checked"]), str(checks["not_applicable"]))],
+            {0, 1, 2, 3, 4},
+        ),
+        "</div>",
     ]
+    bad = failures_first(outcomes)
+    if bad:
+        out.append("<h3>Circuits to look at first</h3>")
+        out.append(_table(("circuit", "status", "reason"),
+                          [(f"<a href='#c-{_e(c)}'>{_e(c)}</a>", _status(st), _e(why))
+                           for c, st, why in bad]))
+    out += list(_facts_table(drawing_facts))
     if preview_png:
         data = base64.b64encode(preview_png).decode("ascii")
         out.append(
@@ -247,6 +251,10 @@ def render_report_html(
     )
     out += list(extra_sections)  # changes, quantities, fill (annotate/report_sections.py)
     out.append("<h2>Circuits, step by step</h2>")
+    out.append("<p class='muted'>Each circuit: the load as given, Ib and its formula, the device, "
+               "every correction factor with its table and row, the capacity table and its "
+               "tabulated value, Iz, and every check with its value, limit and clause. "
+               "A check that could not be made reads \"not checked\" with the reason; it is not a pass.</p>")
     out += [_circuit_section(o) for o in outcomes]
     out.append(caution)
     out.append("</body></html>")
@@ -271,6 +279,8 @@ def write_report_html(
     cautions: str,
     extra_sections: Sequence[str] = (),
     drawing_facts: Sequence[tuple[str, str]] = (),
+    config: ReportConfig | None = None,
+    tool_version: str = "",
 ) -> Path:
     """Write the HTML report, atomically.
 
@@ -294,6 +304,10 @@ def write_report_html(
     drawing_facts : sequence of (name, text)
         How the drawing was read (units and where they came from, extents,
         scale check), shown under the title.
+    config : ReportConfig, optional
+        Project, revision and date of the page header (``[annotate]`` keys).
+    tool_version : str
+        Our version, in the page header.
 
     Returns
     -------
@@ -302,6 +316,6 @@ def write_report_html(
     text = render_report_html(
         outcomes, title=title, drawing_name=drawing_name, preview_png=preview_png, cautions=cautions,
         extra_sections=extra_sections,
-        drawing_facts=drawing_facts,
+        drawing_facts=drawing_facts, config=config, tool_version=tool_version,
     )
     return write_text_atomic(path, text, encoding="utf-8")

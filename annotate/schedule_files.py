@@ -37,6 +37,7 @@ from typing import Any
 from .atomic import atomic_path, write_text_atomic
 from .jsonout import dumps, outcome_to_dict
 from .model import CircuitOutcome
+from .xlsx_style import setup_print, styled_row
 
 __all__ = [
     "COLUMNS",
@@ -180,7 +181,9 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     """Write the schedule as an Excel workbook; returns the path.
 
     One sheet ``schedule``: bold header, frozen below the header, an auto-filter,
-    numbers stored as numbers, columns wide enough for their contents.
+    numbers stored as numbers shown with their unit, failed rows filled, columns wide
+    enough for their contents, printed landscape one page wide with the header
+    repeated (:mod:`.xlsx_style`).
     """
     from openpyxl import Workbook
     from openpyxl.cell import WriteOnlyCell
@@ -196,6 +199,7 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
         longest = max([len(header)] + [len(_csv_cell(r[header])) for r in rows])
         ws.column_dimensions[get_column_letter(i)].width = min(60, max(8, longest + 2))
     ws.freeze_panes = "B2"
+    setup_print(ws)  # landscape, fit to width, header row repeated (annotate/xlsx_style.py)
     ws.auto_filter.ref = f"A1:{get_column_letter(len(HEADERS))}{len(rows) + 1}"
     bold = Font(bold=True)
     middle = Alignment(wrap_text=False, vertical="center")
@@ -206,10 +210,11 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
         cell.alignment = middle
         head.append(cell)
     ws.append(head)
-    for row in rows:
-        ws.append([_xlsx_cell(ws, row[h]) for h in HEADERS])
+    for row in rows:  # unit number formats, failed rows filled (annotate/xlsx_style.py)
+        ws.append(_text_safe(styled_row(ws, HEADERS, [row[h] for h in HEADERS], row["status"])))
     for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
+        setup_print(extra)
         extra.append([WriteOnlyCell(extra, value=h) for h in headers])
         for sheet_row in sheet_rows:
             extra.append([_xlsx_cell(extra, v) for v in sheet_row])
@@ -221,6 +226,15 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
         if not ws.closed:  # saving failed early: end the sheet's row stream and temp file
             ws.close()
     return Path(path)
+
+
+def _text_safe(cells: list[Any]) -> list[Any]:
+    """Styled cells whose formula-like text is stored as text (see :func:`_xlsx_cell`)."""
+    for cell in cells:
+        if isinstance(cell.value, str) and is_formula_like(cell.value):
+            cell.data_type = "s"
+            cell.quotePrefix = True
+    return cells
 
 
 def _xlsx_cell(ws: Any, value: Any) -> Any:

@@ -45,7 +45,7 @@ from .config import Settings
 from .console import CAUTION
 
 __all__ = ["write_outputs", "output_names", "output_session", "check_inputs_not_outputs", "STAGE_TAG",
-           "job_takeoff", "job_document", "changes_json", "drawing_entry", "drawing_facts"]
+           "job_takeoff", "job_document", "changes_json", "drawing_entry", "drawing_facts", "report_config"]
 
 log = logging.getLogger(__name__)
 
@@ -62,6 +62,7 @@ def output_names(drawing: Path) -> dict[str, str]:
         "xlsx": "schedule.xlsx",
         "json": "schedule.json",
         "html": "report.html",
+        "pdf": "report.pdf",
         "png": "preview.png",
         "changes": "changes.json",
     }
@@ -76,7 +77,22 @@ def job_takeoff(job, drawing: Path, settings: Settings):
     entry = drawing_entry(job.measurement)
     if entry:
         extras["drawing"] = entry
+    extras["header"] = _document_header(job, drawing, settings)
     return takeoff, extras
+
+
+def _document_header(job, drawing: Path, settings: Settings) -> dict:
+    """``header``: tool, input and its hash, config and its hash, date, standard editions."""
+    import dataclasses
+
+    from cablewright.annotate.doc_header import document_header
+
+    source = None if settings.source == "defaults" else settings.source
+    def plain(value):
+        return dataclasses.asdict(value) if dataclasses.is_dataclass(value) else value
+
+    values = {name: plain(getattr(settings, name)) for name in ("drawing", "sizing", "annotate", "ifc")}
+    return document_header(job.outcomes, drawing, source, values)
 
 
 def job_document(job, extras) -> dict:
@@ -251,6 +267,14 @@ def _umask() -> int:
     return mask
 
 
+def report_config(settings: Settings):
+    """The report's header keys of ``[annotate]`` (project, revision, date)."""
+    from cablewright.annotate.report_trace import ReportConfig
+
+    a = settings.annotate
+    return ReportConfig(project=a.project, revision=a.revision, date=a.date)
+
+
 def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: bool = False,
                   takeoff=None, extras=None, changes=None, previous_name: str = "") -> list[Path]:
     """Write the annotated DXF, schedule (csv, xlsx, json), preview and report.
@@ -293,6 +317,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
+    from cablewright.annotate.report_pdf import write_report_pdf
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
     from cablewright.annotate.reproducible import file_digest, pin_dxf_metadata, seeded_ifc_guids
     from cablewright.annotate.schedule_files import (
@@ -345,9 +370,15 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
                              keep_layers=tuple(ours.values()))
     (stage / names["png"]).write_bytes(png)
+    report_cfg = report_config(settings)
+    version = extras.get("tool", {}).get("version", "")
     write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
                       drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
-                      extra_sections=sections, drawing_facts=drawing_facts(measurement))
+                      extra_sections=sections, drawing_facts=drawing_facts(measurement),
+                      config=report_cfg, tool_version=version)
+    write_report_pdf(stage / names["pdf"], job.outcomes, title=f"Cable sizing: {drawing.name}",
+                     drawing_name=drawing.name, cautions=CAUTION, config=report_cfg,
+                     tool_version=version)
     if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
         from cablewright.annotate.ifc_writer import write_ifc_copy
 
@@ -355,7 +386,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
         with seeded_ifc_guids(seed):
             write_ifc_copy(drawing, stage / names["ifc"], job.outcomes)
     shutil.rmtree(scratch, ignore_errors=True)
-    order = ["dxf", "csv", "xlsx", "json", "png", "html"] + (["changes"] if changes is not None else []) + ["ifc"]
+    order = ["dxf", "csv", "xlsx", "json", "png", "html", "pdf"] + (["changes"] if changes is not None else []) + ["ifc"]
     return {key: names[key] for key in order if key in names}
 
 

@@ -296,6 +296,13 @@ class SizingResult:
     ``motor_start_peak_a`` (peak of the starting current that the
     instantaneous release sees); ``ze_assumed`` is True when neither ``ze_ohm``
     nor a fault level was given and the config's assumed Ze was used.
+
+    For the report's trace (added fields, empty where not sized): ``spec`` the
+    circuit as given (load, power factor, efficiency, voltage, phases);
+    ``device_margin`` the factor In >= margin x Ib was chosen with and
+    ``device_source`` where I2 comes from; ``tabulated_capacity_a`` It of one
+    cable on the governing stretch, read in ``capacity_table`` (standard,
+    edition, table, column) at ``capacity_detail`` (row and column in words).
     """
 
     circuit_id: str
@@ -326,3 +333,9 @@ class SizingResult:
     ze_assumed: bool = False
     #: The rule set that sized it: ``"iec"`` or ``"nec"`` (``[sizing] standard``).
     standard: str = "iec"
+    spec: CircuitSpec | None = None
+    device_margin: float | None = None
+    device_source: str = ""
+    tabulated_capacity_a: float | None = None
+    capacity_table: str = ""
+    capacity_detail: str = ""

@@ -124,6 +124,7 @@ class SizingContext:
     def overload_device(self) -> DeviceSelection:
         """The device the checks of 433.1 are made with."""
         return self.cable_device or self.device
+    device_margin: float | None = None
 
 
 def _voltage_drop(spec: CircuitSpec, cand: Candidate, ctx: SizingContext,
@@ -304,7 +305,7 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
     try:
         return _size(spec, config)
     except CableRouteError as exc:
-        return SizingResult(spec.circuit_id, "error", (str(exc),))
+        return SizingResult(spec.circuit_id, "error", (str(exc),), spec=spec)
 
 
 # ------------------------------------------------------------- prepared path
@@ -312,6 +313,10 @@ def size_circuit(spec: CircuitSpec, config: SizingConfig | None = None) -> Sizin
 # and the capacity of a circuit for a size index is read from arrays built once
 # per (methods, conductor, insulation, loaded conductors); the steps, their order
 # and every float operation are those of the general path, so the result is the same.
+
+#: :func:`tabulated_capacity` memoised: the cell (value, table, row) a result reports.
+_tabulated = lru_cache(maxsize=4096)(tabulated_capacity)
+
 
 @lru_cache(maxsize=256)
 def _column(method: str, conductor: str, insulation: str, loaded: int) -> dict[float, float]:
@@ -427,7 +432,8 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                                 f"overload relay in the delta windings at Ib/√3 per cable; {i2_source}")
         need = required_iz_a(relay)
     ctx = SizingContext(ib, device, need, spec.voltage_v, cores, limit, temp, harmonics=harmonics,
-                        cable_device=relay, vd_factor=STAR_DELTA_RUN_DROP_FACTOR if star else 1.0)
+                        cable_device=relay, vd_factor=STAR_DELTA_RUN_DROP_FACTOR if star else 1.0,
+                        device_margin=config.margin_for(spec.load_type))
 
     conductor, insulation = spec.conductor, spec.insulation
     stretches = spec.stretches
@@ -620,6 +626,8 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
             "required (IEC 60364-5-52:2009 523.7)"
         )
     grouping = next((f for f in factors if f.name == "grouping"), None)
+    tab = _tabulated(method, spec.conductor, spec.insulation, loaded_conductors(spec.phases),
+                     cand.csa_mm2)
     cable = CableSelection(spec.conductor, spec.insulation, ctx.cores, cand.csa_mm2,
                            cand.parallel, iz, governed)
     return SizingResult(
@@ -640,4 +648,10 @@ def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, ch
         voltage_drop=vd,
         checks=tuple(checks),
         **extras,
+        spec=spec,
+        device_margin=ctx.device_margin,
+        device_source=ctx.device.source,
+        tabulated_capacity_a=tab.current_a,
+        capacity_table=tab.source,
+        capacity_detail=tab.detail,
     )

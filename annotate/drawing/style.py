@@ -120,6 +120,10 @@ class AnnotateConfig:
         On a crowded drawing the derived text height is lowered until the
         marks cover at most this share of the extents (see
         :func:`crowded_text_height_m`); ``None`` keeps the sheet-fitted height.
+    project, revision, date : str
+        Header of every page of report.html and report.pdf
+        (:class:`cablewright.annotate.report_trace.ReportConfig`): "" writes the
+        drawing's name, "-", and ``SOURCE_DATE_EPOCH`` or no date.
 
     Notes
     -----
@@ -177,6 +181,9 @@ class AnnotateConfig:
     symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
     crowd_fraction: float | None = 0.25
+    project: str = ""
+    revision: str = ""
+    date: str = ""
 
 
 

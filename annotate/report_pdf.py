@@ -1,0 +1,308 @@
+"""``report.pdf``: the report as a submittal, drawn with fpdf2 (no browser).
+
+The same rows as ``report.html`` (:mod:`.report_trace`): a summary with the
+failures first, the schedule, then every circuit from the load as given to the
+chosen cable.  Every page carries a header (project, revision, date, drawing,
+tool version) and "page n of N" at its foot.  A circuit's block is kept on one
+page: when it does not fit in what is left of the page, it starts a new one; a
+block taller than a whole page breaks between table rows, never inside a row.
+
+The file is written atomically (:mod:`.atomic`); its creation date is
+``SOURCE_DATE_EPOCH`` when set, else a fixed date, so re-runs are identical.
+
+References
+----------
+.. [1] ISO 32000-1:2008, PDF 1.7 (the file format fpdf2 writes).
+.. [2] fpdf2 documentation: ``FPDF.header``/``footer``, ``alias_nb_pages``,
+   ``multi_cell(dry_run=True, output="LINES")``, ``add_font``.
+"""
+
+from __future__ import annotations
+
+import os
+from collections import Counter
+from collections.abc import Sequence
+from datetime import datetime, timezone
+from pathlib import Path
+
+from .atomic import atomic_path
+from .model import CircuitOutcome
+from .report_trace import (
+    CircuitTrace,
+    ReportConfig,
+    TraceTable,
+    check_counts,
+    circuit_trace,
+    failures_first,
+)
+
+__all__ = ["render_report_pdf", "write_report_pdf", "FONT_FAMILY"]
+
+FONT_FAMILY = "DejaVu"
+#: Body text size [pt]; 7 pt still reads on A4 and keeps a circuit's block on one page.
+BODY_PT = 7.0
+#: Line height of body text [mm] (about 1.25 x the 7 pt text, common practice).
+LINE_MM = 3.1
+#: Padding inside a table cell [mm].
+PAD_MM = 0.6
+#: Fill colours of check outcomes (RGB).
+RESULT_FILL = {"pass": (227, 241, 228), "fail": (198, 40, 40), "not_checked": (255, 243, 205),
+               "not_applicable": (235, 235, 235)}
+#: Column widths as shares of the text width, by the number of columns.
+COLUMN_SHARES = {
+    3: (0.26, 0.20, 0.54),
+    4: (0.15, 0.36, 0.37, 0.12),
+    5: (0.2, 0.2, 0.2, 0.2, 0.2),
+    6: (0.12, 0.2, 0.07, 0.07, 0.05, 0.49),
+    7: (0.12, 0.12, 0.12, 0.26, 0.1, 0.14, 0.14),
+}
+
+
+def _font_paths() -> tuple[str, str]:
+    """DejaVu Sans (regular, bold): the copy shipped with matplotlib, a dependency of ours."""
+    import matplotlib
+
+    base = Path(matplotlib.get_data_path()) / "fonts" / "ttf"
+    return str(base / "DejaVuSans.ttf"), str(base / "DejaVuSans-Bold.ttf")
+
+
+def _creation_date() -> datetime:
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "").strip()
+    seconds = int(epoch) if epoch.isdigit() else 0
+    return datetime.fromtimestamp(seconds, tz=timezone.utc)
+
+
+def _make_pdf(header: str):
+    from fpdf import FPDF
+
+    class _Report(FPDF):
+        def header(self) -> None:  # noqa: D401 - fpdf2 hook
+            self.set_font(FONT_FAMILY, "", 7)
+            self.set_text_color(80, 80, 80)
+            self.cell(0, 4, header, new_x="LMARGIN", new_y="NEXT")
+            self.set_draw_color(180, 180, 180)
+            self.line(self.l_margin, self.get_y(), self.w - self.r_margin, self.get_y())
+            self.ln(2)
+            self.set_text_color(0, 0, 0)
+
+        def footer(self) -> None:  # noqa: D401 - fpdf2 hook
+            self.set_y(-11)
+            self.set_font(FONT_FAMILY, "", 7)
+            self.cell(0, 4, f"page {self.page_no()} of {{nb}}", align="R")
+
+    pdf = _Report(orientation="P", unit="mm", format="A4")
+    regular, bold = _font_paths()
+    pdf.add_font(FONT_FAMILY, "", regular)
+    pdf.add_font(FONT_FAMILY, "B", bold)
+    pdf.set_margins(12, 12, 12)
+    pdf.set_auto_page_break(True, margin=14)
+    pdf.set_creation_date(_creation_date())
+    pdf.set_title("Cable sizing report")
+    pdf.set_creator("cablewright")
+    return pdf
+
+
+#: Column shares of the "load as given" table (6 or 7 columns: no cos φ, η for kVA and A).
+LOAD_SHARES = {7: (0.12, 0.13, 0.17, 0.1, 0.16, 0.16, 0.16), 5: (0.2, 0.2, 0.2, 0.2, 0.2)}
+
+
+def _widths(pdf, columns: int, headers: Sequence[str] = ()) -> list[float]:
+    shares = (LOAD_SHARES.get(columns) if headers[:1] == ("load",) else None) \
+        or COLUMN_SHARES.get(columns) or tuple(1.0 / columns for _ in range(columns))
+    return [pdf.epw * s for s in shares]
+
+
+def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False) -> float:
+    pdf.set_font(FONT_FAMILY, "B" if bold else "", BODY_PT)
+    lines = 1
+    for w, text in zip(widths, cells, strict=False):
+        got = pdf.multi_cell(w, LINE_MM, text, dry_run=True, output="LINES", padding=PAD_MM, align="L")
+        lines = max(lines, len(got))
+    return lines * LINE_MM + 2 * PAD_MM
+
+
+def _table_height(pdf, t: TraceTable) -> float:
+    widths = _widths(pdf, len(t.headers), t.headers)
+    height = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
+    return height + sum(_row_height(pdf, widths, r) for r in t.rows)
+
+
+def _room(pdf) -> float:
+    return pdf.page_break_trigger - pdf.get_y()
+
+
+def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
+    height = _row_height(pdf, widths, cells, bold)
+    if height > _room(pdf):  # a row is never cut across pages
+        pdf.add_page()
+    x0, y0 = pdf.l_margin, pdf.get_y()
+    x = x0
+    for i, (w, text) in enumerate(zip(widths, cells, strict=False)):
+        fill = False
+        if bold:
+            pdf.set_fill_color(238, 241, 245)
+            fill = True
+        elif result and i == 1:
+            pdf.set_fill_color(*RESULT_FILL.get(result, (255, 255, 255)))
+            fill = True
+            if result == "fail":
+                pdf.set_text_color(255, 255, 255)
+        pdf.set_draw_color(170, 170, 170)
+        pdf.rect(x, y0, w, height, style="DF" if fill else "D")
+        pdf.set_xy(x, y0)
+        pdf.set_font(FONT_FAMILY, "B" if bold or (result == "fail" and i == 1) else "", BODY_PT)
+        pdf.multi_cell(w, LINE_MM, text, padding=PAD_MM, new_x="RIGHT", new_y="TOP", align="L")
+        pdf.set_text_color(0, 0, 0)
+        x += w
+    pdf.set_xy(x0, y0 + height)
+
+
+def _draw_table(pdf, t: TraceTable) -> None:
+    widths = _widths(pdf, len(t.headers), t.headers)
+    head = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
+    first = _row_height(pdf, widths, t.rows[0]) if t.rows else 0.0
+    if head + first > _room(pdf):  # keep the caption and header with the first row
+        pdf.add_page()
+    pdf.set_font(FONT_FAMILY, "B", BODY_PT)
+    pdf.cell(0, LINE_MM + 1, t.caption, new_x="LMARGIN", new_y="NEXT")
+    _draw_row(pdf, widths, t.headers, bold=True)
+    for i, row in enumerate(t.rows):
+        _draw_row(pdf, widths, row, result=t.results[i] if i < len(t.results) else "")
+    pdf.ln(1.5)
+
+
+def _paragraph_height(pdf, text: str, pt: float = BODY_PT, bold: bool = False) -> float:
+    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
+    lines = pdf.multi_cell(pdf.epw, LINE_MM, text, dry_run=True, output="LINES")
+    return len(lines) * LINE_MM + 0.8
+
+
+def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0, 0, 0)) -> None:
+    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
+    pdf.set_text_color(*color)
+    pdf.multi_cell(pdf.epw, LINE_MM, text, new_x="LMARGIN", new_y="NEXT")
+    pdf.set_text_color(0, 0, 0)
+    pdf.ln(0.8)
+
+
+def _title(t: CircuitTrace) -> str:
+    extra = f", {t.not_checked} not checked" if t.not_checked else ""
+    return f"{t.title}   [{t.status}{extra}]"
+
+
+def _block_height(pdf, t: CircuitTrace) -> float:
+    height = _paragraph_height(pdf, _title(t), 10, True) + 2
+    height += sum(_paragraph_height(pdf, "- " + m) for m in t.messages)
+    height += sum(_paragraph_height(pdf, line) for line in t.lines)
+    return height + sum(_table_height(pdf, table) + 1.5 for table in t.tables) + 4
+
+
+def _circuit_block(pdf, t: CircuitTrace) -> None:
+    height = _block_height(pdf, t)
+    usable = pdf.page_break_trigger - pdf.t_margin - 8  # below the page header
+    if height > _room(pdf) and height <= usable:
+        pdf.add_page()  # the whole block on the next page
+    pdf.set_draw_color(120, 120, 120)
+    pdf.line(pdf.l_margin, pdf.get_y(), pdf.w - pdf.r_margin, pdf.get_y())
+    pdf.ln(1)
+    _paragraph(pdf, _title(t), 10, True)
+    for m in t.messages:
+        _paragraph(pdf, "- " + m, color=(138, 75, 0))
+    for line in t.lines:
+        _paragraph(pdf, line)
+    for table in t.tables:
+        _draw_table(pdf, table)
+    pdf.ln(2)
+
+
+def render_report_pdf(
+    outcomes: Sequence[CircuitOutcome],
+    *,
+    title: str,
+    drawing_name: str,
+    cautions: str,
+    config: ReportConfig | None = None,
+    tool_version: str = "",
+) -> bytes:
+    """The report as PDF bytes (see :func:`write_report_pdf`)."""
+    from .report import header_text
+
+    config = config or ReportConfig()
+    pdf = _make_pdf(header_text(config, drawing_name, tool_version))
+    pdf.add_page()
+    _paragraph(pdf, title, 14, True)
+    _paragraph(pdf, cautions, BODY_PT, True, (176, 0, 32))
+    counts = Counter(o.status for o in outcomes)
+    checks = check_counts(outcomes)
+    summary = TraceTable("Summary", ("circuits", "ok", "warning", "fail", "error"),
+                         ((str(len(outcomes)), str(counts.get("ok", 0)), str(counts.get("warning", 0)),
+                           str(counts.get("fail", 0)), str(counts.get("error", 0))),))
+    _draw_table(pdf, summary)
+    _draw_table(pdf, TraceTable("Checks over all circuits",
+                                ("made", "pass", "fail", "not checked", "not applicable"),
+                                ((str(checks["pass"] + checks["fail"]), str(checks["pass"]),
+                                  str(checks["fail"]), str(checks["not_checked"]),
+                                  str(checks["not_applicable"])),)))
+    bad = failures_first(outcomes)
+    if bad:
+        _draw_table(pdf, TraceTable("Circuits to look at first", ("circuit", "status", "reason"),
+                                    tuple(bad)))
+    rows = []
+    for o in outcomes:
+        s = o.sizing
+        cable = s.cable.describe() if s is not None and s.cable is not None else "-"
+        length = getattr(o.route, "routed_length_m", None) if o.route is not None else None
+        device = f"{s.device_rating_a:g} A" if s is not None and s.device_rating_a else "-"
+        rows.append((o.circuit_id, o.from_tag, o.to_tag, cable, device,
+                     "-" if length is None else f"{length:.1f} m", o.status))
+    _draw_table(pdf, TraceTable("Schedule", ("circuit", "from", "to", "cable", "device",
+                                             "routed length", "status"), tuple(rows)))
+    pdf.add_page()
+    _paragraph(pdf, "Circuits, step by step", 12, True)
+    _paragraph(pdf, "Each circuit: the load as given, Ib and its formula, the device, every correction "
+                    "factor with its table and row, the capacity table and its tabulated value, Iz, and "
+                    "every check with its value, limit and clause. \"not checked\" is not a pass.")
+    for o in outcomes:
+        _circuit_block(pdf, circuit_trace(o))
+    _paragraph(pdf, cautions, BODY_PT, True, (176, 0, 32))
+    return bytes(pdf.output())
+
+
+def write_report_pdf(
+    path: str | os.PathLike[str],
+    outcomes: Sequence[CircuitOutcome],
+    *,
+    title: str,
+    drawing_name: str,
+    cautions: str,
+    config: ReportConfig | None = None,
+    tool_version: str = "",
+) -> Path:
+    """Write ``report.pdf`` atomically.
+
+    Parameters
+    ----------
+    path : path-like
+        The ``.pdf`` file to write.
+    outcomes : sequence of CircuitOutcome
+        Every circuit, in schedule order.
+    title : str
+        Heading of the first page.
+    drawing_name : str
+        Name of the drawing (page header).
+    cautions : str
+        Shown on the first and the last page.
+    config : ReportConfig, optional
+        Project, revision and date of the page header.
+    tool_version : str
+        Our version, in the page header.
+
+    Returns
+    -------
+    pathlib.Path
+    """
+    data = render_report_pdf(outcomes, title=title, drawing_name=drawing_name, cautions=cautions,
+                             config=config, tool_version=tool_version)
+    with atomic_path(path) as tmp:
+        Path(tmp).write_bytes(data)
+    return Path(path)
