@@ -59,6 +59,7 @@ def _schedule_beside(drawing: Path) -> str | None:
 def _one(drawing: str, circuits: str | None, config: str | None, out: str | None, recover: bool,
          units: str | None = None) -> BatchItem:
     from .cli import _exit_code_for
+    from .collector import collect_between
     from .commands_drawing import run_size
 
     path = Path(drawing)
@@ -74,6 +75,8 @@ def _one(drawing: str, circuits: str | None, config: str | None, out: str | None
         return BatchItem(drawing, _exit_code_for(exc), f"{drawing}: error: {exc}")
     except Exception as exc:  # a bug in one drawing must not stop the batch
         return BatchItem(drawing, 2, f"{drawing}: internal error: {type(exc).__name__}: {exc}")
+    finally:
+        collect_between()  # this drawing's cyclic garbage, before the next one is read
     document = json.loads(buffer.getvalue())
     statuses = [c["status"] for c in document["circuits"]]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))

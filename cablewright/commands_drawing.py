@@ -19,6 +19,14 @@ from .pipeline import measure_drawing, route_outcomes, size_measurement
 __all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
 
 SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
+
+#: ``size`` keeps the document parsed by the full reader for the annotated copy
+#: and the preview (one parse).  Streaming the measurement and parsing only for
+#: the writer costs a little more in all (benchmarks/RESULTS.md, "Streaming
+#: reader"), so ``size`` streams only once the writer needs no parsed document.
+SIZE_KEEPS_DOCUMENT = True
+#: ``routes`` writes no drawing: it reads with the streaming reader, no document.
+ROUTES_KEEPS_DOCUMENT = False
 SAMPLE_DRAWING = "pumping_station.dxf"
 SAMPLE_CIRCUITS = "pumping_station_circuits.csv"
 
@@ -94,7 +102,8 @@ def _fmt(value, digits: int = 1) -> str:
 def run_routes(args: argparse.Namespace) -> int:
     """Measure only: routed length and group count per circuit."""
     settings = settings_for(args)
-    measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover)
+    measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover,
+                                  keep_document=ROUTES_KEEPS_DOCUMENT)
     outcomes, _ = route_outcomes(measurement)
     _issues(measurement)
     _report_errors(outcomes)
@@ -141,7 +150,8 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         previous_doc = load_document(previous)  # a bad earlier folder stops the run before any work
     with _stages(args.json) as stage:
         stage(f"reading and routing {drawing.name}")
-        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False),
+                                      keep_document=SIZE_KEEPS_DOCUMENT)
         stage("sizing")
         with _progress(len(measurement.rows), args.json, "sizing") as tick:
             job = size_measurement(measurement, settings, tick)

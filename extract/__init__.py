@@ -10,11 +10,10 @@ from __future__ import annotations
 import logging
 import os
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .dxf_reader import DxfContent, read_dxf
 from .errors import DrawingReadError, Issue
-from .grouping import GroupInfo, circuits_per_segment, group_summary
 from .model import (
     UNIT_TO_M,
     CircuitRoute,
@@ -25,9 +24,33 @@ from .model import (
     RouteSegment,
     ScheduleRow,
 )
-from .network import Network, Tail, build_network
-from .routing import design_length_m, route_circuits
-from .schedule import POSITION_COLUMNS, load_positions, read_schedule, rows_from_equipment
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .grouping import GroupInfo, circuits_per_segment, group_summary
+    from .network import Network, Tail, build_network
+    from .routing import design_length_m, route_circuits
+    from .schedule import read_schedule, rows_from_equipment
+
+#: Names imported on first use (PEP 562), so that importing the package (the
+#: errors, the model - as ``calc`` does) does not import networkx and shapely.
+_LAZY = {
+    "GroupInfo": "grouping", "circuits_per_segment": "grouping", "group_summary": "grouping",
+    "Network": "network", "Tail": "network", "build_network": "network",
+    "design_length_m": "routing", "route_circuits": "routing",
+    "read_schedule": "schedule", "rows_from_equipment": "schedule",
+}
+
+
+def __getattr__(name: str) -> Any:
+    module = _LAZY.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    import importlib
+
+    value = getattr(importlib.import_module(f".{module}", __name__), name)
+    globals()[name] = value
+    return value
+
 
 __all__ = [
     "measure",
@@ -60,6 +83,7 @@ def measure(
     schedule_path: str | os.PathLike[str] | None = None,
     config: DrawingConfig | None = None,
     ifc_config: Any = None,
+    keep_document: bool = True,
 ) -> Measurement:
     """Read a drawing and a schedule, build the network and route every circuit.
 
@@ -75,6 +99,11 @@ def measure(
         Drawing conventions; defaults from contract.md.
     ifc_config : IfcConfig, optional
         How an IFC model is read (:class:`~cablewright.extract.ifc_reader.IfcConfig`).
+    keep_document : bool
+        Keep the parsed ezdxf document (``Measurement.source_document``) for a
+        later stage.  When False, a DXF drawing is read by the streaming reader
+        (:func:`~cablewright.extract.dxf_stream.read_dxf_fast`: no document, the
+        full reader only for drawings it declines) - the same measurement.
 
     Returns
     -------
@@ -92,11 +121,20 @@ def measure(
     ----------
     .. [1] contract.md, "Drawing conventions", "Lengths and grouping".
     """
+    from .network import build_network
+    from .routing import route_circuits
+    from .schedule import POSITION_COLUMNS, read_schedule, rows_from_equipment
+
     config = config or DrawingConfig()
     p = Path(drawing_path)
     suffix = p.suffix.lower()
     if suffix == ".dxf":
-        content = read_dxf(p, config)
+        if keep_document:
+            content = read_dxf(p, config)
+        else:
+            from .dxf_stream import read_dxf_fast
+
+            content = read_dxf_fast(p, config)
         polylines, equipment, issues, units = (
             content.polylines, content.equipment, list(content.issues), content.units,
         )
@@ -144,6 +182,8 @@ def _positioned_loads(rows: list[ScheduleRow], equipment: list[Equipment], metre
     schedule's position wins over a block with the same tag in the drawing.
     """
     from dataclasses import replace
+
+    from .schedule import load_positions
 
     positions, errors = load_positions(rows)
     if not positions:
