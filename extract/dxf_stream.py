@@ -40,9 +40,11 @@ References
 
 from __future__ import annotations
 
+import io
 import logging
 import math
 import os
+from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import NamedTuple
@@ -150,32 +152,36 @@ class _Box:
         return (self.xmin, self.ymin, self.xmax, self.ymax) if self.xmin <= self.xmax else None
 
 
-def _pairs(data: bytes) -> tuple[list[int], list[str], str]:
-    """Group codes (int) and values of a DXF file's line pairs, and the text's check notes."""
-    if data.startswith(b"AutoCAD Binary DXF"):
-        raise StreamDeclined("binary DXF")
-    try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        raise StreamDeclined(f"text is not UTF-8 ({exc.reason} at byte {exc.start})") from exc
-    if text.startswith("\ufeff"):
-        text = text[1:]
-    if "\r" in text:
-        text = text.replace("\r\n", "\n").replace("\r", "\n")
-    lines = text.split("\n")
-    if len(lines) % 2:
-        lines.pop()  # the empty string after the final newline
-    try:
-        codes = list(map(int, lines[0::2]))
-    except ValueError as exc:
-        raise StreamDeclined(f"a group code is not a number ({exc})") from exc
-    return codes, lines[1::2], text
+Tags = list[tuple[int, str]]
 
 
-def _finite(*values: float) -> None:
-    for v in values:
-        if not math.isfinite(v):
-            raise StreamDeclined("a coordinate is not a finite number")
+def _entities(lines: Iterator[str], saw_eof: list[bool]) -> Iterator[tuple[str, Tags]]:
+    """(type, tags) of every ``0``-started record of a DXF text, one at a time (no whole-file lists).
+
+    Values lose their line end only, as ezdxf reads them; comments (999) are skipped;
+    reading stops at ``0 EOF`` (``saw_eof[0]`` set), as ezdxf does.
+    """
+    kind: str | None = None
+    tags: Tags = []
+    append = tags.append
+    for code_line, value in zip(lines, lines, strict=False):  # an unpaired last line: no EOF follows
+        try:
+            code = int(code_line)
+        except ValueError as exc:
+            raise StreamDeclined(f"group code {code_line.strip()!r} is not a number") from exc
+        if code == 0:
+            value = value.rstrip("\n")
+            if kind is not None:
+                yield kind, tags
+            if value == "EOF":
+                saw_eof[0] = True
+                return
+            kind, tags = value, []
+            append = tags.append
+        elif code != 999:
+            append((code, value[:-1] if value[-1:] == "\n" else value))
+    if kind is not None:
+        yield kind, tags
 
 
 def _float(value: str) -> float:
@@ -200,11 +206,11 @@ def _int(value: str) -> int:
 
 @dataclass
 class _Entity:
-    """The tags of one entity (codes < 1000, outside 102 groups), first value of each code kept."""
+    """The tags of one entity: the first value of each code (< 1000, outside 102 groups), all tags."""
 
     kind: str
     first: dict[int, str]
-    tags: list[tuple[int, str]]
+    tags: Tags
 
     def get(self, code: int, default: str = "") -> str:
         return self.first.get(code, default)
@@ -214,21 +220,17 @@ class _Entity:
         return default if v is None else _float(v)
 
 
-def _entity(kind: str, codes: list[int], values: list[str], a: int, b: int, keep: bool) -> _Entity:
+def _entity(kind: str, tags: Tags) -> _Entity:
     first: dict[int, str] = {}
-    tags: list[tuple[int, str]] = []
     group = False
-    for k in range(a, b):
-        c = codes[k]
+    for c, v in tags:
         if c == 102:
-            group = values[k].startswith("{")
+            group = v.startswith("{")
             continue
         if group or c >= 1000:
             continue
         if c not in first:
-            first[c] = values[k]
-        if keep:
-            tags.append((c, values[k]))
+            first[c] = v
     return _Entity(kind, first, tags)
 
 
@@ -243,8 +245,6 @@ def _default_extrusion(e: _Entity) -> bool:
 class _Reader:
     path: Path
     config: DrawingConfig
-    codes: list[int]
-    values: list[str]
     header: dict[str, object] = field(default_factory=dict)
     msp_owner: str = ""
     psp_owner: str = ""
@@ -257,6 +257,11 @@ class _Reader:
     texts: list[TextRecord] = field(default_factory=list)
     inserts: list[InsertRecord] = field(default_factory=list)
     _kind_cache: dict[str, tuple[str, str] | None] = field(default_factory=dict)
+    _block: str | None = None
+    _block_flags: list[bool] = field(default_factory=lambda: [False, False, False])
+    #: a POLYLINE or INSERT waiting for its VERTEX / ATTRIB entities and SEQEND
+    _parent: _Entity | None = None
+    _children: list[_Entity] = field(default_factory=list)
 
     def kind(self, layer: str) -> tuple[str, str] | None:
         if layer not in self._kind_cache:
@@ -265,81 +270,70 @@ class _Reader:
 
     # ------------------------------------------------------------------ structure
 
-    def run(self) -> None:
-        codes, values = self.codes, self.values
-        starts = [i for i, c in enumerate(codes) if c == 0]
-        if not starts or values[starts[-1]] != "EOF":
-            raise StreamDeclined("no EOF at the end (truncated or damaged)")
-        if any(c == 999 for c in codes):
-            raise StreamDeclined("comment tags (999)")
-        j = 0
-        end = len(starts) - 1
-        while j < end:
-            s = starts[j]
-            if values[s] != "SECTION" or codes[s + 1] != 2:
-                raise StreamDeclined(f"{values[s]!r} outside a section at line {2 * s + 1}")
-            name = values[s + 1]
-            k = j + 1
-            while k < end and values[starts[k]] != "ENDSEC":
-                k += 1
-            if k >= end:
-                raise StreamDeclined(f"section {name} has no ENDSEC")
-            if name == "HEADER":
-                self.read_header(s + 2, starts[k])
-            elif name == "TABLES":
-                self.read_tables(starts[j + 1:k + 1])
-            elif name == "BLOCKS":
-                self.read_blocks(starts[j + 1:k + 1])
-            elif name == "ENTITIES":
-                self.read_entities(starts[j + 1:k + 1])
-            j = k + 1
+    def run(self, records: Iterator[tuple[str, Tags]]) -> None:
+        section: str | None = None
+        handlers = {"TABLES": self.table_record, "BLOCKS": self.block_record,
+                    "ENTITIES": self.entity_record}
+        handler = None
+        for kind, tags in records:
+            if kind == "SECTION":
+                if section is not None or not tags or tags[0][0] != 2:
+                    raise StreamDeclined("a SECTION inside a section, or without a name")
+                section = tags[0][1]
+                if section == "HEADER":
+                    self.read_header(tags)
+                handler = handlers.get(section)
+            elif kind == "ENDSEC":
+                if section is None:
+                    raise StreamDeclined("ENDSEC outside a section")
+                if self._parent is not None or self._block is not None:
+                    raise StreamDeclined(f"section {section} ends inside an entity or block")
+                section, handler = None, None
+            elif section is None:
+                raise StreamDeclined(f"{kind} outside a section")
+            elif handler is not None:
+                handler(kind, tags)
+        if section is not None:
+            raise StreamDeclined(f"section {section} has no ENDSEC")
 
-    def read_header(self, a: int, b: int) -> None:
-        codes, values = self.codes, self.values
+    def read_header(self, tags: Tags) -> None:
         wanted = {"$INSUNITS", "$HANDSEED", "$ACADVER", "$DWGCODEPAGE"}
-        for k in range(a, b):
-            if codes[k] == 9 and values[k] in wanted and k + 1 < b:
-                self.header[values[k]] = values[k + 1]
+        for k, (c, v) in enumerate(tags):
+            if c == 9 and v in wanted and k + 1 < len(tags):
+                self.header[v] = tags[k + 1][1]
 
-    def read_tables(self, starts: list[int]) -> None:
-        codes, values = self.codes, self.values
-        for s, nxt in zip(starts, starts[1:], strict=False):
-            if values[s] != "BLOCK_RECORD":
-                continue
-            e = _entity("BLOCK_RECORD", codes, values, s + 1, nxt, False)
-            name = e.get(2).upper()
-            if name == "*MODEL_SPACE":
-                self.msp_owner = e.get(5)
-            elif name == "*PAPER_SPACE":
-                self.psp_owner = e.get(5)
+    def table_record(self, kind: str, tags: Tags) -> None:
+        if kind != "BLOCK_RECORD":
+            return
+        e = _entity(kind, tags)
+        name = e.get(2).upper()
+        if name == "*MODEL_SPACE":
+            self.msp_owner = e.get(5)
+        elif name == "*PAPER_SPACE":
+            self.psp_owner = e.get(5)
 
-    def read_blocks(self, starts: list[int]) -> None:
+    def block_record(self, kind: str, tags: Tags) -> None:
         """Per block: route-layer geometry, layer-0 geometry, block references (as the full reader's ``block_info``)."""
-        codes, values = self.codes, self.values
-        current: str | None = None
-        explicit = layer0 = inserts = False
-        for s, nxt in zip(starts, starts[1:], strict=False):
-            t = values[s]
-            if t == "BLOCK":
-                current = _entity("BLOCK", codes, values, s + 1, nxt, False).get(2).upper()
-                explicit = layer0 = inserts = False
-            elif t == "ENDBLK":
-                if current is None:
-                    raise StreamDeclined("ENDBLK without BLOCK")
-                self.blocks[current] = (explicit, layer0, inserts)
-                current = None
-            elif current is None:
-                raise StreamDeclined(f"{t} outside a block definition")
-            elif t in _ROUTE_TYPES or t in FLATTEN_TYPES:
-                layer = _entity(t, codes, values, s + 1, nxt, False).get(8, "0")
-                if layer == "0":
-                    layer0 = True
-                elif self.kind(layer) is not None:
-                    explicit = True
-            elif t in ("INSERT", "MINSERT"):
-                inserts = True
-        if current is not None:
-            raise StreamDeclined(f"block {current} has no ENDBLK")
+        if kind == "BLOCK":
+            if self._block is not None:
+                raise StreamDeclined("BLOCK inside a block definition")
+            self._block = _entity(kind, tags).get(2).upper()
+            self._block_flags = [False, False, False]
+        elif kind == "ENDBLK":
+            if self._block is None:
+                raise StreamDeclined("ENDBLK without BLOCK")
+            self.blocks[self._block] = (self._block_flags[0], self._block_flags[1], self._block_flags[2])
+            self._block = None
+        elif self._block is None:
+            raise StreamDeclined(f"{kind} outside a block definition")
+        elif kind in _ROUTE_TYPES or kind in FLATTEN_TYPES:
+            layer = _entity(kind, tags).get(8, "0")
+            if layer == "0":
+                self._block_flags[1] = True
+            elif self.kind(layer) is not None:
+                self._block_flags[0] = True
+        elif kind in ("INSERT", "MINSERT"):
+            self._block_flags[2] = True
 
     # ------------------------------------------------------------------ entities
 
@@ -351,56 +345,60 @@ class _Reader:
             return True
         return e.get(67, "0").strip() == "1"
 
-    def read_entities(self, starts: list[int]) -> None:
-        codes, values = self.codes, self.values
-        n = len(starts) - 1  # the last start is ENDSEC
-        j = 0
-        route_kinds = _ROUTE_TYPES
-        while j < n:
-            s, nxt = starts[j], starts[j + 1]
-            t = values[s]
-            j += 1
-            if t in ("VERTEX", "ATTRIB", "SEQEND"):
-                raise StreamDeclined(f"{t} without its POLYLINE or INSERT at line {2 * s + 1}")
-            if t == "INSERT":
-                j = self.insert(starts, j - 1)
-                continue
-            if t == "POLYLINE":
-                j = self.polyline(starts, j - 1)
-                continue
-            if t in route_kinds or t in FLATTEN_TYPES or t == "CIRCLE":
-                e = _entity(t, codes, values, s + 1, nxt, False)
-                if self.in_paper_space(e):
-                    continue
-                layer = e.get(8, "0")
-                on_route = self.kind(layer) is not None
-                if t in FLATTEN_TYPES:
-                    if on_route:
-                        raise StreamDeclined(f"{t} on route layer {layer}")
-                    continue
-                if t == "CIRCLE":
-                    if on_route:
-                        raise StreamDeclined(f"CIRCLE on route layer {layer}")
-                    cx, cy, r = e.num(10), e.num(20), e.num(40)
-                    self.box.take(cx - r, cy - r)
-                    self.box.take(cx + r, cy + r)
-                    continue
-                self.route(e, layer, on_route, s + 1, nxt)
-            elif t in ("TEXT", "MTEXT"):
-                e = _entity(t, codes, values, s + 1, nxt, False)
-                if self.in_paper_space(e):
-                    continue
-                height = e.num(40, 2.5)
-                rot = e.num(50, 0.0)
-                x, y, z = e.num(10), e.num(20), e.num(30)
-                self.box.take(x, y)
-                text = e.get(1) if t == "TEXT" else "".join(
-                    v for c, v in _entity(t, codes, values, s + 1, nxt, True).tags if c in (1, 3))
-                self.texts.append(TextRecord(t, text, (x, y, z), height, rot, e.get(5)))
-            elif t == "MINSERT":
-                raise StreamDeclined("MINSERT")
+    def entity_record(self, t: str, tags: Tags) -> None:
+        parent = self._parent
+        if parent is not None:
+            if t == "SEQEND":
+                self._parent = None
+                children, self._children = self._children, []
+                if parent.kind == "POLYLINE":
+                    self.polyline(parent, children)
+                else:
+                    self.insert(parent, children)
+            elif t == ("VERTEX" if parent.kind == "POLYLINE" else "ATTRIB"):
+                self._children.append(_entity(t, tags))
+            else:
+                raise StreamDeclined(f"{parent.kind} followed by {t}, not its sub-entities or SEQEND")
+            return
+        if t in ("VERTEX", "ATTRIB", "SEQEND"):
+            raise StreamDeclined(f"{t} without its POLYLINE or INSERT")
+        if t == "INSERT" or t == "POLYLINE":
+            e = _entity(t, tags)
+            if t == "POLYLINE" or _int(e.get(66, "0")):
+                self._parent = e
+            else:
+                self.insert(e, [])
+            return
+        if t in _ROUTE_TYPES or t in FLATTEN_TYPES or t == "CIRCLE":
+            e = _entity(t, tags)
+            if self.in_paper_space(e):
+                return
+            layer = e.get(8, "0")
+            on_route = self.kind(layer) is not None
+            if t in FLATTEN_TYPES:
+                if on_route:
+                    raise StreamDeclined(f"{t} on route layer {layer}")
+                return
+            if t == "CIRCLE":
+                if on_route:
+                    raise StreamDeclined(f"CIRCLE on route layer {layer}")
+                cx, cy, r = e.num(10), e.num(20), e.num(40)
+                self.box.take(cx - r, cy - r)
+                self.box.take(cx + r, cy + r)
+                return
+            self.route(e, layer, on_route)
+        elif t in ("TEXT", "MTEXT"):
+            e = _entity(t, tags)
+            if self.in_paper_space(e):
+                return
+            x, y, z = e.num(10), e.num(20), e.num(30)
+            self.box.take(x, y)
+            text = e.get(1) if t == "TEXT" else "".join(v for c, v in tags if c in (3, 1))
+            self.texts.append(TextRecord(t, text, (x, y, z), e.num(40, 2.5), e.num(50, 0.0), e.get(5)))
+        elif t == "MINSERT":
+            raise StreamDeclined("MINSERT")
 
-    def route(self, e: _Entity, layer: str, on_route: bool, a: int, b: int) -> None:
+    def route(self, e: _Entity, layer: str, on_route: bool) -> None:
         """LINE, LWPOLYLINE or ARC: its points, flattened as :mod:`.dxf_reader` does."""
         t = e.kind
         sid = self.handle(e) if on_route else e.get(5)
@@ -411,7 +409,7 @@ class _Reader:
                 if not on_route:
                     return
                 raise StreamDeclined(f"LWPOLYLINE {sid} on {layer} has a non-default extrusion")
-            verts = self.lw_vertices(a, b)
+            verts = _lw_vertices(e.tags)
             if not on_route:
                 for x, y, _ in verts:
                     self.box.take(x, y)
@@ -438,47 +436,15 @@ class _Reader:
         if on_route:
             self.raw_routes.append((layer, pts, sid))
 
-    def lw_vertices(self, a: int, b: int) -> list[tuple[float, float, float]]:
-        """(x, y, bulge) vertices of an LWPOLYLINE whose tags are ``a:b``, in order."""
-        codes, values = self.codes, self.values
-        verts: list[list[float]] = []
-        for k in range(a, b):
-            c = codes[k]
-            if c == 10:
-                verts.append([_float(values[k]), 0.0, 0.0])
-            elif c == 20 and verts:
-                verts[-1][1] = _float(values[k])
-            elif c == 42 and verts:
-                verts[-1][2] = _float(values[k])
-            elif c >= 1000:
-                break
-        return [(x, y, bz) for x, y, bz in verts]
-
     def handle(self, e: _Entity) -> str:
         h = e.get(5)
         if not h:
             raise StreamDeclined(f"a {e.kind} has no handle")
         return h
 
-    def polyline(self, starts: list[int], j: int) -> int:
-        codes, values = self.codes, self.values
-        s, nxt = starts[j], starts[j + 1]
-        e = _entity("POLYLINE", codes, values, s + 1, nxt, False)
-        j += 1
-        vertices: list[_Entity] = []
-        while True:
-            if j >= len(starts) - 1:
-                raise StreamDeclined("POLYLINE without SEQEND")
-            vs, vn = starts[j], starts[j + 1]
-            t = values[vs]
-            j += 1
-            if t == "SEQEND":
-                break
-            if t != "VERTEX":
-                raise StreamDeclined(f"POLYLINE followed by {t}, not VERTEX or SEQEND")
-            vertices.append(_entity("VERTEX", codes, values, vs + 1, vn, False))
+    def polyline(self, e: _Entity, vertices: list[_Entity]) -> None:
         if self.in_paper_space(e):
-            return j
+            return
         layer = e.get(8, "0")
         on_route = self.kind(layer) is not None
         flags = _int(e.get(70, "0"))
@@ -486,7 +452,7 @@ class _Reader:
         if flags & (_POLY_MESH | _POLY_FACE):
             if on_route:
                 raise StreamDeclined(f"POLYLINE {sid} on route layer {layer} is a mesh")
-            return j
+            return
         closed = bool(flags & 1)
         if flags & _POLY_3D:
             pts: list[Point3] = [(v.num(10), v.num(20), v.num(30)) for v in vertices]
@@ -495,7 +461,7 @@ class _Reader:
         else:
             if not _default_extrusion(e):
                 if not on_route:
-                    return j
+                    return
                 raise StreamDeclined(f"POLYLINE {sid} on {layer} has a non-default extrusion")
             elevation = e.num(30, 0.0) if 10 in e.first else 0.0
             verts = [(v.num(10), v.num(20), v.num(42, 0.0)) for v in vertices]
@@ -504,28 +470,10 @@ class _Reader:
             self.box.take(p[0], p[1])
         if on_route:
             self.raw_routes.append((layer, pts, sid))
-        return j
 
-    def insert(self, starts: list[int], j: int) -> int:
-        codes, values = self.codes, self.values
-        s, nxt = starts[j], starts[j + 1]
-        e = _entity("INSERT", codes, values, s + 1, nxt, False)
-        j += 1
-        attribs: list[_Entity] = []
-        if _int(e.get(66, "0")):
-            while True:
-                if j >= len(starts) - 1:
-                    raise StreamDeclined("INSERT without SEQEND")
-                a, an = starts[j], starts[j + 1]
-                t = values[a]
-                j += 1
-                if t == "SEQEND":
-                    break
-                if t != "ATTRIB":
-                    raise StreamDeclined(f"INSERT followed by {t}, not ATTRIB or SEQEND")
-                attribs.append(_entity("ATTRIB", codes, values, a + 1, an, False))
+    def insert(self, e: _Entity, attribs: list[_Entity]) -> None:
         if self.in_paper_space(e):
-            return j
+            return
         if _int(e.get(70, "1") or "1") * _int(e.get(71, "1") or "1") > 1:
             raise StreamDeclined("MINSERT (an INSERT with rows or columns)")
         name = e.get(2)
@@ -551,7 +499,21 @@ class _Reader:
         tag = pairs.get(self.config.tag_attribute.upper(), "").strip()
         if tag:
             self.equipment_raw.append((tag, sid, p, name, tuple(sorted(pairs.items()))))
-        return j
+
+
+def _lw_vertices(tags: Tags) -> list[tuple[float, float, float]]:
+    """(x, y, bulge) vertices of an LWPOLYLINE, in order."""
+    verts: list[list[float]] = []
+    for c, v in tags:
+        if c == 10:
+            verts.append([_float(v), 0.0, 0.0])
+        elif c == 20 and verts:
+            verts[-1][1] = _float(v)
+        elif c == 42 and verts:
+            verts[-1][2] = _float(v)
+        elif c >= 1000:
+            break
+    return [(x, y, bz) for x, y, bz in verts]
 
 
 def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) -> StreamContent:
@@ -590,16 +552,25 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
         data = p.read_bytes()
     except OSError as exc:
         raise StreamDeclined(f"cannot be read ({exc})") from exc
-    codes, values, text = _pairs(data)
-    if "\\U+" in text or "\\u+" in text:
+    if data.startswith(b"AutoCAD Binary DXF"):
+        raise StreamDeclined("binary DXF")
+    if b"\\U+" in data or b"\\u+" in data:
         raise StreamDeclined("\\U+ escapes in text")
-    reader = _Reader(p, config, codes, values)
+    ascii_only = data.isascii()
+    reader = _Reader(p, config)
+    saw_eof = [False]
+    text = io.TextIOWrapper(io.BytesIO(data), encoding="utf-8-sig", errors="strict")
+    del data
     try:
-        reader.run()
+        reader.run(_entities(iter(text), saw_eof))
+    except UnicodeDecodeError as exc:
+        raise StreamDeclined(f"text is not UTF-8 ({exc.reason})") from exc
     except (IndexError, KeyError) as exc:
         raise StreamDeclined(f"unexpected tag structure ({type(exc).__name__})") from exc
+    if not saw_eof[0]:
+        raise StreamDeclined("no EOF at the end (truncated or damaged)")
     version = str(reader.header.get("$ACADVER", "")).strip()
-    if version < "AC1021" and not data.isascii():
+    if version < "AC1021" and not ascii_only:
         raise StreamDeclined(f"{version or 'no $ACADVER'} drawing with non-ASCII text (code page)")
     if not reader.raw_routes:
         raise StreamDeclined("no route entities (the full reader reports the layers used)")
