@@ -74,7 +74,14 @@ class StreamDeclined(Exception):
 
 
 class TextRecord(NamedTuple):
-    """A model-space TEXT, MTEXT or ATTRIB as written (drawing units, degrees)."""
+    """A model-space TEXT, MTEXT or visible ATTRIB as written (drawing units, degrees).
+
+    What a text box is measured from (as ``annotate.dxf_writer`` measures it from
+    the entity): ``halign``/``valign`` are TEXT/ATTRIB groups 72 and 73 (74 for
+    ATTRIB), ``align_point`` group 11; ``width`` is the width factor (group 41)
+    of a TEXT/ATTRIB or the column width (group 41) of an MTEXT, ``attachment``
+    the MTEXT attachment point (group 71; 0 for TEXT/ATTRIB).
+    """
 
     kind: str
     text: str
@@ -82,6 +89,20 @@ class TextRecord(NamedTuple):
     height: float
     rotation_deg: float
     handle: str
+    halign: int = 0
+    valign: int = 0
+    align_point: Point3 | None = None
+    width: float = 0.0
+    attachment: int = 0
+
+
+def _text_record(kind: str, e: _Entity, text: str) -> TextRecord:
+    align = (e.num(11), e.num(21), e.num(31)) if 11 in e.first and kind != "MTEXT" else None
+    mtext = kind == "MTEXT"
+    return TextRecord(kind, text, (e.num(10), e.num(20), e.num(30)), e.num(40, 2.5), e.num(50, 0.0),
+                      e.get(5), 0 if mtext else _int(e.get(72, "0")),
+                      0 if mtext else _int(e.get(74 if kind == "ATTRIB" else 73, "0")), align,
+                      e.num(41, 0.0 if mtext else 1.0), _int(e.get(71, "1")) if mtext else 0)
 
 
 class InsertRecord(NamedTuple):
@@ -391,10 +412,9 @@ class _Reader:
             e = _entity(t, tags)
             if self.in_paper_space(e):
                 return
-            x, y, z = e.num(10), e.num(20), e.num(30)
-            self.box.take(x, y)
+            self.box.take(e.num(10), e.num(20))
             text = e.get(1) if t == "TEXT" else "".join(v for c, v in tags if c in (3, 1))
-            self.texts.append(TextRecord(t, text, (x, y, z), e.num(40, 2.5), e.num(50, 0.0), e.get(5)))
+            self.texts.append(_text_record(t, e, text))
         elif t == "MINSERT":
             raise StreamDeclined("MINSERT")
 
@@ -490,10 +510,8 @@ class _Reader:
         for a in attribs:
             pairs[a.get(2).upper()] = a.get(1)
             if not _int(a.get(70, "0")) & 1:  # not invisible (ATTRIB flag 1)
-                ax, ay, az = a.num(10), a.num(20), a.num(30)
-                self.box.take(ax, ay)
-                self.texts.append(TextRecord("ATTRIB", a.get(1), (ax, ay, az), a.num(40, 2.5),
-                                             a.num(50, 0.0), a.get(5)))
+                self.box.take(a.num(10), a.num(20))
+                self.texts.append(_text_record("ATTRIB", a, a.get(1)))
         self.inserts.append(InsertRecord(name, p, (e.num(41, 1.0), e.num(42, 1.0), e.num(43, 1.0)),
                                          e.num(50, 0.0), layer, sid))
         tag = pairs.get(self.config.tag_attribute.upper(), "").strip()

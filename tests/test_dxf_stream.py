@@ -225,3 +225,37 @@ def test_routes_on_a_streamed_drawing_imports_neither_matplotlib_openpyxl_nor_ez
                             f"with contextlib.redirect_stdout(io.StringIO()): main(['routes', {str(plant.dxf_path)!r}, "
                             f"'--circuits', {str(plant.csv_path)!r}])")
     assert loaded == {"networkx", "shapely"}
+
+
+def test_text_and_insert_records_and_extents_match_ezdxf(plant):
+    """Records against ezdxf's own entity attributes; extents inside ``ezdxf.bbox.extents``."""
+    from ezdxf import bbox
+
+    streamed = stream_dxf(plant.dxf_path)
+    msp = ezdxf.readfile(plant.dxf_path).modelspace()
+    texts = {t.handle: t for t in streamed.texts}
+    expected = 0
+    for e in msp:
+        if e.dxftype() == "TEXT":
+            t = texts[e.dxf.handle]
+            assert (t.text, t.insert, t.height, t.rotation_deg) == (
+                e.dxf.text, tuple(e.dxf.insert), e.dxf.height, e.dxf.rotation)
+            assert (t.halign, t.valign) == (e.dxf.halign, e.dxf.valign)
+            expected += 1
+        elif e.dxftype() == "MTEXT":
+            t = texts[e.dxf.handle]
+            assert (t.text, t.insert, t.height, t.attachment) == (
+                e.text, tuple(e.dxf.insert), e.dxf.char_height, e.dxf.attachment_point)
+            expected += 1
+        elif e.dxftype() == "INSERT":
+            expected += sum(1 for a in e.attribs if not a.is_invisible)
+    assert expected > 100 and len(streamed.texts) == expected
+    inserts = {i.handle: i for i in streamed.inserts}
+    refs = [e for e in msp if e.dxftype() == "INSERT"]
+    assert len(inserts) == len(refs)
+    for e in refs:
+        assert (inserts[e.dxf.handle].block_name, inserts[e.dxf.handle].insert) == (e.dxf.name, tuple(e.dxf.insert))
+    box = bbox.extents(msp, fast=True)
+    x0, y0, x1, y1 = streamed.extents
+    assert box.extmin.x - 1e-6 <= x0 < x1 <= box.extmax.x + 1e-6
+    assert box.extmin.y - 1e-6 <= y0 < y1 <= box.extmax.y + 1e-6
