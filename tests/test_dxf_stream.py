@@ -259,3 +259,20 @@ def test_text_and_insert_records_and_extents_match_ezdxf(plant):
     x0, y0, x1, y1 = streamed.extents
     assert box.extmin.x - 1e-6 <= x0 < x1 <= box.extmax.x + 1e-6
     assert box.extmin.y - 1e-6 <= y0 < y1 <= box.extmax.y + 1e-6
+
+
+def test_batch_collects_between_drawings(plant, tmp_path, monkeypatch):
+    import shutil
+
+    from cablewright import collector
+    from cablewright.cli import main
+
+    calls = []
+    monkeypatch.setattr(collector, "collect_between", lambda: calls.append(gc.collect()) or 0)
+    folder = tmp_path / "drawings"
+    folder.mkdir()
+    for name in ("a", "b"):
+        shutil.copy(plant.dxf_path, folder / f"{name}.dxf")
+        shutil.copy(plant.csv_path, folder / f"{name}_circuits.csv")
+    assert main(["size", str(folder), "--out", str(tmp_path / "out"), "--json"]) in (0, 1)
+    assert len(calls) == 2  # once after each drawing (gc.collect, Python docs)
