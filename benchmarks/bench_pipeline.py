@@ -20,6 +20,9 @@ resident set, KiB on Linux), not tracemalloc (which would slow the run).
 Times are CPU seconds of the process (``time.process_time``) beside wall seconds:
 the machine may be shared, and this code is single-threaded.
 
+``bench_paired.py`` runs whole commands (``size``, ``routes``) before and after
+against the floor in paired child processes, several repeats.
+
 Run: ``python benchmarks/bench_pipeline.py [--sizes 200 500 2000 8000] [--work DIR]
 [--json FILE]``.
 """
@@ -111,6 +114,13 @@ def _child_stages(drawing: Path, circuits: Path) -> dict:
     config = drawing_config(settings)
     with clock("read"):
         content = read_dxf(drawing, config)
+    from cablewright.extract.dxf_stream import stream_dxf
+
+    with clock("read_stream"):  # the streaming reader (routes), same pieces; not a stage of size
+        streamed = stream_dxf(drawing, config)
+    info["stream_same"] = (streamed.polylines == content.polylines
+                           and streamed.equipment == content.equipment)
+    del streamed
     with clock("network"):
         network = build_network(content.polylines, content.equipment, config)
     with clock("schedule"):
@@ -231,6 +241,8 @@ def _print_size(n: int, res: dict) -> None:
     print(f"  {'floor read':<14} {t['floor_read']:9.2f} {c['floor_read']:9.2f}")
     print(f"  {'floor save':<14} {t['floor_save']:9.2f} {c['floor_save']:9.2f}")
     print(f"  {'floor':<14} {floor:9.2f} {floor_cpu:9.2f}")
+    print(f"  {'read_stream':<14} {t['read_stream']:9.2f} {c['read_stream']:9.2f}  (streaming reader, "
+          f"same pieces and equipment: {res['stream_same']}; used by routes, not by size)")
     staged = sum(c[s] for s in STAGES)
     for s in STAGES:
         print(f"  {s:<14} {t[s]:9.2f} {c[s]:9.2f} {100 * c[s] / staged:6.1f}%")

@@ -111,6 +111,7 @@ def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], l
 def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str | None, recover: bool,
          units: str | None = None) -> BatchItem:
     from .cli import _exit_code_for
+    from .collector import collect_between
     from .commands_drawing import run_size
 
     path = Path(drawing)
@@ -127,6 +128,8 @@ def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str | 
         from .cli import internal_error_line
 
         return BatchItem(drawing, 2, internal_error_line(exc, args))
+    finally:
+        collect_between()  # this drawing's cyclic garbage, before the next one is read
     document = json.loads(buffer.getvalue())
     statuses = [c["status"] for c in document["circuits"]]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))

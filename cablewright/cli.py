@@ -179,6 +179,30 @@ def internal_error_line(exc: BaseException, args: argparse.Namespace | None = No
     return f"internal error in {stage} on {where}: {what} (please report)"
 
 
+def _dispatch(args: argparse.Namespace) -> int | None:
+    """Run the sub-command; None when it is not known."""
+    if args.command == "calc":
+        from . import commands_calc
+        return commands_calc.run(args)
+    if args.command == "compare":
+        from . import commands_compare
+        return commands_compare.run_compare(args)
+    from . import commands_drawing
+    if args.command == "size" and getattr(args, "watch", False):
+        from . import watch
+        return watch.run_watch(args)
+    if args.command == "size":
+        return commands_drawing.run_size(args)
+    if args.command == "routes":
+        return commands_drawing.run_routes(args)
+    if args.command == "layers":
+        from . import commands_layers
+        return commands_layers.run_layers(args)
+    if args.command == "demo":
+        return commands_drawing.run_demo(args)
+    return None
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``cablewright`` console script; returns the exit code."""
     parser = build_parser()
@@ -190,26 +214,13 @@ def main(argv: Sequence[str] | None = None) -> int:
                         format="cablewright: %(message)s", stream=sys.stderr)
     if not args.debug:  # a library's warning is one line too, without its source line
         warnings.showwarning = _one_line_warning
+    from .collector import tuned_collector
+
     try:
-        if args.command == "calc":
-            from . import commands_calc
-            return commands_calc.run(args)
-        if args.command == "compare":
-            from . import commands_compare
-            return commands_compare.run_compare(args)
-        from . import commands_drawing
-        if args.command == "size" and getattr(args, "watch", False):
-            from . import watch
-            return watch.run_watch(args)
-        if args.command == "size":
-            return commands_drawing.run_size(args)
-        if args.command == "routes":
-            return commands_drawing.run_routes(args)
-        if args.command == "layers":
-            from . import commands_layers
-            return commands_layers.run_layers(args)
-        if args.command == "demo":
-            return commands_drawing.run_demo(args)
+        with tuned_collector():  # collector thresholds raised for the run, restored after
+            code = _dispatch(args)
+        if code is not None:
+            return code
     except CableRouteError as exc:
         if args.debug:
             raise

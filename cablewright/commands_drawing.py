@@ -20,6 +20,14 @@ from .pipeline import measure_drawing, route_outcomes, size_measurement
 __all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
 
 SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
+
+#: ``size`` keeps the document parsed by the full reader for the annotated copy
+#: and the preview (one parse).  Streaming the measurement and parsing only for
+#: the writer costs a little more in all (benchmarks/RESULTS.md, "Streaming
+#: reader"), so ``size`` streams only once the writer needs no parsed document.
+SIZE_KEEPS_DOCUMENT = True
+#: ``routes`` writes no drawing: it reads with the streaming reader, no document.
+ROUTES_KEEPS_DOCUMENT = False
 SAMPLE_DRAWING = "pumping_station.dxf"
 SAMPLE_CIRCUITS = "pumping_station_circuits.csv"
 
@@ -126,7 +134,8 @@ def _fmt(value, digits: int = 1) -> str:
 def run_routes(args: argparse.Namespace) -> int:
     """Measure only: routed length and group count per circuit."""
     settings = settings_for(args)
-    measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover)
+    measurement = measure_drawing(args.drawing, args.circuits, settings, args.recover,
+                                  keep_document=ROUTES_KEEPS_DOCUMENT)
     _circuits_from_attributes(args, measurement)
     outcomes, _ = route_outcomes(measurement)
     _issues(measurement)
@@ -177,7 +186,8 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
     # the output folder is checked against the inputs and locked before anything is read
     with output_session(out_dir, inputs), _stages(args.json) as stage:
         stage(f"reading and routing {drawing.name}")
-        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False))
+        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False),
+                                      keep_document=SIZE_KEEPS_DOCUMENT)
         _circuits_from_attributes(args, measurement)
         stage("sizing")
         with _progress(len(measurement.rows), args.json, "sizing") as tick:

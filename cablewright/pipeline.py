@@ -63,12 +63,16 @@ def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
 
 
 def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
-                    recover: bool = False) -> Measurement:
-    """Extract the network and equipment and route every circuit of the schedule."""
+                    recover: bool = False, keep_document: bool = True) -> Measurement:
+    """Extract the network and equipment and route every circuit of the schedule.
+
+    ``keep_document=False`` (``routes``, which writes no drawing) reads a DXF with
+    the streaming reader and keeps no parsed document.
+    """
     from cablewright.extract import measure
 
     ifc = ifc_config(settings) if str(drawing).lower().endswith(".ifc") else None
-    return measure(drawing, circuits, drawing_config(settings, recover), ifc)
+    return measure(drawing, circuits, drawing_config(settings, recover), ifc, keep_document)
 
 
 def ifc_config(settings: Settings):

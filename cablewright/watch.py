@@ -62,6 +62,7 @@ def wait_for_change(paths: Sequence[Path], last: Snapshot, poll_s: float = 0.5,
 
 
 def _run_once(args: argparse.Namespace, previous: str | None) -> int | None:
+    from .collector import collect_between
     from .commands_drawing import run_size
 
     run_args = argparse.Namespace(**{**vars(args), "watch": False, "previous": previous})
@@ -71,6 +72,8 @@ def _run_once(args: argparse.Namespace, previous: str | None) -> int | None:
         print(f"cablewright: error: {exc}", file=sys.stderr)
         print("cablewright: the last good outputs are kept; save the file again to retry", file=sys.stderr)
         return None
+    finally:
+        collect_between()  # this run's cyclic garbage, while waiting for the next save
 
 
 def run_watch(args: argparse.Namespace) -> int:

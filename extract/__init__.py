@@ -12,11 +12,10 @@ import os
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .dxf_reader import DxfContent, read_dxf
 from .errors import DrawingReadError, Issue, ScheduleError
-from .grouping import GroupInfo, circuits_per_segment, group_summary
 from .model import (
     UNIT_TO_M,
     CircuitRoute,
@@ -27,9 +26,32 @@ from .model import (
     RouteSegment,
     ScheduleRow,
 )
-from .network import Network, Tail, build_network
-from .routing import design_length_m, route_circuits
-from .schedule import POSITION_COLUMNS, load_positions, read_schedule, rows_from_equipment
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .grouping import GroupInfo, circuits_per_segment, group_summary
+    from .network import Network, Tail, build_network
+    from .routing import design_length_m, route_circuits
+    from .schedule import read_schedule, rows_from_equipment
+
+#: Names imported on first use (PEP 562), so that importing the package (the
+#: errors, the model - as ``calc`` does) does not import networkx and shapely.
+_LAZY = {
+    "GroupInfo": "grouping", "circuits_per_segment": "grouping", "group_summary": "grouping",
+    "Network": "network", "Tail": "network", "build_network": "network",
+    "design_length_m": "routing", "route_circuits": "routing",
+    "read_schedule": "schedule", "rows_from_equipment": "schedule",
+}
+
+
+def __getattr__(name: str) -> Any:
+    module = _LAZY.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    import importlib
+
+    value = getattr(importlib.import_module(f".{module}", __name__), name)
+    globals()[name] = value
+    return value
 
 __all__ = [
     "measure",
@@ -104,6 +126,7 @@ def read_drawing(
     drawing_path: str | os.PathLike[str],
     config: DrawingConfig | None = None,
     ifc_config: Any = None,
+    keep_document: bool = True,
 ) -> ReaderResult:
     """Read a ``.dxf`` drawing or an ``.ifc`` model into a :class:`ReaderResult`.
 
@@ -115,6 +138,11 @@ def read_drawing(
         Drawing conventions.
     ifc_config : IfcConfig, optional
         How an IFC model is read.
+    keep_document : bool
+        True: the full ezdxf reader, keeping the parsed document for the
+        annotated copy; False (measuring only): the streaming reader
+        (:mod:`.dxf_stream`), which hands over to the full reader for what it
+        does not handle.
 
     Returns
     -------
@@ -129,7 +157,12 @@ def read_drawing(
     p = Path(drawing_path)
     suffix = p.suffix.lower()
     if suffix == ".dxf":
-        content = read_dxf(p, config)
+        if keep_document:
+            content = read_dxf(p, config)
+        else:
+            from .dxf_stream import read_dxf_fast
+
+            content = read_dxf_fast(p, config)
         return ReaderResult(str(p), content.units, content.polylines, content.equipment,
                             tuple(content.issues), document=content.document, summary=content.summary)
     if suffix == ".ifc":
@@ -144,6 +177,7 @@ def measure(
     schedule_path: str | os.PathLike[str] | None = None,
     config: DrawingConfig | None = None,
     ifc_config: Any = None,
+    keep_document: bool = True,
 ) -> Measurement:
     """Read a drawing and a schedule, build the network and route every circuit.
 
@@ -160,6 +194,9 @@ def measure(
         Drawing conventions; defaults from contract.md.
     ifc_config : IfcConfig, optional
         How an IFC model is read (:class:`~cablewright.extract.ifc_reader.IfcConfig`).
+    keep_document : bool
+        Keep the parsed DXF document (for the annotated copy); False lets the
+        streaming reader measure (``routes``), see :func:`read_drawing`.
 
     Returns
     -------
@@ -178,7 +215,7 @@ def measure(
     .. [1] contract.md, "Drawing conventions", "Lengths and grouping".
     """
     config = config or DrawingConfig()
-    return measure_content(read_drawing(drawing_path, config, ifc_config), schedule_path, config)
+    return measure_content(read_drawing(drawing_path, config, ifc_config, keep_document), schedule_path, config)
 
 
 def measure_content(
@@ -206,6 +243,10 @@ def measure_content(
     ScheduleError
         The schedule cannot be used, or there is none and the input holds no circuits.
     """
+    from .network import build_network
+    from .routing import route_circuits
+    from .schedule import POSITION_COLUMNS, read_schedule, rows_from_equipment
+
     config = config or DrawingConfig()
     issues = list(content.issues)
     failures: dict[str, str] = {}
@@ -223,7 +264,7 @@ def measure_content(
             raise ScheduleError(content.no_circuits_hint) from exc
     equipment = list(content.equipment)
     position_errors: dict[str, str] = {}
-    if content.document is not None:  # a DXF drawing: the schedule may place loads
+    if Path(content.path).suffix.lower() == ".dxf":  # a DXF drawing: the schedule may place loads
         rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[content.units], issues)
     elif any(row.get(c) for row in rows for c in POSITION_COLUMNS):
         issues.append(Issue(
@@ -264,6 +305,8 @@ def _positioned_loads(rows: list[ScheduleRow], equipment: list[Equipment], metre
     schedule's position wins over a block with the same tag in the drawing.
     """
     from dataclasses import replace
+
+    from .schedule import load_positions
 
     positions, errors = load_positions(rows)
     if not positions:

@@ -54,3 +54,52 @@ def dxf(tmp_path):
         return DxfBuilder(tmp_path / name, units)
 
     return make
+
+
+# --------------------------------------------------------------------------- both DXF readers
+# Every drawing any test reads with the full reader is read again by the streaming
+# reader (cablewright.extract.dxf_stream), which must give the same measurement
+# or decline the drawing (issue 13, item 1); the terminal summary counts both.
+STREAM_CHECK: dict[str, list[str]] = {"same": [], "declined": []}
+
+
+def compare_readers(full, streamed, summary=None) -> None:
+    """Assert that the streaming reader's content equals the full reader's."""
+    assert streamed.polylines == full.polylines, f"{full.path}: route pieces differ"
+    assert streamed.equipment == full.equipment, f"{full.path}: equipment differs"
+    assert streamed.units == full.units, f"{full.path}: units differ"
+    assert streamed.summary == (full.summary if summary is None else summary), f"{full.path}: summary differs"
+    assert [(i.code, i.message) for i in streamed.issues] == [(i.code, i.message) for i in full.issues]
+
+
+@pytest.fixture(autouse=True)
+def _both_dxf_readers(monkeypatch):
+    """Hooked where every successful full read ends (``summarise``), so no read escapes it."""
+    from cablewright.extract import dxf_reader, dxf_stream
+
+    real = dxf_reader.summarise
+
+    def checked(doc, path, config, content):
+        summary = real(doc, path, config, content)
+        try:
+            streamed = dxf_stream.stream_dxf(path, config)
+        except dxf_stream.StreamDeclined as exc:
+            STREAM_CHECK["declined"].append(f"{Path(path).name}: {exc.reason}")
+        else:
+            compare_readers(content, streamed, summary)
+            STREAM_CHECK["same"].append(Path(path).name)
+        return summary
+
+    monkeypatch.setattr(dxf_reader, "summarise", checked)
+    yield
+
+
+def pytest_terminal_summary(terminalreporter):
+    same, declined = STREAM_CHECK["same"], STREAM_CHECK["declined"]
+    if same or declined:
+        terminalreporter.write_line(
+            f"streaming DXF reader: same measurement as the full reader on {len(same)} drawing reads, "
+            f"declined {len(declined)} (read by the full reader)")
+        if os.environ.get("STREAM_CHECK_VERBOSE"):
+            for line in sorted(set(declined)):
+                terminalreporter.write_line(f"  declined {line}")

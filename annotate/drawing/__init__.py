@@ -45,9 +45,23 @@ References
    default 2.5 mm is taken from; from memory).
 """
 
+from typing import TYPE_CHECKING, Any
+
 from .inputs import AnnotationInput
 from .style import CAUTIONS, AnnotateConfig
-from .writer import AnnotationSummary, write_annotated_dxf
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .writer import AnnotationSummary, write_annotated_dxf
+
+
+def __getattr__(name: str) -> Any:
+    """The writer on first use (PEP 562): the settings model reads :class:`AnnotateConfig`
+    without importing ezdxf and shapely (``calc`` needs neither)."""
+    if name in ("AnnotationSummary", "write_annotated_dxf"):
+        from . import writer
+
+        return getattr(writer, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 __all__ = [
     "CAUTIONS",
