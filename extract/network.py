@@ -30,8 +30,14 @@ import numpy as np
 import shapely
 from shapely import STRtree
 
-from .errors import Issue
-from .guard import check_equipment, check_polylines, check_snap_tolerance
+from .errors import ConfigError, Issue
+from .guard import (
+    check_equipment,
+    check_polylines,
+    check_snap_tolerance,
+    median_piece_length_m,
+    near_miss_reach_m,
+)
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
@@ -174,17 +180,41 @@ def _clean(points: Iterable[Sequence[float]]) -> list[Point3]:
 _QUERY_CHUNK = 200_000
 
 
-def _query_boxes(tree: STRtree, xy: np.ndarray, r: float | np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+#: Most candidate pairs a proximity search may hold per query point (plus a fixed 10,000).
+#: An end on an ordinary drawing meets a handful of other pieces within the snap tolerance;
+#: hundreds each mean the tolerance covers much of the plan, and the pairs, cut points and
+#: segments would grow with the square of the drawing (issue 16: 2.7 million segments and
+#: 5.8 GB from 1,063 pieces).  The build stops instead, with memory bounded by this cap.
+MAX_CANDIDATES_PER_POINT = 64
+
+
+class _Crowded(Exception):
+    """A proximity search found more candidate pairs than :data:`MAX_CANDIDATES_PER_POINT` allows."""
+
+    def __init__(self, pairs: int, points: int) -> None:
+        super().__init__(pairs, points)
+        self.pairs, self.points = pairs, points
+
+
+def _query_boxes(
+    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
+) -> tuple[np.ndarray, np.ndarray]:
     """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
 
     The same pairs, in the same order, as one ``tree.query(_boxes(xy, r))``, built chunk by
-    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.
+    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
+    :class:`_Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
     """
     r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
+    limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
     out_i, out_j = [], []
+    found = 0
     for lo in range(0, len(xy), _QUERY_CHUNK):
         hi = min(lo + _QUERY_CHUNK, len(xy))
         qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]))
+        found += len(qi)
+        if bounded and found > limit:
+            raise _Crowded(found, len(xy))
         out_i.append(qi + lo)
         out_j.append(qj)
     if not out_i:
@@ -305,7 +335,7 @@ def _cut_points(geo: _Geometry, tol: float) -> tuple[_Cuts, np.ndarray]:
 def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
     """End - end within the tolerance (3D)."""
     end_tree = STRtree(shapely.points(ends[:, :2]))
-    qi, qj = _query_boxes(end_tree, ends[:, :2], tol)
+    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True)
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
@@ -315,7 +345,7 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
 
 def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> None:
     """An end on another route's interior: a new cut point there, joined to the end."""
-    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol)
+    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True)
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
@@ -345,7 +375,7 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
     iv = np.asarray([geo.verts[i][k] for i, k in inner])
     iown = np.asarray([i for i, _ in inner])
     itree = STRtree(shapely.points(iv[:, :2]))
-    qi, qj = _query_boxes(itree, iv[:, :2], tol)
+    qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(iv[qi] - iv[qj], axis=1)
@@ -693,7 +723,10 @@ def build_network(
 
     polys = _clean_input(guarded, issues)
     geo = _geometry(polys)
-    cuts, ends = _cut_points(geo, tol)
+    try:
+        cuts, ends = _cut_points(geo, tol)
+    except _Crowded as exc:
+        raise ConfigError(_crowded_message(exc, tol, "snap tolerance", source)) from None
     eq_map, tag_failures = _equipment_by_tag(equipment, issues)
     tail_pid = _tails(geo, cuts, eq_map, tag_failures, config.max_tail_m)
     pieces = _pieces(geo, cuts)
@@ -701,7 +734,11 @@ def build_network(
     ch, nodes_sorted = _chains(polys, pieces, tail_nodes)
     g, segment_nodes, tails = _graph(ch, tail_pid, eq_map)
 
-    issues.extend(_near_misses(geo, ends, ch, config))
+    reach = near_miss_reach_m(tol, config.near_miss_factor, median_piece_length_m(polys))
+    try:
+        issues.extend(_near_misses(geo, ends, ch, tol, reach))
+    except _Crowded as exc:
+        raise ConfigError(_crowded_message(exc, reach, "near-miss search", source)) from None
     issues.extend(_isolated(ch, nodes_sorted))
     logger.info(
         "network: %d pieces -> %d segments, %d nodes, %d tails, %d issues",
@@ -721,6 +758,31 @@ def build_network(
 
 
 # --------------------------------------------------------------------------- drawing issues
+
+
+def _crowded_message(exc: _Crowded, reach_m: float, what: str, source: str) -> str:
+    where = f"{source}: " if source else ""
+    return (
+        f"{where}the {what} of {reach_m:g} m finds {exc.pairs} pairs of nearby routes for "
+        f"{exc.points} route points (more than {MAX_CANDIDATES_PER_POINT} each); it would join most "
+        "of the drawing - check the drawing units ([drawing] units or --units) or use a smaller "
+        "snap_tolerance_m"
+    )
+
+
+def _mm_pair(d_m: float, tol_m: float) -> tuple[str, str]:
+    """A distance and the tolerance in mm, with the decimals that tell them apart (up to 3).
+
+    >>> _mm_pair(0.0504, 0.05)
+    ('50.4', '50')
+    >>> _mm_pair(0.08, 0.05)
+    ('80', '50')
+    """
+    for nd in range(4):
+        a, b = f"{d_m * 1000:.{nd}f}", f"{tol_m * 1000:.{nd}f}"
+        if a != b or nd == 3:
+            return a, f"{tol_m * 1000:g}"
+    return a, b  # pragma: no cover
 
 
 def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
@@ -748,30 +810,28 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
             {ch.polys[ch.pieces.pieces[n][4]].source_id for nd in comp for n in ch.adj[nd] if n < gap_start}
         )
         shown = ", ".join(srcs[:5]) + (f" and {len(srcs) - 5} more" if len(srcs) > 5 else "")
-        out.append(
-            Issue(
-                "isolated",
-                f"route piece(s) {shown} join no equipment and no other route; "
-                "check the joints in the drawing",
-                srcs[0] if srcs else "",
+        if len(srcs) > 1:
+            text = (
+                f"route pieces {shown} join each other ({len(srcs)} pieces) but no equipment, and no "
+                "route joins them to the rest of the network; join them to it if they carry cables"
             )
-        )
+        else:
+            text = f"route piece {shown} joins no other route and no equipment; check its joints in the drawing"
+        out.append(Issue("isolated", text, srcs[0] if srcs else ""))
     return out
 
 
-def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, config: DrawingConfig) -> list[Issue]:
-    """Free route ends that come within near_miss_factor x tolerance of another route."""
+def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float) -> list[Issue]:
+    """Free route ends that come within ``reach`` (near_miss_factor x tolerance) of another route."""
     out: list[Issue] = []
     if not len(ends):
         return out
-    tol = config.snap_tolerance_m
-    reach = tol * config.near_miss_factor
     node = ch.pieces.node
     free = [e for e in range(len(ends)) if len(ch.adj[node(e)]) == 1 and node(e) not in ch.tail_nodes]
     if not free:
         return out
     fe = np.asarray(free)
-    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach)
+    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
     own = fe[qe] // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
@@ -789,11 +849,12 @@ def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, config: DrawingC
             continue
         reported.add(pair)
         p = geo.polys[i]
+        d_mm, tol_mm = _mm_pair(dd, tol)
         out.append(
             Issue(
                 "near-miss",
-                f"route end of {p.source_id} ({p.layer}) at {_fmt(ends[fe[e]])} is {dd * 1000:.0f} mm "
-                f"from route {geo.polys[j].source_id}, beyond the {tol * 1000:.0f} mm snap tolerance: "
+                f"route end of {p.source_id} ({p.layer}) at {_fmt(ends[fe[e]])} is {d_mm} mm "
+                f"from route {geo.polys[j].source_id}, beyond the {tol_mm} mm snap tolerance: "
                 "not joined; join them in the drawing if they meet",
                 p.source_id,
             )
