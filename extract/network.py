@@ -5,7 +5,8 @@ Connectivity rules (contract.md, "Drawing conventions"):
 * route ends closer than the snap tolerance join, the gap counting as route length;
 * a route end lying on another route's interior (a tee) splits that route and joins it there;
 * vertices shared by two routes (within the tolerance) join them;
-* routes that only cross (no shared vertex, no end on the other) do not join;
+* routes that only cross (no shared vertex, no end on the other) do not join, and each
+  crossing at the same level is reported; ``join_crossings`` joins them at the crossing;
 * all distances are 3D, so a vertical riser joins the levels its ends touch.
 
 Each equipment joins by a straight 3D tail from its insertion point to the nearest
@@ -107,6 +108,12 @@ class Network:
         segment parallel to a shorter one between the same nodes (split in two halves,
         edge attribute ``half=True``, since a Graph holds one edge per node pair).
         Loops (a segment back to its own node) are not in the graph.
+    crossings : list
+        Crossings at the same level that were not joined: (graph node of one run, graph
+        node of the other, crossing point [m]), for the advice on an unroutable circuit.
+    gaps : list
+        Near-misses: (graph node of the free end's run, graph node of the other run,
+        gap [m], the end [m], source id of the end's piece, source id of the other).
     """
 
     graph: nx.Graph
@@ -118,6 +125,8 @@ class Network:
     source_segments: dict[str, tuple[str, ...]] = field(default_factory=dict)
     segment_ends: dict[str, tuple[str, str]] = field(default_factory=dict)
     segment_nodes: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    crossings: list[tuple[str, str, Point3]] = field(default_factory=list)
+    gaps: list[tuple[str, str, float, Point3, str, str]] = field(default_factory=list)
 
 
 class _UnionFind:
@@ -318,8 +327,8 @@ class _Cuts:
             self.joins.append((a, b, d))
 
 
-def _cut_points(geo: _Geometry, tol: float) -> tuple[_Cuts, np.ndarray]:
-    """Ends of every piece, joined end to end, as tees and at shared vertices."""
+def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
+    """Ends of every piece, joined end to end, as tees, at shared vertices (and crossings)."""
     cuts = _Cuts()
     for i in range(len(geo.polys)):
         cuts.new(i, 0.0, geo.verts[i][0])  # pid 2i
@@ -329,6 +338,8 @@ def _cut_points(geo: _Geometry, tol: float) -> tuple[_Cuts, np.ndarray]:
         _join_ends(cuts, ends, tol)
         _join_tees(cuts, geo, ends, tol)
         _join_shared_vertices(cuts, geo, tol)
+        if crossings:
+            _join_crossings(cuts, geo, crossings)
     return cuts, ends
 
 
@@ -384,6 +395,96 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
         p1 = cuts.new(i1, float(geo.cum[i1][k1]), geo.verts[i1][k1])
         p2 = cuts.new(i2, float(geo.cum[i2][k2]), geo.verts[i2][k2])
         cuts.join(p1, p2, float(dd))
+
+
+def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
+    """Sub-segments of different pieces crossing in plan at the same level, away from their ends.
+
+    Candidates from one STRtree query of the sub-segments against themselves (predicate
+    ``intersects``), chunked; the crossing point by the usual two-line parameters (t, u).
+    A meeting within the tolerance of an end or vertex of either sub-segment is a tee or a
+    shared vertex, joined elsewhere, and is left out.
+
+    Returns
+    -------
+    list of (s_a, s_b, xyz, t_a, t_b, dz)
+        Sub-segment pair, crossing point on ``s_a`` [m], parameters along each, height difference [m].
+    """
+    if geo.seg_tree is None or not len(geo.sa):
+        return []
+    lines = geo.seg_tree.geometries
+    out_a, out_b = [], []
+    for lo in range(0, len(lines), _QUERY_CHUNK):
+        qa, qb = geo.seg_tree.query(lines[lo : lo + _QUERY_CHUNK], predicate="intersects")
+        qa = qa + lo
+        keep = (qa < qb) & (geo.s_owner[qa] != geo.s_owner[qb])
+        out_a.append(qa[keep])
+        out_b.append(qb[keep])
+    qa, qb = np.concatenate(out_a), np.concatenate(out_b)
+    if not len(qa):
+        return []
+    p, r = geo.sa[qa], geo.sb[qa] - geo.sa[qa]
+    q, sv = geo.sa[qb], geo.sb[qb] - geo.sa[qb]
+    den = r[:, 0] * sv[:, 1] - r[:, 1] * sv[:, 0]
+    qp = q - p
+    with np.errstate(invalid="ignore", divide="ignore"):
+        t = (qp[:, 0] * sv[:, 1] - qp[:, 1] * sv[:, 0]) / den
+        u = (qp[:, 0] * r[:, 1] - qp[:, 1] * r[:, 0]) / den
+    la = np.linalg.norm(r[:, :2], axis=1)
+    lb = np.linalg.norm(sv[:, :2], axis=1)
+    ok = (np.abs(den) > 1e-12) & np.isfinite(t) & np.isfinite(u)
+    ok &= (t * la > tol) & ((1 - t) * la > tol) & (u * lb > tol) & ((1 - u) * lb > tol)
+    za = p[:, 2] + t * r[:, 2]
+    zb = q[:, 2] + u * sv[:, 2]
+    ok &= np.abs(za - zb) <= tol
+    out = []
+    for k in np.flatnonzero(ok):
+        xyz = p[k] + t[k] * r[k]
+        out.append((int(qa[k]), int(qb[k]), xyz, float(t[k]), float(u[k]), float(abs(za[k] - zb[k]))))
+    return out
+
+
+def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
+    """A cut point on each run at the crossing, joined (the height difference as a gap)."""
+    for sa_, sb_, _xyz, ta, tb, dz in found:
+        ja, pos_a, xyz_a = geo.point_at(sa_, ta)
+        jb, pos_b, xyz_b = geo.point_at(sb_, tb)
+        cuts.join(cuts.new(ja, pos_a, xyz_a), cuts.new(jb, pos_b, xyz_b), dz)
+
+
+#: Crossings listed one per line up to this count; beyond it one summary line.
+MAX_CROSSINGS_LISTED = 20
+
+
+def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
+    """One warning per crossing without a joint, or a count and the first few for many."""
+    def name(s: int) -> str:
+        pl = geo.polys[int(geo.s_owner[s])]
+        return f"{pl.source_id} ({pl.layer})"
+
+    def at(xyz: np.ndarray) -> str:
+        return f"({xyz[0]:.3f}, {xyz[1]:.3f}) m"
+
+    advice = "draw a joint there if they meet, or set [routes] join_crossings = true"
+    if len(found) <= MAX_CROSSINGS_LISTED:
+        return [
+            Issue(
+                "crossing",
+                f"routes {name(a)} and {name(b)} cross at {at(xyz)} at the same level without a "
+                f"joint: not joined; {advice}",
+                geo.polys[int(geo.s_owner[a])].source_id,
+            )
+            for a, b, xyz, _, _, _ in found
+        ]
+    first = "; ".join(f"{name(a)} x {name(b)} at {at(xyz)}" for a, b, xyz, _, _, _ in found[:5])
+    return [
+        Issue(
+            "crossing",
+            f"{len(found)} crossings of routes at the same level without a joint, not joined; first: "
+            f"{first}; {advice}",
+            geo.polys[int(geo.s_owner[found[0][0]])].source_id,
+        )
+    ]
 
 
 # --------------------------------------------------------------------------- step 3: tails
@@ -723,8 +824,9 @@ def build_network(
 
     polys = _clean_input(guarded, issues)
     geo = _geometry(polys)
+    crossings = _crossings(geo, tol)
     try:
-        cuts, ends = _cut_points(geo, tol)
+        cuts, ends = _cut_points(geo, tol, crossings if config.join_crossings else None)
     except _Crowded as exc:
         raise ConfigError(_crowded_message(exc, tol, "snap tolerance", source)) from None
     eq_map, tag_failures = _equipment_by_tag(equipment, issues)
@@ -735,10 +837,15 @@ def build_network(
     g, segment_nodes, tails = _graph(ch, tail_pid, eq_map)
 
     reach = near_miss_reach_m(tol, config.near_miss_factor, median_piece_length_m(polys))
+    gaps: list[tuple[int, int, float, np.ndarray]] = []
     try:
-        issues.extend(_near_misses(geo, ends, ch, tol, reach))
+        issues.extend(_near_misses(geo, ends, ch, tol, reach, gaps))
     except _Crowded as exc:
         raise ConfigError(_crowded_message(exc, reach, "near-miss search", source)) from None
+    if config.join_crossings:
+        logger.info("network: %d crossings at the same level joined (join_crossings)", len(crossings))
+    else:
+        issues.extend(_crossing_issues(geo, crossings))
     issues.extend(_isolated(ch, nodes_sorted))
     logger.info(
         "network: %d pieces -> %d segments, %d nodes, %d tails, %d issues",
@@ -754,7 +861,22 @@ def build_network(
         source_segments={k: tuple(v) for k, v in ch.source_segments.items()},
         segment_ends=ch.segment_ends,
         segment_nodes=segment_nodes,
+        crossings=[] if config.join_crossings else [
+            (_run_node(ch, geo, int(geo.s_owner[a])), _run_node(ch, geo, int(geo.s_owner[b])), tuple(map(float, xyz)))
+            for a, b, xyz, _, _, _ in crossings
+        ],
+        gaps=[
+            (_run_node(ch, geo, i), _run_node(ch, geo, j), d, tuple(map(float, xyz)),
+             geo.polys[i].source_id, geo.polys[j].source_id)
+            for i, j, d, xyz in gaps
+        ],
     )
+
+
+def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
+    """A graph node of the run that piece i belongs to (an end of its first segment), or ""."""
+    sids = ch.source_segments.get(geo.polys[i].source_id)
+    return ch.segment_ends[sids[0]][0] if sids else ""
 
 
 # --------------------------------------------------------------------------- drawing issues
@@ -821,7 +943,9 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
     return out
 
 
-def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float) -> list[Issue]:
+def _near_misses(
+    geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
+) -> list[Issue]:
     """Free route ends that come within ``reach`` (near_miss_factor x tolerance) of another route."""
     out: list[Issue] = []
     if not len(ends):
@@ -849,6 +973,8 @@ def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reac
             continue
         reported.add(pair)
         p = geo.polys[i]
+        if gaps is not None:
+            gaps.append((i, j, dd, ends[fe[e]]))
         d_mm, tol_mm = _mm_pair(dd, tol)
         out.append(
             Issue(
