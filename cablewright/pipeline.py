@@ -168,6 +168,7 @@ def size_measurement(
 
     for cid in sorted(light & set(results)):
         results[cid] = replace(results[cid], messages=results[cid].messages + (LIGHT_LOAD_NOTE,))
+    results = _with_estimated_note(results, routed, measurement)
     results = _with_chain_drops(results, rows, specs)
     per_segment = extract_grouping.circuits_per_segment(routed, parallel)
     groups = extract_grouping.group_summary(routed, per_segment, parallel)
@@ -183,6 +184,21 @@ def size_measurement(
         outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, result.status, result.messages,
                                        routed[cid], groups.get(cid), result))
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
+
+
+def _with_estimated_note(results: dict, routed: dict, measurement: Measurement) -> dict:
+    """Each circuit routed over a piece estimated without carriers ([ifc] estimate_routes) says so."""
+    from cablewright.extract.ifc_reader import ESTIMATED_NOTE, ESTIMATED_PREFIX
+
+    segments = measurement.segments
+    for cid, route in routed.items():
+        if cid in results and any(
+            src.startswith(ESTIMATED_PREFIX)
+            for sid in route.segment_ids if sid in segments
+            for src in segments[sid].source_ids
+        ):
+            results[cid] = replace(results[cid], messages=results[cid].messages + (ESTIMATED_NOTE,))
+    return results
 
 
 #: The 30 % rule of IEC 60364-5-52:2009: a cable expected to carry no more than 30 % of
