@@ -1037,6 +1037,7 @@ def _read_circuits(
 ) -> tuple[list[ScheduleRow], dict[str, str]]:
     """Circuits from IfcDistributionCircuit (IFC4) / IfcElectricalCircuit (IFC2X3) groups."""
     by_gid = {e.source_id: e for e in equipment}
+    by_tag_gid = {e.tag: e.source_id for e in equipment}
     groups = _by_type(model, "IfcDistributionCircuit") + _by_type(model, "IfcElectricalCircuit")
     rows: list[ScheduleRow] = []
     failures: dict[str, str] = {}
@@ -1065,9 +1066,51 @@ def _read_circuits(
             )
             continue
         fields = {k: "" if v is None else str(v) for k, v in props.items()}
+        for k, v in _device_fields(model, by_tag_gid.get(dst)).items():
+            if not fields.get(k):
+                fields[k] = v
         fields.update({"circuit": cid, "from": src, "to": dst})
         rows.append(ScheduleRow(where, n, cid, src, dst, tuple(sorted(fields.items()))))
     return rows, failures
+
+
+#: The standard property set an authoring tool fills on electrical devices, and the
+#: schedule columns its properties give (ISO 16739-1:2018, Pset_ElectricalDeviceCommon:
+#: RatedCurrent [A], RatedVoltage [V], PowerFactor [-]).
+DEVICE_PSET = "Pset_ElectricalDeviceCommon"
+
+
+def _device_fields(model: Any, gid: str | None) -> dict[str, str]:
+    """Schedule fields from the load's :data:`DEVICE_PSET` (occurrence or type), where given.
+
+    ``RatedCurrent`` gives the load as a current (``"16 A"``), ``RatedVoltage`` the
+    voltage, ``PowerFactor`` the power factor; our ``CW_Circuit`` values win.
+    """
+    if not gid:
+        return {}
+    try:
+        el = model.by_guid(gid)
+    except RuntimeError:
+        return {}
+    props = _pset(el, DEVICE_PSET)
+    out: dict[str, str] = {}
+
+    def number(name: str) -> float | None:
+        v = props.get(name)
+        v = getattr(v, "wrappedValue", v)
+        try:
+            x = float(v)
+        except (TypeError, ValueError):
+            return None
+        return x if np.isfinite(x) and x > 0 else None
+
+    if (i := number("RatedCurrent")) is not None:
+        out["load"] = f"{i:g} A"
+    if (u := number("RatedVoltage")) is not None:
+        out["voltage"] = f"{u:g}"
+    if (pf := number("PowerFactor")) is not None and pf <= 1.0:
+        out["power_factor"] = f"{pf:g}"
+    return out
 
 
 def _is_a(inst: Any, cls: str) -> bool:

@@ -36,7 +36,9 @@ def no_carrier_model(path: Path, schema: str = "IFC4") -> Path:
     pump = b.equipment("IfcElectricMotor", "P-1", PUMP)
     socket = b.equipment("IfcOutlet", "S-1", SOCKET, storey="Level 1")
     b.circuit("C1", [db, pump], {"load": "5.5 kW", "voltage": "400", "phases": "3"})
-    b.circuit("C2", [db, socket], {"load": "2 kW", "voltage": "230", "phases": "1"})
+    # the socket's data as an authoring tool exports it: the standard device property set
+    b.pset(socket, "Pset_ElectricalDeviceCommon", {"RatedCurrent": 16.0, "RatedVoltage": 230.0})
+    b.circuit("C2", [db, socket], {"phases": "1"})
     return b.write(path)
 
 
@@ -84,6 +86,9 @@ def test_every_sized_circuit_says_estimated(tmp_path, monkeypatch):
     assert len(circuits) == 2
     for c in circuits:
         assert any(m.startswith("route estimated") for m in c["messages"]), c
+    # C2's load is the socket's RatedCurrent of Pset_ElectricalDeviceCommon: Ib = 16 A as given
+    c2 = next(c for c in circuits if c["id"] == "C2")
+    assert c2["load_current_a"] == pytest.approx(16.0)
     report = (out_dir / "report.html").read_text(encoding="utf-8")
     assert "route estimated" in report
 
