@@ -89,7 +89,8 @@ def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None 
             message = measurement.failures.get(cid, "circuit could not be routed")
             outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "error", (message,)))
             continue
-        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "ok", (), route, groups.get(cid)))
+        notes = (_estimated_note(),) if _is_estimated(route, measurement) else ()
+        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "ok", notes, route, groups.get(cid)))
     return outcomes, per_segment
 
 
@@ -186,18 +187,29 @@ def size_measurement(
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
 
 
-def _with_estimated_note(results: dict, routed: dict, measurement: Measurement) -> dict:
-    """Each circuit routed over a piece estimated without carriers ([ifc] estimate_routes) says so."""
-    from cablewright.extract.ifc_reader import ESTIMATED_NOTE, ESTIMATED_PREFIX
+def _estimated_note() -> str:
+    from cablewright.extract.ifc_reader import ESTIMATED_NOTE
+
+    return ESTIMATED_NOTE
+
+
+def _is_estimated(route, measurement: Measurement) -> bool:
+    """The route runs over a piece estimated without carriers ([ifc] estimate_routes)."""
+    from cablewright.extract.ifc_reader import ESTIMATED_PREFIX
 
     segments = measurement.segments
+    return any(
+        src.startswith(ESTIMATED_PREFIX)
+        for sid in route.segment_ids if sid in segments
+        for src in segments[sid].source_ids
+    )
+
+
+def _with_estimated_note(results: dict, routed: dict, measurement: Measurement) -> dict:
+    """Each circuit routed over a piece estimated without carriers says so (a message)."""
     for cid, route in routed.items():
-        if cid in results and any(
-            src.startswith(ESTIMATED_PREFIX)
-            for sid in route.segment_ids if sid in segments
-            for src in segments[sid].source_ids
-        ):
-            results[cid] = replace(results[cid], messages=results[cid].messages + (ESTIMATED_NOTE,))
+        if cid in results and _is_estimated(route, measurement):
+            results[cid] = replace(results[cid], messages=results[cid].messages + (_estimated_note(),))
     return results
 
 

@@ -63,7 +63,9 @@ def test_estimated_routes_are_right_angle_paths(tmp_path):
     model = no_carrier_model(tmp_path / "m.ifc")
     code, out, err = run_cli(["routes", str(model), "--config", str(_config(tmp_path)), "--json"])
     assert code == 0, err
-    routes = {c["id"]: c["route"]["routed_length_m"] for c in json.loads(out)["circuits"]}
+    circuits = json.loads(out)["circuits"]
+    routes = {c["id"]: c["route"]["routed_length_m"] for c in circuits}
+    assert all(any(m.startswith("route estimated") for m in c["messages"]) for c in circuits), circuits
 
     def manhattan(a, b):
         return sum(abs(p - q) for p, q in zip(a, b, strict=True))
