@@ -163,12 +163,17 @@ def median_piece_length_m(polylines: Sequence[RoutePolyline]) -> float:
     >>> median_piece_length_m([a, b, b])
     2.0
     """
-    lengths = [
-        float(np.linalg.norm(np.diff(np.asarray(pl.points_m, dtype=float), axis=0), axis=1).sum())
-        for pl in polylines
-        if len(pl.points_m) >= 2
-    ]
-    return float(np.median(lengths)) if lengths else 0.0
+    counts = np.fromiter((len(pl.points_m) for pl in polylines), dtype=np.intp, count=len(polylines))
+    counts = counts[counts >= 2] if len(counts) else counts
+    pts = [p for pl in polylines if len(pl.points_m) >= 2 for p in pl.points_m]
+    if not pts:
+        return 0.0
+    arr = np.asarray(pts, dtype=float)
+    steps = np.linalg.norm(np.diff(arr, axis=0), axis=1)  # includes the jumps between pieces
+    starts = np.cumsum(counts) - counts  # first point of each piece
+    cum = np.concatenate(([0.0], np.cumsum(steps)))
+    lengths = cum[starts + counts - 1] - cum[starts]
+    return float(np.median(lengths))
 
 
 def near_miss_reach_m(snap_tolerance_m: float, near_miss_factor: float, median_m: float) -> float:

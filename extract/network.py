@@ -36,7 +36,6 @@ from .guard import (
     check_equipment,
     check_polylines,
     check_snap_tolerance,
-    median_piece_length_m,
     near_miss_reach_m,
 )
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
@@ -836,7 +835,7 @@ def build_network(
     ch, nodes_sorted = _chains(polys, pieces, tail_nodes)
     g, segment_nodes, tails = _graph(ch, tail_pid, eq_map)
 
-    reach = near_miss_reach_m(tol, config.near_miss_factor, median_piece_length_m(polys))
+    reach = near_miss_reach_m(tol, config.near_miss_factor, float(np.median(geo.total)) if geo.total else 0.0)
     gaps: list[tuple[int, int, float, np.ndarray]] = []
     try:
         issues.extend(_near_misses(geo, ends, ch, tol, reach, gaps))
