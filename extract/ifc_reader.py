@@ -212,7 +212,8 @@ ESTIMATED_PREFIX = "estimated:"
 #: The message on every circuit routed over an estimated piece.
 ESTIMATED_NOTE = (
     "route estimated: the model has no cable carriers; a right-angle path in plan with a "
-    "vertical rise was taken ([ifc] estimate_routes) - check the length against the real route"
+    "vertical rise was taken ([ifc] estimate_routes), each circuit on its own run, so the "
+    "grouping with other cables is not known - check the length and grouping against the real route"
 )
 
 
