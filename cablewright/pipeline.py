@@ -93,7 +93,8 @@ def route_outcomes(measurement: Measurement, parallel: Mapping[str, int] | None 
             message = measurement.failures.get(cid, "circuit could not be routed")
             outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "error", (message,)))
             continue
-        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "ok", (), route, groups.get(cid)))
+        notes = (_estimated_note(),) if _is_estimated(route, measurement) else ()
+        outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, "ok", notes, route, groups.get(cid)))
     return outcomes, per_segment
 
 
@@ -172,6 +173,7 @@ def size_measurement(
 
     for cid in sorted(light & set(results)):
         results[cid] = replace(results[cid], messages=results[cid].messages + (LIGHT_LOAD_NOTE,))
+    results = _with_estimated_note(results, routed, measurement)
     results = _with_chain_drops(results, rows, specs)
     per_segment = extract_grouping.circuits_per_segment(routed, parallel)
     groups = extract_grouping.group_summary(routed, per_segment, parallel)
@@ -187,6 +189,32 @@ def size_measurement(
         outcomes.append(CircuitOutcome(cid, row.from_tag, row.to_tag, result.status, result.messages,
                                        routed[cid], groups.get(cid), result))
     return JobResult(measurement, outcomes, per_segment, parallel, rounds)
+
+
+def _estimated_note() -> str:
+    from cablewright.extract.ifc_reader import ESTIMATED_NOTE
+
+    return ESTIMATED_NOTE
+
+
+def _is_estimated(route, measurement: Measurement) -> bool:
+    """The route runs over a piece estimated without carriers ([ifc] estimate_routes)."""
+    from cablewright.extract.ifc_reader import ESTIMATED_PREFIX
+
+    segments = measurement.segments
+    return any(
+        src.startswith(ESTIMATED_PREFIX)
+        for sid in route.segment_ids if sid in segments
+        for src in segments[sid].source_ids
+    )
+
+
+def _with_estimated_note(results: dict, routed: dict, measurement: Measurement) -> dict:
+    """Each circuit routed over a piece estimated without carriers says so (a message)."""
+    for cid, route in routed.items():
+        if cid in results and _is_estimated(route, measurement):
+            results[cid] = replace(results[cid], messages=results[cid].messages + (_estimated_note(),))
+    return results
 
 
 #: The 30 % rule of IEC 60364-5-52:2009: a cable expected to carry no more than 30 % of

@@ -59,8 +59,11 @@ __all__ = [
     "EQUIPMENT_PSET",
     "CIRCUIT_PSET",
     "SIZING_PSET",
+    "ESTIMATED_NOTE",
+    "ESTIMATED_PREFIX",
     "IfcConfig",
     "IfcContent",
+    "estimated_routes",
     "open_model",
     "read_ifc",
     "route_layer",
@@ -159,6 +162,12 @@ class IfcConfig:
         IFC classes (subtypes included) read as equipment.
     source_classes : tuple of str
         Equipment classes that feed circuits (used to tell a circuit group's source).
+    estimate_routes : bool
+        A model without cable carriers (the usual export of an electrical model): estimate
+        each circuit group's route as a right-angle path in plan (along x, then y) at the
+        source's level with a vertical rise at the load (:func:`estimated_routes`); every
+        circuit on such a route says "estimated".  Off (default): such a model is refused,
+        naming the equipment and circuits found.
     """
 
     tag_sources: tuple[str, ...] = ("Tag", "Name")
@@ -194,6 +203,78 @@ class IfcConfig:
         "IfcElectricGenerator",
         "IfcTransformer",
     )
+    estimate_routes: bool = False
+
+
+#: Source id prefix of a route piece estimated without carriers (``[ifc] estimate_routes``).
+ESTIMATED_PREFIX = "estimated:"
+
+#: The message on every circuit routed over an estimated piece.
+ESTIMATED_NOTE = (
+    "route estimated: the model has no cable carriers; a right-angle path in plan with a "
+    "vertical rise was taken ([ifc] estimate_routes), each circuit on its own run, so the "
+    "grouping with other cables is not known - check the length and grouping against the real route"
+)
+
+
+def estimated_routes(rows: list[ScheduleRow], equipment: list[Equipment], kind: tuple[str, str]) -> list[RoutePolyline]:
+    """One right-angle (Manhattan) route per circuit, from its source to its load, [m].
+
+    Along x, then along y, at the source's height, then straight up or down to the load:
+    the length is |dx| + |dy| + |dz|, the usual estimate for services run parallel to the
+    walls with a riser at each level change (common practice).  Circuits from one source
+    share its start point, so they join there and nowhere else.
+
+    Parameters
+    ----------
+    rows : list of ScheduleRow
+        The model's circuits (from and to tags).
+    equipment : list of Equipment
+        Positions in world metres.
+    kind : (containment, method)
+        Containment taken for the estimated routes (``IfcConfig.default_kind``).
+
+    Returns
+    -------
+    list of RoutePolyline
+        Source id ``"estimated:<circuit>"``.
+
+    Examples
+    --------
+    >>> eq = [Equipment("DB", "g1", (0.0, 0.0, 0.0), "IfcElectricDistributionBoard"),
+    ...       Equipment("M", "g2", (3.0, 4.0, 3.5), "IfcOutlet")]
+    >>> row = ScheduleRow("m.ifc", 1, "C1", "DB", "M")
+    >>> [pl.points_m for pl in estimated_routes([row], eq, ("tray", "E"))]
+    [((0.0, 0.0, 0.0), (3.0, 0.0, 0.0), (3.0, 4.0, 0.0), (3.0, 4.0, 3.5))]
+    """
+    pos = {e.tag: e.position_m for e in equipment}
+    out: list[RoutePolyline] = []
+    containment, method = kind
+    for row in rows:
+        a, b = pos.get(row.from_tag), pos.get(row.to_tag)
+        if a is None or b is None:
+            continue
+        pts: list[tuple[float, float, float]] = [tuple(map(float, a))]  # type: ignore[list-item]
+        for q in ((b[0], a[1], a[2]), (b[0], b[1], a[2]), tuple(b)):
+            q = tuple(map(float, q))
+            if max(abs(q[k] - pts[-1][k]) for k in range(3)) > 1e-9:
+                pts.append(q)  # type: ignore[arg-type]
+        if len(pts) >= 2:
+            out.append(RoutePolyline(tuple(pts), route_layer(containment), containment, method,
+                                     ESTIMATED_PREFIX + row.circuit_id))
+    return out
+
+
+def _equipment_summary(equipment: list[Equipment], rows: list[ScheduleRow], failures: Mapping[str, str]) -> str:
+    """"N equipment (DB-1: C1, C2; DB-2: C3) and M circuit groups": what the model holds."""
+    by_source: dict[str, list[str]] = defaultdict(list)
+    for r in rows:
+        by_source[r.from_tag].append(r.circuit_id)
+    feeds = "; ".join(f"{src}: {', '.join(cids[:6])}{' ...' if len(cids) > 6 else ''}"
+                      for src, cids in sorted(by_source.items())[:6])
+    more = f" and {len(by_source) - 6} more sources" if len(by_source) > 6 else ""
+    text = f"{len(equipment)} tagged equipment and {len(rows) + len(failures)} circuit group(s)"
+    return text + (f" ({feeds}{more})" if feeds else "")
 
 
 @dataclass(frozen=True)
@@ -537,6 +618,21 @@ def _read_ifc(
     _unlinked_issue(pieces, neighbours, links, p, config.snap_tolerance_m, issues)
     equipment = _read_equipment(model, p, ic, scale, cache, seen, issues)
     rows, failures = _read_circuits(model, p, ic, equipment)
+    if not pieces:
+        summary = _equipment_summary(equipment, rows, failures)
+        if not ic.estimate_routes:
+            raise DrawingReadError(
+                f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); it holds "
+                f"{summary}; set [ifc] estimate_routes = true for estimated right-angle routes, "
+                "or model the trays, ladders and conduits, or export the routes to DXF"
+            )
+        polylines = estimated_routes(rows, equipment, ic.default_kind)
+        issues.append(Issue(
+            "estimated-routes",
+            f"{p}: no cable carriers; {len(polylines)} route(s) estimated as right-angle paths "
+            f"([ifc] estimate_routes) for {summary}",
+            "",
+        ))
     logger.info(
         "%s: %s, %s; %d route pieces, %d port links (%d joins added), %d equipment, %d circuit groups",
         p, model.schema, unit_name, len(pieces), len(links), joins, len(equipment), len(rows) + len(failures),
@@ -648,12 +744,6 @@ def _route_pieces(
             f"{p}: the model's {len(elements)} route element(s) ({shown}) have no usable geometry; "
             "give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF"
         )
-    if not pieces:
-        raise DrawingReadError(
-            f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); "
-            "model the trays, ladders and conduits, or export the routes to DXF"
-        )
-
     return pieces, port_owner, port_pos
 
 
@@ -948,6 +1038,7 @@ def _read_circuits(
 ) -> tuple[list[ScheduleRow], dict[str, str]]:
     """Circuits from IfcDistributionCircuit (IFC4) / IfcElectricalCircuit (IFC2X3) groups."""
     by_gid = {e.source_id: e for e in equipment}
+    by_tag_gid = {e.tag: e.source_id for e in equipment}
     groups = _by_type(model, "IfcDistributionCircuit") + _by_type(model, "IfcElectricalCircuit")
     rows: list[ScheduleRow] = []
     failures: dict[str, str] = {}
@@ -976,9 +1067,51 @@ def _read_circuits(
             )
             continue
         fields = {k: "" if v is None else str(v) for k, v in props.items()}
+        for k, v in _device_fields(model, by_tag_gid.get(dst)).items():
+            if not fields.get(k):
+                fields[k] = v
         fields.update({"circuit": cid, "from": src, "to": dst})
         rows.append(ScheduleRow(where, n, cid, src, dst, tuple(sorted(fields.items()))))
     return rows, failures
+
+
+#: The standard property set an authoring tool fills on electrical devices, and the
+#: schedule columns its properties give (ISO 16739-1:2018, Pset_ElectricalDeviceCommon:
+#: RatedCurrent [A], RatedVoltage [V], PowerFactor [-]).
+DEVICE_PSET = "Pset_ElectricalDeviceCommon"
+
+
+def _device_fields(model: Any, gid: str | None) -> dict[str, str]:
+    """Schedule fields from the load's :data:`DEVICE_PSET` (occurrence or type), where given.
+
+    ``RatedCurrent`` gives the load as a current (``"16 A"``), ``RatedVoltage`` the
+    voltage, ``PowerFactor`` the power factor; our ``CW_Circuit`` values win.
+    """
+    if not gid:
+        return {}
+    try:
+        el = model.by_guid(gid)
+    except RuntimeError:
+        return {}
+    props = _pset(el, DEVICE_PSET)
+    out: dict[str, str] = {}
+
+    def number(name: str) -> float | None:
+        v = props.get(name)
+        v = getattr(v, "wrappedValue", v)
+        try:
+            x = float(v)
+        except (TypeError, ValueError):
+            return None
+        return x if np.isfinite(x) and x > 0 else None
+
+    if (i := number("RatedCurrent")) is not None:
+        out["load"] = f"{i:g} A"
+    if (u := number("RatedVoltage")) is not None:
+        out["voltage"] = f"{u:g}"
+    if (pf := number("PowerFactor")) is not None and pf <= 1.0:
+        out["power_factor"] = f"{pf:g}"
+    return out
 
 
 def _is_a(inst: Any, cls: str) -> bool:

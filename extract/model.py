@@ -247,6 +247,10 @@ class DrawingConfig:
         Added at each end for terminations and drops, [m] (1.5 m, common practice).
     near_miss_factor : float
         Ends within ``near_miss_factor * snap_tolerance_m`` that did not join are reported.
+    join_crossings : bool
+        Join route runs that cross in plan at the same level (heights within the snap
+        tolerance) at the crossing point (``[routes] join_crossings``, contract key).  Off:
+        such crossings do not join (contract.md, "Drawing conventions") and are reported.
     recover : bool
         Use ezdxf's recover mode on a damaged drawing and list what was lost.
     route_tiers : mapping
@@ -275,6 +279,7 @@ class DrawingConfig:
     slack_fraction: float = 0.05
     end_allowance_m: float = 1.5
     near_miss_factor: float = 10.0
+    join_crossings: bool = False
     recover: bool = False
     tags_from_text: bool = False
     tag_text_max_m: float = 1.0

@@ -5,7 +5,8 @@ Connectivity rules (contract.md, "Drawing conventions"):
 * route ends closer than the snap tolerance join, the gap counting as route length;
 * a route end lying on another route's interior (a tee) splits that route and joins it there;
 * vertices shared by two routes (within the tolerance) join them;
-* routes that only cross (no shared vertex, no end on the other) do not join;
+* routes that only cross (no shared vertex, no end on the other) do not join, and each
+  crossing at the same level is reported; ``join_crossings`` joins them at the crossing;
 * all distances are 3D, so a vertical riser joins the levels its ends touch.
 
 Each equipment joins by a straight 3D tail from its insertion point to the nearest
@@ -30,8 +31,13 @@ import numpy as np
 import shapely
 from shapely import STRtree
 
-from .errors import Issue
-from .guard import check_equipment, check_polylines, check_snap_tolerance
+from .errors import ConfigError, Issue
+from .guard import (
+    check_equipment,
+    check_polylines,
+    check_snap_tolerance,
+    near_miss_reach_m,
+)
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
@@ -101,6 +107,12 @@ class Network:
         segment parallel to a shorter one between the same nodes (split in two halves,
         edge attribute ``half=True``, since a Graph holds one edge per node pair).
         Loops (a segment back to its own node) are not in the graph.
+    crossings : list
+        Crossings at the same level that were not joined: (graph node of one run, graph
+        node of the other, crossing point [m]), for the advice on an unroutable circuit.
+    gaps : list
+        Near-misses: (graph node of the free end's run, graph node of the other run,
+        gap [m], the end [m], source id of the end's piece, source id of the other).
     """
 
     graph: nx.Graph
@@ -112,6 +124,8 @@ class Network:
     source_segments: dict[str, tuple[str, ...]] = field(default_factory=dict)
     segment_ends: dict[str, tuple[str, str]] = field(default_factory=dict)
     segment_nodes: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    crossings: list[tuple[str, str, Point3]] = field(default_factory=list)
+    gaps: list[tuple[str, str, float, Point3, str, str]] = field(default_factory=list)
 
 
 class _UnionFind:
@@ -174,17 +188,41 @@ def _clean(points: Iterable[Sequence[float]]) -> list[Point3]:
 _QUERY_CHUNK = 200_000
 
 
-def _query_boxes(tree: STRtree, xy: np.ndarray, r: float | np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+#: Most candidate pairs a proximity search may hold per query point (plus a fixed 10,000).
+#: An end on an ordinary drawing meets a handful of other pieces within the snap tolerance;
+#: hundreds each mean the tolerance covers much of the plan, and the pairs, cut points and
+#: segments would grow with the square of the drawing (issue 16: 2.7 million segments and
+#: 5.8 GB from 1,063 pieces).  The build stops instead, with memory bounded by this cap.
+MAX_CANDIDATES_PER_POINT = 64
+
+
+class _Crowded(Exception):
+    """A proximity search found more candidate pairs than :data:`MAX_CANDIDATES_PER_POINT` allows."""
+
+    def __init__(self, pairs: int, points: int) -> None:
+        super().__init__(pairs, points)
+        self.pairs, self.points = pairs, points
+
+
+def _query_boxes(
+    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
+) -> tuple[np.ndarray, np.ndarray]:
     """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
 
     The same pairs, in the same order, as one ``tree.query(_boxes(xy, r))``, built chunk by
-    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.
+    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
+    :class:`_Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
     """
     r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
+    limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
     out_i, out_j = [], []
+    found = 0
     for lo in range(0, len(xy), _QUERY_CHUNK):
         hi = min(lo + _QUERY_CHUNK, len(xy))
         qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]))
+        found += len(qi)
+        if bounded and found > limit:
+            raise _Crowded(found, len(xy))
         out_i.append(qi + lo)
         out_j.append(qj)
     if not out_i:
@@ -288,8 +326,8 @@ class _Cuts:
             self.joins.append((a, b, d))
 
 
-def _cut_points(geo: _Geometry, tol: float) -> tuple[_Cuts, np.ndarray]:
-    """Ends of every piece, joined end to end, as tees and at shared vertices."""
+def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
+    """Ends of every piece, joined end to end, as tees, at shared vertices (and crossings)."""
     cuts = _Cuts()
     for i in range(len(geo.polys)):
         cuts.new(i, 0.0, geo.verts[i][0])  # pid 2i
@@ -299,13 +337,15 @@ def _cut_points(geo: _Geometry, tol: float) -> tuple[_Cuts, np.ndarray]:
         _join_ends(cuts, ends, tol)
         _join_tees(cuts, geo, ends, tol)
         _join_shared_vertices(cuts, geo, tol)
+        if crossings:
+            _join_crossings(cuts, geo, crossings)
     return cuts, ends
 
 
 def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
     """End - end within the tolerance (3D)."""
     end_tree = STRtree(shapely.points(ends[:, :2]))
-    qi, qj = _query_boxes(end_tree, ends[:, :2], tol)
+    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True)
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
@@ -315,7 +355,7 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
 
 def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> None:
     """An end on another route's interior: a new cut point there, joined to the end."""
-    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol)
+    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True)
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
@@ -345,7 +385,7 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
     iv = np.asarray([geo.verts[i][k] for i, k in inner])
     iown = np.asarray([i for i, _ in inner])
     itree = STRtree(shapely.points(iv[:, :2]))
-    qi, qj = _query_boxes(itree, iv[:, :2], tol)
+    qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(iv[qi] - iv[qj], axis=1)
@@ -354,6 +394,96 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
         p1 = cuts.new(i1, float(geo.cum[i1][k1]), geo.verts[i1][k1])
         p2 = cuts.new(i2, float(geo.cum[i2][k2]), geo.verts[i2][k2])
         cuts.join(p1, p2, float(dd))
+
+
+def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
+    """Sub-segments of different pieces crossing in plan at the same level, away from their ends.
+
+    Candidates from one STRtree query of the sub-segments against themselves (predicate
+    ``intersects``), chunked; the crossing point by the usual two-line parameters (t, u).
+    A meeting within the tolerance of an end or vertex of either sub-segment is a tee or a
+    shared vertex, joined elsewhere, and is left out.
+
+    Returns
+    -------
+    list of (s_a, s_b, xyz, t_a, t_b, dz)
+        Sub-segment pair, crossing point on ``s_a`` [m], parameters along each, height difference [m].
+    """
+    if geo.seg_tree is None or not len(geo.sa):
+        return []
+    lines = geo.seg_tree.geometries
+    out_a, out_b = [], []
+    for lo in range(0, len(lines), _QUERY_CHUNK):
+        qa, qb = geo.seg_tree.query(lines[lo : lo + _QUERY_CHUNK], predicate="intersects")
+        qa = qa + lo
+        keep = (qa < qb) & (geo.s_owner[qa] != geo.s_owner[qb])
+        out_a.append(qa[keep])
+        out_b.append(qb[keep])
+    qa, qb = np.concatenate(out_a), np.concatenate(out_b)
+    if not len(qa):
+        return []
+    p, r = geo.sa[qa], geo.sb[qa] - geo.sa[qa]
+    q, sv = geo.sa[qb], geo.sb[qb] - geo.sa[qb]
+    den = r[:, 0] * sv[:, 1] - r[:, 1] * sv[:, 0]
+    qp = q - p
+    with np.errstate(invalid="ignore", divide="ignore"):
+        t = (qp[:, 0] * sv[:, 1] - qp[:, 1] * sv[:, 0]) / den
+        u = (qp[:, 0] * r[:, 1] - qp[:, 1] * r[:, 0]) / den
+    la = np.linalg.norm(r[:, :2], axis=1)
+    lb = np.linalg.norm(sv[:, :2], axis=1)
+    ok = (np.abs(den) > 1e-12) & np.isfinite(t) & np.isfinite(u)
+    ok &= (t * la > tol) & ((1 - t) * la > tol) & (u * lb > tol) & ((1 - u) * lb > tol)
+    za = p[:, 2] + t * r[:, 2]
+    zb = q[:, 2] + u * sv[:, 2]
+    ok &= np.abs(za - zb) <= tol
+    out = []
+    for k in np.flatnonzero(ok):
+        xyz = p[k] + t[k] * r[k]
+        out.append((int(qa[k]), int(qb[k]), xyz, float(t[k]), float(u[k]), float(abs(za[k] - zb[k]))))
+    return out
+
+
+def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
+    """A cut point on each run at the crossing, joined (the height difference as a gap)."""
+    for sa_, sb_, _xyz, ta, tb, dz in found:
+        ja, pos_a, xyz_a = geo.point_at(sa_, ta)
+        jb, pos_b, xyz_b = geo.point_at(sb_, tb)
+        cuts.join(cuts.new(ja, pos_a, xyz_a), cuts.new(jb, pos_b, xyz_b), dz)
+
+
+#: Crossings listed one per line up to this count; beyond it one summary line.
+MAX_CROSSINGS_LISTED = 20
+
+
+def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
+    """One warning per crossing without a joint, or a count and the first few for many."""
+    def name(s: int) -> str:
+        pl = geo.polys[int(geo.s_owner[s])]
+        return f"{pl.source_id} ({pl.layer})"
+
+    def at(xyz: np.ndarray) -> str:
+        return f"({xyz[0]:.3f}, {xyz[1]:.3f}) m"
+
+    advice = "draw a joint there if they meet, or set [routes] join_crossings = true"
+    if len(found) <= MAX_CROSSINGS_LISTED:
+        return [
+            Issue(
+                "crossing",
+                f"routes {name(a)} and {name(b)} cross at {at(xyz)} at the same level without a "
+                f"joint: not joined; {advice}",
+                geo.polys[int(geo.s_owner[a])].source_id,
+            )
+            for a, b, xyz, _, _, _ in found
+        ]
+    first = "; ".join(f"{name(a)} x {name(b)} at {at(xyz)}" for a, b, xyz, _, _, _ in found[:5])
+    return [
+        Issue(
+            "crossing",
+            f"{len(found)} crossings of routes at the same level without a joint, not joined; first: "
+            f"{first}; {advice}",
+            geo.polys[int(geo.s_owner[found[0][0]])].source_id,
+        )
+    ]
 
 
 # --------------------------------------------------------------------------- step 3: tails
@@ -693,7 +823,11 @@ def build_network(
 
     polys = _clean_input(guarded, issues)
     geo = _geometry(polys)
-    cuts, ends = _cut_points(geo, tol)
+    crossings = _crossings(geo, tol)
+    try:
+        cuts, ends = _cut_points(geo, tol, crossings if config.join_crossings else None)
+    except _Crowded as exc:
+        raise ConfigError(_crowded_message(exc, tol, "snap tolerance", source)) from None
     eq_map, tag_failures = _equipment_by_tag(equipment, issues)
     tail_pid = _tails(geo, cuts, eq_map, tag_failures, config.max_tail_m)
     pieces = _pieces(geo, cuts)
@@ -701,7 +835,16 @@ def build_network(
     ch, nodes_sorted = _chains(polys, pieces, tail_nodes)
     g, segment_nodes, tails = _graph(ch, tail_pid, eq_map)
 
-    issues.extend(_near_misses(geo, ends, ch, config))
+    reach = near_miss_reach_m(tol, config.near_miss_factor, float(np.median(geo.total)) if geo.total else 0.0)
+    gaps: list[tuple[int, int, float, np.ndarray]] = []
+    try:
+        issues.extend(_near_misses(geo, ends, ch, tol, reach, gaps))
+    except _Crowded as exc:
+        raise ConfigError(_crowded_message(exc, reach, "near-miss search", source)) from None
+    if config.join_crossings:
+        logger.info("network: %d crossings at the same level joined (join_crossings)", len(crossings))
+    else:
+        issues.extend(_crossing_issues(geo, crossings))
     issues.extend(_isolated(ch, nodes_sorted))
     logger.info(
         "network: %d pieces -> %d segments, %d nodes, %d tails, %d issues",
@@ -717,10 +860,50 @@ def build_network(
         source_segments={k: tuple(v) for k, v in ch.source_segments.items()},
         segment_ends=ch.segment_ends,
         segment_nodes=segment_nodes,
+        crossings=[] if config.join_crossings else [
+            (_run_node(ch, geo, int(geo.s_owner[a])), _run_node(ch, geo, int(geo.s_owner[b])), tuple(map(float, xyz)))
+            for a, b, xyz, _, _, _ in crossings
+        ],
+        gaps=[
+            (_run_node(ch, geo, i), _run_node(ch, geo, j), d, tuple(map(float, xyz)),
+             geo.polys[i].source_id, geo.polys[j].source_id)
+            for i, j, d, xyz in gaps
+        ],
     )
 
 
+def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
+    """A graph node of the run that piece i belongs to (an end of its first segment), or ""."""
+    sids = ch.source_segments.get(geo.polys[i].source_id)
+    return ch.segment_ends[sids[0]][0] if sids else ""
+
+
 # --------------------------------------------------------------------------- drawing issues
+
+
+def _crowded_message(exc: _Crowded, reach_m: float, what: str, source: str) -> str:
+    where = f"{source}: " if source else ""
+    return (
+        f"{where}the {what} of {reach_m:g} m finds {exc.pairs} pairs of nearby routes for "
+        f"{exc.points} route points (more than {MAX_CANDIDATES_PER_POINT} each); it would join most "
+        "of the drawing - check the drawing units ([drawing] units or --units) or use a smaller "
+        "snap_tolerance_m"
+    )
+
+
+def _mm_pair(d_m: float, tol_m: float) -> tuple[str, str]:
+    """A distance and the tolerance in mm, with the decimals that tell them apart (up to 3).
+
+    >>> _mm_pair(0.0504, 0.05)
+    ('50.4', '50')
+    >>> _mm_pair(0.08, 0.05)
+    ('80', '50')
+    """
+    for nd in range(4):
+        a, b = f"{d_m * 1000:.{nd}f}", f"{tol_m * 1000:.{nd}f}"
+        if a != b or nd == 3:
+            return a, f"{tol_m * 1000:g}"
+    return a, b  # pragma: no cover
 
 
 def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
@@ -748,30 +931,30 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
             {ch.polys[ch.pieces.pieces[n][4]].source_id for nd in comp for n in ch.adj[nd] if n < gap_start}
         )
         shown = ", ".join(srcs[:5]) + (f" and {len(srcs) - 5} more" if len(srcs) > 5 else "")
-        out.append(
-            Issue(
-                "isolated",
-                f"route piece(s) {shown} join no equipment and no other route; "
-                "check the joints in the drawing",
-                srcs[0] if srcs else "",
+        if len(srcs) > 1:
+            text = (
+                f"route pieces {shown} join each other ({len(srcs)} pieces) but no equipment, and no "
+                "route joins them to the rest of the network; join them to it if they carry cables"
             )
-        )
+        else:
+            text = f"route piece {shown} joins no other route and no equipment; check its joints in the drawing"
+        out.append(Issue("isolated", text, srcs[0] if srcs else ""))
     return out
 
 
-def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, config: DrawingConfig) -> list[Issue]:
-    """Free route ends that come within near_miss_factor x tolerance of another route."""
+def _near_misses(
+    geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
+) -> list[Issue]:
+    """Free route ends that come within ``reach`` (near_miss_factor x tolerance) of another route."""
     out: list[Issue] = []
     if not len(ends):
         return out
-    tol = config.snap_tolerance_m
-    reach = tol * config.near_miss_factor
     node = ch.pieces.node
     free = [e for e in range(len(ends)) if len(ch.adj[node(e)]) == 1 and node(e) not in ch.tail_nodes]
     if not free:
         return out
     fe = np.asarray(free)
-    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach)
+    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
     own = fe[qe] // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
@@ -789,11 +972,14 @@ def _near_misses(geo: _Geometry, ends: np.ndarray, ch: _Chains, config: DrawingC
             continue
         reported.add(pair)
         p = geo.polys[i]
+        if gaps is not None:
+            gaps.append((i, j, dd, ends[fe[e]]))
+        d_mm, tol_mm = _mm_pair(dd, tol)
         out.append(
             Issue(
                 "near-miss",
-                f"route end of {p.source_id} ({p.layer}) at {_fmt(ends[fe[e]])} is {dd * 1000:.0f} mm "
-                f"from route {geo.polys[j].source_id}, beyond the {tol * 1000:.0f} mm snap tolerance: "
+                f"route end of {p.source_id} ({p.layer}) at {_fmt(ends[fe[e]])} is {d_mm} mm "
+                f"from route {geo.polys[j].source_id}, beyond the {tol_mm} mm snap tolerance: "
                 "not joined; join them in the drawing if they meet",
                 p.source_id,
             )

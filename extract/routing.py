@@ -240,6 +240,44 @@ def _route_via(
     return best[1]
 
 
+def _component(g: nx.Graph, node: str, components: dict[str, frozenset[str]]) -> frozenset[str]:
+    """The connected part of the graph holding ``node`` (memoised per node of it)."""
+    if node not in components:
+        comp = frozenset(nx.node_connected_component(g, node)) if node in g else frozenset((node,))
+        for nd in comp:
+            components[nd] = comp
+    return components[node]
+
+
+def _no_path_advice(network: Network, src: str, dst: str, components: dict[str, frozenset[str]]) -> str:
+    """What really separates the two ends: a crossing without a joint, a gap, or separate networks.
+
+    The crossings and near-miss gaps are those the network build found
+    (:attr:`Network.crossings`, :attr:`Network.gaps`); one between the part of the network
+    holding the source and the part holding the load is named with its place.
+    """
+    g = network.graph
+    a, b = _component(g, src, components), _component(g, dst, components)
+
+    def between(u: str, v: str) -> bool:
+        return (u in a and v in b) or (u in b and v in a)
+
+    for u, v, xyz in network.crossings:
+        if between(u, v):
+            return (
+                f"their routes cross at ({xyz[0]:.3f}, {xyz[1]:.3f}) m without a joint; draw a joint "
+                "there or set [routes] join_crossings = true"
+            )
+    for u, v, gap_m, xyz, end_src, other_src in sorted(network.gaps, key=lambda t: t[2]):
+        if between(u, v):
+            return (
+                f"a gap of {gap_m * 1000:.1f} mm between the end of route {end_src} at "
+                f"({xyz[0]:.3f}, {xyz[1]:.3f}, {xyz[2]:.3f}) m and route {other_src}; join them in "
+                "the drawing or raise snap_tolerance_m"
+            )
+    return "they are on separate networks (no route connects the two); draw the route between them"
+
+
 def route_circuits(
     network: Network,
     rows: Sequence[ScheduleRow],
@@ -303,6 +341,7 @@ def route_circuits(
         by_source[row.from_tag].append(row)
 
     cache: dict[str, tuple[dict, dict]] = {}
+    components: dict[str, frozenset[str]] = {}
     for src_tag in sorted(by_source):
         src = equipment_node(src_tag)
         wanted = {equipment_node(r.to_tag) for r in by_source[src_tag] if not r.get("via")}
@@ -324,7 +363,7 @@ def route_circuits(
             except nx.NetworkXNoPath:
                 failures[row.circuit_id] = (
                     f"{where}: no route joins {row.from_tag} to {row.to_tag}; "
-                    "check the drawing for a gap between their routes"
+                    + _no_path_advice(network, src, dst, components)
                 )
                 continue
             except _Fail as exc:
