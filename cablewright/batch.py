@@ -17,7 +17,7 @@ from contextlib import redirect_stdout
 from dataclasses import dataclass
 from pathlib import Path
 
-from cablewright.extract.errors import CableRouteError, DrawingReadError
+from cablewright.core.errors import CableRouteError, DrawingReadError
 
 __all__ = ["expand_drawings", "run_batch", "BatchItem", "output_folders"]
 

@@ -16,7 +16,7 @@ import warnings
 from collections.abc import Sequence
 from pathlib import Path
 
-from cablewright.extract.errors import CableRouteError
+from cablewright.core.errors import CableRouteError
 
 __all__ = ["main", "internal_error_line", "EXIT_OK", "EXIT_CIRCUIT", "EXIT_INPUT"]
 

@@ -229,7 +229,7 @@ def run_demo(args: argparse.Namespace) -> int:
     drawing = SAMPLE_DIR / SAMPLE_DRAWING
     circuits = SAMPLE_DIR / SAMPLE_CIRCUITS
     if not drawing.exists():
-        from cablewright.extract.errors import DrawingReadError
+        from cablewright.core.errors import DrawingReadError
 
         raise DrawingReadError(
             f"{drawing}: the sample drawing is missing; run "

@@ -14,8 +14,8 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cablewright.annotate.model import CircuitOutcome
+from cablewright.core.errors import CableRouteError
 from cablewright.extract import grouping as extract_grouping
-from cablewright.extract.errors import CableRouteError
 from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
 from cablewright.sizing.chain import (
     ChainCable,

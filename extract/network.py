@@ -28,9 +28,9 @@ from dataclasses import dataclass, field
 import networkx as nx
 import numpy as np
 import shapely
+from cablewright.core.errors import Issue
 from shapely import STRtree
 
-from .errors import Issue
 from .guard import check_equipment, check_polylines, check_snap_tolerance
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
 

@@ -16,7 +16,7 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from cablewright.extract.errors import CableRouteError
+from cablewright.core.errors import CableRouteError
 
 from .conductor_resistance import STANDARD_CSA_MM2, resistance_ohm_per_km
 from .voltage_drop import MAX_CONDUCTOR_TEMPERATURE_C, REACTANCE_MOHM_PER_M

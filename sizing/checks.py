@@ -33,7 +33,7 @@ import math
 from functools import lru_cache
 from typing import TYPE_CHECKING, Any
 
-from cablewright.extract.errors import CableRouteError, CircuitInputError
+from cablewright.core.errors import CableRouteError, CircuitInputError
 
 from .conductor_resistance import resistance_ohm_per_km
 from .disconnection import (
