@@ -583,16 +583,6 @@ class PreparedChecks:
         self.motor_trip = PreparedMotorTrip(spec, config, design_current_a, device)
         self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", True))
 
-    def upsize_passes(self, name: str, csa_mm2: float, parallel: int) -> bool:
-        """The outcome of the upsize check ``name``: short_circuit, motor_start, disconnection."""
-        if name == "short_circuit":
-            return self.short_circuit.passes(csa_mm2)
-        if name == "motor_start":
-            return self.motor_start.passes(csa_mm2, parallel)
-        if name == "disconnection":
-            return not self.disconnection_upsize or self.disconnection.passes(csa_mm2, parallel)
-        raise KeyError(name)
-
     def report(self, csa_mm2: float, parallel: int) -> list[Check]:
         """The applicable checks of the chosen cable after voltage drop: short circuit,
         motor start (motors only), disconnection, protective conductor."""
