@@ -21,7 +21,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from cablewright.extract.errors import ScheduleError
+from cablewright.core.errors import ScheduleError
 
 __all__ = [
     "LENGTH_TOLERANCE_M",

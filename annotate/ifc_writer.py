@@ -43,7 +43,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from cablewright.extract.errors import DrawingReadError
+from cablewright.core.errors import DrawingReadError
 from cablewright.extract.ifc_reader import SIZING_PSET, open_model
 
 from .atomic import atomic_path

@@ -3,8 +3,13 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from cablewright.sizing.model import STATUS_ORDER, SizingResult
+
+if TYPE_CHECKING:
+    from cablewright.extract.grouping import GroupInfo
+    from cablewright.extract.model import CircuitRoute
 
 __all__ = ["CircuitOutcome", "worst_status"]
 
@@ -33,8 +38,8 @@ class CircuitOutcome:
     to_tag: str
     status: str
     messages: tuple[str, ...] = ()
-    route: object | None = None
-    group: object | None = None
+    route: CircuitRoute | None = None
+    group: GroupInfo | None = None
     sizing: SizingResult | None = None
 
 

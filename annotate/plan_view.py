@@ -21,7 +21,7 @@ import os
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from cablewright.extract.errors import DrawingReadError
+from cablewright.core.errors import DrawingReadError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
 
 from .atomic import atomic_path

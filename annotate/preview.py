@@ -42,8 +42,8 @@ from collections.abc import Iterable
 from typing import Any
 
 import ezdxf
+from cablewright.core.errors import DrawingReadError
 from cablewright.extract.dxf_reader import block_problems
-from cablewright.extract.errors import DrawingReadError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
 from ezdxf.addons.drawing.matplotlib import MatplotlibBackend
 

@@ -2,7 +2,7 @@
 
 Thin wrappers over :mod:`cablewright.pipeline` and :mod:`cablewright.outputs`,
 the same path the ``size`` and ``routes`` commands take; ``import cablewright``
-gives them.  Errors are :class:`cablewright.extract.errors.CableRouteError`
+gives them.  Errors are :class:`cablewright.core.errors.CableRouteError`
 subclasses, with the same one-line messages the command line prints.
 
 Examples

@@ -8,16 +8,19 @@ else ``<stem>_circuits.csv`` / ``.xlsx`` beside it, else its block attributes.
 from __future__ import annotations
 
 import argparse
-import io
 import json
 import re
 import sys
 from concurrent.futures import ProcessPoolExecutor
-from contextlib import redirect_stdout
 from dataclasses import dataclass
 from pathlib import Path
+from types import SimpleNamespace
 
-from cablewright.extract.errors import CableRouteError, DrawingReadError
+from cablewright.annotate.jsonout import document as outcomes_document
+from cablewright.core.errors import CableRouteError, DrawingReadError
+
+from .exits import EXIT_INPUT, exit_code_for, internal_error_line
+from .size_run import _issues, _report_errors, settings_from, size_drawing
 
 __all__ = ["expand_drawings", "run_batch", "BatchItem", "output_folders"]
 
@@ -108,32 +111,28 @@ def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], l
     return folders, notes
 
 
-def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str | None, recover: bool,
+def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str, recover: bool,
          units: str | None = None) -> BatchItem:
-    from .cli import _exit_code_for
     from .collector import collect_between
-    from .commands_drawing import run_size
 
     path = Path(drawing)
-    args = argparse.Namespace(drawing=drawing, circuits=circuits or _schedule_beside(path), config=config,
-                              out=out_dir, json=True, debug=False, recover=recover, more_drawings=[], jobs=1,
-                              units=units)
-    buffer = io.StringIO()
+    circuits = circuits or _schedule_beside(path)
     try:
-        with redirect_stdout(buffer):
-            code = run_size(args)
+        settings = settings_from(config, units)
+        run = size_drawing(path, circuits, config, settings, Path(out_dir), recover=recover, quiet=True)
     except CableRouteError as exc:
-        return BatchItem(drawing, _exit_code_for(exc), f"{drawing}: error: {exc}")
+        return BatchItem(drawing, exit_code_for(exc), f"{drawing}: error: {exc}")
     except Exception as exc:  # a bug in one drawing must not stop the batch
-        from .cli import internal_error_line
-
-        return BatchItem(drawing, 2, internal_error_line(exc, args))
+        where = SimpleNamespace(drawing=drawing, circuits=circuits, config=config)
+        return BatchItem(drawing, EXIT_INPUT, internal_error_line(exc, where))
     finally:
         collect_between()  # this drawing's cyclic garbage, before the next one is read
-    document = json.loads(buffer.getvalue())
-    statuses = [c["status"] for c in document["circuits"]]
+    _issues(run.measurement)
+    _report_errors(run.job.outcomes)
+    document = {**outcomes_document(run.job.outcomes, kind="size"), **run.extras}
+    statuses = [o.status for o in run.job.outcomes]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))
-    return BatchItem(drawing, code, f"{drawing}: {len(statuses)} circuits ({counts})", document)
+    return BatchItem(drawing, run.exit_code, f"{drawing}: {len(statuses)} circuits ({counts})", document)
 
 
 def run_batch(args: argparse.Namespace) -> int:

@@ -63,7 +63,7 @@ _LOAD = re.compile(r"^\s*([-+]?(\d+([.,]\d*)?|[.,]\d+)([eE][-+]?\d+)?)\s*([A-Za-
 
 def load_text(text: str) -> str:
     """An argparse type: a load written as number and unit (``55 kW``, ``75 hp``, ``40 kVA``, ``32 A``)."""
-    from cablewright.extract.errors import CableRouteError
+    from cablewright.core.errors import CableRouteError
     from cablewright.sizing.load import parse_load
 
     if not _LOAD.match(str(text)):

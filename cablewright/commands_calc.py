@@ -8,7 +8,7 @@ import sys
 
 from cablewright.annotate.jsonout import document
 from cablewright.annotate.model import CircuitOutcome
-from cablewright.extract.errors import CableRouteError, CircuitInputError
+from cablewright.core.errors import CableRouteError, CircuitInputError
 from cablewright.sizing.capacity_tables import canonical_method
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch

@@ -3,19 +3,23 @@
 from __future__ import annotations
 
 import argparse
-import sys
 import textwrap
-from collections.abc import Callable
-from contextlib import contextmanager
 from pathlib import Path
 
 from cablewright.annotate.jsonout import dumps
 from cablewright.annotate.model import CircuitOutcome
 
-from .config import load_settings
+from .config import Settings
 from .console import CAUTION, TABLE_WIDTH, format_table
-from .outputs import drawing_entry, job_document, job_takeoff, output_session, write_outputs
-from .pipeline import measure_drawing, route_outcomes, size_measurement
+from .outputs import drawing_entry
+from .pipeline import measure_drawing, route_outcomes
+from .size_run import (
+    _circuits_from_attributes,
+    _issues,
+    _report_errors,
+    settings_from,
+    size_drawing,
+)
 
 __all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
 
@@ -32,48 +36,9 @@ SAMPLE_DRAWING = "pumping_station.dxf"
 SAMPLE_CIRCUITS = "pumping_station_circuits.csv"
 
 
-@contextmanager
-def _progress(total: int, quiet: bool, label: str):
-    """A tqdm bar on a terminal (stderr), nothing when quiet or not a terminal."""
-    if quiet or total < 1 or not sys.stderr.isatty():
-        yield None
-        return
-    from tqdm import tqdm
-
-    with tqdm(total=total, desc=label, unit="circuit", file=sys.stderr, leave=False) as bar:
-        yield bar.update
-
-
-@contextmanager
-def _stages(quiet: bool):
-    """A stage bar on a terminal (stderr): which step of the job is running."""
-    if quiet or not sys.stderr.isatty():
-        yield lambda label: None
-        return
-    from tqdm import tqdm
-
-    with tqdm(total=3, file=sys.stderr, leave=False, bar_format="{desc} [{n_fmt}/{total_fmt}, {elapsed}]") as bar:
-        started = False
-
-        def stage(label: str) -> None:
-            nonlocal started
-            if started:
-                bar.update(1)
-            started = True
-            bar.set_description_str(label)
-
-        yield stage
-
-
-def settings_for(args: argparse.Namespace):
+def settings_for(args: argparse.Namespace) -> Settings:
     """The config file's settings, with ``--units`` (when given) as ``[drawing] units``."""
-    from dataclasses import replace
-
-    settings = load_settings(args.config)
-    units = getattr(args, "units", None)
-    if units:
-        settings = replace(settings, drawing=replace(settings.drawing, units=units))
-    return settings
+    return settings_from(args.config, getattr(args, "units", None))
 
 
 def _extra(measurement) -> dict | None:
@@ -83,26 +48,6 @@ def _extra(measurement) -> dict | None:
 
 def _exit_code(outcomes: list[CircuitOutcome], passing: tuple[str, ...]) -> int:
     return 0 if all(o.status in passing for o in outcomes) else 1
-
-
-def _report_errors(outcomes: list[CircuitOutcome]) -> None:
-    for outcome in outcomes:
-        if outcome.status == "error":
-            for message in outcome.messages:
-                print(f"cablewright: circuit {outcome.circuit_id}: {message}", file=sys.stderr)
-
-
-def _issues(measurement) -> None:
-    for issue in measurement.issues:
-        where = f" [{issue.source_id}]" if issue.source_id else ""
-        print(f"cablewright: warning: {issue.message}{where}", file=sys.stderr)
-
-
-def _circuits_from_attributes(args: argparse.Namespace, measurement) -> None:
-    """Say on stderr when the circuits come from the drawing, not from a schedule."""
-    if args.circuits is None:
-        print(f"cablewright: no --circuits schedule given: {len(measurement.rows)} circuits read "
-              f"from the equipment attributes of {Path(args.drawing).name}", file=sys.stderr)
 
 
 def _failed(check) -> bool:
@@ -167,41 +112,19 @@ def default_out(drawing: Path) -> Path:
     return _default_out(drawing)
 
 
-def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = None) -> int:
+def run_size(args: argparse.Namespace) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
     settings = settings_for(args)  # validated before any drawing is read, batch too
     if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
         from .batch import run_batch
 
         return run_batch(args)
-    drawing = Path(args.drawing)
     previous = getattr(args, "previous", None)
-    previous_doc = None
-    if previous:
-        from cablewright.annotate.changes import load_document
-
-        previous_doc = load_document(previous)  # a bad earlier folder stops the run before any work
-    out_dir = Path(args.out) if args.out else _default_out(drawing)
-    inputs = [("drawing", drawing), ("schedule", args.circuits), ("config", args.config)]
-    # the output folder is checked against the inputs and locked before anything is read
-    with output_session(out_dir, inputs), _stages(args.json) as stage:
-        stage(f"reading and routing {drawing.name}")
-        measurement = measure_drawing(drawing, args.circuits, settings, getattr(args, "recover", False),
-                                      keep_document=SIZE_KEEPS_DOCUMENT)
-        _circuits_from_attributes(args, measurement)
-        stage("sizing")
-        with _progress(len(measurement.rows), args.json, "sizing") as tick:
-            job = size_measurement(measurement, settings, tick)
-        stage("writing the annotated drawing, schedule and report")
-        takeoff, extras = job_takeoff(job, drawing, settings)
-        changes = None
-        if previous_doc is not None:
-            from cablewright.annotate.changes import compare_documents
-
-            changes = compare_documents(previous_doc, job_document(job, extras))
-        written = write_outputs(job, drawing, out_dir, settings, quiet=args.json, takeoff=takeoff,
-                                extras=extras, changes=changes, previous_name=str(previous or ""))
-    _issues(measurement)
+    out_dir = Path(args.out) if args.out else _default_out(Path(args.drawing))
+    run = size_drawing(args.drawing, args.circuits, args.config, settings, out_dir,
+                       recover=getattr(args, "recover", False), quiet=args.json, previous=previous)
+    job, extras, written, changes = run.job, run.extras, run.written, run.changes
+    _issues(run.measurement)
     _report_errors(job.outcomes)
     if args.json:
         print(dumps(job.outcomes, kind="size", extra=extras))
@@ -231,7 +154,7 @@ def run_size(args: argparse.Namespace, announce: Callable[[str], None] | None = 
         for path in written:
             print(f"  {path}")
         print("\n".join(textwrap.wrap(CAUTION, TABLE_WIDTH)))
-    return _exit_code(job.outcomes, ("ok", "warning"))
+    return run.exit_code
 
 
 def run_demo(args: argparse.Namespace) -> int:
@@ -239,7 +162,7 @@ def run_demo(args: argparse.Namespace) -> int:
     drawing = SAMPLE_DIR / SAMPLE_DRAWING
     circuits = SAMPLE_DIR / SAMPLE_CIRCUITS
     if not drawing.exists():
-        from cablewright.extract.errors import DrawingReadError
+        from cablewright.core.errors import DrawingReadError
 
         raise DrawingReadError(
             f"{drawing}: the sample drawing is missing; run "

@@ -14,7 +14,7 @@ import sys
 from pathlib import Path
 
 from cablewright.annotate.atomic import write_text_atomic
-from cablewright.extract.errors import ConfigError
+from cablewright.core.errors import ConfigError
 from cablewright.extract.survey import Survey, starting_config, survey_drawing
 
 from .commands_drawing import settings_for

@@ -44,7 +44,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from cablewright.extract.errors import ConfigError
+from cablewright.core.errors import ConfigError
 from cablewright.extract.model import CONTAINMENTS, UNIT_TO_M, DrawingConfig
 from cablewright.sizing.config import SizingConfig
 

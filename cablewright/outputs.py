@@ -38,7 +38,7 @@ from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from pathlib import Path
 
-from cablewright.extract.errors import DrawingReadError, OutputError
+from cablewright.core.errors import DrawingReadError, OutputError
 from cablewright.extract.model import UNIT_TO_M
 
 from .config import Settings

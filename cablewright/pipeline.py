@@ -14,14 +14,13 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from cablewright.annotate.model import CircuitOutcome
+from cablewright.core.errors import CableRouteError
 from cablewright.extract import grouping as extract_grouping
-from cablewright.extract.errors import CableRouteError
 from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
 from cablewright.sizing.chain import (
     ChainCable,
-    SupplyCycleError,
+    chain_drops,
     cheapest_drop_fix,
-    cumulative_drop_percent,
     upstream_chain,
 )
 from cablewright.sizing.fields import spec_from_fields
@@ -272,13 +271,19 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
     own = {cid: r.voltage_drop.percent for cid, r in results.items() if r.voltage_drop is not None}
     source_of = {cid: rows[cid].from_tag for cid in own}
     feeder_of = {rows[cid].to_tag: cid for cid in own}
-    try:
-        cumulative = cumulative_drop_percent(own, source_of, feeder_of)
-    except SupplyCycleError as exc:
-        log.warning("%s", exc)
-        return {cid: (replace(r, status="error", messages=r.messages + (str(exc),))
-                      if cid in str(exc) else r) for cid, r in results.items()}
+    drops = chain_drops(own, source_of, feeder_of)
     out = dict(results)
+    for loop in drops.loops:
+        log.warning("%s", loop)
+        for cid in loop.circuit_ids:
+            result = results[cid]
+            out[cid] = replace(result, status="error", messages=result.messages + (str(loop),))
+    for cid, loop in drops.fed_through_loop.items():
+        result = results[cid]
+        out[cid] = replace(result, messages=result.messages + (
+            f"voltage drop from the origin not computed: the supply passes through the loop "
+            f"{' -> '.join(loop.circuit_ids)}; fix the 'from' and 'to' tags of the loop",))
+    cumulative = drops.cumulative_pct
     for cid, total in cumulative.items():
         result = results[cid]
         vd = replace(result.voltage_drop, cumulative_percent=total)

@@ -19,7 +19,7 @@ import time
 from collections.abc import Callable, Sequence
 from pathlib import Path
 
-from cablewright.extract.errors import CableRouteError
+from cablewright.core.errors import CableRouteError
 
 __all__ = ["snapshot", "wait_for_change", "run_watch"]
 

@@ -14,8 +14,9 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from cablewright.core.errors import DrawingReadError, Issue, ScheduleError
+
 from .dxf_reader import DxfContent, read_dxf
-from .errors import DrawingReadError, Issue, ScheduleError
 from .model import (
     UNIT_TO_M,
     CircuitRoute,

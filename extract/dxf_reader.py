@@ -16,10 +16,11 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, NamedTuple
 
+from cablewright.core.errors import DrawingReadError, Issue
+
 from .dxf_flatten import FLATTEN_TYPES, flatten_points
 from .dxf_tags import Symbol, TagMarks, TextMark, first_word, tag_symbols, text_anchor
 from .dxf_units import resolve_units, summarise
-from .errors import DrawingReadError, Issue
 from .model import UNIT_TO_M, DrawingConfig, Equipment, Point3, RoutePolyline
 from .units import INSUNITS, DrawingSummary
 

@@ -49,10 +49,11 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import NamedTuple
 
+from cablewright.core.errors import Issue
+
 from .dxf_flatten import FLATTEN_TYPES
 from .dxf_reader import DxfContent, _arc_points, _bulged_chain, read_dxf
 from .dxf_units import resolve_units, summarise
-from .errors import Issue
 from .model import UNIT_TO_M, DrawingConfig, Equipment, Point3, RoutePolyline
 
 __all__ = ["StreamContent", "StreamDeclined", "TextRecord", "InsertRecord", "stream_dxf",

@@ -16,7 +16,8 @@ import re
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 
-from .errors import Issue
+from cablewright.core.errors import Issue
+
 from .model import Equipment, Point3
 
 __all__ = ["TextMark", "Symbol", "TagMarks", "first_word", "looks_like_tag", "tag_symbols", "text_anchor"]

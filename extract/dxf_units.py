@@ -11,7 +11,8 @@ from __future__ import annotations
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from .errors import DrawingReadError, Issue
+from cablewright.core.errors import DrawingReadError, Issue
+
 from .model import DrawingConfig
 from .units import (
     COMMON_UNITS,

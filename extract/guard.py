@@ -14,8 +14,8 @@ import math
 from collections.abc import Iterable, Sequence
 
 import numpy as np
+from cablewright.core.errors import ConfigError, Issue
 
-from .errors import ConfigError, Issue
 from .model import Equipment, RoutePolyline
 
 __all__ = [
@@ -226,7 +226,7 @@ def check_snap_tolerance(
     >>> check_snap_tolerance(5.0, [line])
     Traceback (most recent call last):
     ...
-    cablewright.extract.errors.ConfigError: snap_tolerance_m = 5 m is 5 % of the drawing's extent (100 m), more than 1 %; it would join routes that do not meet - use a tolerance near the drawing's precision (the default is 0.05 m)
+    cablewright.core.errors.ConfigError: snap_tolerance_m = 5 m is 5 % of the drawing's extent (100 m), more than 1 %; it would join routes that do not meet - use a tolerance near the drawing's precision (the default is 0.05 m)
     """
     tol = float(snap_tolerance_m)
     if not (math.isfinite(tol) and tol > 0.0):

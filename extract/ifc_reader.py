@@ -38,8 +38,8 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
+from cablewright.core.errors import CableRouteError, DrawingReadError, Issue
 
-from .errors import CableRouteError, DrawingReadError, Issue
 from .model import (
     CONTAINMENTS,
     DEFAULT_ROUTE_LAYERS,

@@ -15,8 +15,8 @@ from .units import UNIT_TO_M as _UNIT_TO_M
 
 if TYPE_CHECKING:  # pragma: no cover
     import networkx as nx
+    from cablewright.core.errors import Issue
 
-    from .errors import Issue
     from .units import DrawingSummary
 
 __all__ = [
@@ -335,7 +335,7 @@ class Measurement:
     failures : dict
         Circuit id -> one-line message why it could not be routed.
     issues : list
-        Drawing problems found (:class:`~cablewright.extract.errors.Issue`).
+        Drawing problems found (:class:`~cablewright.core.errors.Issue`).
     graph : networkx.Graph
         Route network: nodes ``"N<i>"`` and ``"EQ:<tag>"``; edges carry
         ``length_m``, ``kind``, ``containment``, ``method``, ``segment_id``, ``source_id``.

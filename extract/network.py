@@ -29,9 +29,9 @@ from dataclasses import dataclass, field
 import networkx as nx
 import numpy as np
 import shapely
+from cablewright.core.errors import ConfigError, Issue
 from shapely import STRtree
 
-from .errors import ConfigError, Issue
 from .guard import (
     check_equipment,
     check_polylines,

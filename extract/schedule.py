@@ -36,7 +36,8 @@ import zipfile
 from collections.abc import Iterable, Sequence
 from pathlib import Path
 
-from .errors import ScheduleError
+from cablewright.core.errors import ScheduleError
+
 from .model import Equipment, ScheduleRow
 
 __all__ = [

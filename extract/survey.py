@@ -23,10 +23,11 @@ from collections import Counter
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
+from cablewright.core.errors import DrawingReadError
+
 from .dxf_reader import DxfContent, _load, _walk_layout, _Walker
 from .dxf_tags import first_word, looks_like_tag, text_anchor
 from .dxf_units import header_code
-from .errors import DrawingReadError
 from .model import DEFAULT_ROUTE_LAYERS, DrawingConfig
 from .units import INSUNITS, UNIT_TO_M, ScaleCheck, check_scale, extents, rank_units, unit_name
 

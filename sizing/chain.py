@@ -16,13 +16,15 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from cablewright.extract.errors import CableRouteError
+from cablewright.core.errors import CableRouteError
 
 from .conductor_resistance import STANDARD_CSA_MM2, resistance_ohm_per_km
 from .voltage_drop import MAX_CONDUCTOR_TEMPERATURE_C, REACTANCE_MOHM_PER_M
 
 __all__ = [
     "SupplyCycleError",
+    "ChainDrops",
+    "chain_drops",
     "cumulative_drop_percent",
     "exceeding_limit",
     "ChainCable",
@@ -34,7 +36,122 @@ __all__ = [
 
 
 class SupplyCycleError(CableRouteError, ValueError):
-    """The circuits feed each other in a loop; the message names them."""
+    """The circuits feed each other in a loop.
+
+    Attributes
+    ----------
+    circuit_ids : tuple of str
+        The circuits of the loop, in supply order, each once.
+    """
+
+    def __init__(self, circuit_ids: Sequence[str]) -> None:
+        self.circuit_ids: tuple[str, ...] = tuple(circuit_ids)
+        loop = list(self.circuit_ids) + list(self.circuit_ids[:1])
+        super().__init__(
+            "circuits feed each other in a loop: " + " -> ".join(loop)
+            + "; check the 'from' and 'to' tags of these circuits in the schedule")
+
+
+@dataclass(frozen=True)
+class ChainDrops:
+    """The drops from the origin, with the circuits whose chain has no origin.
+
+    Attributes
+    ----------
+    cumulative_pct : dict circuit id -> float
+        Drop from the origin [%] of every circuit neither in a loop nor fed
+        through one, in input order.
+    loops : tuple of SupplyCycleError
+        One error per supply loop found, carrying the loop's circuit ids.
+    fed_through_loop : dict circuit id -> SupplyCycleError
+        Circuits outside a loop whose supply passes through it: the loop.
+    """
+
+    cumulative_pct: dict[str, float]
+    loops: tuple[SupplyCycleError, ...]
+    fed_through_loop: dict[str, SupplyCycleError]
+
+    def loop_of(self, circuit_id: str) -> SupplyCycleError | None:
+        """The loop ``circuit_id`` belongs to, or None."""
+        for loop in self.loops:
+            if circuit_id in loop.circuit_ids:
+                return loop
+        return None
+
+
+def chain_drops(
+    own_drop_pct: Mapping[str, float],
+    source_of: Mapping[str, str],
+    feeder_of: Mapping[str, str],
+) -> ChainDrops:
+    """Voltage drop from the origin of the installation to each circuit's load.
+
+    A circuit's drop from the origin is its own drop plus its feeder's drop
+    from the origin, up the chain to a source that no circuit feeds.  Circuits
+    that feed each other in a loop have no origin; they, and every circuit fed
+    through them, are reported apart and the others computed as usual.
+
+    Parameters
+    ----------
+    own_drop_pct : mapping circuit id -> float
+        Each circuit's own drop [%].
+    source_of : mapping circuit id -> str
+        The source tag of each circuit (schedule column ``from``).
+    feeder_of : mapping tag -> circuit id
+        For each sub-board tag, the circuit that feeds it (its ``to``).  A tag
+        with no feeder is an origin.
+
+    Returns
+    -------
+    ChainDrops
+
+    Examples
+    --------
+    P-10 and P-11 feed each other; P-12 is fed from P-11's board; P-1 has its
+    own origin:
+
+    >>> own = {"P-1": 1.0, "P-10": 2.0, "P-11": 1.5, "P-12": 0.5}
+    >>> src = {"P-1": "MSB", "P-10": "DB11", "P-11": "DB10", "P-12": "DB11"}
+    >>> d = chain_drops(own, src, {"DB10": "P-10", "DB11": "P-11"})
+    >>> d.cumulative_pct, [e.circuit_ids for e in d.loops], sorted(d.fed_through_loop)
+    ({'P-1': 1.0}, [('P-10', 'P-11')], ['P-12'])
+
+    References
+    ----------
+    .. [1] IEC 60364-5-52:2009, Annex G, G.52.1 (drop from the origin).
+    """
+    result: dict[str, float] = {}
+    blocked: dict[str, SupplyCycleError] = {}
+    loops: list[SupplyCycleError] = []
+    fed_through: dict[str, SupplyCycleError] = {}
+    for start in own_drop_pct:
+        path: list[str] = []
+        circuit: str | None = start
+        while circuit is not None and circuit not in result and circuit not in blocked:
+            if circuit in path:
+                break
+            path.append(circuit)
+            circuit = feeder_of.get(source_of.get(circuit, ""))
+        if circuit is not None and circuit in path:  # a loop closes on this walk
+            at = path.index(circuit)
+            loop = SupplyCycleError(path[at:])
+            loops.append(loop)
+            for c in path[at:]:
+                blocked[c] = loop
+            path = path[:at]
+        if circuit is not None and circuit in blocked:
+            for c in path:
+                blocked[c] = fed_through[c] = blocked[circuit]
+            continue
+        upstream = 0.0 if circuit is None else result[circuit]
+        for c in reversed(path):
+            result[c] = float(own_drop_pct.get(c, 0.0)) + upstream
+            upstream = result[c]
+    return ChainDrops(
+        {cid: result[cid] for cid in own_drop_pct if cid in result},
+        tuple(loops),
+        {cid: fed_through[cid] for cid in own_drop_pct if cid in fed_through},
+    )
 
 
 def cumulative_drop_percent(
@@ -43,6 +160,8 @@ def cumulative_drop_percent(
     feeder_of: Mapping[str, str],
 ) -> dict[str, float]:
     """Voltage drop from the origin of the installation to each circuit's load.
+
+    The strict form of :func:`chain_drops`: a supply loop anywhere raises.
 
     Parameters
     ----------
@@ -62,7 +181,7 @@ def cumulative_drop_percent(
     Raises
     ------
     SupplyCycleError
-        When feeders form a loop; names the circuits of the loop.
+        When feeders form a loop; carries the circuit ids of the first loop.
 
     Examples
     --------
@@ -75,26 +194,10 @@ def cumulative_drop_percent(
     ----------
     .. [1] IEC 60364-5-52:2009, Annex G, G.52.1 (drop from the origin).
     """
-    result: dict[str, float] = {}
-
-    def total(circuit: str, path: list[str]) -> float:
-        if circuit in result:
-            return result[circuit]
-        if circuit in path:
-            loop = path[path.index(circuit):] + [circuit]
-            raise SupplyCycleError(
-                "circuits feed each other in a loop: " + " -> ".join(loop)
-                + "; check the 'from' and 'to' tags of these circuits in the schedule")
-        feeder = feeder_of.get(source_of.get(circuit, ""))
-        upstream = 0.0
-        if feeder is not None:
-            upstream = total(feeder, path + [circuit])
-        result[circuit] = float(own_drop_pct.get(circuit, 0.0)) + upstream
-        return result[circuit]
-
-    for cid in own_drop_pct:
-        total(cid, [])
-    return {cid: result[cid] for cid in own_drop_pct}
+    drops = chain_drops(own_drop_pct, source_of, feeder_of)
+    if drops.loops:
+        raise drops.loops[0]
+    return drops.cumulative_pct
 
 
 def exceeding_limit(

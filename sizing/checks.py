@@ -33,7 +33,7 @@ import math
 from functools import lru_cache
 from typing import TYPE_CHECKING, Any
 
-from cablewright.extract.errors import CableRouteError, CircuitInputError
+from cablewright.core.errors import CableRouteError, CircuitInputError
 
 from .conductor_resistance import resistance_ohm_per_km
 from .disconnection import (
@@ -582,16 +582,6 @@ class PreparedChecks:
         self.disconnection = PreparedDisconnection(spec, config, device, self.pe)
         self.motor_trip = PreparedMotorTrip(spec, config, design_current_a, device)
         self.disconnection_upsize = bool(_cfg(config, "disconnection_upsize", True))
-
-    def upsize_passes(self, name: str, csa_mm2: float, parallel: int) -> bool:
-        """The outcome of the upsize check ``name``: short_circuit, motor_start, disconnection."""
-        if name == "short_circuit":
-            return self.short_circuit.passes(csa_mm2)
-        if name == "motor_start":
-            return self.motor_start.passes(csa_mm2, parallel)
-        if name == "disconnection":
-            return not self.disconnection_upsize or self.disconnection.passes(csa_mm2, parallel)
-        raise KeyError(name)
 
     def report(self, csa_mm2: float, parallel: int) -> list[Check]:
         """The applicable checks of the chosen cable after voltage drop: short circuit,

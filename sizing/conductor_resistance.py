@@ -24,7 +24,7 @@ import difflib
 import logging
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
 __all__ = [
     "ResistanceTable",

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from cablewright.extract.errors import UnknownKeyError
+from cablewright.core.errors import UnknownKeyError
 
 from .device import DEVICE_MARGIN, STANDARD_RATINGS_A
 from .fill import DEFAULT_CABLE_OD_MM

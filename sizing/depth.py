@@ -44,7 +44,7 @@ from __future__ import annotations
 
 import math
 
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
 from .model import Factor
 

@@ -21,7 +21,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from cablewright.extract.errors import NoCableLargeEnoughError, UnknownKeyError
+from cablewright.core.errors import NoCableLargeEnoughError, UnknownKeyError
 
 __all__ = [
     "STANDARD_RATINGS_A",

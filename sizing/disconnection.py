@@ -23,7 +23,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
 from .conductor_resistance import resistance_ohm_per_km
 from .short_circuit import FAULT_TEMPERATURE_C

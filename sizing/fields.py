@@ -5,7 +5,7 @@ from __future__ import annotations
 import difflib
 from collections.abc import Mapping
 
-from cablewright.extract.errors import CircuitInputError, UnknownKeyError
+from cablewright.core.errors import CircuitInputError, UnknownKeyError
 
 from .config import SizingConfig
 from .load import parse_load

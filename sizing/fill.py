@@ -23,7 +23,7 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 
 __all__ = [
     "DEFAULT_CABLE_OD_MM",

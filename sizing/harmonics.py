@@ -26,7 +26,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 
 __all__ = [
     "E_52_1",

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 import re
 
-from cablewright.extract.errors import CircuitInputError, UnknownKeyError
+from cablewright.core.errors import CircuitInputError, UnknownKeyError
 
 from .model import Load
 

@@ -19,7 +19,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from typing import Any
 
-from cablewright.extract.errors import UnknownKeyError
+from cablewright.core.errors import UnknownKeyError
 
 from .short_circuit import SOURCE_R_OVER_X, source_impedance_ohm
 from .voltage_drop import voltage_drop_v

@@ -15,7 +15,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
 from .conductor_resistance import next_standard_csa
 from .short_circuit import adiabatic_min_csa_mm2, k_value

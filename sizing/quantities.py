@@ -21,7 +21,7 @@ from collections import defaultdict
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 
 __all__ = [
     "CableType",

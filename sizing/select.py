@@ -19,7 +19,7 @@ import math
 from dataclasses import dataclass
 from functools import lru_cache
 
-from cablewright.extract.errors import CableRouteError, CircuitInputError, UnknownKeyError
+from cablewright.core.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
 from .capacity_tables import canonical_method, sizes_for, tabulated_capacity
 from .checks import ZE_ASSUMED_MESSAGE, PreparedChecks, _resistance_ohm_per_km, star_delta_cables

@@ -7,7 +7,7 @@ NFPA 70:2023 (:func:`.nec.select.size_circuit_nec`); both return a
 
 from __future__ import annotations
 
-from cablewright.extract.errors import UnknownKeyError
+from cablewright.core.errors import UnknownKeyError
 
 from .config import SizingConfig
 from .model import CircuitSpec, SizingResult

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 
-from cablewright.extract.errors import UnknownKeyError
+from cablewright.core.errors import UnknownKeyError
 
 from .conductor_resistance import resistance_ohm_per_km
 

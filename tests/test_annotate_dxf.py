@@ -17,7 +17,7 @@ import pytest
 from cablewright.annotate.drawing import AnnotateConfig, AnnotationInput, write_annotated_dxf
 from cablewright.annotate.drawing.text_height import text_height_m_for_extents
 from cablewright.annotate.model import CircuitOutcome
-from cablewright.extract.errors import DrawingReadError
+from cablewright.core.errors import DrawingReadError
 from cablewright.extract.model import CircuitRoute, RouteSegment
 from cablewright.sizing.model import CableSelection, SizingResult
 from ezdxf import disassemble

@@ -8,7 +8,7 @@ names its table, column and row.
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing import capacity_tables as ct
 
 # (table, method, conductor, insulation, loaded, csa_mm2, printed amps)

@@ -9,7 +9,7 @@ the IEC 60228:2004 Annex B formula k_t = 254.5 / (234.5 + t) (copper) and
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing import conductor_resistance as cr
 
 

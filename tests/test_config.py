@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import ConfigError
+from cablewright.core.errors import ConfigError
 
 from cablewright.config import load_settings
 from cablewright.pipeline import drawing_config, ifc_config

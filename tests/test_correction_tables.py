@@ -8,7 +8,7 @@ names its table, row and column.
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing import correction_tables as ctab
 
 

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing.conductor_resistance import dc_resistance_20c_ohm_per_km
 from cablewright.sizing.disconnection import (
     GG_GATES,

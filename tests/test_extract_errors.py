@@ -7,6 +7,7 @@ from __future__ import annotations
 import os
 
 import pytest
+from cablewright.core.errors import DrawingReadError
 from cablewright.extract import (
     DrawingConfig,
     ScheduleRow,
@@ -15,7 +16,6 @@ from cablewright.extract import (
     read_dxf,
     route_circuits,
 )
-from cablewright.extract.errors import DrawingReadError
 from conftest import SAMPLES
 
 

@@ -13,6 +13,7 @@ import random
 
 import networkx as nx
 import pytest
+from cablewright.core.errors import ScheduleError
 from cablewright.extract import (
     CircuitRoute,
     DrawingConfig,
@@ -27,7 +28,6 @@ from cablewright.extract import (
     route_circuits,
     rows_from_equipment,
 )
-from cablewright.extract.errors import ScheduleError
 from conftest import SAMPLES
 
 

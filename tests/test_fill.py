@@ -9,7 +9,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 from cablewright.sizing.fill import (
     DEFAULT_CABLE_OD_MM,
     OD_SOURCE,

@@ -14,8 +14,8 @@ from pathlib import Path
 
 import ezdxf
 import pytest
+from cablewright.core.errors import DrawingReadError, ScheduleError
 from cablewright.extract import measure, read_dxf
-from cablewright.extract.errors import DrawingReadError, ScheduleError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS, DrawingConfig
 from cablewright.extract.schedule import rows_from_equipment
 from cablewright.extract.survey import suggest_containment
@@ -427,7 +427,7 @@ def test_positions_in_the_schedule_of_an_ifc_model_are_reported(tmp_path):
 
 def test_new_drawing_keys_default_as_the_contract_says(tmp_path):
     """contract.md, Extensions: tags_from_text false, tag_text_max_m 1.0; the default file agrees."""
-    from cablewright.extract.errors import ConfigError
+    from cablewright.core.errors import ConfigError
 
     from cablewright.config import DEFAULT_CONFIG, load_settings
     from cablewright.pipeline import drawing_config

@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 from cablewright.extract.model import Measurement, RouteSegment
 from cablewright.sizing import correction_tables as ctab
 from cablewright.sizing.capacity_tables import canonical_method, tabulated_capacity
@@ -110,7 +110,7 @@ def test_route_layers_keep_the_method_case_and_tiers_from_the_config(tmp_path):
 
 
 def test_bad_tiers_name_the_file(tmp_path):
-    from cablewright.extract.errors import ConfigError
+    from cablewright.core.errors import ConfigError
 
     with pytest.raises(ConfigError, match="c.toml.*route_tiers"):
         drawing_config(_settings(tmp_path, '[drawing.route_tiers]\n"ROUTE-TRAY" = 0\n'))

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 from cablewright.sizing.capacity_tables import sizes_for, tabulated_capacity
 from cablewright.sizing.config import SizingConfig
 from cablewright.sizing.fields import spec_from_fields

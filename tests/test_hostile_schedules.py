@@ -90,7 +90,7 @@ def test_extra_columns_listed_once_as_ignored(tmp_path, caplog):
     ("vd_limit", "vd_limit_pct"), ("phase", "phases"), ("insulaton", "insulation"),
 ])
 def test_misspelt_header_names_the_intended_column(tmp_path, header, intended):
-    from cablewright.extract.errors import ScheduleError
+    from cablewright.core.errors import ScheduleError
 
     path = tmp_path / "s.csv"
     path.write_text(f"circuit,from,to,load,{header}\nF-MCC1,MSB-1,MCC-1,45 kW,1\n", encoding="utf-8")
@@ -113,7 +113,7 @@ def test_every_field_the_sizing_reads_is_a_known_column():
 def test_zip_bomb_refused_before_parsing(tmp_path, monkeypatch):
     # openpyxl must never be asked to open it: the size check comes first.
     import openpyxl
-    from cablewright.extract.errors import ScheduleError
+    from cablewright.core.errors import ScheduleError
 
     def forbidden(*args, **kwargs):  # pragma: no cover - reached only if the guard fails
         raise AssertionError("parsed")
@@ -126,7 +126,7 @@ def test_zip_bomb_refused_before_parsing(tmp_path, monkeypatch):
 
 def test_total_unpacked_size_bounded(tmp_path, monkeypatch):
     import cablewright.extract.schedule as schedule
-    from cablewright.extract.errors import ScheduleError
+    from cablewright.core.errors import ScheduleError
 
     path = tmp_path / "ok.xlsx"
     path.write_bytes(corpus._workbook_bytes([corpus.HEADER.split(","), corpus.ROW.split(",")]))

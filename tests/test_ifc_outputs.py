@@ -111,7 +111,7 @@ def test_ifc_copy_opens_validates_and_does_not_duplicate(measured, tmp_path):
 
 
 def test_ifc_copy_refuses_to_overwrite_its_input(tmp_path):
-    from cablewright.extract.errors import DrawingReadError
+    from cablewright.core.errors import DrawingReadError
 
     p = tmp_path / "in.ifc"
     p.write_bytes(IFC.read_bytes())

@@ -15,7 +15,7 @@ import pytest
 
 pytest.importorskip("ifcopenshell")
 
-from cablewright.extract.errors import DrawingReadError, ScheduleError  # noqa: E402
+from cablewright.core.errors import DrawingReadError, ScheduleError  # noqa: E402
 from cablewright.extract.ifc_reader import measure_ifc, read_ifc  # noqa: E402
 
 ROOT = Path(__file__).resolve().parents[1]

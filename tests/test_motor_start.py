@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from cablewright.extract.errors import UnknownKeyError
+from cablewright.core.errors import UnknownKeyError
 from cablewright.sizing.conductor_resistance import dc_resistance_20c_ohm_per_km
 from cablewright.sizing.config import SizingConfig
 from cablewright.sizing.model import CircuitSpec, Load, Stretch

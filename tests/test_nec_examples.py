@@ -171,7 +171,7 @@ def test_neutral_of_nonlinear_loads_is_counted():
 def test_an_unknown_standard_is_refused_at_the_door(tmp_path):
     # contract.md Extensions: [sizing] standard is "iec" or "nec"; anything else is a bad
     # config (exit code 2), named with its file, before any drawing is read.
-    from cablewright.extract.errors import ConfigError
+    from cablewright.core.errors import ConfigError
 
     from cablewright.cli import main
     from cablewright.config import load_settings

@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 from cablewright.sizing.nec import motors, tables
 
 # ---------------------------------------------------------------- Table 310.16

@@ -12,7 +12,7 @@ from pathlib import Path
 
 import ezdxf
 import pytest
-from cablewright.extract.errors import ConfigError
+from cablewright.core.errors import ConfigError
 from cablewright.extract.model import DrawingConfig, Equipment, RoutePolyline
 from cablewright.extract.network import MAX_CANDIDATES_PER_POINT, build_network
 from test_hostile_input import run_cli

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing.protective_conductor import (
     protective_conductor,
     table_54_2_min_csa_mm2,

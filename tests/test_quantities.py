@@ -8,7 +8,7 @@ import math
 import random
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 from cablewright.sizing.quantities import (
     CableRun,
     CableType,

@@ -99,7 +99,7 @@ def test_report_header_reads_project_and_revision_from_annotate(outputs, tmp_pat
     assert "Project: Plant 7 | revision B" in (out / "report.html").read_text(encoding="utf-8")
     bad = tmp_path / "bad.toml"
     bad.write_text('[annotate]\nrevison = "B"\n', encoding="utf-8")
-    from cablewright.extract.errors import ConfigError
+    from cablewright.core.errors import ConfigError
 
     with pytest.raises(ConfigError, match="revison"):
         write_outputs(job, DXF, tmp_path / "o2", load_settings(bad), quiet=True)

@@ -18,7 +18,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from cablewright.extract.errors import ConfigError
+from cablewright.core.errors import ConfigError
 from cablewright.sizing.config import SizingConfig
 
 from cablewright import config as config_module

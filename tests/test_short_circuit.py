@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 from cablewright.sizing.short_circuit import (
     VOLTAGE_FACTOR_LV,
     adiabatic_min_csa_mm2,

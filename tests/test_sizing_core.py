@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from cablewright.extract.errors import CircuitInputError, NoCableLargeEnoughError, UnknownKeyError
+from cablewright.core.errors import CircuitInputError, NoCableLargeEnoughError, UnknownKeyError
 from cablewright.sizing.device import (
     STANDARD_RATINGS_A,
     conventional_operating_current_a,

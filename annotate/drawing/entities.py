@@ -7,7 +7,7 @@ import math
 from collections.abc import Sequence
 from typing import Any, NamedTuple
 
-from cablewright.extract.errors import DrawingReadError
+from cablewright.core.errors import DrawingReadError
 from ezdxf.enums import TextEntityAlignment
 from ezdxf.fonts import fonts
 from ezdxf.tools.text import estimate_mtext_content_extents

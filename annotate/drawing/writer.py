@@ -10,7 +10,7 @@ from pathlib import Path
 from typing import Any
 
 import ezdxf
-from cablewright.extract.errors import DrawingReadError
+from cablewright.core.errors import DrawingReadError
 from ezdxf.fonts import fonts
 
 from ..atomic import atomic_path

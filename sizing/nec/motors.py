@@ -11,7 +11,7 @@ Table 430-148 (paigewire.com).  The values have not changed between those editio
 
 from __future__ import annotations
 
-from cablewright.extract.errors import OutOfRangeError
+from cablewright.core.errors import OutOfRangeError
 
 from .tables import EDITION, NEC, NecTable
 

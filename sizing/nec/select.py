@@ -47,7 +47,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-from cablewright.extract.errors import (
+from cablewright.core.errors import (
     CableRouteError,
     CircuitInputError,
     OutOfRangeError,

@@ -17,7 +17,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from cablewright.extract.errors import OutOfRangeError, UnknownKeyError
+from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
 __all__ = [
     "NEC",

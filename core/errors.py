@@ -8,6 +8,7 @@ handle or circuit and say what to do.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from enum import Enum
 
 __all__ = [
     "CableRouteError",
@@ -21,6 +22,7 @@ __all__ = [
     "CircuitInputError",
     "OutputError",
     "Issue",
+    "IssueCode",
 ]
 
 
@@ -67,20 +69,65 @@ class CircuitInputError(CableRouteError, ValueError):
     """One circuit's input is wrong (power factor, load, unparsable value)."""
 
 
+class IssueCode(str, Enum):
+    """The codes of recoverable problems found while reading input.
+
+    A ``str`` enum (as ezdxf's ``AuditError`` codes are named constants): a
+    code compares equal to its text and is written as its text in the outputs.
+    """
+
+    RECOVERED = "recovered"
+    RECOVER_LOST = "recover-lost"
+    RECOVER_FIXED = "recover-fixed"
+    UNSUPPORTED_ENTITY = "unsupported-entity"
+    UNREADABLE_ENTITY = "unreadable-entity"
+    BLOCK_RECURSION = "block-recursion"
+    MISSING_BLOCK = "missing-block"
+    TAGS_FROM_TEXT = "tags-from-text"
+    TAGS_FROM_TEXT_OFF = "tags-from-text-off"
+    SCHEDULE_POSITION = "schedule-position"
+    BAD_COORDINATE = "bad-coordinate"
+    BAD_OVERRIDE = "bad-override"
+    NO_PORTS = "no-ports"
+    GEOMETRY = "geometry"
+    NO_GEOMETRY = "no-geometry"
+    CARRIER_TYPE = "carrier-type"
+    UNITS_IMPLAUSIBLE = "units-implausible"
+    UNITS_OVERRIDE = "units-override"
+    ISOLATED = "isolated"
+    NEAR_MISS = "near-miss"
+    ZERO_LENGTH = "zero-length"
+    DUPLICATE_TAG = "duplicate-tag"
+    CROSSING = "crossing"
+    ESTIMATED_ROUTES = "estimated-routes"
+
+    def __str__(self) -> str:
+        return str(self.value)
+
+
 @dataclass(frozen=True)
 class Issue:
     """A recoverable problem found while reading input.
 
     Attributes
     ----------
-    code : str
-        Short machine-readable code, e.g. ``"near-miss"``.
+    code : IssueCode
+        Short machine-readable code, e.g. ``IssueCode.NEAR_MISS`` (``"near-miss"``);
+        the text of a code is accepted and turned into the enum member.
     message : str
         One line for the user, naming the entity and what to do.
     source_id : str
         DXF handle or IFC GlobalId of the entity concerned ("" if none).
     """
 
-    code: str
+    code: IssueCode
     message: str
     source_id: str = ""
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.code, IssueCode):
+            try:
+                object.__setattr__(self, "code", IssueCode(self.code))
+            except ValueError:
+                raise ValueError(f"unknown issue code {self.code!r}: add it to "
+                                 "cablewright.core.errors.IssueCode") from None
