@@ -177,3 +177,25 @@ def test_demo_no_text_crosses_linework_or_text(runs):
     assert result.crossing_linework == [] and result.overlapping_text == []
     assert result.labels_off_route == []
     assert max(d for _, d in result.leaders) <= 5.0 * result.text_height
+
+
+def test_schedule_on_the_drawing_gives_the_length_to_order(runs):
+    """Issue 12: the table gives design length x parallel (F-MCC1: two cables of 16.34 m
+    design length in schedule.json -> 32.7 m to order), PE, device kind and the title block."""
+    out1 = runs[1][1]
+    data = {c["id"]: c for c in json.loads((out1 / "schedule.json").read_text())["circuits"]}
+    doc = ezdxf.readfile(out1 / "pumping_station_annotated.dxf")
+    texts = [e.plain_text() if e.dxftype() == "MTEXT" else e.dxf.text
+             for e in doc.modelspace().query("TEXT MTEXT") if e.has_xdata(APPID)]
+    columns = [t.splitlines() for t in texts]
+    order = next(c for c in columns if c and c[0] == "order m")
+    ids = next(c for c in columns if c and c[0] == "circuit")
+    assert len(order) == len(ids)
+    for cid, value in zip(ids[1:], order[1:], strict=True):
+        row = data[cid]
+        if row.get("cable"):
+            expected = row["route"]["design_length_m"] * row["cable"]["parallel"]
+            assert float(value) == pytest.approx(expected, abs=0.06), cid
+    assert float(order[ids.index("F-MCC1")]) == pytest.approx(2 * 16.34, abs=0.06)
+    joined = "\n".join(texts)
+    assert "DRAWING REVISION" in joined and "cablewright" in joined and "CAUTION" in joined
