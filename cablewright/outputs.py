@@ -353,8 +353,13 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     _record_units(document, measurement)
     # our marks are added to the document in memory and it is saved under the
     # output name only; the preview is drawn from the same annotated document
+    from cablewright.annotate.revision import changed_circuit_ids, fill_marks
+
     marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
-                            measurement.equipment, units_per_m)
+                            measurement.equipment, units_per_m,
+                            changed=changed_circuit_ids(changes) if changes is not None else frozenset(),
+                            revision=config.revision,
+                            fill_marks=fill_marks(takeoff.segments) if takeoff is not None else ())
     summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document)
     write_schedule_csv(stage / names["csv"], job.outcomes)
     write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))

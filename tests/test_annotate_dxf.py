@@ -329,7 +329,8 @@ def test_device_note_says_when_ze_was_assumed(tmp_path):
     texts = [e.dxf.text if e.dxftype() == "TEXT" else e.text
              for e in ezdxf.readfile(out).modelspace().query("TEXT MTEXT")
              if e.dxf.layer == "CW-DEVICE-NOTE"]
-    assert any("P-102: 125 A, Ze assumed" in t for t in texts), texts
+    # the device note carries the device kind and rating (issue 12), and "Ze assumed"
+    assert any("P-102: " in t and "125 A, Ze assumed" in t for t in texts), texts
     assert not any("P-101" in t and "Ze assumed" in t for t in texts)
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable
-from typing import NamedTuple
+from typing import Any, NamedTuple
 
 import shapely
 from shapely.geometry import Polygon
@@ -154,10 +154,14 @@ class LabelIndex:
     blocked : iterable of Box, optional
         Fixed boxes (see :func:`oriented_box`, :func:`bounds_box`) a label
         must not overlap.
+    lines : shapely.STRtree, optional
+        The drawing's linework (walls, routes, symbols; :mod:`.linework`) and
+        our own leaders: a box that crosses one is never free.
     """
 
     def __init__(
-        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[Box] = ()
+        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[Box] = (),
+        lines: shapely.STRtree | None = None,
     ) -> None:
         if not cell > 0.0:
             raise ValueError(f"grid cell must be > 0, got {cell!r}")
@@ -169,6 +173,8 @@ class LabelIndex:
         geoms = [g for g in obstacles if g is not None and not g.is_empty]
         self._obstacles = shapely.STRtree(geoms) if geoms else None
         self._eps = 1e-9 * self.cell
+        self._lines = lines
+        self._own_lines: list[tuple[tuple[float, float, float, float], Any]] = []
         for box in blocked:
             self.block(box)
 
@@ -209,8 +215,34 @@ class LabelIndex:
             for j in range(math.floor(box.ymin / c), math.floor(box.ymax / c) + 1):
                 yield (i, j)
 
+    def add_line(self, line: object) -> None:
+        """Record one of our own lines (a leader) that later boxes must not cross."""
+        self._own_lines.append((line.bounds, line))  # type: ignore[attr-defined]
+
+    def crosses_line(self, box: Box) -> bool:
+        """True when ``box`` crosses the drawing's linework or one of our leaders."""
+        poly = None
+        if self._lines is not None:
+            poly = _polygon(box)
+            if len(self._lines.query(poly, predicate="intersects")) > 0:
+                return True
+        if self._own_lines:
+            for (x0, y0, x1, y1), line in self._own_lines:
+                if x1 < box.xmin or x0 > box.xmax or y1 < box.ymin or y0 > box.ymax:
+                    continue
+                poly = _polygon(box) if poly is None else poly
+                if poly.intersects(line):
+                    return True
+        return False
+
     def is_free(self, box: Box) -> bool:
-        """True when ``box`` (a :class:`Box`) shares area with no placed or fixed box."""
+        """True when ``box`` (a :class:`Box`) shares area with no placed or fixed box
+        and crosses no line of the drawing (see ``lines``)."""
+        if not self._box_free(box):
+            return False
+        return not self.crosses_line(box)
+
+    def _box_free(self, box: Box) -> bool:
         cells = list(self._cells(box))
         for grid, boxes in ((self._grid, self._boxes), (self._fixed_grid, self._fixed)):
             if not grid:

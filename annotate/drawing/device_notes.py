@@ -16,11 +16,13 @@ __all__ = ["equipment_notes", "place_equipment_notes"]
 
 
 def equipment_notes(
-    marks: AnnotationInput,
+    marks: AnnotationInput, fields: tuple[str, ...] = ("device",),
 ) -> tuple[dict[str, list[str]], dict[str, list[str]]]:
     """Note lines per equipment tag: (device ratings per load, errors per load or source).
 
     An error note goes to the load when it is on the drawing, else to the source.
+    A device note reads ``"P-101: breaker 125 A"``: the device kind (when ``fields``
+    holds ``device``) and rating.
     """
     notes_by_load: dict[str, list[str]] = defaultdict(list)
     errors_by_tag: dict[str, list[str]] = defaultdict(list)
@@ -28,7 +30,9 @@ def equipment_notes(
         s = o.sizing
         if o.status != "error" and s is not None and s.device_rating_a is not None:
             assumed = ", Ze assumed" if getattr(s, "ze_assumed", False) else ""  # no Ze nor fault level given
-            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {rating_text(s.device_rating_a)} A{assumed}")
+            kind = (s.device_kind or "").strip() if "device" in fields else ""
+            device = f"{kind} {rating_text(s.device_rating_a)} A".strip()
+            notes_by_load[o.to_tag].append(f"{o.circuit_id}: {device}{assumed}")
         elif o.status == "error":
             tag = o.to_tag if o.to_tag in marks.equipment else o.from_tag
             errors_by_tag[tag].append(f"{o.circuit_id}: NOT SIZED, see report")
@@ -55,7 +59,7 @@ def _notes_at_equipment(
         place = place_near_point(index, x, y, z, bw, bh)
         overlaps += place.overlaps
         w.block(lines, place, Mark(role, f"{kind}-note", tag))
-        w.leader(place, z, Mark(role, f"{kind}-leader", tag))
+        index.add_line(w.leader(place, z, Mark(role, f"{kind}-leader", tag)))
         placed += 1
     return placed, overlaps
 
@@ -64,7 +68,7 @@ def place_equipment_notes(
     w: EntityWriter, index: LabelIndex, marks: AnnotationInput
 ) -> tuple[int, int, int]:
     """Device notes, then error notes, as the config asks; (device, error, overlapping)."""
-    notes_by_load, errors_by_tag = equipment_notes(marks)
+    notes_by_load, errors_by_tag = equipment_notes(marks, tuple(w.config.device_fields))
     device_notes = error_notes = overlapping = 0
     if w.config.device_notes:
         device_notes, extra = _notes_at_equipment(w, index, marks, notes_by_load, "device")

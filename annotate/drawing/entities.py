@@ -11,10 +11,11 @@ from cablewright.core.errors import DrawingReadError
 from ezdxf.enums import TextEntityAlignment
 from ezdxf.fonts import fonts
 from ezdxf.tools.text import estimate_mtext_content_extents
-from shapely.geometry import Point
+from shapely.geometry import LineString, Point
 from shapely.ops import nearest_points
 
 from ..text_limits import dxf_string_limit, fit_text
+from .mark_style import choose_colors, ensure_leader_linetype, route_colors
 from .old_marks import is_ours
 from .placement import Placement
 from .style import (
@@ -75,7 +76,8 @@ def our_layer(doc: Any, wanted: str, color: int, appid: str) -> str:
 class EntityWriter:
     """Adds our entities to one modelspace; keeps the style, layers and xdata in one place."""
 
-    def __init__(self, doc: Any, config: AnnotateConfig, height: float) -> None:
+    def __init__(self, doc: Any, config: AnnotateConfig, height: float,
+                 route_layers: Sequence[str] = ()) -> None:
         self.doc = doc
         self.msp = doc.modelspace()
         self.config = config
@@ -89,12 +91,18 @@ class EntityWriter:
         self.font = fonts.make_font(font, height)
         colors = dict(DEFAULT_CONFIG.colors)
         colors.update(config.colors)
+        # no layer of ours in a colour a route layer uses (a leader would read as a run)
+        colors = choose_colors(colors, route_colors(doc, route_layers))
+        self.colors = colors
+        self.leader_linetype = ensure_leader_linetype(doc, height)
         self.layers = {
             "label": our_layer(doc, config.label_layer, colors["label"], config.appid),
             "group": our_layer(doc, config.group_layer, colors["group"], config.appid),
             "device": our_layer(doc, config.device_layer, colors["device"], config.appid),
             "schedule": our_layer(doc, config.schedule_layer, colors["schedule"], config.appid),
             "notes": our_layer(doc, config.notes_layer, colors["notes"], config.appid),
+            "revision": our_layer(doc, config.revision_layer, colors["revision"], config.appid),
+            "fill": our_layer(doc, config.fill_layer, colors["fill"], config.appid),
         }
 
     # measuring -------------------------------------------------------------
@@ -216,9 +224,12 @@ class EntityWriter:
         mark: Mark,
         *,
         color: int | None = None,
+        linetype: str | None = None,
     ) -> Any:
         """A LINE from ``a`` to ``b``."""
         attribs: dict[str, Any] = {"layer": self.layers[mark.role]}
+        if linetype is not None:
+            attribs["linetype"] = linetype
         if color is not None:
             attribs["color"] = color
         entity = self.msp.add_line(tuple(a), tuple(b), dxfattribs=attribs)
@@ -231,8 +242,9 @@ class EntityWriter:
         mark: Mark,
         *,
         color: int | None = None,
-    ) -> None:
-        """A straight leader from the anchor point to the nearest edge of the note."""
+    ) -> LineString:
+        """A straight leader from the anchor point to the nearest edge of the note,
+        in our leader linetype; returns it in plan (for the index of placed marks)."""
         anchor = Point(place.anchor)
         _, near = nearest_points(anchor, place.polygon.exterior)
         self.line(
@@ -240,6 +252,20 @@ class EntityWriter:
             (near.x, near.y, z),
             mark,
             color=color,
+            linetype=self.leader_linetype,
         )
+        return LineString([place.anchor, (near.x, near.y)])
+
+    def polygon(self, points: Sequence[Sequence[float]], z: float, mark: Mark) -> Any:
+        """A closed outline through ``points`` (x, y) at elevation ``z``."""
+        attribs: dict[str, Any] = {"layer": self.layers[mark.role]}
+        if self.r12:
+            entity = self.msp.add_polyline3d([(p[0], p[1], z) for p in points], close=True,
+                                             dxfattribs=attribs)
+        else:
+            attribs["elevation"] = z
+            entity = self.msp.add_lwpolyline([(p[0], p[1]) for p in points], close=True,
+                                             dxfattribs=attribs)
+        return self.tag(entity, mark.kind, mark.ref)
 
 

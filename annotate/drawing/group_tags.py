@@ -12,7 +12,7 @@ from ..model import CircuitOutcome
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
-from .placement import place_along
+from .label_spots import place_on_route
 from .stretches import rank_stretches, scaled, straight_stretches
 from .style import GROUP_LEADER_AFTER_H
 from .text import clean
@@ -221,10 +221,13 @@ def place_group_tags(
         if not stretches:
             continue
         bw, bh = w.block_box(lines)
-        place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h)
+        place = spot.place
         overlapping += place.overlaps
         w.block(lines, place, Mark("group", "group-tag", ",".join(run)))
         if place.polygon.distance(Point(place.anchor)) > GROUP_LEADER_AFTER_H * h:
-            w.leader(place, place.z, Mark("group", "group-leader", run[0]))
+            leader = w.leader(place, place.z, Mark("group", "group-leader", run[0]))
+            if spot.leader is None:
+                index.add_line(leader)
         group_tags += 1
     return group_tags, overlapping

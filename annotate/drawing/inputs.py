@@ -27,6 +27,15 @@ class AnnotationInput:
         Tag -> Equipment (``position_m`` in metres, world).
     units_per_m : float
         Drawing units per metre (1000 for a drawing in mm) [1/m].
+    changed : frozenset of str
+        Circuits new or changed since the run compared with (``size --previous``,
+        :func:`cablewright.annotate.revision.changed_circuit_ids`): their labels
+        get a revision mark.
+    revision : str
+        Written in each revision mark ("" writes ``R``).
+    fill_marks : tuple of FillMark
+        Segments whose fill is above its limit
+        (:func:`cablewright.annotate.revision.fill_marks`): a note at each.
 
     Raises
     ------
@@ -39,6 +48,9 @@ class AnnotationInput:
     per_segment: Mapping[str, Sequence[str]]
     equipment: Mapping[str, Any]
     units_per_m: float
+    changed: frozenset[str] = frozenset()
+    revision: str = ""
+    fill_marks: tuple[Any, ...] = ()
 
     def __post_init__(self) -> None:
         if not self.units_per_m > 0.0:

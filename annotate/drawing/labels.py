@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import logging
+import math
 from collections import defaultdict
 from collections.abc import Callable, Mapping, Sequence
 from typing import Any
@@ -11,26 +12,63 @@ from ..model import CircuitOutcome
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
-from .placement import place_along
+from .label_spots import place_on_route
+from .revision_marks import draw_revision_mark, revision_room
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .style import FAIL_COLOR
 from .text import clean
 
-__all__ = ["label_text", "route_stretches", "place_cable_labels"]
+__all__ = ["label_fields", "label_text", "route_stretches", "place_cable_labels"]
 
 log = logging.getLogger(__name__)
 
 
-def label_text(outcome: CircuitOutcome) -> str:
-    """The cable label of a sized circuit, e.g. ``"P-101: 4C 70 mm² Cu/XLPE"``."""
+def _pe_text(outcome: CircuitOutcome) -> str:
+    """``"PE35"`` (mm²) when the protective conductor is smaller than the phase conductors
+    (IEC 60364-5-54:2011 543.1.2, Table 54.2 allows a reduced one), else ""."""
+    sizing = outcome.sizing
+    pe = getattr(sizing, "protective_conductor_mm2", None)
+    cable = sizing.cable if sizing is not None else None
+    if pe is None or cable is None or float(pe) >= float(cable.csa_mm2):
+        return ""
+    return f"PE{float(pe):g}"
+
+
+def label_fields(outcome: CircuitOutcome) -> dict[str, str]:
+    """Every field a cable label may show (see ``AnnotateConfig.label_fields``)."""
     sizing = outcome.sizing
     if sizing is None or sizing.cable is None:
         raise ValueError(f"circuit {outcome.circuit_id} has no cable to label")
-    text = f"{outcome.circuit_id}: {sizing.cable.describe()}"
+    c = sizing.cable
+    route = outcome.route
+    length = getattr(route, "design_length_m", None) if route is not None else None
+    rating = getattr(sizing, "device_rating_a", None)
+    kind = getattr(sizing, "device_kind", "") or ""
+    return {
+        "circuit": outcome.circuit_id,
+        "cable": f"{c.cores}x{c.label} {c.conductor}/{c.insulation}",
+        "pe": _pe_text(outcome),
+        "parallel": f"{c.parallel}x" if c.parallel > 1 else "",
+        "length": f"order {float(length) * c.parallel:.0f} m" if length else "",
+        "device": f"{kind} {rating:g} A".strip() if rating is not None else "",
+    }
+
+
+def label_text(outcome: CircuitOutcome,
+               fields: Sequence[str] = ("circuit", "parallel", "cable", "pe")) -> str:
+    """The cable label of a sized circuit, e.g. ``"P-101: 2x 4x70 mm² Cu/XLPE PE35"``.
+
+    The trade's short form: parallel count, cores x size, conductor/insulation,
+    then a reduced protective conductor; the fields and their order are
+    ``AnnotateConfig.label_fields``.
+    """
+    values = label_fields(outcome)
+    parts = [values[f] for f in fields if f != "circuit" and values.get(f)]
+    head = values["circuit"] if "circuit" in fields else ""
+    text = f"{head}: {' '.join(parts)}" if head and parts else head or " ".join(parts)
     if outcome.status == "fail":
         text += " [FAIL]"
     return clean(text)
-
 
 
 def route_stretches(
@@ -104,17 +142,26 @@ def place_cable_labels(
                 "circuit %s: sized but has no route geometry; no label on the drawing", o.circuit_id
             )
             continue
-        text = label_text(o)
+        text = label_text(o, w.config.label_fields)
         bw, bh = w.line_box(text)
-        place = place_along(index, rank_stretches(stretches, bw), bw, bh)
+        changed = o.circuit_id in marks.changed
+        extra = revision_room(w.height) if changed else 0.0
+        spot = place_on_route(index, rank_stretches(stretches, bw + extra), bw + extra, bh, w.height)
+        place = spot.place
         overlapping += place.overlaps
+        a = math.radians(place.rotation_deg)
+        at = (place.x - math.cos(a) * extra / 2.0, place.y - math.sin(a) * extra / 2.0, place.z)
         w.text(
             text,
-            (place.x, place.y, place.z),
+            at,
             Mark("label", "cable-label", o.circuit_id),
             rotation=place.rotation_deg,
             color=FAIL_COLOR if o.status == "fail" else None,
         )
+        if spot.leader is not None:
+            w.leader(place, place.z, Mark("label", "label-leader", o.circuit_id))
+        if changed:
+            draw_revision_mark(w, o.circuit_id, at, bw, place.rotation_deg, marks.revision)
         labels += 1
         if progress is not None:
             progress(1)

@@ -23,11 +23,14 @@ from .style import (
 )
 from .text import clean, mtext_escape, rating_text
 
-__all__ = ["HEADER", "schedule_table", "cautions_and_title", "schedule_rows"]
+__all__ = ["HEADER", "schedule_table", "cautions_and_title", "schedule_rows", "title_block_lines"]
 
 
 #: Columns of the schedule table on the drawing (contract.md, "The annotated DXF").
-HEADER = ("circuit", "from", "to", "cable", "device", "length", "status")
+#: ``order m`` is the length to order: design length (routed plus the tails and
+#: allowances) times the cables in parallel (issue 12: the installer cuts this, not
+#: the routed length); ``PE`` a protective conductor smaller than the phases.
+HEADER = ("circuit", "from", "to", "cable", "PE", "device", "order m", "status")
 
 #: The rules of an R12 schedule (LINE entities).
 _GRID = Mark("schedule", "schedule", "grid")
@@ -59,14 +62,37 @@ def schedule_table(
     return len(rows)
 
 
+def tool_version() -> str:
+    """The installed cablewright version ("" when not installed as a package)."""
+    from importlib import metadata
+
+    try:
+        return metadata.version("cablewright")
+    except metadata.PackageNotFoundError:
+        return ""
+
+
+def title_block_lines(config) -> list[str]:
+    """``PROJECT ...``, ``DRAWING REVISION ... DATE ...`` and the tool line of the title block
+    ([annotate] project, revision, date; "" writes "-")."""
+    version = tool_version()
+    return [
+        f"PROJECT {clean(config.project) or '-'}",
+        f"DRAWING REVISION {clean(config.revision) or '-'}   DATE {clean(config.date) or '-'}",
+        f"MARKS BY cablewright {version}".rstrip(),
+    ]
+
+
 def cautions_and_title(w: EntityWriter, x0: float, y_top: float, z: float) -> float:
     """The cautions note and the schedule's title, top left at (x0, y_top).
 
     Returns the title's baseline [drawing units].
     """
     h = w.height
-    # cautions, wrapped to about the table's width
-    caution_lines = ["CAUTION"] + textwrap.wrap(w.config.cautions, CAUTIONS_WRAP_CHARS)
+    # title block: project, drawing revision, date, tool version; then the cautions,
+    # wrapped to about the table's width
+    caution_lines = [*title_block_lines(w.config), "CAUTION",
+                     *textwrap.wrap(w.config.cautions, CAUTIONS_WRAP_CHARS)]
     bw, bh = w.block_box(caution_lines)
     note = Placement(x0 + bw / 2.0, y_top - bh / 2.0, z, 0.0, bw, bh, None, False)  # type: ignore[arg-type]
     w.block(caution_lines, note, Mark("notes", "cautions", "cautions"), left=True)
@@ -86,23 +112,17 @@ def schedule_rows(outcomes: Sequence[CircuitOutcome]) -> list[tuple[str, ...]]:
     rows = []
     for o in outcomes:
         s = o.sizing
-        cable = s.cable.describe() if s is not None and s.cable is not None else "-"
-        device = (
-            f"{rating_text(s.device_rating_a)} A"
-            if s is not None and s.device_rating_a is not None
-            else "-"
-        )
-        length = (
-            f"{o.route.routed_length_m:.1f} m"
-            if o.route is not None and getattr(o.route, "routed_length_m", None) is not None
-            else "-"
-        )
-        rows.append(
-            tuple(
-                clean(v)
-                for v in (o.circuit_id, o.from_tag, o.to_tag, cable, device, length, o.status)
-            )
-        )
+        c = s.cable if s is not None else None
+        cable = c.describe() if c is not None else "-"
+        pe = getattr(s, "protective_conductor_mm2", None) if s is not None else None
+        pe_text = f"{pe:g} mm²" if pe is not None and c is not None and pe < c.csa_mm2 else "-"
+        device = "-"
+        if s is not None and s.device_rating_a is not None:
+            device = f"{(s.device_kind or '').strip()} {rating_text(s.device_rating_a)} A".strip()
+        design = getattr(o.route, "design_length_m", None) if o.route is not None else None
+        order = f"{design * (c.parallel if c is not None else 1):.1f}" if design is not None else "-"
+        rows.append(tuple(clean(v) for v in (o.circuit_id, o.from_tag, o.to_tag, cable, pe_text,
+                                             device, order, o.status)))
     return rows
 
 

@@ -76,7 +76,13 @@ class AnnotateConfig:
     Attributes
     ----------
     label_layer, group_layer, device_layer, schedule_layer, notes_layer : str
-        Our layers.  When the input already has a layer of that name that is not
+        Our layers.  Their colours (``colors``) are kept unless a route layer of the
+        drawing uses the same colour; then another is chosen at run time
+        (:mod:`.mark_style`), so no mark of ours reads as a route.
+    revision_layer, fill_layer : str
+        Our layers for the revision marks (``size --previous``: a diamond holding the
+        revision beside each new or changed circuit's label) and the fill marks (tray
+        or duct fill above its limit, at the segment).  When the input already has a layer of that name that is not
         ours, ``-2``, ``-3`` ... is appended.
     appid : str
         XDATA application id marking every entity (and layer) we add.
@@ -96,7 +102,14 @@ class AnnotateConfig:
         Clamp of the derived height [m].
     colors : mapping
         ACI colour per layer role (``label``, ``group``, ``device``,
-        ``schedule``, ``notes``).
+        ``schedule``, ``notes``, ``revision``, ``fill``).
+    label_fields : tuple of str
+        What a cable label shows, in order: ``circuit`` (id), ``cable`` (cores x
+        size, conductor/insulation; the NEC size label for NEC), ``pe`` (a separate
+        or reduced protective conductor), ``parallel`` (cables in parallel),
+        ``length`` (length to order), ``device``.
+    device_fields : tuple of str
+        What a device note shows besides the tag: ``device`` (kind and rating).
     group_tags, device_notes, schedule, error_notes : bool
         Switch each kind of mark on or off (labels are always written).
     schedule_rows_per_panel : int
@@ -109,6 +122,9 @@ class AnnotateConfig:
         ``schedule.json``: each circuit's ``route.segments``).
     avoid_drawing_text : bool
         Keep marks off the drawing's own TEXT, MTEXT and visible ATTRIB boxes.
+    avoid_linework : bool
+        Keep labels off the drawing's lines (walls, routes): False by default,
+        since the wider search it needs is slow on large drawings.
     avoid_symbols : bool
         Keep marks off block references (equipment symbols).
     symbol_max_text_heights : float
@@ -167,6 +183,8 @@ class AnnotateConfig:
             "device": 94,
             "schedule": 7,
             "notes": 1,
+            "revision": 30,
+            "fill": 1,
         }
     )
     group_tags: bool = True
@@ -178,12 +196,17 @@ class AnnotateConfig:
     group_tag_max_ids: int = 6
     avoid_drawing_text: bool = True
     avoid_symbols: bool = True
+    avoid_linework: bool = False
     symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
     crowd_fraction: float | None = 0.25
     project: str = ""
     revision: str = ""
     date: str = ""
+    revision_layer: str = "CW-REVISION"
+    fill_layer: str = "CW-FILL"
+    label_fields: tuple[str, ...] = ("circuit", "parallel", "cable", "pe")
+    device_fields: tuple[str, ...] = ("device",)
 
 
 

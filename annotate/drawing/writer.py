@@ -20,8 +20,10 @@ from .entities import EntityWriter
 from .group_tags import place_group_tags
 from .inputs import AnnotationInput
 from .labels import place_cable_labels
+from .linework import drawing_linework
 from .obstacles import extents, keep_clear_boxes, scan_modelspace
 from .old_marks import remove_old_marks
+from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
 from .stretches import route_obstacles, scaled
 from .style import DEFAULT_CONFIG, INDEX_CELL_H, SCHEDULE_GAP_H, AnnotateConfig
@@ -54,6 +56,8 @@ class AnnotationSummary:
         Role -> layer name actually used.
     unlabelled : tuple of str
         Sized circuits that got no label (no route geometry), with the reason.
+    revision_marks, fill_marks : int
+        Revision marks beside changed labels; fill notes at over-full segments.
     """
 
     output_path: Path
@@ -67,6 +71,8 @@ class AnnotationSummary:
     text_height: float
     layers: Mapping[str, str]
     unlabelled: tuple[str, ...] = ()
+    revision_marks: int = 0
+    fill_marks: int = 0
 
 
 def _read_input(src: Path) -> Any:
@@ -144,12 +150,16 @@ def write_annotated_dxf(
     xmin, ymin, xmax, ymax = extents(scan, route_pts)
     extents_m = ((xmax - xmin) / k, (ymax - ymin) / k)
     h = choose_text_height_m(marks, extents_m, measure, config, str(src)) * k
-    w = EntityWriter(doc, config, h)
+    route_layers = sorted({str(getattr(s, "layer", "")) for s in marks.segments.values()} - {""})
+    w = EntityWriter(doc, config, h, route_layers)
     blocked = keep_clear_boxes(scan, config, h)
+    routes = route_obstacles(scaled(s.points_m, k) for s in marks.segments.values())
     index = LabelIndex(
         cell=INDEX_CELL_H * h,
-        obstacles=route_obstacles(scaled(s.points_m, k) for s in marks.segments.values()),
         blocked=blocked,
+        # the drawing's own linework as obstacles: off by default, the wider search it
+        # needs costs minutes on a 2,000-circuit plant (benchmarks/RESULTS.md)
+        lines=drawing_linework(doc, config.appid, h, routes) if config.avoid_linework else None,
     )
     log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
 
@@ -160,6 +170,7 @@ def write_annotated_dxf(
         overlapping += extra
     device_notes, error_notes, extra = place_equipment_notes(w, index, marks)
     overlapping += extra
+    fill_notes = place_fill_marks(w, index, marks)
 
     # everything placed so far widens the extents the schedule sits beside
     placed = index.bounds()
@@ -191,4 +202,9 @@ def write_annotated_dxf(
         text_height=h,
         layers=dict(w.layers),
         unlabelled=tuple(unlabelled),
+        revision_marks=sum(1 for o in marks.outcomes if o.circuit_id in marks.changed
+                           and o.circuit_id not in {u.split(":")[0] for u in unlabelled}
+                           and o.sizing is not None and o.sizing.cable is not None
+                           and o.status != "error"),
+        fill_marks=fill_notes,
     )

@@ -1,0 +1,65 @@
+"""Revision marks beside changed labels and fill marks at over-full segments, on layers of ours.
+
+The geometry is :mod:`cablewright.annotate.revision`'s (a diamond holding the
+revision beside the label's end); here it is turned with the label and written.
+The label's box is widened by :func:`revision_room` before it is placed, so the
+mark takes part in the search for a free spot like the label itself.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from ..revision import GAP_HEIGHTS, HALF_DIAGONAL_HEIGHTS, revision_mark
+from .boxes import LabelIndex
+from .entities import EntityWriter, Mark
+from .inputs import AnnotationInput
+from .placement import place_near_point
+from .stretches import scaled
+from .style import LABEL_MARGIN_H
+
+__all__ = ["revision_room", "draw_revision_mark", "place_fill_marks", "DEFAULT_REVISION"]
+
+#: Written in the diamond when the config names no drawing revision.
+DEFAULT_REVISION = "R"
+
+
+def revision_room(text_height: float) -> float:
+    """Width a revision mark adds to a label's box [drawing units]: the gap and the diamond."""
+    return (GAP_HEIGHTS + 2.0 * HALF_DIAGONAL_HEIGHTS) * text_height
+
+
+def draw_revision_mark(w: EntityWriter, circuit_id: str, text_at: Sequence[float],
+                       box_width: float, rotation_deg: float, revision: str = "") -> None:
+    """The diamond beside the label centred at ``text_at`` (box ``box_width`` wide)."""
+    h = w.height
+    end = (box_width - LABEL_MARGIN_H * h) / 2.0  # the text's right end, in the text's frame
+    mark = revision_mark(circuit_id, (end, 0.0), h, revision or DEFAULT_REVISION)
+    a = math.radians(rotation_deg)
+    ca, sa = math.cos(a), math.sin(a)
+
+    def world(p: Sequence[float]) -> tuple[float, float]:
+        return (text_at[0] + ca * p[0] - sa * p[1], text_at[1] + sa * p[0] + ca * p[1])
+
+    z = float(text_at[2]) if len(text_at) > 2 else 0.0
+    w.polygon([world(p) for p in mark.outline], z, Mark("revision", "revision-mark", circuit_id))
+    cx, cy = world(mark.text_at)
+    w.text(mark.text, (cx, cy, z), Mark("revision", "revision-number", circuit_id),
+           rotation=rotation_deg, height=mark.text_height)
+
+
+def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
+    """One note with a leader at each over-full segment's mid-point; the number written."""
+    k = float(marks.units_per_m)
+    written = 0
+    for fill in marks.fill_marks:
+        x, y, z = scaled([fill.at_m], k)[0]
+        lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
+        bw, bh = w.block_box(lines)
+        place = place_near_point(index, x, y, z, bw, bh)
+        w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
+        index.add_line(w.leader(place, z, Mark("fill", "fill-leader", fill.segment_id)))
+        written += 1
+    return written
+
