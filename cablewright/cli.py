@@ -86,8 +86,11 @@ def build_parser() -> argparse.ArgumentParser:
     size.add_argument("--watch-runs", type=int, default=0, help=argparse.SUPPRESS)  # tests: stop after N runs
 
     compare = sub.add_parser("compare", help="what changed between two runs of 'size'")
-    compare.add_argument("old", help="the earlier output folder of 'size', or its schedule.json")
+    compare.add_argument("old", help="the earlier output folder of 'size', its schedule.json, or a drawing")
     compare.add_argument("new", help="the later output folder of 'size', or its schedule.json")
+    compare.add_argument("--circuits", metavar="FILE",
+                         help="schedule for OLD and NEW when they are drawings (.dxf or .ifc)")
+    compare.add_argument("--config", metavar="FILE", help="TOML config for sizing drawings")
     compare.add_argument("--json", action="store_true", help="print the change document on stdout")
     compare.add_argument("--debug", action="store_true", help="show Python tracebacks")
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+from pathlib import Path
 
 from cablewright.annotate.changes import ChangeReport, compare_documents, load_document
 
@@ -31,10 +32,34 @@ def changes_table(report: ChangeReport) -> str:
     return "\n".join(out)
 
 
+DRAWING_SUFFIXES = (".dxf", ".ifc")
+
+
+def _is_drawing(path: str) -> bool:
+    return Path(path).suffix.lower() in DRAWING_SUFFIXES and Path(path).is_file()
+
+
+def sized_document(drawing: str, circuits: str | None, config: str | None) -> dict:
+    """``schedule.json`` of a drawing, as ``size`` would write it, without writing anything."""
+    from .outputs import job_document, job_takeoff
+    from .pipeline import measure_drawing, size_measurement
+    from .size_run import settings_from
+
+    settings = settings_from(config)
+    measurement = measure_drawing(drawing, circuits, settings)
+    job = size_measurement(measurement, settings)
+    _, extras = job_takeoff(job, Path(drawing), settings)
+    return job_document(job, extras)
+
+
 def run_compare(args: argparse.Namespace) -> int:
-    """Compare two output folders (or their schedule.json); 0 when compared, 2 when unusable."""
-    old = load_document(args.old)
-    new = load_document(args.new)
+    """Compare two output folders (or their schedule.json), or two revisions of a drawing
+    sized with one schedule (``--circuits``); 0 when compared, 2 when unusable."""
+    circuits, config = getattr(args, "circuits", None), getattr(args, "config", None)
+    old = (sized_document(args.old, circuits, config) if _is_drawing(args.old)
+           else load_document(args.old))
+    new = (sized_document(args.new, circuits, config) if _is_drawing(args.new)
+           else load_document(args.new))
     report = compare_documents(old, new)
     if args.json:
         print(changes_json(report, str(args.old)), end="")

@@ -249,3 +249,19 @@ def test_size_with_an_unusable_previous_folder_stops_before_any_work(tmp_path, c
     assert code == 2 and not out.exists()
     err = capsys.readouterr().err
     assert "nothing-here" in err and "Traceback" not in err
+
+
+def test_compare_two_drawings_with_one_schedule(runs, capsys):
+    # issue 14: OLD and NEW may be two revisions of a drawing sized with one schedule; the
+    # moved tray lengthens P-102 by what the generator's coordinates give (as above)
+    (src1, _), (src2, _) = runs[1], runs[2]
+    code = main(["compare", str(src1 / "pumping_station.dxf"), str(src2 / "pumping_station.dxf"),
+                 "--circuits", str(src1 / "pumping_station_circuits.csv"), "--json"])
+    assert code == 0
+    data = json.loads(capsys.readouterr().out)
+    p102 = next(c for c in data["circuits"] if c["id"] == "P-102")
+    e1, e2 = _expected(src1), _expected(src2)
+    old, new = p102["fields"]["routed_length_m"]
+    assert p102["change"] == "changed"
+    assert new - old == pytest.approx(e2["P-102"]["routed_length_m"] - e1["P-102"]["routed_length_m"], abs=0.02)
+    assert not any(c["change"] in ("new", "removed") for c in data["circuits"])  # one schedule
