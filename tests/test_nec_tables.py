@@ -15,7 +15,7 @@ from cablewright.core.errors import OutOfRangeError
 from cablewright.sizing.nec import motors, tables
 
 # ---------------------------------------------------------------- Table 310.16
-# wiresizes.com, "NEC Table 310.16, Complete Conductor Ampacities Reference (2023 Edition)":
+# a public web reproduction, "NEC Table 310.16, Complete Conductor Ampacities Reference (2023 Edition)":
 # (Cu 60, 75, 90, Al 60, 75, 90) as printed there, rows across the table's range.
 PUBLISHED_310_16 = {
     "14": (15, 20, 25, None, None, None),
@@ -85,7 +85,7 @@ def test_free_air_rates_above_raceway_for_every_cell():
 
 
 # ---------------------------------------------------------------- 310.15(B)(1)
-# wiresizes.com reproduction of Table 310.15(B)(1)(1) (2023): (upper end of row, 60/75/90 °C).
+# a public web reproduction of Table 310.15(B)(1)(1) (2023): (upper end of row, 60/75/90 °C).
 PUBLISHED_AMBIENT = {
     10: (1.29, 1.20, 1.15), 15: (1.22, 1.15, 1.12), 20: (1.15, 1.11, 1.08),
     25: (1.08, 1.05, 1.04), 30: (1.0, 1.0, 1.0), 35: (0.91, 0.94, 0.96),
@@ -124,7 +124,7 @@ def test_ambient_beyond_the_column_is_refused():
 
 # ---------------------------------------------------------------- 310.15(C)(1)
 def test_adjustment_factors_match_the_2023_reproduction():
-    # wiresizes.com, "Conductor Bundle Adjustment Factors": 4-6 80 %, 7-9 70 %, 10-20 50 %,
+    # a public web reproduction, "Conductor Bundle Adjustment Factors": 4-6 80 %, 7-9 70 %, 10-20 50 %,
     # 21-30 45 %, 31-40 40 %, 41 and above 35 %.
     expected = {1: 1.0, 3: 1.0, 4: 0.8, 6: 0.8, 7: 0.7, 9: 0.7, 10: 0.5, 20: 0.5, 21: 0.45,
                 30: 0.45, 31: 0.4, 40: 0.4, 41: 0.35, 120: 0.35}
@@ -144,7 +144,7 @@ def test_small_conductor_limits():
 
 
 def test_standard_ratings_match_the_2023_text():
-    # NFPA 70:2023 240.6(A) as reproduced by callout.app ("NEC 2023 240.6"): 15 ... 6000 A,
+    # NFPA 70:2023 240.6(A) as reproduced on a public web page ("NEC 2023 240.6"): 15 ... 6000 A,
     # further fuse ratings 1, 3, 6 and 10 A.
     printed = (15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200,
                225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200, 1600, 2000, 2500,
@@ -194,7 +194,7 @@ def test_areas_in_mm2():
     assert tables.area_mm2("250") == pytest.approx(126.7, abs=0.1)
 
 
-# sfasoft.com, "Alternating current resistance and reactance for 600 volt cables" (NEC Table 9),
+# a public web reproduction, "Alternating current resistance and reactance for 600 volt cables" (NEC Table 9),
 # ohm/1000 ft: size -> (XL PVC/Al, XL steel, R Cu PVC, R Cu Al, R Cu steel, R Al PVC, R Al Al,
 # R Al steel, Ze Cu PVC, Ze Cu Al, Ze Cu steel).
 PUBLISHED_T9 = {

@@ -127,7 +127,7 @@ class NecTable:
 
 
 # Allowable ampacities [A]: (Cu 60, Cu 75, Cu 90, Al 60, Al 75, Al 90); None where not listed.
-# Checked against a public reproduction of the 2023 table (wiresizes.com, "NEC Table 310.16,
+# Checked against a public reproduction of the 2023 table (a web reproduction, "NEC Table 310.16,
 # 2023 Edition": 14 AWG to 1000 kcmil less 700/800/900); 700, 800, 900 and 1250-2000 kcmil
 # from memory (the 2017 edition's Table 310.15(B)(16) prints the same values).
 AMPACITY_310_16 = NecTable(NEC, EDITION, "Table 310.16", "A", {
@@ -243,7 +243,7 @@ def ampacity_a(size: str, conductor: str, temp_c: int, free_air: bool = False) -
 
 # Ambient temperature correction, based on 30 °C: rows (upper end of the range [°C],
 # factor at 60, 75, 90 °C).  NFPA 70:2023 Table 310.15(B)(1)(1) (Table 310.15(B)(1)
-# in the 2020 edition); checked against wiresizes.com's reproduction of the 2023 table
+# in the 2020 edition); checked against a public web reproduction of the 2023 table
 # (10 to 60 °C); every cell also follows 310.15(B)'s formula (tests).
 AMBIENT_310_15_B_1 = NecTable(NEC, EDITION, "Table 310.15(B)(1)(1)", "1", {
     10: (1.29, 1.20, 1.15),
@@ -298,7 +298,7 @@ def ambient_factor(ambient_c: float, temp_c: int) -> float:
 
 # Adjustment factors for more than three current-carrying conductors: (most conductors,
 # percent of the values of Table 310.16).  NFPA 70:2023 Table 310.15(C)(1); checked against
-# wiresizes.com's reproduction (2023 edition).
+# a public web reproduction (2023 edition).
 ADJUSTMENT_310_15_C_1 = NecTable(NEC, EDITION, "Table 310.15(C)(1)", "%", {
     3: 100, 6: 80, 9: 70, 20: 50, 30: 45, 40: 40, 10 ** 9: 35,
 })
@@ -345,7 +345,7 @@ def small_conductor_limit_a(size: str, conductor: str) -> float | None:
 
 # Standard ampere ratings of fuses and inverse time circuit breakers, and the further
 # standard ratings of fuses.  NFPA 70:2023 240.6(A), Table 240.6(A); checked against the
-# 2023 text as reproduced by callout.app ("NEC 2023 240.6") and sparkshift.app.
+# 2023 text as reproduced on two public web pages ("NEC 2023 240.6").
 STANDARD_RATINGS_240_6_A = NecTable(NEC, EDITION, "Table 240.6(A)", "A", {"ratings": (
     15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225,
     250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200, 1600, 2000, 2500, 3000, 4000,
@@ -381,7 +381,7 @@ def next_standard_rating_a(current_a: float, strictly_above: bool = False, fuse:
 
 # Minimum equipment grounding conductor: (rating of the overcurrent device not exceeding [A],
 # Cu size, Al size).  NFPA 70:2023 Table 250.122; checked against public reproductions
-# (brunsengineering.com "NEC Table 250.122", field-pm.com EGC chart).
+# (two public web reproductions: "NEC Table 250.122" and an EGC chart).
 EGC_250_122 = NecTable(NEC, EDITION, "Table 250.122", "A", {
     15: ("14", "12"), 20: ("12", "10"), 60: ("10", "8"), 100: ("8", "6"), 200: ("6", "4"),
     300: ("4", "2"), 400: ("3", "1"), 500: ("2", "1/0"), 600: ("1", "2/0"), 800: ("1/0", "3/0"),
@@ -410,7 +410,7 @@ def egc_size(device_a: float, conductor: str) -> str:
 # conductors in conduit [ohm per 1000 ft]: XL (PVC or aluminium conduit, steel conduit),
 # R copper (PVC, aluminium, steel conduit), R aluminium (PVC, aluminium, steel).
 # NFPA 70:2023 Chapter 9 Table 9 (sizes 700, 800, 900 and above 1000 kcmil are not listed
-# in it); checked against sfasoft.com's reproduction ("A.C. for 600 Volt", every cell) and
+# in it); checked against a public web reproduction ("A.C. for 600 Volt", every cell) and
 # studylib.net's "AC Resistance and Reactance" engineering data sheet.
 IMPEDANCE_CH9_T9 = NecTable(NEC, EDITION, "Chapter 9 Table 9", "ohm/1000 ft", {
     "14": ((0.058, 0.073), (3.1, 3.1, 3.1), None),
@@ -436,7 +436,7 @@ IMPEDANCE_CH9_T9 = NecTable(NEC, EDITION, "Chapter 9 Table 9", "ohm/1000 ft", {
     "1000": ((0.037, 0.046), (0.015, 0.019, 0.018), (0.023, 0.027, 0.025)),
 })
 #: Effective Z at 0.85 power factor, copper in steel conduit, printed in the same table
-#: (sfasoft.com reproduction); the tests check Note 2's Ze = R cos θ + X sin θ against it.
+#: (public web reproduction); the tests check Note 2's Ze = R cos θ + X sin θ against it.
 EFFECTIVE_Z_CU_STEEL_085 = {"12": 1.7, "8": 0.70, "4": 0.30, "1/0": 0.13, "4/0": 0.080,
                             "250": 0.073, "500": 0.050, "1000": 0.040}
 
