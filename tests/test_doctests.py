@@ -13,6 +13,7 @@ import cablewright
 PACKAGES = [
     "cablewright.extract",
     "cablewright.sizing",
+    "cablewright.sizing.nec",
     "cablewright.annotate",
     "cablewright.annotate.drawing",
     "cablewright",

@@ -58,6 +58,7 @@ from ..config import SizingConfig
 from ..load import design_current_a
 from ..model import CableSelection, Check, CircuitSpec, Factor, SizingResult, Stretch, VoltageDrop
 from ..select import third_harmonic_pct
+from .faults import NecFaults
 from .motors import full_load_current_a
 from .tables import (
     ADJUSTMENT_310_15_C_1,
@@ -218,7 +219,7 @@ def voltage_drop_nec(current_a: float, length_m: float, size: str, conductor: st
     Examples
     --------
     >>> round(voltage_drop_nec(100, 30.48, "1/0", "Cu", 3, 0.85), 2)  # 100 ft
-    2.13
+    2.27
 
     References
     ----------
@@ -351,6 +352,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         raise CircuitInputError("no installation given")
     wire = conductor_type(spec.insulation)
     demand = _demand(spec, config)
+    faults = NecFaults(spec, config)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ccc = 3 if spec.phases == 3 else 2  # 310.15(E)(1): a balanced neutral is not counted
     notes: list[str] = []
@@ -410,6 +412,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             cap = capacity_ok(size, parallel)
             if not (cap and cap[0]):
                 continue
+            if not faults.withstands(size):  # ICEA P-32-382 (see .faults)
+                governed = "short_circuit"
+                continue
             if 100.0 * vd_of(size, parallel) / spec.voltage_v <= limit + 1e-9:
                 chosen = (size, parallel, governed, allowed[first])
                 break
@@ -430,7 +435,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     if notes:
         demand = replace(demand, notes=demand.notes + tuple(notes))
     return _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size,
-                   ampacity, rating, index, term, vd_of(size, parallel), limit, raceway)
+                   ampacity, rating, index, term, vd_of(size, parallel), limit, raceway, faults)
 
 
 def _egc(device_a: float, conductor: str, size: str, minimum_size: str) -> tuple[str, str]:
@@ -462,7 +467,7 @@ def _fill(spec: CircuitSpec, wire_key: str, size: str, egc: str, cores: int) -> 
 
 
 def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size, ampacity,
-            rating, index, term, volts, limit, raceway) -> SizingResult:
+            rating, index, term, volts, limit, raceway, faults: NecFaults) -> SizingResult:
     stretch = spec.stretches[index]
     total = math.prod(f.value for f in rating.factors)
     label = size_label(size)
@@ -490,13 +495,19 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
         f"(informational: {VD_TOTAL_PCT:g} % feeder and branch together)",
         "" if vd_pct <= limit + 1e-9 else f"voltage drop {vd_pct:.2f} % exceeds the {limit:g} % guidance"))
     egc, egc_rule = _egc(demand.device_a, spec.conductor, size, minimum_size)
+    fault = faults.evaluate(size, egc, demand.device_a, parallel, raceway)
+    if fault.egc != egc:
+        egc_rule += f"; raised to {size_label(fault.egc)} to withstand the fault, 250.4(A)(5)"
+        egc = fault.egc
     egc_text = (f"EGC {size_label(egc)} {spec.conductor}: {egc_rule}"
                 + ("; one full-size EGC in every parallel raceway, 250.122(F)" if parallel > 1 else ""))
-    checks.append(Check("protective_conductor", True, area_cmil(egc), area_cmil(egc), "cmil",
-                        f"NFPA 70:2023 {EGC_250_122.table}", egc_text))
+    pe = fault.protective_conductor
+    checks += [fault.short_circuit, fault.disconnection,
+               replace(pe, source=f"NFPA 70:2023 {EGC_250_122.table}; {pe.source}",
+                       message=pe.message if pe.failed else egc_text)]
     if _containment(stretch) == "conduit":
         checks.append(_fill(spec, _TYPES[spec.insulation][1], size, egc, cores))
-    messages = [c.message or f"{c.name} check fails" for c in checks if not c.passed]
+    messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
     status = "fail" if messages else "ok"
     messages = list(demand.notes) + messages
     messages.append(f"{wire} conductors, {label} {spec.conductor}; {egc_text}")
@@ -524,4 +535,7 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
         factors=rating.factors, required_capacity_a=need / total,
         cable=cable, voltage_drop=vd, checks=tuple(checks),
         protective_conductor_mm2=round(area_mm2(egc), 2), standard="nec",
+        max_length_m=fault.max_length_m, earth_fault_loop_ohm=fault.earth_fault_loop_ohm,
+        fault_current_ka_source=None if faults.fault_a is None else faults.fault_a / 1000.0,
+        fault_current_ka_load_end_earth_min=fault.ground_fault_ka,
     )
