@@ -56,7 +56,7 @@ def test_icea_formula_by_hand():
 
 
 def test_short_circuit_raises_the_conductor_and_the_egc_follows():
-    """Hand-worked: 16 A continuous at 480 V: 20 A device, 12 AWG by ampacity (60 °C, 20 A).
+    """Worked from NFPA 70:2023 text, hand calculation: 16 A continuous at 480 V: 20 A device, 12 AWG by ampacity (60 °C, 20 A).
     10 kA at the origin for 0.1 s, XLPE (XHHW-2, 250 °C): 43 951 cmil needed (above);
     4 AWG 41 740 cmil is short, 3 AWG 52 620 cmil withstands (NFPA 70:2023 Chapter 9
     Table 8 areas).  EGC: 12 AWG for 20 A (Table 250.122), increased in proportion,
@@ -74,7 +74,7 @@ def test_short_circuit_raises_the_conductor_and_the_egc_follows():
 
 
 def test_egc_raised_to_withstand_the_fault():
-    """Hand-worked: 200 A continuous: 250 A device (240.6(A)), 75 °C column: 250 kcmil
+    """Worked from NFPA 70:2023 text, hand calculation: 200 A continuous: 250 A device (240.6(A)), 75 °C column: 250 kcmil
     (255 A).  EGC for 250 A: 4 AWG Cu, 41 740 cmil (Table 250.122).  25 kA for 0.05 s:
     A = 25 000 x √(0.05 / 0.0051764) = 77 696 cmil > 41 740: raised to 1 AWG, 83 690 cmil
     (250.4(A)(5), 250.122(A)); the phase conductors (250 000 cmil) withstand."""
@@ -100,7 +100,7 @@ def test_let_through_of_a_current_limiting_device():
 
 
 def test_ground_fault_clearing_by_hand():
-    """Hand-worked from NFPA 70:2023 Chapter 9 Table 9 (steel conduit, copper, 75 °C):
+    """Worked from NFPA 70:2023 text, hand calculation: Chapter 9 Table 9 (steel conduit, copper, 75 °C):
     480 V 3-phase, 277.1 V to ground; 40 A continuous -> 50 A breaker, 6 AWG (60 °C 55 A),
     EGC 10 AWG (Table 250.122).  R 0.49 + 1.2 = 1.69, X 0.064 + 0.063 = 0.127 ohm/kft:
     |Z| = 1.6948 ohm/kft = 0.0055603 ohm/m.  Source 277.13 V / 20 kA = 0.013856 ohm.
