@@ -86,7 +86,7 @@ def test_egc_raised_to_withstand_the_fault():
     assert pe.result is CheckResult.PASS
     assert (pe.value, pe.limit) == (pytest.approx(77.696, abs=1e-3), pytest.approx(83.69))
     assert r.protective_conductor_mm2 == pytest.approx(round(area_mm2("1"), 2))
-    assert any("raised to 1 AWG" in m for m in r.messages)
+    assert any("raised from 4 AWG to 1 AWG to withstand" in m for m in r.messages)
 
 
 def test_let_through_of_a_current_limiting_device():
@@ -100,23 +100,26 @@ def test_let_through_of_a_current_limiting_device():
 
 
 def test_ground_fault_clearing_by_hand():
-    """Worked from NFPA 70:2023 text, hand calculation: Chapter 9 Table 9 (steel conduit, copper, 75 °C):
-    480 V 3-phase, 277.1 V to ground; 40 A continuous -> 50 A breaker, 6 AWG (60 °C 55 A),
-    EGC 10 AWG (Table 250.122).  R 0.49 + 1.2 = 1.69, X 0.064 + 0.063 = 0.127 ohm/kft:
-    |Z| = 1.6948 ohm/kft = 0.0055603 ohm/m.  Source 277.13 V / 20 kA = 0.013856 ohm.
-    Pickup 10 x 50 A = 500 A (common practice), + 20 % tolerance = 600 A:
+    """Worked from NFPA 70:2023 text, hand calculation: Chapter 9 Table 9 (steel conduit,
+    copper, 75 °C): 480 V 3-phase, 277.1 V to ground; 40 A continuous -> 50 A breaker,
+    6 AWG (60 °C 55 A), EGC 10 AWG (Table 250.122).  R 0.49 + 1.2 = 1.69, X 0.064 + 0.063
+    = 0.127 ohm/kft: |Z| = 1.6948 ohm/kft = 0.0055603 ohm/m.  Source 277.13 V / 20 kA =
+    0.013856 ohm.  Pickup 10 x 50 A = 500 A (common practice), + 20 % tolerance = 600 A:
     Zmax = 277.13 / 600 = 0.46188 ohm; longest run (0.46188 - 0.013856)/0.0055603 = 80.6 m.
-    At 60 m: 0.34748 ohm, 797.6 A >= 600 A, pass; at 100 m: 0.56989 ohm, 486.3 A, fail."""
+    At 60 m: 0.34748 ohm, 797.6 A >= 600 A, pass; at 100 m: 0.56989 ohm, 486.3 A, fail.
+    At 100 m with the EGC raised to 8 AWG: R 0.49 + 0.78 = 1.27, X 0.064 + 0.065 = 0.129:
+    1.2765 ohm/kft, 0.41881 + 0.013856 = 0.43267 ohm <= 0.46188: 640.5 A, clears."""
     v_lg = 480 / math.sqrt(3)
     loop = ground_fault_loop(v_lg, 20_000, 60, "6", "10", "Cu", 1, "steel")
     assert loop.source_ohm == pytest.approx(0.013856, rel=1e-4)
     assert loop.cable_ohm == pytest.approx(60 * 0.0055603, rel=1e-4)
     assert loop.current_a == pytest.approx(797.6, abs=0.5)
     assert instantaneous_pickup_a(50) == 500
+    fixed = SizingConfig(standard="nec", disconnection_upsize=False)
     for length_m, passed, current_a in ((60, CheckResult.PASS, 797.6), (100, CheckResult.FAIL, 486.3)):
         spec = CircuitSpec("G-1", Load(40, "A"), 480, design_length_m=length_m, fault_ka=20,
                            stretches=CONDUIT)
-        r = size_circuit_nec(spec, NEC)
+        r = size_circuit_nec(spec, fixed)
         assert (r.cable.size_label, r.device_rating_a) == ("6 AWG", 50)
         d = _check(r, "disconnection")
         assert d.result is passed
@@ -125,6 +128,35 @@ def test_ground_fault_clearing_by_hand():
         assert r.max_length_m == pytest.approx(80.6, abs=0.1)
         assert r.fault_current_ka_source == 20
     assert r.status == "fail" and "only up to 81 m" in _check(r, "disconnection").message
+    raised = size_circuit_nec(spec, NEC)  # 100 m, disconnection_upsize on (default)
+    d = _check(raised, "disconnection")
+    assert raised.cable.size_label == "6 AWG" and d.result is CheckResult.PASS
+    assert d.value == pytest.approx(0.43267, rel=1e-4)
+    assert raised.fault_current_ka_load_end_earth_min == pytest.approx(0.6405, abs=5e-4)
+    assert raised.protective_conductor_mm2 == pytest.approx(round(area_mm2("8"), 2))
+    assert any("EGC raised from 10 AWG to 8 AWG" in m for m in raised.messages)
+
+
+def test_phase_conductors_raised_where_no_egc_will_clear():
+    """Worked from NFPA 70:2023 text, hand calculation (Chapter 9 Table 9, steel, Cu):
+    the 50 A breaker of above at 200 m: even an EGC of 6 AWG (the phase size) gives
+    2 x 0.49 = 0.98, X 0.128: 0.98832 ohm/kft = 0.0032425 ohm/m x 200 = 0.64850 ohm
+    > 0.46188; 4 AWG phase and EGC: 0.62, 0.120 -> 0.63151 ohm/kft = 0.0020719 ohm/m
+    x 200 = 0.41438 + 0.013856 = 0.42824 ohm <= 0.46188: raised to 4 AWG (as the IEC
+    path, config disconnection_upsize, at most disconnection_upsize_max_steps sizes).
+    The EGC follows: 250.122(B) 10 AWG 10 380 cmil x 41 740/26 240 = 16 511 cmil, just
+    above 8 AWG's 16 510 -> 6 AWG, which does not clear (0.31 + 0.49 = 0.80, X 0.124:
+    0.53122 + 0.013856 = 0.54508 ohm); 4 AWG does (0.42824 ohm).  Voltage-drop limit set to 10 % so that only
+    the ground fault governs (at 3 % the drop would choose 4 AWG itself)."""
+    spec = CircuitSpec("G-3", Load(40, "A"), 480, design_length_m=200, fault_ka=20,
+                       vd_limit_pct=10, stretches=CONDUIT)
+    r = size_circuit_nec(spec, NEC)
+    assert r.cable.size_label == "4 AWG" and r.cable.governed_by == "disconnection"
+    d = _check(r, "disconnection")
+    assert d.result is CheckResult.PASS
+    assert d.value == pytest.approx(0.42824, rel=1e-4)
+    assert r.protective_conductor_mm2 == pytest.approx(round(area_mm2("4"), 2))
+    assert any("EGC raised from 6 AWG to 4 AWG" in m for m in r.messages)
 
 
 def test_a_setting_given_wins_over_the_multiple():

@@ -31,7 +31,7 @@ clause text was read).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from cablewright.core.errors import CableRouteError, CircuitInputError, OutOfRangeError
 
@@ -305,6 +305,7 @@ class NecFaultChecks:
     protective_conductor: Check
     disconnection: Check
     egc: str
+    egc_notes: tuple[str, ...] = ()
     earth_fault_loop_ohm: float | None = None
     ground_fault_ka: float | None = None
     max_length_m: float | None = None
@@ -320,7 +321,8 @@ class NecFaults:
         ``magnetic_a``, ``earthing``.
     config : SizingConfig
         ``default_fault_ka``, ``clearing_time_s``, ``magnetic_a``, ``earthing``,
-        ``instantaneous_tolerance``, ``device_kind`` where the schedule is silent.
+        ``instantaneous_tolerance``, ``device_kind`` where the schedule is silent;
+        ``disconnection_upsize`` (raise the EGC, then the phase conductors, to clear).
 
     Raises
     ------
@@ -340,6 +342,7 @@ class NecFaults:
         self.earthing = str(spec.extra_value("earthing", config.earthing)).upper()
         self.tolerance = config.instantaneous_tolerance
         self.kind = config.device_kind
+        self.upsize = config.disconnection_upsize
         self.v_lg = spec.voltage_v / math.sqrt(3.0) if spec.phases == 3 else spec.voltage_v
         self.length_m = spec.design_length_m
         self.source = (f"{ICEA_SOURCE}: (I/A)² t = {_constants(spec.conductor).k:g} "
@@ -389,28 +392,29 @@ class NecFaults:
         return Check("short_circuit", _outcome(passed), need / 1000.0, have, "kcmil",
                      f"{self.source}; {self._duty()}", message)
 
-    def egc_for_withstand(self, egc: str, size: str) -> tuple[str, Check]:
-        """The EGC raised to withstand the fault (never above ``size``) and its check [kcmil]."""
+    def egc_for_withstand(self, egc: str, size: str) -> tuple[str, Check, str]:
+        """The EGC raised to withstand the fault (never above ``size``), its check [kcmil]
+        and the note saying so ("" when not raised); the check's message says why a
+        withstand could not be checked, or why it fails."""
         need = self._need_cmil()
         source = f"NFPA 70:2023 Table 250.122, 250.4(A)(5), 250.122(A); {self.source}"
         if need is None:
             return egc, Check("protective_conductor", CheckResult.PASS, area_cmil(egc) / 1000.0,
                               area_cmil(egc) / 1000.0, "kcmil", source,
-                              f"EGC {size_label(egc)} from Table 250.122; withstand "
-                              + self._why_not())
+                              "withstand " + self._why_not()), ""
         raised = egc
         if area_cmil(egc) < need - 1e-6:
             raised = next((s for s in SIZES if area_cmil(s) >= need - 1e-6
                            and area_cmil(s) <= area_cmil(size)), size)
         passed = area_cmil(raised) >= need - 1e-6
-        note = (f"EGC raised from {size_label(egc)} (Table 250.122) to {size_label(raised)} "
-                f"to withstand {self._duty()} (250.4(A)(5), 250.122(A))" if raised != egc else "")
-        message = note if passed else (
+        note = (f"EGC raised from {size_label(egc)} to {size_label(raised)} to withstand "
+                f"{self._duty()} (250.4(A)(5), 250.122(A))" if raised != egc else "")
+        message = "" if passed else (
             f"the EGC, even at the phase size {size_label(raised)}, does not withstand "
             f"{self._duty()}: needs {need / 1000.0:.1f} kcmil")
         return raised, Check("protective_conductor", _outcome(passed), need / 1000.0,
                              area_cmil(raised) / 1000.0, "kcmil", f"{source}; {self._duty()}",
-                             message)
+                             message), note
 
     # ------------------------------------------------------- ground fault
     def disconnection(self, size: str, egc: str, device_a: float, parallel: int,
@@ -457,12 +461,33 @@ class NecFaults:
         return (Check("disconnection", _outcome(passed),
                       loop.loop_ohm, zmax, "Ω", detail, message), loop, max_length)
 
+    def clears(self, size: str, egc: str, device_a: float, parallel: int, raceway: str) -> bool:
+        """False only when the ground-fault check is made and fails."""
+        return self.disconnection(size, egc, device_a, parallel, raceway)[0].result \
+            is not CheckResult.FAIL
+
     def evaluate(self, size: str, egc: str, device_a: float, parallel: int,
                  raceway: str) -> NecFaultChecks:
-        """The three checks of the chosen conductor (see the module text)."""
+        """The three checks of the chosen conductor (see the module text).
+
+        Where the ground fault does not clear, the EGC is raised a size at a time up to the
+        phase size until it does (250.4(A)(5); 250.122 sizes are minimums), unless the
+        config's ``disconnection_upsize`` is off.
+        """
         short = self.short_circuit(size)
-        raised, pe = self.egc_for_withstand(egc, size)
+        raised, pe, note = self.egc_for_withstand(egc, size)
+        notes = [note] if note else []
+        if self.upsize and not self.clears(size, raised, device_a, parallel, raceway):
+            bigger = [s for s in SIZES if area_cmil(raised) < area_cmil(s) <= area_cmil(size)]
+            better = next((s for s in bigger
+                           if self.clears(size, s, device_a, parallel, raceway)), None)
+            if better is not None:
+                notes.append(f"EGC raised from {size_label(raised)} to {size_label(better)} so "
+                             "that the ground fault clears on the instantaneous element "
+                             "(250.4(A)(5))")
+                raised = better
+                pe = replace(pe, limit=area_cmil(better) / 1000.0)
         ground, loop, max_length = self.disconnection(size, raised, device_a, parallel, raceway)
-        return NecFaultChecks(short, pe, ground, raised,
+        return NecFaultChecks(short, pe, ground, raised, tuple(notes),
                               None if loop is None else loop.loop_ohm,
                               None if loop is None else loop.current_a / 1000.0, max_length)

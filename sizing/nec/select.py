@@ -36,6 +36,12 @@ The procedure, each step with its clause (NFPA 70:2023):
    the circular-mil area when the phase conductors are increased (250.122(B)),
    full size in every parallel raceway (250.122(F)); raceway fill of Chapter 9
    Table 1 in EMT where the route is conduit (areas of Chapter 9 Tables 4 and 5).
+8. Faults (:mod:`.faults`): the conductors raised until they withstand the fault current
+   at the origin for the device's clearing time (ICEA P-32-382); the EGC raised to
+   withstand it too (250.4(A)(5)); the ground fault at the load end, through the phase
+   conductor and the EGC, cleared on the breaker's instantaneous pickup (common
+   practice), the EGC and then (config ``disconnection_upsize``) the phase conductors
+   raised where it is not.
 
 Clause numbers are those of the 2023 edition as recalled, from memory (no public copy of
 the clause text was read); the informational-note numbers in particular have moved
@@ -431,6 +437,16 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                 f"{config.max_parallel} parallel sets of {size_label(sizes[-1])} under these "
                 "conditions; split the load, change the route or raise max_parallel in the config")
     size, parallel, governed, minimum_size = chosen
+    if config.disconnection_upsize and not faults.clears(size, size, demand.device_a, parallel,
+                                                         raceway):
+        # as the IEC path (config disconnection_upsize): a few standard sizes larger where
+        # even an EGC of the phase size does not clear the ground fault (see .faults)
+        larger = [s for s in sizes if area_cmil(s) > area_cmil(size)]
+        for step in larger[:config.disconnection_upsize_max_steps]:
+            cap = capacity_ok(step, parallel)
+            if cap and cap[0] and faults.clears(step, step, demand.device_a, parallel, raceway):
+                size, governed = step, "disconnection"
+                break
     _, ampacity, rating, index, term = capacity_ok(size, parallel)
     if notes:
         demand = replace(demand, notes=demand.notes + tuple(notes))
@@ -496,15 +512,15 @@ def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum
         "" if vd_pct <= limit + 1e-9 else f"voltage drop {vd_pct:.2f} % exceeds the {limit:g} % guidance"))
     egc, egc_rule = _egc(demand.device_a, spec.conductor, size, minimum_size)
     fault = faults.evaluate(size, egc, demand.device_a, parallel, raceway)
-    if fault.egc != egc:
-        egc_rule += f"; raised to {size_label(fault.egc)} to withstand the fault, 250.4(A)(5)"
-        egc = fault.egc
+    egc_rule += "".join(f"; {note}" for note in fault.egc_notes)
+    egc = fault.egc
     egc_text = (f"EGC {size_label(egc)} {spec.conductor}: {egc_rule}"
                 + ("; one full-size EGC in every parallel raceway, 250.122(F)" if parallel > 1 else ""))
     pe = fault.protective_conductor
     checks += [fault.short_circuit, fault.disconnection,
                replace(pe, source=f"NFPA 70:2023 {EGC_250_122.table}; {pe.source}",
-                       message=pe.message if pe.failed else egc_text)]
+                       message=pe.message if pe.failed else
+                       "; ".join(m for m in (egc_text, pe.message) if m))]
     if _containment(stretch) == "conduit":
         checks.append(_fill(spec, _TYPES[spec.insulation][1], size, egc, cores))
     messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
