@@ -27,6 +27,7 @@ from pathlib import Path
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
+from .pdf_lines import CellLines
 from .report_trace import (
     CircuitTrace,
     ReportConfig,
@@ -112,12 +113,18 @@ def _widths(pdf, columns: int, headers: Sequence[str] = ()) -> list[float]:
     return [pdf.epw * s for s in shares]
 
 
+def _lines(pdf) -> CellLines:
+    """The line breaker of ``pdf`` (one per document, made on first use)."""
+    lines = getattr(pdf, "_cablewright_lines", None)
+    if lines is None:
+        lines = pdf._cablewright_lines = CellLines(pdf, FONT_FAMILY, LINE_MM, PAD_MM)
+    return lines
+
+
 def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False) -> float:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", BODY_PT)
-    lines = 1
-    for w, text in zip(widths, cells, strict=False):
-        got = pdf.multi_cell(w, LINE_MM, text, dry_run=True, output="LINES", padding=PAD_MM, align="L")
-        lines = max(lines, len(got))
+    style = "B" if bold else ""
+    split = _lines(pdf)
+    lines = max([1] + [len(split(text, w, style, BODY_PT)) for w, text in zip(widths, cells, strict=False)])
     return lines * LINE_MM + 2 * PAD_MM
 
 
@@ -131,12 +138,26 @@ def _room(pdf) -> float:
     return pdf.page_break_trigger - pdf.get_y()
 
 
+def _cell_text(pdf, x: float, y: float, lines: Sequence[str]) -> None:
+    """The lines of one cell, placed where ``multi_cell(padding=PAD_MM, align="L")`` puts them.
+
+    fpdf2 sets each line's baseline at top + h/2 + 0.3 x font size
+    (``FPDF._render_styled_text_line``), the text ``PAD_MM`` in from the left.
+    """
+    drop = 0.5 * LINE_MM + 0.3 * pdf.font_size
+    for i, line in enumerate(lines):
+        if line:
+            pdf.text(x + PAD_MM, y + PAD_MM + i * LINE_MM + drop, line)
+
+
 def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
     height = _row_height(pdf, widths, cells, bold)
     if height > _room(pdf):  # a row is never cut across pages
         pdf.add_page()
+    split = _lines(pdf)
     x0, y0 = pdf.l_margin, pdf.get_y()
     x = x0
+    pdf.set_draw_color(170, 170, 170)
     for i, (w, text) in enumerate(zip(widths, cells, strict=False)):
         fill = False
         if bold:
@@ -147,12 +168,13 @@ def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
             fill = True
             if result == "fail":
                 pdf.set_text_color(255, 255, 255)
-        pdf.set_draw_color(170, 170, 170)
         pdf.rect(x, y0, w, height, style="DF" if fill else "D")
-        pdf.set_xy(x, y0)
-        pdf.set_font(FONT_FAMILY, "B" if bold or (result == "fail" and i == 1) else "", BODY_PT)
-        pdf.multi_cell(w, LINE_MM, text, padding=PAD_MM, new_x="RIGHT", new_y="TOP", align="L")
-        pdf.set_text_color(0, 0, 0)
+        style = "B" if bold or (result == "fail" and i == 1) else ""
+        lines = split(text, w, style, BODY_PT)
+        pdf.set_font(FONT_FAMILY, style, BODY_PT)
+        _cell_text(pdf, x, y0, lines)
+        if fill and result == "fail":
+            pdf.set_text_color(0, 0, 0)
         x += w
     pdf.set_xy(x0, y0 + height)
 
@@ -172,15 +194,27 @@ def _draw_table(pdf, t: TraceTable) -> None:
 
 
 def _paragraph_height(pdf, text: str, pt: float = BODY_PT, bold: bool = False) -> float:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
-    lines = pdf.multi_cell(pdf.epw, LINE_MM, text, dry_run=True, output="LINES")
-    return len(lines) * LINE_MM + 0.8
+    return len(_lines(pdf)(text, pdf.epw, "B" if bold else "", pt, padded=False)) * LINE_MM + 0.8
 
 
 def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0, 0, 0)) -> None:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
+    """A paragraph over the text width, placed as ``multi_cell(epw, LINE_MM, text)`` places it.
+
+    Each line goes to a new page when it would pass the page-break line (fpdf2's
+    automatic page break, ``FPDF._perform_page_break_if_need_be``); the text starts
+    ``c_margin`` in from the left margin.
+    """
+    style = "B" if bold else ""
+    lines = _lines(pdf)(text, pdf.epw, style, pt, padded=False)
+    pdf.set_font(FONT_FAMILY, style, pt)
     pdf.set_text_color(*color)
-    pdf.multi_cell(pdf.epw, LINE_MM, text, new_x="LMARGIN", new_y="NEXT")
+    for line in lines:
+        if pdf.get_y() + LINE_MM > pdf.page_break_trigger:
+            pdf.add_page()
+        y = pdf.get_y()
+        if line:
+            pdf.text(pdf.l_margin + pdf.c_margin, y + 0.5 * LINE_MM + 0.3 * pdf.font_size, line)
+        pdf.set_xy(pdf.l_margin, y + LINE_MM)
     pdf.set_text_color(0, 0, 0)
     pdf.ln(0.8)
 
