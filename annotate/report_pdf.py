@@ -55,7 +55,7 @@ COLUMN_SHARES = {
     3: (0.26, 0.20, 0.54),
     4: (0.15, 0.36, 0.37, 0.12),
     5: (0.2, 0.2, 0.2, 0.2, 0.2),
-    6: (0.15, 0.2, 0.065, 0.065, 0.04, 0.48),  # the check column holds "protective_conductor" whole
+    6: (0.15, 0.19, 0.07, 0.07, 0.04, 0.48),  # the check column holds "protective_conductor" whole
     7: (0.12, 0.12, 0.12, 0.26, 0.1, 0.14, 0.14),
 }
 

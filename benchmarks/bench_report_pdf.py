@@ -53,8 +53,9 @@ def main() -> None:
     parser.add_argument("--repeats", type=int, default=5)
     args = parser.parse_args()
 
-    from cablewright import pipeline
     from cablewright.annotate import report_pdf
+
+    from cablewright import pipeline
     from cablewright.config import load_settings
 
     settings = load_settings(None)
