@@ -134,3 +134,30 @@ def test_units_of_the_file_are_honoured(tmp_path, unit):
     got = carrier_size(el, "conduit", mm_per_unit)
     assert got.size_mm == pytest.approx(64.0) and "IfcCircleProfileDef" in got.source
     assert carrier_size(el, "clipped", mm_per_unit) is None  # nothing to fill
+
+
+def test_ifc4x3_conduit_inner_diameter_before_nominal_before_outer(tmp_path):
+    # IFC 4.3.2.0: Qto_ConduitSegmentBaseQuantities.InnerDiameter, then
+    # Pset_CableCarrierSegmentTypeConduitSegment.NominalDiameter, then the body's circle.
+    import ifcopenshell
+    import ifcopenshell.api.pset
+    import ifcopenshell.util.unit as uu
+
+    def model(with_qto: bool, with_pset: bool):
+        b = IfcModelBuilder("IFC4X3", "mm", seed=f"conduit-{with_qto}-{with_pset}")
+        b.storey("Ground", 0.0)
+        psets = {"Pset_CableCarrierSegmentTypeConduitSegment": {"NominalDiameter": 0.05}} if with_pset else None
+        el, _ = b.segment([(0, 0, 3), (10, 0, 3)], predefined="CONDUITSEGMENT", geometry="both",
+                          profile=("circle", 0.026), psets=psets)
+        if with_qto:
+            qto = ifcopenshell.api.pset.add_qto(b.f, product=el, name="Qto_ConduitSegmentBaseQuantities")
+            ifcopenshell.api.pset.edit_qto(b.f, qto=qto, properties={"InnerDiameter": 44.0})  # mm file
+        path = b.write(tmp_path / f"c-{with_qto}-{with_pset}.ifc")
+        f = ifcopenshell.open(str(path))
+        (seg,) = f.by_type("IfcCableCarrierSegment")
+        return carrier_size(seg, "conduit", 1000.0 * uu.calculate_unit_scale(f))
+
+    assert model(True, True).size_mm == pytest.approx(44.0)
+    assert model(False, True).size_mm == pytest.approx(50.0)
+    got = model(False, False)
+    assert got.size_mm == pytest.approx(52.0) and "IfcCircleProfileDef" in got.source
