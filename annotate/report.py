@@ -158,7 +158,7 @@ def _print_css(header: str) -> str:
         "@page{size:A4;margin:16mm 12mm 16mm 12mm;"
         f"@top-left{{content:{_css_string(header)};font-size:8pt;color:#444}}"
         '@bottom-right{content:"page " counter(page) " of " counter(pages);font-size:8pt}}'
-        "@media print{body{max-width:none;margin:0;padding:0;font-size:7.5pt;line-height:1.25}"
+        "@media print{body{max-width:none;margin:0;padding:0;font-size:7.5pt;line-height:1.2}"
         ".circuit,tr,.caution,.summary{break-inside:avoid;page-break-inside:avoid}"
         ".circuit{break-before:page;page-break-before:always;border:0;padding:0;margin:0}"
         "table.trace{margin:.2em 0 .5em 0}th,td{padding:.1em .4em}h3{margin:.2em 0}"

@@ -27,6 +27,7 @@ from pathlib import Path
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
+from .pdf_lines import CellLines
 from .report_trace import (
     CircuitTrace,
     ReportConfig,
@@ -41,10 +42,11 @@ __all__ = ["render_report_pdf", "write_report_pdf", "FONT_FAMILY"]
 FONT_FAMILY = "DejaVu"
 #: Body text size [pt]; 7 pt still reads on A4 and keeps a circuit's block on one page.
 BODY_PT = 7.0
-#: Line height of body text [mm] (about 1.25 x the 7 pt text, common practice).
-LINE_MM = 3.1
+#: Line height of body text [mm] (1.2 x the 7 pt text = 2.47 mm, common practice; 3.1 mm
+#: left the sample's longest circuit block, with its drop-from-origin check, over a page).
+LINE_MM = 3.0
 #: Padding inside a table cell [mm].
-PAD_MM = 0.6
+PAD_MM = 0.5
 #: Fill colours of check outcomes (RGB).
 RESULT_FILL = {"pass": (227, 241, 228), "fail": (198, 40, 40), "not_checked": (255, 243, 205),
                "not_applicable": (235, 235, 235)}
@@ -53,7 +55,7 @@ COLUMN_SHARES = {
     3: (0.26, 0.20, 0.54),
     4: (0.15, 0.36, 0.37, 0.12),
     5: (0.2, 0.2, 0.2, 0.2, 0.2),
-    6: (0.12, 0.2, 0.07, 0.07, 0.05, 0.49),
+    6: (0.15, 0.19, 0.07, 0.07, 0.04, 0.48),  # the check column holds "protective_conductor" whole
     7: (0.12, 0.12, 0.12, 0.26, 0.1, 0.14, 0.14),
 }
 
@@ -112,12 +114,18 @@ def _widths(pdf, columns: int, headers: Sequence[str] = ()) -> list[float]:
     return [pdf.epw * s for s in shares]
 
 
+def _lines(pdf) -> CellLines:
+    """The line breaker of ``pdf`` (one per document, made on first use)."""
+    lines = getattr(pdf, "_cablewright_lines", None)
+    if lines is None:
+        lines = pdf._cablewright_lines = CellLines(pdf, FONT_FAMILY, LINE_MM, PAD_MM)
+    return lines
+
+
 def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False) -> float:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", BODY_PT)
-    lines = 1
-    for w, text in zip(widths, cells, strict=False):
-        got = pdf.multi_cell(w, LINE_MM, text, dry_run=True, output="LINES", padding=PAD_MM, align="L")
-        lines = max(lines, len(got))
+    style = "B" if bold else ""
+    split = _lines(pdf)
+    lines = max([1] + [len(split(text, w, style, BODY_PT)) for w, text in zip(widths, cells, strict=False)])
     return lines * LINE_MM + 2 * PAD_MM
 
 
@@ -131,12 +139,26 @@ def _room(pdf) -> float:
     return pdf.page_break_trigger - pdf.get_y()
 
 
+def _cell_text(pdf, x: float, y: float, lines: Sequence[str]) -> None:
+    """The lines of one cell, placed where ``multi_cell(padding=PAD_MM, align="L")`` puts them.
+
+    fpdf2 sets each line's baseline at top + h/2 + 0.3 x font size
+    (``FPDF._render_styled_text_line``), the text ``PAD_MM`` in from the left.
+    """
+    drop = 0.5 * LINE_MM + 0.3 * pdf.font_size
+    for i, line in enumerate(lines):
+        if line:
+            pdf.text(x + PAD_MM, y + PAD_MM + i * LINE_MM + drop, line)
+
+
 def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
     height = _row_height(pdf, widths, cells, bold)
     if height > _room(pdf):  # a row is never cut across pages
         pdf.add_page()
+    split = _lines(pdf)
     x0, y0 = pdf.l_margin, pdf.get_y()
     x = x0
+    pdf.set_draw_color(170, 170, 170)
     for i, (w, text) in enumerate(zip(widths, cells, strict=False)):
         fill = False
         if bold:
@@ -147,12 +169,13 @@ def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
             fill = True
             if result == "fail":
                 pdf.set_text_color(255, 255, 255)
-        pdf.set_draw_color(170, 170, 170)
         pdf.rect(x, y0, w, height, style="DF" if fill else "D")
-        pdf.set_xy(x, y0)
-        pdf.set_font(FONT_FAMILY, "B" if bold or (result == "fail" and i == 1) else "", BODY_PT)
-        pdf.multi_cell(w, LINE_MM, text, padding=PAD_MM, new_x="RIGHT", new_y="TOP", align="L")
-        pdf.set_text_color(0, 0, 0)
+        style = "B" if bold or (result == "fail" and i == 1) else ""
+        lines = split(text, w, style, BODY_PT)
+        pdf.set_font(FONT_FAMILY, style, BODY_PT)
+        _cell_text(pdf, x, y0, lines)
+        if fill and result == "fail":
+            pdf.set_text_color(0, 0, 0)
         x += w
     pdf.set_xy(x0, y0 + height)
 
@@ -172,15 +195,27 @@ def _draw_table(pdf, t: TraceTable) -> None:
 
 
 def _paragraph_height(pdf, text: str, pt: float = BODY_PT, bold: bool = False) -> float:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
-    lines = pdf.multi_cell(pdf.epw, LINE_MM, text, dry_run=True, output="LINES")
-    return len(lines) * LINE_MM + 0.8
+    return len(_lines(pdf)(text, pdf.epw, "B" if bold else "", pt, padded=False)) * LINE_MM + 0.8
 
 
 def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0, 0, 0)) -> None:
-    pdf.set_font(FONT_FAMILY, "B" if bold else "", pt)
+    """A paragraph over the text width, placed as ``multi_cell(epw, LINE_MM, text)`` places it.
+
+    Each line goes to a new page when it would pass the page-break line (fpdf2's
+    automatic page break, ``FPDF._perform_page_break_if_need_be``); the text starts
+    ``c_margin`` in from the left margin.
+    """
+    style = "B" if bold else ""
+    lines = _lines(pdf)(text, pdf.epw, style, pt, padded=False)
+    pdf.set_font(FONT_FAMILY, style, pt)
     pdf.set_text_color(*color)
-    pdf.multi_cell(pdf.epw, LINE_MM, text, new_x="LMARGIN", new_y="NEXT")
+    for line in lines:
+        if pdf.get_y() + LINE_MM > pdf.page_break_trigger:
+            pdf.add_page()
+        y = pdf.get_y()
+        if line:
+            pdf.text(pdf.l_margin + pdf.c_margin, y + 0.5 * LINE_MM + 0.3 * pdf.font_size, line)
+        pdf.set_xy(pdf.l_margin, y + LINE_MM)
     pdf.set_text_color(0, 0, 0)
     pdf.ln(0.8)
 

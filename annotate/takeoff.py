@@ -31,6 +31,7 @@ from .model import CircuitOutcome
 __all__ = [
     "Takeoff",
     "build_takeoff",
+    "containment_size",
     "xlsx_sheets",
     "SegmentRow",
     "cable_runs",
@@ -54,6 +55,9 @@ class SegmentRow:
     circuits: tuple[str, ...]
     cables: int
     fill: SegmentFill
+    #: Where the containment size came from: the carrier in the model (IFC profile or
+    #: property set, the narrowest piece of the segment) or ``[sizing.containment_mm]``.
+    size_source: str = ""
 
 
 def cable_runs(outcomes: Iterable[CircuitOutcome]) -> list[CableRun]:
@@ -74,9 +78,30 @@ def quantities(outcomes: Iterable[CircuitOutcome], config) -> tuple[QuantityRow,
     return bill_of_quantities(cable_runs(outcomes), config.drum_lengths_m)
 
 
+def containment_size(segment: Any, layer_mm: Mapping[str, float],
+                     carrier_sizes: Mapping[str, Any] | None = None) -> tuple[float | None, str]:
+    """The width or inner diameter of a segment [mm] and where it comes from.
+
+    The carriers of the segment that state a size in the model (IFC, ``carrier_sizes``
+    by source id): the narrowest governs, since the fill is highest there.  Otherwise
+    the size of the segment's route layer in ``[sizing.containment_mm]``.
+    """
+    stated = [carrier_sizes[sid] for sid in segment.source_ids if carrier_sizes and sid in carrier_sizes]
+    if stated:
+        narrowest = min(stated, key=lambda c: c.size_mm)
+        return narrowest.size_mm, narrowest.source
+    size = layer_mm.get(segment.layer.upper())
+    return size, ("" if size is None else f"[sizing.containment_mm] {segment.layer}")
+
+
 def segment_rows(segments: Mapping[str, Any], per_segment: Mapping[str, Sequence[str]],
-                 outcomes: Iterable[CircuitOutcome], config) -> list[SegmentRow]:
-    """Circuits, cables and fill of every route segment that carries a circuit."""
+                 outcomes: Iterable[CircuitOutcome], config,
+                 carrier_sizes: Mapping[str, Any] | None = None) -> list[SegmentRow]:
+    """Circuits, cables and fill of every route segment that carries a circuit.
+
+    ``carrier_sizes``: source id -> ``CarrierSize`` the model states (IFC); see
+    :func:`containment_size`.
+    """
     cables = {o.circuit_id: o.sizing.cable for o in outcomes if o.sizing is not None and o.sizing.cable}
     sizes = {k.upper(): float(v) for k, v in config.containment_mm.items()}
     rows = []
@@ -101,8 +126,9 @@ def segment_rows(segments: Mapping[str, Any], per_segment: Mapping[str, Sequence
                 diameters += [od] * cable.parallel
         limit = (config.duct_fill_limit_pct if _rule(seg.containment) == "duct_area"
                  else config.tray_fill_limit_pct)
-        fill = segment_fill(sid, seg.containment, sizes.get(seg.layer.upper()), diameters, limit, missing)
-        rows.append(SegmentRow(seg, tuple(cids), count, fill))
+        size_mm, size_source = containment_size(seg, sizes, carrier_sizes)
+        fill = segment_fill(sid, seg.containment, size_mm, diameters, limit, missing)
+        rows.append(SegmentRow(seg, tuple(cids), count, fill, size_source if fill.rule else ""))
     return rows
 
 
@@ -160,7 +186,8 @@ def segments_dicts(rows: Sequence[SegmentRow]) -> list[dict[str, Any]]:
             "circuits": list(row.circuits),
             "cables": row.cables,
             "fill": {"rule": fill.rule, "size_mm": fill.size_mm, "percent": _r(fill.percent, 1),
-                     "limit_percent": fill.limit_percent, "result": fill.result, "message": fill.message},
+                     "limit_percent": fill.limit_percent, "result": fill.result, "message": fill.message,
+                     "size_source": row.size_source},
         })
     return out
 
@@ -199,12 +226,13 @@ class Takeoff:
 
 
 def build_takeoff(outcomes: Sequence[CircuitOutcome], segments: Mapping[str, Any],
-                  per_segment: Mapping[str, Sequence[str]], config) -> Takeoff:
-    """Bill of quantities, device counts and segment fill of one job."""
+                  per_segment: Mapping[str, Sequence[str]], config,
+                  carrier_sizes: Mapping[str, Any] | None = None) -> Takeoff:
+    """Bill of quantities, device counts and segment fill of one job (sizes: :func:`containment_size`)."""
     devices = [(o.sizing.device_kind or "device", float(o.sizing.device_rating_a))
                for o in outcomes if o.sizing is not None and o.sizing.device_rating_a]
     return Takeoff(quantities(outcomes, config), device_counts(devices),
-                   tuple(segment_rows(segments, per_segment, outcomes, config)))
+                   tuple(segment_rows(segments, per_segment, outcomes, config, carrier_sizes)))
 
 
 def document_extras(takeoff: Takeoff, drawing: str | Path, config) -> dict[str, Any]:
@@ -233,9 +261,11 @@ def xlsx_sheets(takeoff: Takeoff) -> list[tuple[str, list[str], list[list[Any]]]
     boq_headers = ["item", "type", "circuits / count", "runs", "length to order [m]", "drums",
                    "waste [m]", "drum plan (drum: cuts [m])", "longer than a drum"]
     seg_headers = ["segment", "layer", "containment", "method", "length [m]", "circuits", "cables",
-                   "fill rule", "size [mm]", "fill [%]", "limit [%]", "fill result", "message"]
+                   "fill rule", "size [mm]", "fill [%]", "limit [%]", "fill result", "message",
+                   "size from"]
     segs = [[r.segment.segment_id, r.segment.layer, r.segment.containment, r.segment.method,
              _r(r.segment.length_m), ", ".join(r.circuits), r.cables, r.fill.rule, r.fill.size_mm,
-             _r(r.fill.percent, 1), r.fill.limit_percent, r.fill.result, r.fill.message or None]
+             _r(r.fill.percent, 1), r.fill.limit_percent, r.fill.result, r.fill.message or None,
+             r.size_source or None]
             for r in takeoff.segments]
     return [("BOQ", boq_headers, boq), ("segments", seg_headers, segs)]

@@ -10,6 +10,7 @@ from cablewright.annotate.jsonout import document
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.core.errors import CableRouteError, CircuitInputError
 from cablewright.sizing.capacity_tables import canonical_method
+from cablewright.sizing.chain import origin_drop_not_checked, with_origin_check
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.standards import size_for_standard
@@ -55,7 +56,12 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
         from dataclasses import replace
 
         sizing = replace(sizing, standard=args.standard)
-    return size_for_standard(spec, sizing), length_m
+    result = size_for_standard(spec, sizing)
+    if result.voltage_drop is not None:  # one circuit alone: its feeders are not known
+        result = with_origin_check(result, origin_drop_not_checked(
+            result.voltage_drop, "calc sizes one circuit alone, the feeders upstream are not "
+            "known; size the schedule with its feeders (cablewright size)"))
+    return result, length_m
 
 
 def run(args: argparse.Namespace) -> int:

@@ -72,7 +72,8 @@ def job_takeoff(job, drawing: Path, settings: Settings):
     """The job's take-off (quantities, devices, fill) and the top-level keys of schedule.json."""
     from cablewright.annotate.takeoff import build_takeoff, document_extras
 
-    takeoff = build_takeoff(job.outcomes, job.measurement.segments, job.per_segment, settings.sizing)
+    takeoff = build_takeoff(job.outcomes, job.measurement.segments, job.per_segment, settings.sizing,
+                            job.measurement.carrier_sizes)
     extras = document_extras(takeoff, drawing, settings.sizing)
     entry = drawing_entry(job.measurement)
     if entry:

@@ -21,7 +21,11 @@ from cablewright.sizing.chain import (
     ChainCable,
     chain_drops,
     cheapest_drop_fix,
+    origin_drop_check,
+    origin_drop_not_checked,
+    origin_limit,
     upstream_chain,
+    with_origin_check,
 )
 from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
@@ -266,7 +270,10 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
 
     A circuit whose source is the load end of another circuit (a sub-board
     fed from the schedule) adds that feeder's drop, and so on up the chain;
-    the circuit's own limit then applies to the total.
+    the circuit's own limit then applies to the total.  Every circuit with a
+    voltage drop gets the check ``voltage_drop_origin`` (sizing.chain): pass or
+    fail through feeders, not applicable when fed at the origin, not checked in
+    or through a supply loop or below a feeder that could not be sized.
     """
     own = {cid: r.voltage_drop.percent for cid, r in results.items() if r.voltage_drop is not None}
     source_of = {cid: rows[cid].from_tag for cid in own}
@@ -277,24 +284,49 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
         log.warning("%s", loop)
         for cid in loop.circuit_ids:
             result = results[cid]
-            out[cid] = replace(result, status="error", messages=result.messages + (str(loop),))
+            out[cid] = with_origin_check(
+                replace(result, status="error", messages=result.messages + (str(loop),)),
+                origin_drop_not_checked(result.voltage_drop, "this circuit is in a supply loop"))
     for cid, loop in drops.fed_through_loop.items():
         result = results[cid]
-        out[cid] = replace(result, messages=result.messages + (
-            f"voltage drop from the origin not computed: the supply passes through the loop "
-            f"{' -> '.join(loop.circuit_ids)}; fix the 'from' and 'to' tags of the loop",))
-    cumulative = drops.cumulative_pct
-    for cid, total in cumulative.items():
+        why = (f"voltage drop from the origin not computed: the supply passes through the loop "
+               f"{' -> '.join(loop.circuit_ids)}; fix the 'from' and 'to' tags of the loop")
+        out[cid] = with_origin_check(replace(result, messages=result.messages + (why,)),
+                                     origin_drop_not_checked(result.voltage_drop, why))
+    unsized = _below_unsized_feeder(drops.cumulative_pct, rows, own)
+    for cid, total in drops.cumulative_pct.items():
         result = results[cid]
+        if cid in unsized:
+            out[cid] = with_origin_check(result, origin_drop_not_checked(
+                result.voltage_drop, f"feeder {unsized[cid]} upstream could not be sized"))
+            continue
         vd = replace(result.voltage_drop, cumulative_percent=total)
-        limit = vd.limit_percent if vd.total_limit_percent is None else vd.total_limit_percent
-        if total > limit + 1e-9 and total > vd.percent + 1e-9:
-            message = (f"voltage drop from the origin {total:.2f} % (own {vd.percent:.2f} % plus "
-                       f"feeders upstream) exceeds the {limit:g} % limit "
-                       f"({vd.total_limit_source}): enlarge this circuit or its feeder")
-            message += _drop_advice(cid, total, limit, results, source_of, feeder_of, specs or {})
+        feeders = [(c, own[c]) for c in upstream_chain(cid, source_of, feeder_of)[1:]]
+        check = origin_drop_check(vd, feeders, total)
+        result = with_origin_check(replace(result, voltage_drop=vd), check)
+        if check.failed:
+            message = (f"{check.message} ({origin_limit(vd)[1]}): "
+                       "enlarge this circuit or its feeder")
+            message += _drop_advice(cid, total, check.limit, results, source_of, feeder_of, specs or {})
             status = "error" if result.status == "error" else "fail"
-            out[cid] = replace(result, voltage_drop=vd, status=status, messages=result.messages + (message,))
-        else:
-            out[cid] = replace(result, voltage_drop=vd)
+            result = replace(result, status=status, messages=result.messages + (message,))
+        out[cid] = result
+    return out
+
+
+def _below_unsized_feeder(cumulative: Mapping[str, float], rows: Mapping[str, ScheduleRow],
+                          own: Mapping[str, float]) -> dict[str, str]:
+    """Circuits fed (at any depth) through a schedule circuit that has no voltage drop: that feeder.
+
+    Such a circuit's drop from the origin is not known; summing only the feeders
+    that were sized would understate it.
+    """
+    feeder_of_all = {row.to_tag: cid for cid, row in rows.items()}
+    source_of_all = {cid: row.from_tag for cid, row in rows.items()}
+    out = {}
+    for cid in cumulative:
+        missing = next((c for c in upstream_chain(cid, source_of_all, feeder_of_all)[1:]
+                        if c not in own), None)
+        if missing is not None:
+            out[cid] = missing
     return out

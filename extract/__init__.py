@@ -109,6 +109,8 @@ class ReaderResult:
         The parsed DXF document (kept for the annotated copy and the preview).
     summary : object or None
         Units, where they came from, extents and scale check of a DXF drawing.
+    carrier_sizes : mapping
+        Source id -> :class:`~cablewright.extract.model.CarrierSize` the model states (IFC).
     """
 
     path: str
@@ -121,6 +123,7 @@ class ReaderResult:
     no_circuits_hint: str | None = None
     document: object | None = field(default=None, repr=False, compare=False)
     summary: Any = None
+    carrier_sizes: Mapping[str, Any] = field(default_factory=dict)
 
 
 def read_drawing(
@@ -294,6 +297,7 @@ def measure_content(
         graph=network.graph,
         source_document=content.document,
         drawing_summary=content.summary,
+        carrier_sizes=dict(content.carrier_sizes),
     )
 
 

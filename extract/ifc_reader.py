@@ -44,6 +44,7 @@ from .model import (
     CONTAINMENTS,
     DEFAULT_ROUTE_LAYERS,
     UNIT_TO_M,
+    CarrierSize,
     DrawingConfig,
     Equipment,
     Measurement,
@@ -168,6 +169,11 @@ class IfcConfig:
         source's level with a vertical rise at the load (:func:`estimated_routes`); every
         circuit on such a route says "estimated".  Off (default): such a model is refused,
         naming the equipment and circuits found.
+    containment_from_model : bool
+        On (default): a carrier whose model states its width or inner diameter (profile of
+        its body or the standard property sets, :mod:`.ifc_carrier_size`) uses it for the
+        tray and duct fill, and ``[sizing.containment_mm]`` covers only the carriers that
+        state none; off: the project's ``[sizing.containment_mm]`` per route layer for all.
     """
 
     tag_sources: tuple[str, ...] = ("Tag", "Name")
@@ -204,6 +210,7 @@ class IfcConfig:
         "IfcTransformer",
     )
     estimate_routes: bool = False
+    containment_from_model: bool = True
 
 
 #: Source id prefix of a route piece estimated without carriers (``[ifc] estimate_routes``).
@@ -304,6 +311,9 @@ class IfcContent:
         Circuits from IfcDistributionCircuit / IfcElectricalCircuit groups.
     circuit_failures : mapping
         Circuit id -> message, for groups whose source or load cannot be told.
+    carrier_sizes : mapping
+        GlobalId -> :class:`~cablewright.extract.model.CarrierSize` of every carrier that
+        states its width or inner diameter (``[ifc] containment_from_model``).
     """
 
     path: str
@@ -317,6 +327,7 @@ class IfcContent:
     circuit_rows: tuple[ScheduleRow, ...] = ()
     circuit_failures: Mapping[str, str] = field(default_factory=dict)
     units: str = "m"
+    carrier_sizes: Mapping[str, CarrierSize] = field(default_factory=dict)
 
 
 def open_model(path: str | os.PathLike[str]) -> Any:
@@ -648,7 +659,22 @@ def _read_ifc(
         port_joins=joins,
         circuit_rows=tuple(rows),
         circuit_failures=failures,
+        carrier_sizes=_carrier_sizes(pieces, scale) if ic.containment_from_model else {},
     )
+
+
+def _carrier_sizes(pieces: list[_Piece], scale_m: float) -> dict[str, CarrierSize]:
+    """GlobalId -> the width or inner diameter each carrier segment's model states [mm]."""
+    from .ifc_carrier_size import carrier_size
+
+    out: dict[str, CarrierSize] = {}
+    for piece in pieces:
+        if piece.is_fitting or piece.kind is None:
+            continue
+        size = carrier_size(piece.element, piece.kind[0], 1000.0 * scale_m)
+        if size is not None:
+            out[piece.gid] = size
+    return out
 
 
 
@@ -1211,5 +1237,5 @@ def reader_result(
     )
     return ReaderResult(
         content.path, content.units, content.polylines, content.equipment, content.issues,
-        content.circuit_rows, content.circuit_failures, hint,
+        content.circuit_rows, content.circuit_failures, hint, carrier_sizes=content.carrier_sizes,
     )

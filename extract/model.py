@@ -26,6 +26,7 @@ __all__ = [
     "UNIT_TO_M",
     "RoutePolyline",
     "RouteSegment",
+    "CarrierSize",
     "Equipment",
     "ScheduleRow",
     "CircuitRoute",
@@ -113,6 +114,22 @@ class RouteSegment:
     method: str
     length_m: float
     points_m: tuple[Point3, ...]
+
+
+@dataclass(frozen=True)
+class CarrierSize:
+    """The containment size a model states for one carrier (IFC: profile or property set).
+
+    Attributes
+    ----------
+    size_mm : float
+        Usable width (tray, ladder) or inner diameter (conduit, duct), [mm].
+    source : str
+        Where it was read, e.g. ``"IFC <GlobalId> IfcRectangleProfileDef max(XDim, YDim)"``.
+    """
+
+    size_mm: float
+    source: str
 
 
 @dataclass(frozen=True)
@@ -348,6 +365,9 @@ class Measurement:
     drawing_summary : DrawingSummary or None
         Units used (and where they came from), route extents and the scale check
         (:class:`~cablewright.extract.units.DrawingSummary`); None for IFC.
+    carrier_sizes : dict
+        Source id (IFC GlobalId) -> :class:`CarrierSize` of every carrier whose model
+        states its width or inner diameter (``[ifc] containment_from_model``); empty for DXF.
     """
 
     drawing: str
@@ -361,3 +381,4 @@ class Measurement:
     graph: nx.Graph
     source_document: object | None = field(default=None, repr=False, compare=False)
     drawing_summary: DrawingSummary | None = None
+    carrier_sizes: dict[str, CarrierSize] = field(default_factory=dict)

@@ -39,6 +39,24 @@ TIME_STAMP = "2024-01-01T00:00:00"
 __all__ = ["IfcModelBuilder", "frame", "build_pumping_station", "main"]
 
 
+#: Property names whose value is a length (written in the model's unit).
+_LENGTH_NAMES = ("Width", "Height", "Diameter")
+
+#: The sample's carriers, invented for the demonstration: body profile (world metres) and
+#: standard property sets (ISO 16739-1:2018, Pset_CableCarrierSegmentType...Segment).
+#: The main tray 400 mm wide, the other trays 200 mm (the profile); the ladder 500 mm (its property set NominalWidth and
+#: its profile); conduits of 50 mm outside, 2 mm wall (46 mm inside); the duct bank's
+#: conduits 125 mm outside, 6 mm wall (113 mm inside).
+SAMPLE_CARRIERS: dict[str, dict[str, Any]] = {
+    "CABLETRAYSEGMENT": {"profile": ("rect", 0.2, 0.06)},
+    "MAINTRAY": {"profile": ("rect", 0.4, 0.06)},
+    "CABLELADDERSEGMENT": {"profile": ("rect", 0.5, 0.1), "psets": {
+        "Pset_CableCarrierSegmentTypeCableLadderSegment": {"NominalWidth": 0.5, "NominalHeight": 0.1}}},
+    "CONDUITSEGMENT": {"profile": ("circle_hollow", 0.025, 0.002)},
+    "DUCTBANK": {"profile": ("circle_hollow", 0.0625, 0.006)},
+}
+
+
 def frame(origin: Sequence[float], x_dir: Sequence[float], z_dir: Sequence[float] = (0.0, 0.0, 1.0)) -> np.ndarray:
     """4x4 placement matrix, world metres: columns X, Y, Z axes and origin."""
     x = np.asarray(x_dir, float) / np.linalg.norm(x_dir)
@@ -221,12 +239,18 @@ class IfcModelBuilder:
         geometry: str = "axis",
         arc: bool = False,
         routing: dict[str, str] | None = None,
+        profile: tuple[Any, ...] = ("rect", 0.3, 0.1),
+        psets: dict[str, dict[str, Any]] | None = None,
     ) -> tuple[Any, list[Any]]:
         """A route piece through ``points_m`` (world metres).
 
         ``geometry``: ``"axis"`` (IfcIndexedPolyCurve, IFC4), ``"polyline"`` (IfcPolyline),
         ``"axis2d"`` (2D indexed curve, horizontal pieces only), ``"body"`` (an extruded solid
         only; two points), ``"both"`` (axis and body).  ``arc``: three points, start-mid-end.
+        ``profile`` of the body, world metres: ``("rect", width, depth)``
+        (IfcRectangleProfileDef), ``("circle", radius)``, ``("circle_hollow", radius, wall)``.
+        ``psets``: property sets of single values (name -> properties, lengths in metres
+        written in the model's unit when the name ends a length: Width, Height, Diameter).
         """
         import ifcopenshell.api.geometry
 
@@ -249,12 +273,11 @@ class IfcModelBuilder:
         if geometry in ("body", "both"):
             length = float(np.linalg.norm(pts[-1] - pts[0]))
             f = self.f
-            profile = f.createIfcRectangleProfileDef("AREA", None, f.createIfcAxis2Placement2D(
-                f.createIfcCartesianPoint((0.0, 0.0)), None), 0.3 / self.scale, 0.1 / self.scale)
+            area = self._profile(profile)
             position = f.createIfcAxis2Placement3D(
                 f.createIfcCartesianPoint((0.0, 0.0, 0.0)), f.createIfcDirection((1.0, 0.0, 0.0)),
                 f.createIfcDirection((0.0, 1.0, 0.0)))
-            solid = f.createIfcExtrudedAreaSolid(profile, position, f.createIfcDirection((0.0, 0.0, 1.0)),
+            solid = f.createIfcExtrudedAreaSolid(area, position, f.createIfcDirection((0.0, 0.0, 1.0)),
                                                  length / self.scale)
             reps.append(f.createIfcShapeRepresentation(self.body, "Body", "SweptSolid", [solid]))
         for rep in reps:
@@ -262,7 +285,24 @@ class IfcModelBuilder:
         port_list = self._ports(el, [pts[0], pts[-1]], d) if ports else []
         if routing:
             self.pset(el, "CW_Routing", routing)
+        for name, props in (psets or {}).items():
+            self.pset(el, name, {k: (v / self.scale if k.endswith(_LENGTH_NAMES) else v)
+                                 for k, v in props.items()})
         return el, port_list
+
+    def _profile(self, spec: tuple[Any, ...]) -> Any:
+        """The body's profile (ISO 16739-1: IfcRectangleProfileDef, IfcCircle(Hollow)ProfileDef)."""
+        f = self.f
+        where = f.createIfcAxis2Placement2D(f.createIfcCartesianPoint((0.0, 0.0)), None)
+        kind, *dims = spec
+        d = [float(v) / self.scale for v in dims]
+        if kind == "rect":
+            return f.createIfcRectangleProfileDef("AREA", None, where, d[0], d[1])
+        if kind == "circle":
+            return f.createIfcCircleProfileDef("AREA", None, where, d[0])
+        if kind == "circle_hollow":
+            return f.createIfcCircleHollowProfileDef("AREA", None, where, d[0], d[1])
+        raise ValueError(f"profile {kind!r}: use 'rect', 'circle' or 'circle_hollow'")
 
     def fitting(
         self,
@@ -363,9 +403,10 @@ def build_pumping_station() -> IfcModelBuilder:
     b.storey("Level +4.5", s.UPPER_FLOOR_Z * mm)
     b.storey("Site", 0.0)
 
-    def seg(names, kind="CABLETRAYSEGMENT", **kw):
+    def seg(names, kind="CABLETRAYSEGMENT", carrier=None, **kw):
         return b.segment([P[n] for n in names], predefined=kind, name="-".join(names), geometry="both"
-                         if len(names) == 2 and "arc" not in kw else "axis", **kw)
+                         if len(names) == 2 and "arc" not in kw else "axis",
+                         **SAMPLE_CARRIERS[carrier or kind], **kw)
 
     def chain(*items):
         """Join consecutive port lists: end port of one to start port of the next."""
@@ -386,7 +427,7 @@ def build_pumping_station() -> IfcModelBuilder:
     tee("RIS_B", [l1[1][1], l2[1][0], riser[1][0]])
     # main tray B..C, split at the branch tees; B1-B is the 20 mm gap, ports joined
     stops = ["B", "X20", "X27", "X34", "X41", "X43", "C"]
-    main = [seg([a, c]) for a, c in zip(stops[:-1], stops[1:], strict=True)]
+    main = [seg([a, c], carrier="MAINTRAY") for a, c in zip(stops[:-1], stops[1:], strict=True)]
     b.connect(l2[1][1], main[0][1][0])
     branch = {x: seg([x, t]) for x, t in (("X20", "P101_A"), ("X27", "P102_A"), ("X41", "P104_A"))}
     branch["X34"] = seg(["X34", "TN1"])  # through P103_A, straight on to TN1
@@ -405,9 +446,9 @@ def build_pumping_station() -> IfcModelBuilder:
     tee("RIS_T", [riser[1][1], c1[1][0]], storey=up, kind="BEND")
     tee("CR1", [c1[1][1], c2[1][0]], storey=up, kind="BEND")
     # duct bank: a conduit dropping into the ground (ours says duct), then conduit in the ground
-    drop = seg(["TE_N", "DU1"], "CONDUITSEGMENT", storey="Site", routing={"Containment": "duct"})
-    d1 = seg(["DU1", "DU2"], "CONDUITSEGMENT", storey="Site")
-    d2 = seg(["DU2", "VC1"], "CONDUITSEGMENT", storey="Site")
+    drop = seg(["TE_N", "DU1"], "CONDUITSEGMENT", "DUCTBANK", storey="Site", routing={"Containment": "duct"})
+    d1 = seg(["DU1", "DU2"], "CONDUITSEGMENT", "DUCTBANK", storey="Site")
+    d2 = seg(["DU2", "VC1"], "CONDUITSEGMENT", "DUCTBANK", storey="Site")
     tee("TE_N", [branch["X43"][1][1], drop[1][0]], kind="BEND")
     tee("DU1", [drop[1][1], d1[1][0]], storey="Site", kind="BEND")
     tee("DU2", [d1[1][1], d2[1][0]], storey="Site", kind="BEND")

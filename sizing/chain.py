@@ -14,11 +14,12 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from cablewright.core.errors import CableRouteError
 
 from .conductor_resistance import STANDARD_CSA_MM2, resistance_ohm_per_km
+from .model import Check, CheckResult, SizingResult, VoltageDrop
 from .voltage_drop import MAX_CONDUCTOR_TEMPERATURE_C, REACTANCE_MOHM_PER_M
 
 __all__ = [
@@ -32,7 +33,21 @@ __all__ = [
     "drop_after_resize_pct",
     "upstream_chain",
     "cheapest_drop_fix",
+    "ORIGIN_DROP_CHECK",
+    "ORIGIN_DROP_SOURCE",
+    "origin_limit",
+    "origin_drop_check",
+    "origin_drop_not_checked",
+    "with_origin_check",
 ]
+
+#: Name of the check of the drop from the origin in ``checks`` (beside ``voltage_drop``,
+#: the circuit's own drop).
+ORIGIN_DROP_CHECK = "voltage_drop_origin"
+#: The clause the check follows: the limit holds between the origin of the
+#: installation and the equipment, IEC 60364-5-52:2009 525 and Annex G (G.52.1,
+#: Table G.52.1).
+ORIGIN_DROP_SOURCE = "IEC 60364-5-52:2009 525 and G.52.1, from the origin of the installation"
 
 
 class SupplyCycleError(CableRouteError, ValueError):
@@ -387,3 +402,106 @@ def cheapest_drop_fix(
                     best = fix
                 break
     return best
+
+
+def origin_limit(vd: VoltageDrop) -> tuple[float, str]:
+    """The limit of the drop from the origin [%] and where it comes from.
+
+    Examples
+    --------
+    >>> origin_limit(VoltageDrop(1.0, 0.5, 3.0, 0.0, 0.5, total_limit_percent=5.0,
+    ...                          total_limit_source="NFPA 70:2023 215.2(A)(2)"))
+    (5.0, 'NFPA 70:2023 215.2(A)(2)')
+
+    The rule set's own total limit when it has one (NEC), else the circuit's
+    limit: IEC 60364-5-52:2009 Table G.52.1 gives the limit from the origin.
+    """
+    if vd.total_limit_percent is not None:
+        return vd.total_limit_percent, vd.total_limit_source
+    return vd.limit_percent, vd.limit_source or "IEC 60364-5-52:2009 Table G.52.1"
+
+
+def origin_drop_check(vd: VoltageDrop, feeders: Sequence[tuple[str, float]],
+                      cumulative_pct: float) -> Check:
+    """The check of the drop from the origin of the installation to the load.
+
+    :math:`u_{origin} = u_{own} + \\sum u_{feeder}` against the limit of
+    Table G.52.1 (or the rule set's total limit).  A circuit fed at an origin
+    (no feeder upstream in the schedule) is ``not_applicable``: its drop from
+    the origin is its own drop, which the ``voltage_drop`` check already holds
+    against the same limit, so one cause is counted once.
+
+    Parameters
+    ----------
+    vd : VoltageDrop
+        The circuit's own drop and its limit.
+    feeders : sequence of (circuit id, own drop [%])
+        The feeders upstream, nearest first (:func:`upstream_chain` without
+        the circuit itself); empty when fed at an origin.
+    cumulative_pct : float
+        The drop from the origin [%] (:func:`chain_drops`).
+
+    Returns
+    -------
+    Check
+        ``voltage_drop_origin``: value the drop from the origin, limit, unit %.
+
+    Examples
+    --------
+    A lighting circuit (own 2.83 %) fed through a feeder (0.32 %), against
+    the 3 % of Table G.52.1 for lighting on a public supply:
+
+    >>> vd = VoltageDrop(6.5, 2.83, 3.0, 0.0, 2.83, limit_source="Table G.52.1")
+    >>> c = origin_drop_check(vd, [("F-DB2", 0.32)], 3.15)
+    >>> c.result.value, c.value, c.limit
+    ('fail', 3.15, 3.0)
+    >>> origin_drop_check(vd, [], 2.83).result.value
+    'not_applicable'
+
+    References
+    ----------
+    .. [1] IEC 60364-5-52:2009, 525 and Annex G, G.52.1 and Table G.52.1.
+    """
+    limit, limit_source = origin_limit(vd)
+    if not feeders:
+        return Check(ORIGIN_DROP_CHECK, CheckResult.NOT_APPLICABLE, vd.percent, limit, "%", "",
+                     "fed at the origin: the drop from the origin is this circuit's own drop "
+                     "(check voltage_drop)")
+    via = ", ".join(f"{cid} {pct:.2f} %" for cid, pct in feeders)
+    passed = cumulative_pct <= limit + 1e-9
+    message = "" if passed else (
+        f"voltage drop from the origin {cumulative_pct:.2f} % (own {vd.percent:.2f} % plus "
+        f"feeders upstream) exceeds the {limit:g} % limit")
+    return Check(ORIGIN_DROP_CHECK, passed, cumulative_pct, limit, "%",
+                 f"{ORIGIN_DROP_SOURCE}: own {vd.percent:.2f} % + {via}; limit {limit_source}",
+                 message)
+
+
+def origin_drop_not_checked(vd: VoltageDrop | None, why: str) -> Check:
+    """The check of the drop from the origin, not made, saying why.
+
+    Examples
+    --------
+    >>> origin_drop_not_checked(None, "in a supply loop").result.value
+    'not_checked'
+    """
+    limit = 0.0 if vd is None else origin_limit(vd)[0]
+    return Check(ORIGIN_DROP_CHECK, CheckResult.NOT_CHECKED, 0.0, limit, "%", ORIGIN_DROP_SOURCE,
+                 f"not checked: {why}")
+
+
+def with_origin_check(result: SizingResult, check: Check) -> SizingResult:
+    """``result`` with ``check`` right after its ``voltage_drop`` check (replacing an earlier one).
+
+    Examples
+    --------
+    >>> r = SizingResult("L-1", "ok", checks=(Check("voltage_drop", True, 1, 3, "%", ""),
+    ...                                      Check("short_circuit", True, 1, 2, "mm²", "")))
+    >>> c = origin_drop_not_checked(None, "no schedule")
+    >>> [x.name for x in with_origin_check(with_origin_check(r, c), c).checks]
+    ['voltage_drop', 'voltage_drop_origin', 'short_circuit']
+    """
+    checks = [c for c in result.checks if c.name != ORIGIN_DROP_CHECK]
+    at = next((i + 1 for i, c in enumerate(checks) if c.name == "voltage_drop"), len(checks))
+    checks.insert(at, check)
+    return replace(result, checks=tuple(checks))

@@ -217,6 +217,9 @@ class VoltageDrop:
     #: ``limit_percent`` applies to the total (IEC 60364-5-52:2009 Annex G).
     total_limit_percent: float | None = None
     total_limit_source: str = "IEC 60364-5-52:2009 Annex G"
+    #: Where ``limit_percent`` comes from (schedule, config or the standard's table),
+    #: named by the origin check (:func:`.chain.origin_drop_check`); ``""`` unknown.
+    limit_source: str = ""
 
 
 class CheckResult(str, Enum):

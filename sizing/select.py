@@ -16,7 +16,7 @@ The procedure of IEC 60364-4-43 433.1 and IEC 60364-5-52 clause 523:
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import lru_cache
 
 from cablewright.core.errors import CableRouteError, CircuitInputError, UnknownKeyError
@@ -578,7 +578,7 @@ def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, g
     iz = parallel * amps[stretch_index][index] * total
     cand = Candidate(csa, parallel, iz, stretch_index)
     checks = _base_checks(ctx, iz)
-    vd = _voltage_drop(spec, cand, ctx, vd_temp_c)
+    vd = replace(_voltage_drop(spec, cand, ctx, vd_temp_c), limit_source=limit_source)
     checks.append(_voltage_drop_check(vd, vd_temp_c, temp_rule, limit_source))
     checks.extend(prep.report(csa, parallel))
     return _assemble(spec, cand, governed, ctx, spec.stretches[stretch_index],
