@@ -55,6 +55,7 @@ from __future__ import annotations
 
 import difflib
 from dataclasses import dataclass
+from typing import cast
 
 from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
@@ -195,14 +196,16 @@ _PROV_EFG_AL = (
     "second public copy, the other columns rest on this single copy."
 )
 
-_ = None  # no value printed
+_: None = None  # no value printed
 
 
 def _rows(data: tuple[tuple[float | None, ...], ...]) -> tuple[CapacityRow, ...]:
-    return tuple(CapacityRow(float(r[0]), tuple(r[1:])) for r in data)
+    # the first cell of a row is its size, always printed
+    return tuple(CapacityRow(float(cast(float, r[0])), tuple(r[1:])) for r in data)
 
 
-def _abcd(table: str, ins: str, cond: str, loaded: int, data) -> CapacityTable:
+def _abcd(table: str, ins: str, cond: str, loaded: int,
+          data: tuple[tuple[float | None, ...], ...]) -> CapacityTable:
     return CapacityTable(
         table=table,
         insulation=ins,
@@ -217,7 +220,7 @@ def _abcd(table: str, ins: str, cond: str, loaded: int, data) -> CapacityTable:
     )
 
 
-def _efg(table: str, ins: str, cond: str, data) -> CapacityTable:
+def _efg(table: str, ins: str, cond: str, data: tuple[tuple[float | None, ...], ...]) -> CapacityTable:
     return CapacityTable(
         table=table,
         insulation=ins,
@@ -495,11 +498,11 @@ for _table in ALL_TABLES:
         _key = (_method, _table.conductor, _table.insulation, _loaded)
         _INDEX[_key] = (_table, _col)
         _VALUES[_key] = {
-            _row.csa_mm2: float(_row.amps[_col])
+            _row.csa_mm2: float(_amps)
             for _row in _table.rows
-            if _row.amps[_col] is not None
+            if (_amps := _row.amps[_col]) is not None
         }
-del _table, _col, _method, _loaded, _key
+del _table, _col, _method, _loaded, _key, _amps
 
 
 _METHOD_BY_UPPER = {m.upper(): m for m in METHODS}

@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 from cablewright.core.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
@@ -195,7 +196,7 @@ def _environment_factors(
     depth_m: float = REFERENCE_DEPTH_M,
 ) -> tuple[Factor, ...]:
     if method in GROUND_METHODS:
-        factors = (
+        factors: tuple[Factor, ...] = (
             ground_temperature_factor(ambient_c, insulation),
             soil_resistivity_factor(soil_k_m_w, method),
         )
@@ -327,7 +328,8 @@ def _column(method: str, conductor: str, insulation: str, loaded: int) -> dict[f
 
 @lru_cache(maxsize=65536)
 def _layout(methods: tuple[str, ...], conductor: str, insulation: str, loaded: int,
-            upper: float, minimum: float):
+            upper: float, minimum: float) -> tuple[
+                tuple[float, ...], tuple[float, ...], tuple[tuple[float, ...], ...], tuple[float, ...], bool]:
     """Sizes, allowed sizes and tabulated currents of every stretch's column.
 
     Returns ``(sizes, allowed, amps, amps_smallest, monotone)``: ``amps[s][i]``
@@ -357,7 +359,8 @@ def _stretch_total(method: str, insulation: str, ambient_c: float, soil_k_m_w: f
     return math.prod(f.value for f in factors), factors
 
 
-def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig):
+def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig
+                 ) -> tuple[str, str, float, float, float]:
     """The environment of a stretch with the config's defaults filled in:
     (method, insulation, ambient or ground °C, soil K·m/W, depth m)."""
     depth = REFERENCE_DEPTH_M
@@ -570,8 +573,11 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                             vd_temperature(index, parallel, totals), temp_rule, limit_source)
 
 
-def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed, rated,
-                     rating, vd_temp_c, temp_rule, limit_source) -> SizingResult:
+def _prepared_result(spec: CircuitSpec, ctx: SizingContext, prep: PreparedChecks,
+                     allowed: tuple[float, ...], amps: tuple[tuple[float, ...], ...],
+                     methods: tuple[str, ...], index: int, parallel: int, governed: str,
+                     rated: list[tuple[float, tuple[Factor, ...]]], rating: tuple[float, int],
+                     vd_temp_c: float, temp_rule: str, limit_source: str) -> SizingResult:
     _, stretch_index = rating
     csa = allowed[index]
     total, factors = rated[stretch_index]
@@ -605,8 +611,10 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     return out
 
 
-def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras,
-              ze_assumed_ohm: float = 0.0):
+def _assemble(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContext,
+              stretch: Stretch, method: str, iz: float, total: float,
+              factors: tuple[Factor, ...], checks: list[Check], vd: VoltageDrop | None,
+              extras: dict[str, Any], ze_assumed_ohm: float = 0.0) -> SizingResult:
     messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
     status = "fail" if messages else "ok"
     if extras.get("ze_assumed"):

@@ -371,7 +371,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     for ambient in ambients:  # outside Table 310.15(B)(1)(1): the circuit's error, said once
         ambient_factor(ambient, INSULATION_TEMP_C)
 
-    def rate(size: str, parallel: int):
+    def rate(size: str, parallel: int) -> tuple[NecStretchRating, int]:
         ratings = []
         for stretch, amb in zip(spec.stretches, ambients, strict=True):
             # each parallel set in its own raceway (310.10(G)(4)); the other circuits'
@@ -381,7 +381,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         index = min(range(len(ratings)), key=lambda i: ratings[i].ampacity_a)
         return ratings[index], index
 
-    def capacity_ok(size: str, parallel: int):
+    def capacity_ok(size: str, parallel: int) -> tuple[bool, float, NecStretchRating, int, float] | None:
         try:
             rating, index = rate(size, parallel)
             term = ampacity_a(size, spec.conductor, demand.termination_c)
@@ -426,7 +426,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                 f"{config.max_parallel} parallel sets of {size_label(sizes[-1])} under these "
                 "conditions; split the load, change the route or raise max_parallel in the config")
     size, parallel, governed, minimum_size = chosen
-    _, ampacity, rating, index, term = capacity_ok(size, parallel)
+    checked = capacity_ok(size, parallel)
+    assert checked is not None  # the chosen size was rated in the search above
+    _, ampacity, rating, index, term = checked
     if notes:
         demand = replace(demand, notes=demand.notes + tuple(notes))
     return _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size,
@@ -461,8 +463,10 @@ def _fill(spec: CircuitSpec, wire_key: str, size: str, egc: str, cores: int) -> 
                  source, f"EMT trade size {trade} per set ({area:.3f} in² of conductors)")
 
 
-def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size, ampacity,
-            rating, index, term, volts, limit, raceway) -> SizingResult:
+def _result(spec: CircuitSpec, config: SizingConfig, demand: _Demand, wire: str, cores: int,
+            size: str, parallel: int, governed: str, minimum_size: str, ampacity: float,
+            rating: NecStretchRating, index: int, term: float, volts: float, limit: float,
+            raceway: str) -> SizingResult:
     stretch = spec.stretches[index]
     total = math.prod(f.value for f in rating.factors)
     label = size_label(size)
