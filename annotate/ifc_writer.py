@@ -121,8 +121,8 @@ def _sizing_props(outcome: CircuitOutcome) -> dict[str, Any]:
         props["VoltageDropLimit_pct"] = float(s.voltage_drop.limit_percent)
     route = outcome.route
     if route is not None:
-        props["RoutedLength_m"] = float(route.routed_length_m)  # type: ignore[attr-defined]
-        props["DesignLength_m"] = float(route.design_length_m)  # type: ignore[attr-defined]
+        props["RoutedLength_m"] = float(route.routed_length_m)
+        props["DesignLength_m"] = float(route.design_length_m)
     if outcome.messages:
         props["Messages"] = "; ".join(outcome.messages)[:250]
     return props
@@ -243,7 +243,7 @@ def _new_cable(f: Any, outcome: CircuitOutcome, scale: float) -> Any:
         ifcopenshell.api.spatial.assign_container(f, products=[cable], relating_structure=container)
     ifcopenshell.api.geometry.edit_object_placement(f, product=cable, matrix=np.eye(4))
     route = outcome.route
-    pts = list(route.points_m) if route is not None else []  # type: ignore[attr-defined]
+    pts = list(route.points_m) if route is not None else []
     if len(pts) >= 2:
         # the placement sits at the world origin, so local = world coordinates
         from cablewright.extract.ifc_geometry import world_matrix

@@ -51,7 +51,7 @@ from cablewright.sizing.config import SizingConfig
 if sys.version_info >= (3, 11):
     import tomllib
 else:  # pragma: no cover
-    import tomli as tomllib
+    import tomli as tomllib  # type: ignore[import-not-found]  # installed on Python 3.10 only
 
 __all__ = [
     "Settings",

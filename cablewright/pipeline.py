@@ -24,7 +24,7 @@ from cablewright.sizing.chain import (
     upstream_chain,
 )
 from cablewright.sizing.fields import spec_from_fields
-from cablewright.sizing.model import SizingResult, Stretch
+from cablewright.sizing.model import CircuitSpec, SizingResult, Stretch
 from cablewright.sizing.standards import size_for_standard
 
 from .config import Settings
@@ -133,7 +133,7 @@ def size_measurement(
     """Size every routed circuit; unrouted or bad circuits become ``error`` outcomes."""
     config = settings.sizing
     tiers_of = drawing_config(settings).layer_tiers
-    specs: dict[str, object] = {}
+    specs: dict[str, CircuitSpec] = {}
     errors: dict[str, str] = {}
     rows = {row.circuit_id: row for row in measurement.rows}
     for row in measurement.rows:
@@ -235,7 +235,7 @@ def _lightly_loaded(results: Mapping[str, SizingResult]) -> set[str]:
 
 def _drop_advice(cid: str, total: float, limit: float, results: Mapping[str, SizingResult],
                  source_of: Mapping[str, str], feeder_of: Mapping[str, str],
-                 specs: Mapping[str, object]) -> str:
+                 specs: Mapping[str, CircuitSpec]) -> str:
     """"; cheapest: ..." naming the one cable to enlarge (sizing.chain.cheapest_drop_fix)."""
     cables = {}
     for c in upstream_chain(cid, source_of, feeder_of):
@@ -261,7 +261,7 @@ def _drop_advice(cid: str, total: float, limit: float, results: Mapping[str, Siz
 
 
 def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow],
-                      specs: Mapping[str, object] | None = None) -> dict[str, SizingResult]:
+                      specs: Mapping[str, CircuitSpec] | None = None) -> dict[str, SizingResult]:
     """Add the drop from the origin (IEC 60364-5-52:2009 Annex G) to every result.
 
     A circuit whose source is the load end of another circuit (a sub-board
@@ -286,6 +286,7 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
     cumulative = drops.cumulative_pct
     for cid, total in cumulative.items():
         result = results[cid]
+        assert result.voltage_drop is not None  # chain_drops sums only circuits with a drop
         vd = replace(result.voltage_drop, cumulative_percent=total)
         limit = vd.limit_percent if vd.total_limit_percent is None else vd.total_limit_percent
         if total > limit + 1e-9 and total > vd.percent + 1e-9:

@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
-from cablewright.core.errors import DrawingReadError, Issue, ScheduleError
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode, ScheduleError
 
 from .dxf_reader import DxfContent, read_dxf
 from .model import (
@@ -269,7 +269,7 @@ def measure_content(
         rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[content.units], issues)
     elif any(row.get(c) for row in rows for c in POSITION_COLUMNS):
         issues.append(Issue(
-            "schedule-position", f"{content.path}: to_x/to_y/to_z in the schedule place loads in DXF "
+            IssueCode.SCHEDULE_POSITION, f"{content.path}: to_x/to_y/to_z in the schedule place loads in DXF "
             "drawings only; ignored for this IFC model - give the loads' tags"))
     network = build_network(content.polylines, equipment, config, source=content.path)
     issues.extend(network.issues)
@@ -328,7 +328,7 @@ def _positioned_loads(rows: list[ScheduleRow], equipment: list[Equipment], metre
         out_rows.append(replace(row, to_tag=tag) if tag != row.to_tag else row)
     drawn = {eq.tag for eq in equipment} & set(placed)
     if drawn:
-        issues.append(Issue("schedule-position",
+        issues.append(Issue(IssueCode.SCHEDULE_POSITION,
                             f"{rows[0].source}: load(s) {', '.join(sorted(drawn))} are in the drawing and given a position in the "
                             "schedule (to_x, to_y); the schedule's position is used"))
     kept = [eq for eq in equipment if eq.tag not in placed]

@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, NamedTuple
 
-from cablewright.core.errors import DrawingReadError, Issue
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode
 
 from .dxf_flatten import FLATTEN_TYPES, flatten_points
 from .dxf_tags import Symbol, TagMarks, TextMark, first_word, tag_symbols, text_anchor
@@ -197,7 +197,7 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
         )
     issues = [
         Issue(
-            "recovered",
+            IssueCode.RECOVERED,
             f"{path}: damaged file read in recover mode ({first_error}); "
             f"{len(doc.modelspace())} model-space entities could be read, anything past the "
             "damage is lost - check the routes against the drawing",
@@ -206,11 +206,11 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     for err in auditor.errors:
         handle = getattr(getattr(err, "entity", None), "dxf", None)
         sid = getattr(handle, "handle", "") or ""
-        issues.append(Issue("recover-lost", f"{path}: {err.message}", sid))
+        issues.append(Issue(IssueCode.RECOVER_LOST, f"{path}: {err.message}", sid))
     for fix in auditor.fixes:
         handle = getattr(getattr(fix, "entity", None), "dxf", None)
         sid = getattr(handle, "handle", "") or ""
-        issues.append(Issue("recover-fixed", f"{path}: {fix.message}", sid))
+        issues.append(Issue(IssueCode.RECOVER_FIXED, f"{path}: {fix.message}", sid))
     return doc, issues
 
 
@@ -265,7 +265,7 @@ def _ocs_to_wcs(extrusion, pts: list[tuple[float, float, float]]) -> list[Point3
     ocs = OCS(extrusion)
     if ocs.uz.isclose((0, 0, 1)):
         return [(float(x), float(y), float(z)) for x, y, z in pts]
-    return [tuple(ocs.to_wcs(p)) for p in pts]  # type: ignore[misc]
+    return [tuple(ocs.to_wcs(p)) for p in pts]
 
 
 def _bulged_chain(
@@ -289,7 +289,7 @@ def _entity_points(e) -> list[Point3] | None:
     """World points (of the entity's own layout) of a route entity; None if unsupported."""
     t = e.dxftype()
     if t == "LINE":
-        return [tuple(e.dxf.start), tuple(e.dxf.end)]  # type: ignore[list-item]
+        return [tuple(e.dxf.start), tuple(e.dxf.end)]
     if t == "LWPOLYLINE":
         verts = [(float(x), float(y), float(b)) for x, y, b in e.get_points(format="xyb")]
         pts = _bulged_chain(verts, bool(e.closed), float(e.dxf.elevation))
@@ -299,7 +299,7 @@ def _entity_points(e) -> list[Point3] | None:
             pts3 = [tuple(v.dxf.location) for v in e.vertices]
             if e.is_closed and pts3:
                 pts3.append(pts3[0])
-            return pts3  # type: ignore[return-value]
+            return pts3
         if e.is_2d_polyline:
             elevation = float(e.dxf.elevation[2]) if e.dxf.hasattr("elevation") else 0.0
             verts = [
@@ -368,7 +368,7 @@ class _Walker:
         if kind is None:
             return
         if matrix is not None:
-            pts = [tuple(v) for v in matrix.transform_vertices(pts)]  # type: ignore[misc]
+            pts = [tuple(v) for v in matrix.transform_vertices(pts)]
         s = self.scale
         pts_m = tuple((float(x) * s, float(y) * s, float(z) * s) for x, y, z in pts)
         self.content.polylines.append(RoutePolyline(pts_m, layer.upper(), kind[0], kind[1], sid))
@@ -385,7 +385,7 @@ class _Walker:
             why = ""
         if not pts or len(pts) < 2:
             self.content.issues.append(Issue(
-                "unsupported-entity",
+                IssueCode.UNSUPPORTED_ENTITY,
                 f"{self.path}: {e.dxftype()} {sid} on route layer {layer} could not be flattened{why}; "
                 "ignored - redraw it as a polyline", sid))
             return
@@ -396,7 +396,7 @@ class _Walker:
         config = self.config
         if t == "CIRCLE" and config.layer_kind(layer):
             self.content.issues.append(Issue(
-                "unsupported-entity",
+                IssueCode.UNSUPPORTED_ENTITY,
                 f"{self.path}: CIRCLE {sid} on route layer {layer} is not a route; ignored - "
                 "draw the route as a line, polyline, arc or spline", sid))
         if not config.tags_from_text:
@@ -405,13 +405,13 @@ class _Walker:
             text = e.plain_text() if t == "MTEXT" else str(e.dxf.text)
             p = text_anchor(e)
         elif layer.upper() in {n.upper() for n in config.tag_symbol_layers}:
-            p = tuple(e.dxf.center if t == "CIRCLE" else e.dxf.location)  # type: ignore[assignment]
+            p = tuple(e.dxf.center if t == "CIRCLE" else e.dxf.location)
             if t == "CIRCLE":
-                p = tuple(e.ocs().to_wcs(p))  # type: ignore[assignment]
+                p = tuple(e.ocs().to_wcs(p))
         else:
             return
         if matrix is not None:
-            p = tuple(matrix.transform(p))  # type: ignore[assignment]
+            p = tuple(matrix.transform(p))
         s = self.scale
         pos = (float(p[0]) * s, float(p[1]) * s, float(p[2]) * s)
         if t in ("TEXT", "MTEXT"):
@@ -450,7 +450,7 @@ class _Walker:
                 handle = getattr(getattr(e, "dxf", None), "handle", None) or "?"
                 sid = prefix + str(handle)
                 self.content.issues.append(Issue(
-                    "unreadable-entity",
+                    IssueCode.UNREADABLE_ENTITY,
                     f"{self.path}: {e.dxftype()} {sid} cannot be read ({type(exc).__name__}: "
                     f"{(str(exc).splitlines() or [''])[0][:120]}); ignored - check it in the drawing",
                     sid,
@@ -478,7 +478,7 @@ class _Walker:
             if pts is None:
                 self.content.issues.append(
                     Issue(
-                        "unsupported-entity",
+                        IssueCode.UNSUPPORTED_ENTITY,
                         f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
                         "route line; ignored - redraw it as a polyline",
                         sid,
@@ -502,7 +502,7 @@ class _Walker:
         if problem is not None:
             self.content.issues.append(
                 Issue(
-                    "block-recursion",
+                    IssueCode.BLOCK_RECURSION,
                     f"{self.path}: INSERT {sid}: {problem}; its contents are skipped - "
                     "fix the block definitions in the drawing",
                     sid,
@@ -559,7 +559,7 @@ def _tag_from_text(walker: _Walker) -> None:
     if not walker.config.tags_from_text:
         if walker.config.tag_symbol_layers:
             content.issues.append(Issue(
-                "tags-from-text-off",
+                IssueCode.TAGS_FROM_TEXT_OFF,
                 f"{walker.path}: tag_symbol_layers is set but tags_from_text is false; the circles and "
                 "points on those layers are not read as equipment - set tags_from_text = true"))
         return

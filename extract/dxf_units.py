@@ -11,7 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from cablewright.core.errors import DrawingReadError, Issue
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode
 
 from .model import DrawingConfig
 from .units import (
@@ -81,7 +81,7 @@ def resolve_units(doc: Drawing, path: Path, config: DrawingConfig, issues: list[
             )
         if header is not None and header != name:
             issues.append(Issue(
-                "units-override",
+                IssueCode.UNITS_OVERRIDE,
                 f"{path}: the drawing says {header} ($INSUNITS={code}); read in {name} as the "
                 "config or --units says",
             ))
@@ -125,7 +125,7 @@ def summarise(doc: Drawing, path: Path, config: DrawingConfig, content) -> Drawi
                   f"--units {scale.likely_units[0]} (or [drawing] units) if so"
                   if scale.likely_units else "; check the drawing's units")
         content.issues.append(Issue(
-            "units-implausible",
+            IssueCode.UNITS_IMPLAUSIBLE,
             f"{path}: read in {content.units} ({'config' if source == 'config' else '$INSUNITS'}), "
             f"{scale.reason}{likely}",
         ))

@@ -14,7 +14,7 @@ import math
 from collections.abc import Iterable, Sequence
 
 import numpy as np
-from cablewright.core.errors import ConfigError, Issue
+from cablewright.core.errors import ConfigError, Issue, IssueCode
 
 from .model import Equipment, RoutePolyline
 
@@ -119,7 +119,7 @@ def check_polylines(
             kept.append(pl)
         else:
             what = f"route piece {pl.source_id} on layer {pl.layer}"
-            issues.append(Issue("bad-coordinate", _refusal(source, what, value), pl.source_id))
+            issues.append(Issue(IssueCode.BAD_COORDINATE, _refusal(source, what, value), pl.source_id))
     return kept, issues
 
 
@@ -149,7 +149,7 @@ def check_equipment(
             kept.append(eq)
         else:
             what = f"equipment {eq.tag} ({eq.source_id}, block {eq.block_name})"
-            issues.append(Issue("bad-coordinate", _refusal(source, what, value), eq.source_id))
+            issues.append(Issue(IssueCode.BAD_COORDINATE, _refusal(source, what, value), eq.source_id))
     return kept, issues
 
 

@@ -38,7 +38,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
-from cablewright.core.errors import CableRouteError, DrawingReadError, Issue
+from cablewright.core.errors import CableRouteError, DrawingReadError, Issue, IssueCode
 
 from .model import (
     CONTAINMENTS,
@@ -444,9 +444,9 @@ def _check_complete(p: Path, config: DrawingConfig, issues: list[Issue]) -> None
         )
     lost = lost_entities(p)
     shown = ", ".join(lost[:20]) + (f" and {len(lost) - 20} more" if len(lost) > 20 else "")
-    issues.append(Issue("recovered", f"{p}: damaged file read in recover mode: {damage}"))
+    issues.append(Issue(IssueCode.RECOVERED, f"{p}: damaged file read in recover mode: {damage}"))
     issues.append(Issue(
-        "recover-lost",
+        IssueCode.RECOVER_LOST,
         f"{p}: lost with the end of the file: the entity cut off"
         + (f" and {len(lost)} entities referred to: {shown}" if lost else "")
         + " - check the routes against the model",
@@ -487,8 +487,8 @@ def _unit_scale(model: Any, path: Path, config: DrawingConfig) -> tuple[float, s
         if ctx is not None:
             has_length = any(getattr(u, "UnitType", None) == "LENGTHUNIT" for u in ctx.Units)
     if not has_length:
-        if config.units in UNIT_TO_M:
-            return UNIT_TO_M[config.units], config.units  # type: ignore[index]
+        if config.units is not None and config.units in UNIT_TO_M:
+            return UNIT_TO_M[config.units], config.units
         raise DrawingReadError(
             f"{path}: the model states no length unit (IfcProject.UnitsInContext); "
             "give the units in the config (units = \"mm\")"
@@ -540,7 +540,7 @@ def _override(element: Any, issues: list[Issue]) -> tuple[str, str] | None:
     method = str(props.get("ReferenceMethod") or "").strip().upper()
     if containment and containment not in CONTAINMENTS:
         issues.append(Issue(
-            "bad-override",
+            IssueCode.BAD_OVERRIDE,
             f"{_label(element)}: {ROUTING_PSET}.Containment {containment!r} is not one of "
             f"{', '.join(CONTAINMENTS)}; ignored",
             _gid(element),
@@ -548,7 +548,7 @@ def _override(element: Any, issues: list[Issue]) -> tuple[str, str] | None:
         containment = ""
     if method and method not in REFERENCE_METHODS:
         issues.append(Issue(
-            "bad-override",
+            IssueCode.BAD_OVERRIDE,
             f"{_label(element)}: {ROUTING_PSET}.ReferenceMethod {method!r} is not one of "
             f"{', '.join(REFERENCE_METHODS)}; ignored",
             _gid(element),
@@ -628,7 +628,7 @@ def _read_ifc(
             )
         polylines = estimated_routes(rows, equipment, ic.default_kind)
         issues.append(Issue(
-            "estimated-routes",
+            IssueCode.ESTIMATED_ROUTES,
             f"{p}: no cable carriers; {len(polylines)} route(s) estimated as right-angle paths "
             f"([ifc] estimate_routes) for {summary}",
             "",
@@ -702,7 +702,7 @@ def _route_pieces(
                 local = body_axis_points(el)
         except UnsupportedGeometry as exc:
             issues.append(Issue(
-                "geometry",
+                IssueCode.GEOMETRY,
                 f"{p}: {_label(el)}: {exc} is not read"
                 + ("" if is_fitting else "; piece ignored")
                 + " - give it an 'Axis' polyline",
@@ -722,7 +722,7 @@ def _route_pieces(
                     polys.append(np.asarray([pp, origin]))
         else:
             issues.append(Issue(
-                "no-geometry",
+                IssueCode.NO_GEOMETRY,
                 f"{p}: {_label(el)} has neither an 'Axis' curve nor an extruded 'Body'; "
                 "ignored - give it an axis",
                 _gid(el),
@@ -789,7 +789,7 @@ def _assign_kinds(pieces: list[_Piece], roles: dict[int, str], p: Path, ic: IfcC
             if base is None:
                 base = ic.default_kind
                 issues.append(Issue(
-                    "carrier-type",
+                    IssueCode.CARRIER_TYPE,
                     f"{p}: {_label(el)} has PredefinedType {pre or 'none'}; taken as "
                     f"{base[0]} (method {base[1]}) - set {ROUTING_PSET}.Containment to say otherwise",
                     piece.gid,
@@ -828,8 +828,8 @@ def _fitting_kinds(
                     visited.add(k)
                     if pieces[k].is_fitting and not pieces[k].override:
                         nxt.append(k)
-                    elif pieces[k].kind is not None:
-                        found[pieces[k].kind] += 1
+                    elif (kind := pieces[k].kind) is not None:
+                        found[kind] += 1
             if found or not nxt:
                 break
             frontier = nxt
@@ -889,7 +889,7 @@ def _unlinked_issue(
     unlinked = [pc.gid for i, pc in enumerate(pieces) if i not in neighbours]
     if unlinked and not links:
         issues.append(Issue(
-            "no-ports",
+            IssueCode.NO_PORTS,
             f"{p}: no connected ports on the {len(pieces)} route pieces; joined by the drawing "
             f"rules instead (ends within {tol * 1000:.0f} mm, tees) - check the routes",
             unlinked[0],
@@ -897,7 +897,7 @@ def _unlinked_issue(
     elif unlinked:
         shown = ", ".join(unlinked[:5]) + (f" and {len(unlinked) - 5} more" if len(unlinked) > 5 else "")
         issues.append(Issue(
-            "no-ports",
+            IssueCode.NO_PORTS,
             f"{p}: {len(unlinked)} route piece(s) without connected ports ({shown}); joined by "
             f"the drawing rules instead (ends within {tol * 1000:.0f} mm, tees)",
             unlinked[0],
@@ -1100,7 +1100,7 @@ def _device_fields(model: Any, gid: str | None) -> dict[str, str]:
         v = props.get(name)
         v = getattr(v, "wrappedValue", v)
         try:
-            x = float(v)
+            x = float(v)  # type: ignore[arg-type]  # None is caught below (TypeError)
         except (TypeError, ValueError):
             return None
         return x if np.isfinite(x) and x > 0 else None
