@@ -19,7 +19,7 @@ from collections import defaultdict
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, cast
 
 from cablewright.core.errors import ScheduleError
 
@@ -292,7 +292,7 @@ def _orders(doc: Mapping[str, Any]) -> dict[str, float]:
     for c in doc["circuits"]:
         cable, route = c.get("cable"), c.get("route") or {}
         if cable and route.get("design_length_m") is not None:
-            out[cable_text(cable)] += float(route["design_length_m"]) * int(cable.get("parallel") or 1)
+            out[cast(str, cable_text(cable))] += float(route["design_length_m"]) * int(cable.get("parallel") or 1)
     return out
 
 
@@ -312,7 +312,7 @@ def _compare_segments(old: list, new: list) -> tuple[list[SegmentChange], int]:
             changes.append(SegmentChange(s["id"], s.get("layer", ""), "new",
                                          (("circuits", None, len(s.get("circuits") or ())),)))
             continue
-        fields = []
+        fields: list[tuple[str, Any, Any]] = []
         if len(o.get("circuits") or ()) != len(s.get("circuits") or ()):
             fields.append(("circuits", len(o.get("circuits") or ()), len(s.get("circuits") or ())))
         if o.get("cables") != s.get("cables"):
