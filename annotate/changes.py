@@ -181,7 +181,7 @@ def load_document(path: str | Path) -> dict[str, Any]:
         raise ScheduleError(f"{file}: not found; give an output folder of 'cablewright size' "
                             "or its schedule.json") from exc
     except OSError as exc:
-        raise ScheduleError(f"{file}: cannot read it ({exc.strerror})") from exc
+        raise ScheduleError(file=file, problem=f"cannot read it ({exc.strerror})") from exc
     except (json.JSONDecodeError, UnicodeDecodeError) as exc:
         raise ScheduleError(f"{file}: not valid JSON ({exc}); give the schedule.json that "
                             "'cablewright size' wrote") from exc

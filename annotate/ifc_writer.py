@@ -292,7 +292,7 @@ def write_ifc_copy(
 
     src, dst = Path(input_path), Path(output_path)
     if dst.exists() and src.exists() and os.path.samefile(src, dst):
-        raise DrawingReadError(f"{dst}: is the input model; write the copy elsewhere")
+        raise DrawingReadError(file=dst, problem="is the input model", fix="write the copy elsewhere")
     f = open_model(src)
     scale = float(uu.calculate_unit_scale(f))
     existing: dict[str, Any] = {}
@@ -332,7 +332,7 @@ def write_ifc_copy(
         with atomic_path(dst) as tmp:
             f.write(str(tmp), format=".ifc")
     except OSError as exc:
-        raise DrawingReadError(f"{dst}: cannot write the IFC copy ({exc.strerror}); choose another --out") from exc
+        raise DrawingReadError(file=dst, problem=f"cannot write the IFC copy ({exc.strerror})", fix="choose another --out") from exc
     logger.info("IFC copy %s: %d cables added, %d updated, %d circuits not sized",
                 dst, len(added), len(updated), len(skipped))
     return IfcWriteSummary(str(dst), tuple(added), tuple(updated), tuple(skipped))

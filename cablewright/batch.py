@@ -102,7 +102,7 @@ def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], l
             n += 1
             candidate = parent / f"{stem}-{n}"
         if base is not None and candidate.parent != base:  # pragma: no cover - guarded by _folder_name
-            raise DrawingReadError(f"{drawing}: its output folder {candidate} would lie outside {base}")
+            raise DrawingReadError(file=drawing, problem=f"its output folder {candidate} would lie outside {base}")
         if n > 1:
             first = taken[str(parent / stem).casefold()]
             notes.append(f"{drawing}: outputs in {candidate}, since {parent / stem} holds those of {first}")

@@ -89,7 +89,7 @@ def run_layers(args: argparse.Namespace) -> int:
         try:
             write_text_atomic(target, starting_config(survey), encoding="utf-8")
         except OSError as exc:
-            raise ConfigError(f"{target}: cannot write the config ({exc.strerror}); choose another path") from exc
+            raise ConfigError(file=target, problem=f"cannot write the config ({exc.strerror})", fix="choose another path") from exc
         print(f"cablewright: starting config written to {target}; check it, then run "
               f"'cablewright size {drawing} --config {target} --circuits FILE'", file=sys.stderr)
     if args.json:

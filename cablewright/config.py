@@ -474,7 +474,7 @@ def _read_toml(path: Path) -> dict[str, Any]:
         raise ConfigError(f"{path}: cannot read the config file ({exc.strerror}); "
                           "check the --config path") from exc
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise ConfigError(f"{path}: not valid TOML ({exc}); fix the file") from exc
+        raise ConfigError(file=path, problem=f"not valid TOML ({exc})", fix="fix the file") from exc
 
 
 def load_settings(path: str | Path | None = None) -> Settings:
@@ -509,16 +509,14 @@ def load_settings(path: str | Path | None = None) -> Settings:
     data = _read_toml(path)
     values, problems = validate(data, str(path))
     if problems:
-        error = ConfigError("\n".join(problems))
-        error.problems = tuple(problems)  # type: ignore[attr-defined]
-        raise error
+        raise ConfigError(problems=tuple(problems), file=path)
     targets = _targets()
     objects = {}
     for target, cls in targets.items():
         try:
             objects[target] = cls(**values[target])
         except (TypeError, ValueError) as exc:  # a dataclass's own __post_init__ check
-            raise ConfigError(f"{path}: [{target}] {exc}") from exc
+            raise ConfigError(file=path, problem=f"[{target}] {exc}") from exc
     return Settings(objects["drawing"], objects["sizing"], objects["annotate"], objects["ifc"],
                     str(path))
 

@@ -127,12 +127,12 @@ def check_inputs_not_outputs(out_dir: str | os.PathLike[str], inputs: Iterable[t
     """
     out = _absolute(out_dir)
     if out.parent == out:
-        raise OutputError(f"{out}: the output folder cannot be the root of the file system; choose a folder of its own with --out")
+        raise OutputError(file=out, problem="the output folder cannot be the root of the file system", fix="choose a folder of its own with --out")
     cwd = _absolute(os.getcwd())
     if out == cwd or out in cwd.parents:
-        raise OutputError(f"{out}: the output folder holds the current folder and would be replaced; choose a folder of its own with --out")
+        raise OutputError(file=out, problem="the output folder holds the current folder and would be replaced", fix="choose a folder of its own with --out")
     if out.exists() and not out.is_dir():
-        raise OutputError(f"{out}: --out names a file, not a folder; choose a folder for the outputs")
+        raise OutputError(file=out, problem="--out names a file, not a folder", fix="choose a folder for the outputs")
     for role, path in inputs:
         if path is None:
             continue
@@ -159,7 +159,7 @@ def _locked(out: Path) -> Iterator[None]:
     try:
         fd = os.open(path, os.O_RDWR | os.O_CREAT, 0o644)
     except OSError as exc:
-        raise OutputError(f"{out}: cannot create the lock file {path} ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=out, problem=f"cannot create the lock file {path} ({exc.strerror})", fix="choose another --out") from exc
     try:
         try:
             fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
@@ -220,7 +220,7 @@ def _make_parents(folder: Path) -> list[Path]:
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
-        raise OutputError(f"{folder}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=folder, problem=f"cannot create the output folder ({exc.strerror})", fix="choose another --out") from exc
     return list(reversed(missing))
 
 
@@ -293,7 +293,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         out.parent.mkdir(parents=True, exist_ok=True)
         stage = Path(tempfile.mkdtemp(prefix=f".{out.name}{STAGE_TAG}stage-", dir=out.parent))
     except OSError as exc:
-        raise OutputError(f"{out}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=out, problem=f"cannot create the output folder ({exc.strerror})", fix="choose another --out") from exc
     try:
         try:
             if takeoff is None or extras is None:

@@ -170,7 +170,7 @@ def read_drawing(
         from .ifc_reader import reader_result  # ifcopenshell only when an IFC model is given
 
         return reader_result(p, config, ifc_config)
-    raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
+    raise DrawingReadError(file=p, problem=f"drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
 
 
 def measure(

@@ -160,16 +160,16 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     from ezdxf import recover
 
     if not path.exists():
-        raise DrawingReadError(f"{path}: file not found; check the drawing path")
+        raise DrawingReadError(file=path, problem="file not found", fix="check the drawing path")
     if path.is_dir():
-        raise DrawingReadError(f"{path}: is a folder, not a DXF file; give the drawing file")
+        raise DrawingReadError(file=path, problem="is a folder, not a DXF file", fix="give the drawing file")
     if path.stat().st_size == 0:
-        raise DrawingReadError(f"{path}: file is empty; export the drawing again as DXF")
+        raise DrawingReadError(file=path, problem="file is empty", fix="export the drawing again as DXF")
     try:
         with path.open("rb") as f:
             f.read(1)
     except OSError as exc:
-        raise DrawingReadError(f"{path}: cannot be opened ({exc}); check the path and permissions") from exc
+        raise DrawingReadError(file=path, problem=f"cannot be opened ({exc})", fix="check the path and permissions") from exc
     read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError, OSError,
                    StopIteration, KeyError, AttributeError)
     try:

@@ -329,11 +329,11 @@ def open_model(path: str | os.PathLike[str]) -> Any:
     """
     p = Path(path)
     if not p.exists():
-        raise DrawingReadError(f"{p}: file not found; check the model path")
+        raise DrawingReadError(file=p, problem="file not found", fix="check the model path")
     if p.is_dir():
-        raise DrawingReadError(f"{p}: is a folder, not an IFC file; give the model file")
+        raise DrawingReadError(file=p, problem="is a folder, not an IFC file", fix="give the model file")
     if p.stat().st_size == 0:
-        raise DrawingReadError(f"{p}: file is empty; export the model again as IFC")
+        raise DrawingReadError(file=p, problem="file is empty", fix="export the model again as IFC")
     declared = _declared_schema(p)
     if declared is not None and not _schema_ok(declared):
         raise DrawingReadError(
@@ -466,7 +466,7 @@ def _declared_schema(p: Path) -> str | None:
         with p.open("rb") as fh:
             head = fh.read(16384).decode("latin-1")
     except OSError as exc:
-        raise DrawingReadError(f"{p}: cannot be opened ({exc.strerror}); check the path and permissions") from exc
+        raise DrawingReadError(file=p, problem=f"cannot be opened ({exc.strerror})", fix="check the path and permissions") from exc
     m = re.search(r"FILE_SCHEMA\s*\(\s*\(\s*'([^']*)'", head, re.IGNORECASE)
     return m.group(1).strip() if m else None
 

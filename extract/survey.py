@@ -321,7 +321,7 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
     config = config or DrawingConfig()
     p = Path(path)
     if p.suffix.lower() != ".dxf":
-        raise DrawingReadError(f"{p}: layers reads a .dxf drawing, not {p.suffix or 'a file without suffix'}")
+        raise DrawingReadError(file=p, problem=f"layers reads a .dxf drawing, not {p.suffix or 'a file without suffix'}")
     doc, _ = _load(p, config)
     code = header_code(doc)
     units, source = INSUNITS.get(code, (None, 0.0))[0], "header"

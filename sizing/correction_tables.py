@@ -379,8 +379,8 @@ def _unknown(kind: str, value: object, known: Iterable[object], where: str) -> U
     lower = {k.lower(): k for k in names}
     close = [lower[c] for c in difflib.get_close_matches(str(value).lower(), lower, n=3)]
     hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
-    return UnknownKeyError(f"unknown {kind} {value!r} for {where}; known: "
-                           f"{', '.join(names)}{hint}")
+    return UnknownKeyError(value=value, known=tuple(names), problem=f"unknown {kind} {value!r} for {where}",
+                           fix=f"known: {', '.join(names)}{hint}")
 
 
 def _insulation(insulation: str, grid: FactorGrid) -> str:
@@ -394,8 +394,9 @@ def _step_up(value: float, keys: Iterable[float], what: str, unit: str, source: 
     keys = sorted(keys)
     if value > keys[-1]:
         raise OutOfRangeError(
-            f"{what} {value:g}{unit} is beyond the last row of {source} "
-            f"({keys[-1]:g}{unit}); the table gives no factor there and none is extrapolated")
+            value=value, limit=keys[-1], source=source,
+            problem=f"{what} {value:g}{unit} is beyond the last row of {source} ({keys[-1]:g}{unit})",
+            fix="the table gives no factor there and none is extrapolated")
     for k in keys:
         if value <= k:
             if value == k:

@@ -12,7 +12,9 @@ import cablewright
 
 PACKAGES = [
     "cablewright.extract",
+    "cablewright.core",
     "cablewright.sizing",
+    "cablewright.sizing.nec",
     "cablewright.annotate",
     "cablewright.annotate.drawing",
     "cablewright",
