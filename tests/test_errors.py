@@ -14,7 +14,6 @@ from __future__ import annotations
 import pickle
 
 import pytest
-
 from cablewright.core import errors
 from cablewright.core.errors import (
     CableRouteError,
@@ -26,13 +25,14 @@ from cablewright.core.errors import (
     ScheduleError,
     UnknownKeyError,
 )
-from cablewright.exits import EXIT_INPUT, exit_code_for
 from cablewright.extract.dxf_reader import read_dxf
 from cablewright.extract.schedule import read_schedule
 from cablewright.sizing.chain import SupplyCycleError, chain_drops
 from cablewright.sizing.config import SizingConfig
 from cablewright.sizing.correction_tables import ambient_air_factor
 from cablewright.sizing.fields import spec_from_fields
+
+from cablewright.exits import EXIT_INPUT, exit_code_for
 
 ERROR_CLASSES = [getattr(errors, name) for name in errors.__all__
                  if isinstance(getattr(errors, name), type)
