@@ -178,17 +178,17 @@ def load_document(path: str | Path) -> dict[str, Any]:
     try:
         data = json.loads(file.read_text(encoding="utf-8"))
     except FileNotFoundError as exc:
-        raise ScheduleError(f"{file}: not found; give an output folder of 'cablewright size' "
-                            "or its schedule.json") from exc
+        raise ScheduleError(file=file, problem="not found",
+                            fix="give an output folder of 'cablewright size' or its schedule.json") from exc
     except OSError as exc:
         raise ScheduleError(file=file, problem=f"cannot read it ({exc.strerror})") from exc
     except (json.JSONDecodeError, UnicodeDecodeError) as exc:
-        raise ScheduleError(f"{file}: not valid JSON ({exc}); give the schedule.json that "
-                            "'cablewright size' wrote") from exc
+        raise ScheduleError(file=file, problem=f'not valid JSON ({exc})',
+                            fix="give the schedule.json that 'cablewright size' wrote") from exc
     circuits = data.get("circuits") if isinstance(data, dict) else None
     if not isinstance(circuits, list) or not all(isinstance(c, dict) and "id" in c for c in circuits):
-        raise ScheduleError(f"{file}: no \"circuits\" list with an \"id\" in each; give the "
-                            "schedule.json that 'cablewright size' wrote")
+        raise ScheduleError(file=file, problem='no "circuits" list with an "id" in each',
+                            fix="give the schedule.json that 'cablewright size' wrote")
     return data
 
 

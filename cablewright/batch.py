@@ -48,7 +48,8 @@ def expand_drawings(paths: list[str]) -> list[Path]:
         else:
             drawings.append(path)
     if not drawings:
-        raise DrawingReadError(f"{', '.join(paths)}: no .dxf or .ifc drawings found; name a drawing or a folder holding some")
+        raise DrawingReadError(file=', '.join(paths), problem="no .dxf or .ifc drawings found",
+                               fix="name a drawing or a folder holding some")
     return drawings
 
 

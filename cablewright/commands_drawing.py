@@ -166,10 +166,8 @@ def run_demo(args: argparse.Namespace) -> int:
     if not drawing.exists():
         from cablewright.core.errors import DrawingReadError
 
-        raise DrawingReadError(
-            f"{drawing}: the sample drawing is missing; run "
-            "'python sample_drawings/generate_pumping_station.py' from the repository"
-        )
+        raise DrawingReadError(file=drawing, problem="the sample drawing is missing",
+                               fix="run 'python sample_drawings/generate_pumping_station.py' from the repository")
     out = Path(args.out) if args.out else Path.cwd() / "cablewright-demo"
     size_args = argparse.Namespace(drawing=str(drawing), circuits=str(circuits), config=None,
                                    out=str(out), json=False, debug=args.debug, recover=False)

@@ -82,8 +82,8 @@ def run_layers(args: argparse.Namespace) -> int:
     if target is not None:
         inputs = [drawing] + ([Path(args.config)] if args.config else [])
         if any(_same_file(target, p) for p in inputs):
-            raise ConfigError(f"{target}: is an input of this run; --write-config writes a new file, "
-                              "give another name")
+            raise ConfigError(file=target, problem="is an input of this run",
+                              fix="--write-config writes a new file, give another name")
     survey = survey_drawing(drawing, config)
     if target is not None:
         try:

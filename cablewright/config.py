@@ -471,8 +471,8 @@ def _read_toml(path: Path) -> dict[str, Any]:
     try:
         return tomllib.loads(path.read_text(encoding="utf-8"))
     except OSError as exc:
-        raise ConfigError(f"{path}: cannot read the config file ({exc.strerror}); "
-                          "check the --config path") from exc
+        raise ConfigError(file=path, problem=f'cannot read the config file ({exc.strerror})',
+                          fix="check the --config path") from exc
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
         raise ConfigError(file=path, problem=f"not valid TOML ({exc})", fix="fix the file") from exc
 

@@ -138,8 +138,8 @@ def check_inputs_not_outputs(out_dir: str | os.PathLike[str], inputs: Iterable[t
             continue
         given = _absolute(path)
         if given == out or out in given.parents:
-            raise OutputError(f"{path}: the {role} is inside the output folder {out}, which this run replaces; "
-                              "choose another --out or move the input out of it")
+            raise OutputError(file=path, problem=f'the {role} is inside the output folder {out}, which this run replaces',
+                              fix="choose another --out or move the input out of it")
 
 
 def _lock_path(out: Path) -> Path:
@@ -166,15 +166,15 @@ def _locked(out: Path) -> Iterator[None]:
         except OSError as exc:
             if exc.errno not in (errno.EWOULDBLOCK, errno.EAGAIN, errno.EACCES):
                 raise
-            raise OutputError(f"{out}: another cablewright run is writing this folder (lock {path}); "
-                              "wait for it to finish or choose another --out") from None
+            raise OutputError(file=out, problem=f'another cablewright run is writing this folder (lock {path})',
+                              fix="wait for it to finish or choose another --out") from None
         try:  # the file may have been removed by the run that held it before us
             same = os.path.samestat(os.stat(path), os.fstat(fd))
         except FileNotFoundError:
             same = False
         if not same:
-            raise OutputError(f"{out}: another cablewright run has just taken this folder (lock {path}); "
-                              "wait for it to finish or choose another --out")
+            raise OutputError(file=out, problem=f'another cablewright run has just taken this folder (lock {path})',
+                              fix="wait for it to finish or choose another --out")
         os.write(fd, f"{os.getpid()}\n".encode())
         try:
             yield
@@ -304,8 +304,8 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                 _carry_over(out, stage, set(names.values()) | set(output_names(Path(drawing)).values()))
             _swap_in(stage, out)
         except OSError as exc:
-            raise OutputError(f"{out}: cannot write the outputs ({exc.strerror or exc}); "
-                              "free some space or choose another --out") from exc
+            raise OutputError(file=out, problem=f'cannot write the outputs ({exc.strerror or exc})',
+                              fix="free some space or choose another --out") from exc
         return [out / name for name in names.values()]
     finally:
         shutil.rmtree(stage, ignore_errors=True)
@@ -346,8 +346,8 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
         try:
             document = ezdxf.readfile(dxf_input)
         except (OSError, ezdxf.DXFStructureError) as exc:
-            raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
-                                   "check the path or re-export it") from exc
+            raise DrawingReadError(file=dxf_input, problem=f'cannot read the drawing ({exc})',
+                                   fix="check the path or re-export it") from exc
     # no run time and no random GUID in the annotated drawing (annotate.reproducible)
     pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
     _record_units(document, measurement)

@@ -158,12 +158,14 @@ class CableRouteError(Exception):
 
         Without a file, the circuit stands in its place (``"circuit P-1: ..."``).
         """
-        where = self.file or ""
-        if self.row is not None:
-            where = f"{where} row {self.row}".strip()
-        if not where and self.circuit_id is not None:
+        where: str | None = None
+        if self.file is not None:
+            where = self.file if self.row is None else f"{self.file} row {self.row}"
+        elif self.row is not None:
+            where = f"row {self.row}"
+        elif self.circuit_id is not None:
             where = f"circuit {self.circuit_id}"
-        text = f"{where}: {self.problem}" if where else self.problem
+        text = self.problem if where is None else f"{where}: {self.problem}"
         return f"{text}; {self.fix}" if self.fix else text
 
 

@@ -180,21 +180,14 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     try:
         doc, auditor = recover.readfile(str(path))
     except read_errors as exc:
-        raise DrawingReadError(
-            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
-            f"({first_error}); export the drawing again as DXF"
-        ) from exc
+        raise DrawingReadError(file=path, problem=f'not a readable DXF file, or damaged or truncated beyond repair ({first_error})',
+                               fix="export the drawing again as DXF") from exc
     if len(doc.modelspace()) == 0:
-        raise DrawingReadError(
-            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
-            f"({first_error}); export the drawing again as DXF"
-        )
+        raise DrawingReadError(file=path, problem=f'not a readable DXF file, or damaged or truncated beyond repair ({first_error})',
+                               fix="export the drawing again as DXF")
     if not config.recover:
-        raise DrawingReadError(
-            f"{path}: the DXF file is damaged ({first_error}) and could be read only in part; "
-            "missing routes would give wrong lengths. Repair or re-export the drawing, or use "
-            "--recover to measure what can be read"
-        )
+        raise DrawingReadError(file=path, problem=f'the DXF file is damaged ({first_error}) and could be read only in part',
+                               fix="missing routes would give wrong lengths. Repair or re-export the drawing, or use --recover to measure what can be read")
     issues = [
         Issue(
             IssueCode.RECOVERED,
@@ -613,12 +606,8 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     if not content.polylines:
         names = sorted({e.dxf.layer for e in doc.modelspace()})
         wanted = ", ".join(config.route_layers)
-        raise DrawingReadError(
-            f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer "
-            f"({wanted}); layers used in model space: {', '.join(names) or 'none'}. "
-            "Put the cable routes on those layers or add the layer names to the config "
-            f"('cablewright layers {p.name} --write-config FILE' suggests one)"
-        )
+        raise DrawingReadError(file=p, problem=f'no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer ({wanted})',
+                               fix=f"layers used in model space: {', '.join(names) or 'none'}. Put the cable routes on those layers or add the layer names to the config ('cablewright layers {p.name} --write-config FILE' suggests one)")
     content.summary = summarise(doc, p, config, content)
     logger.info(
         "%s: %d route pieces, %d equipment, units %s",

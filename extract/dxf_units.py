@@ -75,10 +75,8 @@ def resolve_units(doc: Drawing, path: Path, config: DrawingConfig, issues: list[
     if config.units is not None:
         name = unit_name(str(config.units))
         if name is None:
-            raise DrawingReadError(
-                f"{path}: units {config.units!r} from the config or --units are not known; "
-                f"use one of {_known()}"
-            )
+            raise DrawingReadError(file=path, problem=f'units {config.units!r} from the config or --units are not known',
+                                   fix=f'use one of {_known()}')
         if header is not None and header != name:
             issues.append(Issue(
                 IssueCode.UNITS_OVERRIDE,
@@ -88,10 +86,8 @@ def resolve_units(doc: Drawing, path: Path, config: DrawingConfig, issues: list[
         return name, "config", code
     if header is None:
         what = "unitless ($INSUNITS=0)" if code == 0 else f"in units that are not a length ($INSUNITS={code})"
-        raise DrawingReadError(
-            f"{path}: the drawing is {what}; give its units with --units or in the config "
-            f"([drawing] units = one of {', '.join(COMMON_UNITS)}), or save it with drawing units set"
-        )
+        raise DrawingReadError(file=path, problem=f'the drawing is {what}',
+                               fix=f"give its units with --units or in the config ([drawing] units = one of {', '.join(COMMON_UNITS)}), or save it with drawing units set")
     return header, "header", code
 
 

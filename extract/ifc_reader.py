@@ -336,29 +336,22 @@ def open_model(path: str | os.PathLike[str]) -> Any:
         raise DrawingReadError(file=p, problem="file is empty", fix="export the model again as IFC")
     declared = _declared_schema(p)
     if declared is not None and not _schema_ok(declared):
-        raise DrawingReadError(
-            f"{p}: IFC schema {declared} is not supported; export as "
-            f"{', '.join(SUPPORTED_SCHEMAS)}"
-        )
+        raise DrawingReadError(file=p, problem=f'IFC schema {declared} is not supported',
+                               fix=f"export as {', '.join(SUPPORTED_SCHEMAS)}")
     try:
         import ifcopenshell
     except ImportError as exc:  # pragma: no cover - depends on the environment
-        raise DrawingReadError(
-            f"{p}: reading IFC needs ifcopenshell; install cablewright[ifc]"
-        ) from exc
+        raise DrawingReadError(file=p, problem="reading IFC needs ifcopenshell",
+                               fix="install cablewright[ifc]") from exc
     try:
         model = ifcopenshell.open(str(p))
     except (ifcopenshell.Error, OSError, RuntimeError, ValueError) as exc:
-        raise DrawingReadError(
-            f"{p}: not a readable IFC (STEP) file ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__}); "
-            "export the model again as IFC2X3, IFC4 or IFC4X3"
-        ) from exc
+        raise DrawingReadError(file=p, problem=f'not a readable IFC (STEP) file ({(str(exc).splitlines()[0] if str(exc) else type(exc).__name__)})',
+                               fix="export the model again as IFC2X3, IFC4 or IFC4X3") from exc
     schema = str(model.schema).upper()
     if not _schema_ok(schema):
-        raise DrawingReadError(
-            f"{p}: IFC schema {model.schema} is not supported; export as "
-            f"{', '.join(SUPPORTED_SCHEMAS)}"
-        )
+        raise DrawingReadError(file=p, problem=f'IFC schema {model.schema} is not supported',
+                               fix=f"export as {', '.join(SUPPORTED_SCHEMAS)}")
     return model
 
 
@@ -438,10 +431,8 @@ def _check_complete(p: Path, config: DrawingConfig, issues: list[Issue]) -> None
     if damage is None:
         return
     if not config.recover:
-        raise DrawingReadError(
-            f"{p}: the IFC file is damaged: {damage}; missing elements would give wrong lengths. "
-            "Export the model again, or use --recover to measure what can be read"
-        )
+        raise DrawingReadError(file=p, problem=f'the IFC file is damaged: {damage}',
+                               fix="missing elements would give wrong lengths. Export the model again, or use --recover to measure what can be read")
     lost = lost_entities(p)
     shown = ", ".join(lost[:20]) + (f" and {len(lost) - 20} more" if len(lost) > 20 else "")
     issues.append(Issue(IssueCode.RECOVERED, f"{p}: damaged file read in recover mode: {damage}"))
@@ -489,10 +480,8 @@ def _unit_scale(model: Any, path: Path, config: DrawingConfig) -> tuple[float, s
     if not has_length:
         if config.units is not None and config.units in UNIT_TO_M:
             return UNIT_TO_M[config.units], config.units
-        raise DrawingReadError(
-            f"{path}: the model states no length unit (IfcProject.UnitsInContext); "
-            "give the units in the config (units = \"mm\")"
-        )
+        raise DrawingReadError(file=path, problem="the model states no length unit (IfcProject.UnitsInContext)",
+                               fix='give the units in the config (units = "mm")')
     scale = float(uu.calculate_unit_scale(model))
     name = next((k for k, v in UNIT_TO_M.items() if abs(v - scale) <= 1e-12 * v), f"{scale:g} m")
     return scale, name
@@ -740,10 +729,8 @@ def _route_pieces(
         shown = ", ".join(_label(el) for el in elements[:3]) + (
             f" and {len(elements) - 3} more" if len(elements) > 3 else ""
         )
-        raise DrawingReadError(
-            f"{p}: the model's {len(elements)} route element(s) ({shown}) have no usable geometry; "
-            "give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF"
-        )
+        raise DrawingReadError(file=p, problem=f"the model's {len(elements)} route element(s) ({shown}) have no usable geometry",
+                               fix="give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF")
     return pieces, port_owner, port_pos
 
 
@@ -944,10 +931,8 @@ def read_ifc(
         # a damaged entity (a malformed number, a reference of the wrong type, a list of the
         # wrong length) surfaces from ifcopenshell or numpy while the geometry is read
         first = (str(exc).splitlines() or [""])[0][:160]
-        raise DrawingReadError(
-            f"{path}: the model holds an entity that cannot be read ({type(exc).__name__}: {first}); "
-            "check the file with an IFC validator or export the model again"
-        ) from exc
+        raise DrawingReadError(file=path, problem=f'the model holds an entity that cannot be read ({type(exc).__name__}: {first})',
+                               fix="check the file with an IFC validator or export the model again") from exc
 
 
 def _attach(piece: _Piece, port_at: np.ndarray | None, other: np.ndarray | None) -> np.ndarray:

@@ -328,8 +328,8 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
     if config.units is not None:
         units = unit_name(str(config.units))
         if units is None:
-            raise DrawingReadError(f"{p}: units {config.units!r} from the config or --units are not known; "
-                                   "use mm, cm, dm, m, in, ft, ...")
+            raise DrawingReadError(file=p, problem=f'units {config.units!r} from the config or --units are not known',
+                                   fix="use mm, cm, dm, m, in, ft, ...")
         source = "config"
     elif units is None:
         source = "none"

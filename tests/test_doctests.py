@@ -14,7 +14,6 @@ PACKAGES = [
     "cablewright.extract",
     "cablewright.core",
     "cablewright.sizing",
-    "cablewright.sizing.nec",
     "cablewright.annotate",
     "cablewright.annotate.drawing",
     "cablewright",
