@@ -538,7 +538,7 @@ def _check_key(kind: str, value: str, known: tuple[str, ...]) -> None:
         hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
         raise UnknownKeyError(
             f"unknown {kind} {value!r} for IEC 60364-5-52:2009 Annex B capacity tables; "
-            f"known: {', '.join(known)}{hint}"
+            f"known: {', '.join(known)}{hint}", value=value
         )
 
 
@@ -656,7 +656,7 @@ def tabulated_capacity(
             f"cross-section {csa_mm2:g} mm² has no value in {table.source}, "
             f"{_column_label(table, col)}, {conductor}/{insulation}; tabulated sizes run "
             f"{sizes[0]:g} to {sizes[-1]:g} mm²: {', '.join(f'{s:g}' for s in sizes)}. "
-            "Choose a tabulated size."
+            "Choose a tabulated size.", value=csa_mm2
         )
     return Tabulated(
         current_a=amps,

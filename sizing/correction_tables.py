@@ -521,7 +521,7 @@ def soil_resistivity_factor(resistivity_k_m_w: float, method: str) -> Factor:
         raise _unknown("method", method, grid.column_keys, grid.source)
     if not resistivity_k_m_w > 0:
         raise OutOfRangeError(
-            f"soil thermal resistivity {resistivity_k_m_w!r} K·m/W must be > 0 ({grid.source})")
+            f"soil thermal resistivity {resistivity_k_m_w!r} K·m/W must be > 0 ({grid.source})", value=resistivity_k_m_w)
     column = grid.column(method)
     key, how = _step_up(float(resistivity_k_m_w), column, "soil thermal resistivity",
                         " K·m/W", grid.source)
@@ -532,7 +532,7 @@ def soil_resistivity_factor(resistivity_k_m_w: float, method: str) -> Factor:
 
 def _check_count(cables: int, what: str, source: str) -> int:
     if isinstance(cables, bool) or int(cables) != cables or cables < 1:
-        raise OutOfRangeError(f"{what} {cables!r} must be a whole number >= 1 ({source})")
+        raise OutOfRangeError(f"{what} {cables!r} must be a whole number >= 1 ({source})", value=cables)
     return int(cables)
 
 

@@ -255,9 +255,9 @@ def stretch_rating(
 
 def _validate(spec: CircuitSpec) -> None:
     if spec.conductor not in CONDUCTORS:
-        raise UnknownKeyError(f"conductor {spec.conductor!r} is unknown: use Cu or Al")
+        raise UnknownKeyError(f"conductor {spec.conductor!r} is unknown: use Cu or Al", value=spec.conductor)
     if spec.insulation not in INSULATIONS:
-        raise UnknownKeyError(f"insulation {spec.insulation!r} is unknown: use XLPE or PVC")
+        raise UnknownKeyError(f"insulation {spec.insulation!r} is unknown: use XLPE or PVC", value=spec.insulation)
     if spec.phases not in (1, 3):
         raise CircuitInputError(f"phases must be 1 or 3, not {spec.phases}")
     if spec.design_length_m < 0 or not math.isfinite(spec.design_length_m):
@@ -407,7 +407,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
     kind = device_kind_for(spec, config)
     if kind not in DEVICE_KINDS:
-        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
+        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}", value=kind)
     device = select_device(ib, kind, config.margin_for(spec.load_type), config.standard_ratings_a)
     need = required_iz_a(device)
     # Third harmonics, IEC 60364-5-52:2009 Annex E: a reduction factor on every
@@ -421,7 +421,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     temp_rule = config.conductor_temp_for_vd
     if temp_rule not in ("operating", "max"):
         raise UnknownKeyError(
-            f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'")
+            f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'", value=temp_rule)
     operating = temp_rule == "operating"
     star = star_delta_cables(spec, config)
     relay = None

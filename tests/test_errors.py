@@ -128,3 +128,12 @@ def test_a_supply_loop_survives_pickle_with_its_circuit_ids():
     back = pickle.loads(pickle.dumps(loop))
     assert set(back.circuit_ids) == {"P-10", "P-11"} and str(back) == str(loop)
     assert back.fix == "check the 'from' and 'to' tags of these circuits in the schedule"
+
+
+def test_sizing_errors_carry_the_value_they_name():
+    # IEC 60364-4-41:2005 Table 41.1 starts above U0 = 50 V a.c.; 40 V is below it
+    from cablewright.sizing.disconnection import max_disconnection_time_s
+
+    with pytest.raises(OutOfRangeError) as info:
+        max_disconnection_time_s(40.0, 16.0, True)
+    assert info.value.value == 40.0 and info.value.code is IssueCode.OUT_OF_RANGE
