@@ -611,8 +611,8 @@ def _read_ifc(
         summary = _equipment_summary(equipment, rows, failures)
         if not ic.estimate_routes:
             raise DrawingReadError(
-                f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); it holds "
-                f"{summary}; set [ifc] estimate_routes = true for estimated right-angle routes, "
+                file=p, problem=f"the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); it holds {summary}",
+                fix="set [ifc] estimate_routes = true for estimated right-angle routes, "
                 "or model the trays, ladders and conduits, or export the routes to DXF"
             )
         polylines = estimated_routes(rows, equipment, ic.default_kind)
