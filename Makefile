@@ -5,7 +5,7 @@ PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed-stamp
 OUT    ?= demo_out
 
-.PHONY: demo test lint bench clean
+.PHONY: demo test lint typecheck bench clean
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -27,10 +27,15 @@ demo: $(STAMP)
 ## make test: the full test suite (unit, doctests, published-value checks)
 test: $(STAMP)
 	$(PY) -m ruff check .
+	$(PY) tools/typecheck.py
 	$(PY) -m pytest -q
 
 lint: $(STAMP)
 	$(PY) -m ruff check .
+
+## make typecheck: mypy on the package as installed (tools/typecheck.py; strict on sizing/)
+typecheck: $(STAMP)
+	$(PY) tools/typecheck.py
 
 ## make bench: the benchmark scripts (figures in benchmarks/RESULTS.md)
 bench: $(STAMP)

@@ -19,7 +19,7 @@ from collections import defaultdict
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, cast
 
 from cablewright.core.errors import ScheduleError
 
@@ -178,17 +178,17 @@ def load_document(path: str | Path) -> dict[str, Any]:
     try:
         data = json.loads(file.read_text(encoding="utf-8"))
     except FileNotFoundError as exc:
-        raise ScheduleError(f"{file}: not found; give an output folder of 'cablewright size' "
-                            "or its schedule.json") from exc
+        raise ScheduleError(file=file, problem="not found",
+                            fix="give an output folder of 'cablewright size' or its schedule.json") from exc
     except OSError as exc:
-        raise ScheduleError(f"{file}: cannot read it ({exc.strerror})") from exc
+        raise ScheduleError(file=file, problem=f"cannot read it ({exc.strerror})") from exc
     except (json.JSONDecodeError, UnicodeDecodeError) as exc:
-        raise ScheduleError(f"{file}: not valid JSON ({exc}); give the schedule.json that "
-                            "'cablewright size' wrote") from exc
+        raise ScheduleError(file=file, problem=f'not valid JSON ({exc})',
+                            fix="give the schedule.json that 'cablewright size' wrote") from exc
     circuits = data.get("circuits") if isinstance(data, dict) else None
     if not isinstance(circuits, list) or not all(isinstance(c, dict) and "id" in c for c in circuits):
-        raise ScheduleError(f"{file}: no \"circuits\" list with an \"id\" in each; give the "
-                            "schedule.json that 'cablewright size' wrote")
+        raise ScheduleError(file=file, problem='no "circuits" list with an "id" in each',
+                            fix="give the schedule.json that 'cablewright size' wrote")
     return data
 
 
@@ -292,7 +292,7 @@ def _orders(doc: Mapping[str, Any]) -> dict[str, float]:
     for c in doc["circuits"]:
         cable, route = c.get("cable"), c.get("route") or {}
         if cable and route.get("design_length_m") is not None:
-            out[cable_text(cable)] += float(route["design_length_m"]) * int(cable.get("parallel") or 1)
+            out[cast(str, cable_text(cable))] += float(route["design_length_m"]) * int(cable.get("parallel") or 1)
     return out
 
 
@@ -312,7 +312,7 @@ def _compare_segments(old: list, new: list) -> tuple[list[SegmentChange], int]:
             changes.append(SegmentChange(s["id"], s.get("layer", ""), "new",
                                          (("circuits", None, len(s.get("circuits") or ())),)))
             continue
-        fields = []
+        fields: list[tuple[str, Any, Any]] = []
         if len(o.get("circuits") or ()) != len(s.get("circuits") or ()):
             fields.append(("circuits", len(o.get("circuits") or ()), len(s.get("circuits") or ())))
         if o.get("cables") != s.get("cables"):

@@ -111,7 +111,7 @@ def type_properties(f: Any, pset: Any, check_units: dict[str, str] | None = None
         if not prop.is_a("IfcPropertySingleValue") or prop.NominalValue is None:
             continue
         value = prop.NominalValue.wrappedValue
-        kind = None
+        kind: tuple[str, tuple[Any, ...] | None] | None = None
         if check_units and prop.Name in check_units and isinstance(value, float):
             kind = _CHECK_UNITS.get(check_units[prop.Name], ("IfcReal", None))
             if kind[0] == "IfcAreaMeasure" and value < 0:

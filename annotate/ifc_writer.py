@@ -121,8 +121,8 @@ def _sizing_props(outcome: CircuitOutcome) -> dict[str, Any]:
         props["VoltageDropLimit_pct"] = float(s.voltage_drop.limit_percent)
     route = outcome.route
     if route is not None:
-        props["RoutedLength_m"] = float(route.routed_length_m)  # type: ignore[attr-defined]
-        props["DesignLength_m"] = float(route.design_length_m)  # type: ignore[attr-defined]
+        props["RoutedLength_m"] = float(route.routed_length_m)
+        props["DesignLength_m"] = float(route.design_length_m)
     if outcome.messages:
         props["Messages"] = "; ".join(outcome.messages)[:250]
     return props
@@ -243,7 +243,7 @@ def _new_cable(f: Any, outcome: CircuitOutcome, scale: float) -> Any:
         ifcopenshell.api.spatial.assign_container(f, products=[cable], relating_structure=container)
     ifcopenshell.api.geometry.edit_object_placement(f, product=cable, matrix=np.eye(4))
     route = outcome.route
-    pts = list(route.points_m) if route is not None else []  # type: ignore[attr-defined]
+    pts = list(route.points_m) if route is not None else []
     if len(pts) >= 2:
         # the placement sits at the world origin, so local = world coordinates
         from cablewright.extract.ifc_geometry import world_matrix
@@ -292,7 +292,7 @@ def write_ifc_copy(
 
     src, dst = Path(input_path), Path(output_path)
     if dst.exists() and src.exists() and os.path.samefile(src, dst):
-        raise DrawingReadError(f"{dst}: is the input model; write the copy elsewhere")
+        raise DrawingReadError(file=dst, problem="is the input model", fix="write the copy elsewhere")
     f = open_model(src)
     scale = float(uu.calculate_unit_scale(f))
     existing: dict[str, Any] = {}
@@ -332,7 +332,7 @@ def write_ifc_copy(
         with atomic_path(dst) as tmp:
             f.write(str(tmp), format=".ifc")
     except OSError as exc:
-        raise DrawingReadError(f"{dst}: cannot write the IFC copy ({exc.strerror}); choose another --out") from exc
+        raise DrawingReadError(file=dst, problem=f"cannot write the IFC copy ({exc.strerror})", fix="choose another --out") from exc
     logger.info("IFC copy %s: %d cables added, %d updated, %d circuits not sized",
                 dst, len(added), len(updated), len(skipped))
     return IfcWriteSummary(str(dst), tuple(added), tuple(updated), tuple(skipped))

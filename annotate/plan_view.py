@@ -119,7 +119,7 @@ def write_plan_view(measurement: Measurement, path: str | os.PathLike[str]) -> P
         with atomic_path(target) as tmp:
             doc.saveas(tmp)
     except OSError as exc:
-        raise DrawingReadError(f"{target}: cannot write the plan view ({exc.strerror}); choose another --out") from exc
+        raise DrawingReadError(file=target, problem=f"cannot write the plan view ({exc.strerror})", fix="choose another --out") from exc
     logger.info("plan view: %d segments, %d equipment -> %s", len(measurement.segments),
                 len(measurement.equipment), target)
     return target

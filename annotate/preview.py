@@ -153,8 +153,8 @@ class BatchingBackend(MatplotlibBackend):
                 # piece in Python for the data limits; the vertices bound the curves
                 ax.add_artist(PathPatch(path, fill=False, edgecolor=color, linewidth=key[2],
                                         capstyle="butt", zorder=z))
-                if len(path.vertices):
-                    corners += [path.vertices.min(axis=0), path.vertices.max(axis=0)]
+                if len(path.vertices):  # type: ignore[arg-type]  # matplotlib types it ArrayLike; an (n, 2) ndarray
+                    corners += [path.vertices.min(axis=0), path.vertices.max(axis=0)]  # type: ignore[union-attr]
             elif kind == "fill":
                 ax.add_collection(PathCollection(items, facecolors=color, edgecolors="none",
                                                  linewidths=0.0, zorder=z))

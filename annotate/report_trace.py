@@ -252,7 +252,8 @@ def circuit_trace(o: CircuitOutcome) -> CircuitTrace:
                      f"(limit {vd.limit_percent:g} %), {vd.mv_per_a_m:.3f} mV/A/m; simplified formula of "
                      f"Annex G {vd.annex_g_percent:.2f} %{extra}.")
     if s.checks:
-        rows, results = [], []
+        check_rows: list[tuple[str, ...]] = []
+        results: list[str] = []
         for ch in s.checks:
             result = check_result(ch)
             note = ch.message
@@ -264,10 +265,10 @@ def circuit_trace(o: CircuitOutcome) -> CircuitTrace:
             else:
                 shown = (ch.name, RESULT_TEXT.get(result, result) + (f" ({note})" if note else ""),
                          _n(ch.value, 3), _n(ch.limit, 3), ch.unit, ch.source)
-            rows.append(shown)
+            check_rows.append(shown)
             results.append(result)
         tables.append(TraceTable("5. Checks", ("check", "result", "value", "limit", "unit", "clause"),
-                                 tuple(rows), tuple(results)))
+                                 tuple(check_rows), tuple(results)))
     return CircuitTrace(o.circuit_id, title, o.status, o.messages, tuple(lines), tuple(tables), capacity)
 
 

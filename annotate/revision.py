@@ -11,8 +11,9 @@ above its limit, the point half-way along the segment and the note to write ther
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from typing import cast
 
 from .changes import ChangeReport
 
@@ -98,9 +99,10 @@ class FillMark:
     text: str
 
 
-def _halfway(points) -> tuple[float, float, float]:
+def _halfway(points: Iterable[Sequence[float]]) -> tuple[float, float, float]:
     """The point half-way along a polyline, measured along it."""
-    pts = [tuple(float(v) for v in p) for p in points]
+    # x, y, z of each point (route points are 3D, extract/model.py Point3)
+    pts = [cast("tuple[float, float, float]", tuple(float(v) for v in p)) for p in points]
     if len(pts) == 1:
         return pts[0]
     pieces = [math.dist(a, b) for a, b in zip(pts[:-1], pts[1:], strict=True)]
@@ -108,7 +110,7 @@ def _halfway(points) -> tuple[float, float, float]:
     for (a, b), length in zip(zip(pts[:-1], pts[1:], strict=True), pieces, strict=True):
         if left <= length and length > 0:
             t = left / length
-            return tuple(a[i] + t * (b[i] - a[i]) for i in range(3))
+            return cast("tuple[float, float, float]", tuple(a[i] + t * (b[i] - a[i]) for i in range(3)))
         left -= length
     return pts[-1]
 

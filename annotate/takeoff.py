@@ -11,6 +11,7 @@ The numbers come from :mod:`cablewright.sizing.quantities` and
 from __future__ import annotations
 
 import hashlib
+import os
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -203,7 +204,7 @@ def tool_info() -> dict[str, str]:
     return {"name": "cablewright", "version": version}
 
 
-def input_info(path: str | Path) -> dict[str, str | None]:
+def input_info(path: str | os.PathLike[str]) -> dict[str, str | None]:
     """``input``: the drawing's file name and SHA-256 (FIPS 180-4) of its bytes."""
     path = Path(path)
     digest = hashlib.sha256()

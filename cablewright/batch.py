@@ -48,7 +48,8 @@ def expand_drawings(paths: list[str]) -> list[Path]:
         else:
             drawings.append(path)
     if not drawings:
-        raise DrawingReadError(f"{', '.join(paths)}: no .dxf or .ifc drawings found; name a drawing or a folder holding some")
+        raise DrawingReadError(file=', '.join(paths), problem="no .dxf or .ifc drawings found",
+                               fix="name a drawing or a folder holding some")
     return drawings
 
 
@@ -102,7 +103,7 @@ def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], l
             n += 1
             candidate = parent / f"{stem}-{n}"
         if base is not None and candidate.parent != base:  # pragma: no cover - guarded by _folder_name
-            raise DrawingReadError(f"{drawing}: its output folder {candidate} would lie outside {base}")
+            raise DrawingReadError(file=drawing, problem=f"its output folder {candidate} would lie outside {base}")
         if n > 1:
             first = taken[str(parent / stem).casefold()]
             notes.append(f"{drawing}: outputs in {candidate}, since {parent / stem} holds those of {first}")

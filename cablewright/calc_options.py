@@ -66,12 +66,12 @@ def load_text(text: str) -> str:
     from cablewright.core.errors import CableRouteError
     from cablewright.sizing.load import parse_load
 
-    if not _LOAD.match(str(text)):
+    if not (match := _LOAD.match(str(text))):
         raise argparse.ArgumentTypeError(f"{text!r} does not parse: write a number and a unit, e.g. '55 kW'")
     try:
         parse_load(text)
     except CableRouteError as exc:
-        if float(_LOAD.match(text).group(1).replace(",", ".")) > 0:  # a unit we do not know
+        if float(match.group(1).replace(",", ".")) > 0:  # a unit we do not know
             raise argparse.ArgumentTypeError(str(exc)) from None
     return text  # a zero or negative load is the circuit's error (exit 1)
 
@@ -150,7 +150,8 @@ def add_calc_options(parser: argparse.ArgumentParser) -> None:
     for option in CALC_COLUMNS:
         choices = getattr(option.parse, "choices", None)
         metavar = "{" + ",".join(choices) + "}" if choices else option.column.upper()
-        parser.add_argument(option.option, dest=option.column, type=option.parse, help=option.help,
+        parser.add_argument(option.option, dest=option.column, type=option.parse,  # type: ignore[arg-type]  # None: argparse's plain text
+                            help=option.help,
                             required=option.column == "load", metavar=metavar)
     listed = {o.column for o in CALC_COLUMNS}
     for column in SCHEDULE_FIELDS:

@@ -15,11 +15,12 @@ from cablewright.sizing.fields import spec_from_fields
 from cablewright.sizing.model import SizingResult, Stretch
 from cablewright.sizing.standards import size_for_standard
 
-from .calc_options import calc_fields
+from .arguments import common_options
+from .calc_options import add_calc_options, calc_fields
 from .config import UNAVAILABLE_STANDARDS, load_settings
 from .console import calc_steps
 
-__all__ = ["run"]
+__all__ = ["run", "register"]
 
 
 def _float(name: str, text: str | None) -> float | None:
@@ -81,3 +82,11 @@ def run(args: argparse.Namespace) -> int:
             print(f"cablewright: error: {message}", file=sys.stderr)
         return 1
     return 0 if result.status in ("ok", "warning") else 1
+
+
+def register(subparsers: argparse._SubParsersAction) -> None:
+    """The ``calc`` parser: every schedule column an option (:mod:`calc_options`)."""
+    calc = subparsers.add_parser("calc", help="size one circuit, no drawing; every schedule column is an option")
+    add_calc_options(calc)
+    common_options(calc)
+    calc.set_defaults(handler=run)

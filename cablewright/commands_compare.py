@@ -10,7 +10,7 @@ from cablewright.annotate.changes import ChangeReport, compare_documents, load_d
 from .console import format_table
 from .outputs import changes_json
 
-__all__ = ["run_compare", "changes_table"]
+__all__ = ["run_compare", "changes_table", "register"]
 
 
 def changes_table(report: ChangeReport) -> str:
@@ -66,3 +66,16 @@ def run_compare(args: argparse.Namespace) -> int:
     else:
         print(changes_table(report))
     return 0
+
+
+def register(subparsers: argparse._SubParsersAction) -> None:
+    """The ``compare`` parser: what changed between two runs of ``size``."""
+    compare = subparsers.add_parser("compare", help="what changed between two runs of 'size'")
+    compare.add_argument("old", help="the earlier output folder of 'size', its schedule.json, or a drawing")
+    compare.add_argument("new", help="the later output folder of 'size', or its schedule.json")
+    compare.add_argument("--circuits", metavar="FILE",
+                         help="schedule for OLD and NEW when they are drawings (.dxf or .ifc)")
+    compare.add_argument("--config", metavar="FILE", help="TOML config for sizing drawings")
+    compare.add_argument("--json", action="store_true", help="print the change document on stdout")
+    compare.add_argument("--debug", action="store_true", help="show Python tracebacks")
+    compare.set_defaults(handler=run_compare)

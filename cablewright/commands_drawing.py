@@ -9,6 +9,7 @@ from pathlib import Path
 from cablewright.annotate.jsonout import dumps
 from cablewright.annotate.model import CircuitOutcome
 
+from .arguments import drawing_arguments
 from .config import Settings
 from .console import CAUTION, TABLE_WIDTH, format_table
 from .outputs import drawing_entry
@@ -21,7 +22,8 @@ from .size_run import (
     size_drawing,
 )
 
-__all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR"]
+__all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR",
+           "register_size", "register_routes", "register_demo"]
 
 SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
 
@@ -164,10 +166,8 @@ def run_demo(args: argparse.Namespace) -> int:
     if not drawing.exists():
         from cablewright.core.errors import DrawingReadError
 
-        raise DrawingReadError(
-            f"{drawing}: the sample drawing is missing; run "
-            "'python sample_drawings/generate_pumping_station.py' from the repository"
-        )
+        raise DrawingReadError(file=drawing, problem="the sample drawing is missing",
+                               fix="run 'python sample_drawings/generate_pumping_station.py' from the repository")
     out = Path(args.out) if args.out else Path.cwd() / "cablewright-demo"
     size_args = argparse.Namespace(drawing=str(drawing), circuits=str(circuits), config=None,
                                    out=str(out), json=False, debug=args.debug, recover=False)
@@ -175,3 +175,46 @@ def run_demo(args: argparse.Namespace) -> int:
     print(f"\ndemo outputs are in {out}")
     # A sample with failing circuits on purpose still counts as a successful demo run.
     return 0 if code in (0, 1) else code
+
+
+def register_size(subparsers: argparse._SubParsersAction) -> None:
+    """The ``size`` parser (contract.md, "Commands"); ``--watch`` runs :func:`watch.run_watch`."""
+    size = subparsers.add_parser(
+        "size", help="the whole job: routes, grouping, sizing, annotated DXF, schedule, report")
+    drawing_arguments(size)
+    size.add_argument("more_drawings", nargs="*", metavar="DRAWING",
+                      help="further drawings or folders: batch mode, each drawing's outputs in its own folder")
+    size.add_argument("--out", metavar="DIR", help="output folder (default: beside the drawing)")
+    size.add_argument("--jobs", type=int, default=1, metavar="N",
+                      help="batch mode: drawings processed in parallel worker processes (default 1)")
+    size.add_argument("--previous", metavar="DIR",
+                      help="an earlier output folder: report what changed and write changes.json")
+    size.add_argument("--watch", action="store_true",
+                      help="run again whenever the drawing or the schedule is saved (Ctrl+C ends)")
+    size.add_argument("--watch-poll", type=float, default=0.5, help=argparse.SUPPRESS)
+    size.add_argument("--watch-runs", type=int, default=0, help=argparse.SUPPRESS)  # tests: stop after N runs
+    size.set_defaults(handler=_size_or_watch)
+
+
+def _size_or_watch(args: argparse.Namespace) -> int:
+    if getattr(args, "watch", False):
+        from .watch import run_watch
+
+        return run_watch(args, run_size, default_out)
+    return run_size(args)
+
+
+def register_routes(subparsers: argparse._SubParsersAction) -> None:
+    """The ``routes`` parser: measure routed lengths and grouping only."""
+    routes = subparsers.add_parser("routes", help="measure routed lengths and grouping only")
+    drawing_arguments(routes)
+    routes.set_defaults(handler=run_routes)
+
+
+def register_demo(subparsers: argparse._SubParsersAction) -> None:
+    """The ``demo`` parser: ``size`` on the bundled sample drawing."""
+    demo = subparsers.add_parser("demo", help="run 'size' on the bundled sample drawing")
+    demo.add_argument("--out", metavar="DIR", help="output folder (default: ./cablewright-demo)")
+    demo.add_argument("--json", action="store_true", help=argparse.SUPPRESS)
+    demo.add_argument("--debug", action="store_true", help="show Python tracebacks")
+    demo.set_defaults(handler=run_demo)

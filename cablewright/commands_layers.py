@@ -17,11 +17,12 @@ from cablewright.annotate.atomic import write_text_atomic
 from cablewright.core.errors import ConfigError
 from cablewright.extract.survey import Survey, starting_config, survey_drawing
 
+from .arguments import common_options, units_option
 from .commands_drawing import settings_for
 from .console import format_table
 from .pipeline import drawing_config
 
-__all__ = ["run_layers"]
+__all__ = ["run_layers", "register"]
 
 #: Most tag-like texts listed in the text output (all are in --json).
 SHOWN_TEXTS = 20
@@ -81,14 +82,14 @@ def run_layers(args: argparse.Namespace) -> int:
     if target is not None:
         inputs = [drawing] + ([Path(args.config)] if args.config else [])
         if any(_same_file(target, p) for p in inputs):
-            raise ConfigError(f"{target}: is an input of this run; --write-config writes a new file, "
-                              "give another name")
+            raise ConfigError(file=target, problem="is an input of this run",
+                              fix="--write-config writes a new file, give another name")
     survey = survey_drawing(drawing, config)
     if target is not None:
         try:
             write_text_atomic(target, starting_config(survey), encoding="utf-8")
         except OSError as exc:
-            raise ConfigError(f"{target}: cannot write the config ({exc.strerror}); choose another path") from exc
+            raise ConfigError(file=target, problem=f"cannot write the config ({exc.strerror})", fix="choose another path") from exc
         print(f"cablewright: starting config written to {target}; check it, then run "
               f"'cablewright size {drawing} --config {target} --circuits FILE'", file=sys.stderr)
     if args.json:
@@ -96,3 +97,16 @@ def run_layers(args: argparse.Namespace) -> int:
     else:
         _print_survey(survey)
     return 0
+
+
+def register(subparsers: argparse._SubParsersAction) -> None:
+    """The ``layers`` parser: what a drawing holds, and a starting config."""
+    layers = subparsers.add_parser(
+        "layers", help="what a drawing holds: layers, blocks, texts, units; a starting config")
+    layers.add_argument("drawing", help="the drawing (.dxf)")
+    layers.add_argument("--write-config", metavar="FILE",
+                        help="write a starting TOML config from the suggestions (never over an input file)")
+    layers.add_argument("--recover", action="store_true", help="read what can be read of a damaged DXF")
+    units_option(layers)
+    common_options(layers)
+    layers.set_defaults(handler=run_layers)

@@ -51,7 +51,7 @@ from cablewright.sizing.config import SizingConfig
 if sys.version_info >= (3, 11):
     import tomllib
 else:  # pragma: no cover
-    import tomli as tomllib
+    import tomli as tomllib  # type: ignore[import-not-found]  # installed on Python 3.10 only
 
 __all__ = [
     "Settings",
@@ -471,10 +471,10 @@ def _read_toml(path: Path) -> dict[str, Any]:
     try:
         return tomllib.loads(path.read_text(encoding="utf-8"))
     except OSError as exc:
-        raise ConfigError(f"{path}: cannot read the config file ({exc.strerror}); "
-                          "check the --config path") from exc
+        raise ConfigError(file=path, problem=f'cannot read the config file ({exc.strerror})',
+                          fix="check the --config path") from exc
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise ConfigError(f"{path}: not valid TOML ({exc}); fix the file") from exc
+        raise ConfigError(file=path, problem=f"not valid TOML ({exc})", fix="fix the file") from exc
 
 
 def load_settings(path: str | Path | None = None) -> Settings:
@@ -509,16 +509,14 @@ def load_settings(path: str | Path | None = None) -> Settings:
     data = _read_toml(path)
     values, problems = validate(data, str(path))
     if problems:
-        error = ConfigError("\n".join(problems))
-        error.problems = tuple(problems)  # type: ignore[attr-defined]
-        raise error
+        raise ConfigError(problems=tuple(problems), file=path)
     targets = _targets()
     objects = {}
     for target, cls in targets.items():
         try:
             objects[target] = cls(**values[target])
         except (TypeError, ValueError) as exc:  # a dataclass's own __post_init__ check
-            raise ConfigError(f"{path}: [{target}] {exc}") from exc
+            raise ConfigError(file=path, problem=f"[{target}] {exc}") from exc
     return Settings(objects["drawing"], objects["sizing"], objects["annotate"], objects["ifc"],
                     str(path))
 

@@ -128,19 +128,19 @@ def check_inputs_not_outputs(out_dir: str | os.PathLike[str], inputs: Iterable[t
     """
     out = _absolute(out_dir)
     if out.parent == out:
-        raise OutputError(f"{out}: the output folder cannot be the root of the file system; choose a folder of its own with --out")
+        raise OutputError(file=out, problem="the output folder cannot be the root of the file system", fix="choose a folder of its own with --out")
     cwd = _absolute(os.getcwd())
     if out == cwd or out in cwd.parents:
-        raise OutputError(f"{out}: the output folder holds the current folder and would be replaced; choose a folder of its own with --out")
+        raise OutputError(file=out, problem="the output folder holds the current folder and would be replaced", fix="choose a folder of its own with --out")
     if out.exists() and not out.is_dir():
-        raise OutputError(f"{out}: --out names a file, not a folder; choose a folder for the outputs")
+        raise OutputError(file=out, problem="--out names a file, not a folder", fix="choose a folder for the outputs")
     for role, path in inputs:
         if path is None:
             continue
         given = _absolute(path)
         if given == out or out in given.parents:
-            raise OutputError(f"{path}: the {role} is inside the output folder {out}, which this run replaces; "
-                              "choose another --out or move the input out of it")
+            raise OutputError(file=path, problem=f'the {role} is inside the output folder {out}, which this run replaces',
+                              fix="choose another --out or move the input out of it")
 
 
 def _lock_path(out: Path) -> Path:
@@ -160,22 +160,22 @@ def _locked(out: Path) -> Iterator[None]:
     try:
         fd = os.open(path, os.O_RDWR | os.O_CREAT, 0o644)
     except OSError as exc:
-        raise OutputError(f"{out}: cannot create the lock file {path} ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=out, problem=f"cannot create the lock file {path} ({exc.strerror})", fix="choose another --out") from exc
     try:
         try:
             fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
         except OSError as exc:
             if exc.errno not in (errno.EWOULDBLOCK, errno.EAGAIN, errno.EACCES):
                 raise
-            raise OutputError(f"{out}: another cablewright run is writing this folder (lock {path}); "
-                              "wait for it to finish or choose another --out") from None
+            raise OutputError(file=out, problem=f'another cablewright run is writing this folder (lock {path})',
+                              fix="wait for it to finish or choose another --out") from None
         try:  # the file may have been removed by the run that held it before us
             same = os.path.samestat(os.stat(path), os.fstat(fd))
         except FileNotFoundError:
             same = False
         if not same:
-            raise OutputError(f"{out}: another cablewright run has just taken this folder (lock {path}); "
-                              "wait for it to finish or choose another --out")
+            raise OutputError(file=out, problem=f'another cablewright run has just taken this folder (lock {path})',
+                              fix="wait for it to finish or choose another --out")
         os.write(fd, f"{os.getpid()}\n".encode())
         try:
             yield
@@ -221,7 +221,7 @@ def _make_parents(folder: Path) -> list[Path]:
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
-        raise OutputError(f"{folder}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=folder, problem=f"cannot create the output folder ({exc.strerror})", fix="choose another --out") from exc
     return list(reversed(missing))
 
 
@@ -294,7 +294,7 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
         out.parent.mkdir(parents=True, exist_ok=True)
         stage = Path(tempfile.mkdtemp(prefix=f".{out.name}{STAGE_TAG}stage-", dir=out.parent))
     except OSError as exc:
-        raise OutputError(f"{out}: cannot create the output folder ({exc.strerror}); choose another --out") from exc
+        raise OutputError(file=out, problem=f"cannot create the output folder ({exc.strerror})", fix="choose another --out") from exc
     try:
         try:
             if takeoff is None or extras is None:
@@ -305,8 +305,8 @@ def write_outputs(job, drawing: Path, out_dir: Path, settings: Settings, quiet: 
                 _carry_over(out, stage, set(names.values()) | set(output_names(Path(drawing)).values()))
             _swap_in(stage, out)
         except OSError as exc:
-            raise OutputError(f"{out}: cannot write the outputs ({exc.strerror or exc}); "
-                              "free some space or choose another --out") from exc
+            raise OutputError(file=out, problem=f'cannot write the outputs ({exc.strerror or exc})',
+                              fix="free some space or choose another --out") from exc
         return [out / name for name in names.values()]
     finally:
         shutil.rmtree(stage, ignore_errors=True)
@@ -347,8 +347,8 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
         try:
             document = ezdxf.readfile(dxf_input)
         except (OSError, ezdxf.DXFStructureError) as exc:
-            raise DrawingReadError(f"{dxf_input}: cannot read the drawing ({exc}); "
-                                   "check the path or re-export it") from exc
+            raise DrawingReadError(file=dxf_input, problem=f'cannot read the drawing ({exc})',
+                                   fix="check the path or re-export it") from exc
     # no run time and no random GUID in the annotated drawing (annotate.reproducible)
     pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
     _record_units(document, measurement)

@@ -28,7 +28,7 @@ from cablewright.sizing.chain import (
     with_origin_check,
 )
 from cablewright.sizing.fields import spec_from_fields
-from cablewright.sizing.model import SizingResult, Stretch
+from cablewright.sizing.model import CircuitSpec, SizingResult, Stretch
 from cablewright.sizing.standards import size_for_standard
 
 from .config import Settings
@@ -137,7 +137,7 @@ def size_measurement(
     """Size every routed circuit; unrouted or bad circuits become ``error`` outcomes."""
     config = settings.sizing
     tiers_of = drawing_config(settings).layer_tiers
-    specs: dict[str, object] = {}
+    specs: dict[str, CircuitSpec] = {}
     errors: dict[str, str] = {}
     rows = {row.circuit_id: row for row in measurement.rows}
     for row in measurement.rows:
@@ -239,7 +239,7 @@ def _lightly_loaded(results: Mapping[str, SizingResult]) -> set[str]:
 
 def _drop_advice(cid: str, total: float, limit: float, results: Mapping[str, SizingResult],
                  source_of: Mapping[str, str], feeder_of: Mapping[str, str],
-                 specs: Mapping[str, object]) -> str:
+                 specs: Mapping[str, CircuitSpec]) -> str:
     """"; cheapest: ..." naming the one cable to enlarge (sizing.chain.cheapest_drop_fix)."""
     cables = {}
     for c in upstream_chain(cid, source_of, feeder_of):
@@ -265,7 +265,7 @@ def _drop_advice(cid: str, total: float, limit: float, results: Mapping[str, Siz
 
 
 def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, ScheduleRow],
-                      specs: Mapping[str, object] | None = None) -> dict[str, SizingResult]:
+                      specs: Mapping[str, CircuitSpec] | None = None) -> dict[str, SizingResult]:
     """Add the drop from the origin (IEC 60364-5-52:2009 Annex G) to every result.
 
     A circuit whose source is the load end of another circuit (a sub-board
@@ -300,6 +300,7 @@ def _with_chain_drops(results: dict[str, SizingResult], rows: Mapping[str, Sched
             out[cid] = with_origin_check(result, origin_drop_not_checked(
                 result.voltage_drop, f"feeder {unsized[cid]} upstream could not be sized"))
             continue
+        assert result.voltage_drop is not None  # chain_drops sums only circuits with a drop
         vd = replace(result.voltage_drop, cumulative_percent=total)
         feeders = [(c, own[c]) for c in upstream_chain(cid, source_of, feeder_of)[1:]]
         check = origin_drop_check(vd, feeders, total)

@@ -13,12 +13,17 @@ import sys
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from cablewright.annotate.model import CircuitOutcome
 
 from .config import Settings, load_settings
 from .outputs import job_document, job_takeoff, output_session, write_outputs
 from .pipeline import JobResult, measure_drawing, size_measurement
+
+if TYPE_CHECKING:
+    from cablewright.annotate.changes import ChangeReport
+    from cablewright.extract.model import Measurement
 
 __all__ = ["SizeRun", "settings_from", "size_drawing"]
 
@@ -27,11 +32,11 @@ __all__ = ["SizeRun", "settings_from", "size_drawing"]
 class SizeRun:
     """What :func:`size_drawing` did: the measurement, the sized job and the files written."""
 
-    measurement: object
+    measurement: Measurement
     job: JobResult
     extras: dict
     written: list
-    changes: object | None
+    changes: ChangeReport | None
 
     @property
     def exit_code(self) -> int:

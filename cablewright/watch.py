@@ -61,9 +61,9 @@ def wait_for_change(paths: Sequence[Path], last: Snapshot, poll_s: float = 0.5,
             return None
 
 
-def _run_once(args: argparse.Namespace, previous: str | None) -> int | None:
+def _run_once(args: argparse.Namespace, previous: str | None,
+              run_size: Callable[[argparse.Namespace], int]) -> int | None:
     from .collector import collect_between
-    from .commands_drawing import run_size
 
     run_args = argparse.Namespace(**{**vars(args), "watch": False, "previous": previous})
     try:
@@ -76,10 +76,13 @@ def _run_once(args: argparse.Namespace, previous: str | None) -> int | None:
         collect_between()  # this run's cyclic garbage, while waiting for the next save
 
 
-def run_watch(args: argparse.Namespace) -> int:
-    """Run ``size``, then again on every save of the drawing, schedule or config."""
-    from .commands_drawing import default_out
+def run_watch(args: argparse.Namespace, run_size: Callable[[argparse.Namespace], int],
+              default_out: Callable[[Path], Path]) -> int:
+    """Run ``size``, then again on every save of the drawing, schedule or config.
 
+    ``run_size`` and ``default_out`` are ``commands_drawing``'s (passed in, so
+    this module imports no command module and there is no import cycle).
+    """
     drawing = Path(args.drawing)
     if not args.out:
         args.out = str(default_out(drawing))
@@ -91,7 +94,7 @@ def run_watch(args: argparse.Namespace) -> int:
     limit = getattr(args, "watch_runs", 0) or 0
     try:
         while True:
-            result = _run_once(args, previous)
+            result = _run_once(args, previous, run_size)
             runs += 1
             if result is not None:
                 code = result

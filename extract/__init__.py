@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
-from cablewright.core.errors import DrawingReadError, Issue, ScheduleError
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode, ScheduleError
 
 from .dxf_reader import DxfContent, read_dxf
 from .model import (
@@ -173,7 +173,7 @@ def read_drawing(
         from .ifc_reader import reader_result  # ifcopenshell only when an IFC model is given
 
         return reader_result(p, config, ifc_config)
-    raise DrawingReadError(f"{p}: drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
+    raise DrawingReadError(file=p, problem=f"drawing must be .dxf (or .ifc), not {suffix or 'no suffix'}")
 
 
 def measure(
@@ -272,7 +272,7 @@ def measure_content(
         rows, equipment, position_errors = _positioned_loads(rows, equipment, UNIT_TO_M[content.units], issues)
     elif any(row.get(c) for row in rows for c in POSITION_COLUMNS):
         issues.append(Issue(
-            "schedule-position", f"{content.path}: to_x/to_y/to_z in the schedule place loads in DXF "
+            IssueCode.SCHEDULE_POSITION, f"{content.path}: to_x/to_y/to_z in the schedule place loads in DXF "
             "drawings only; ignored for this IFC model - give the loads' tags"))
     network = build_network(content.polylines, equipment, config, source=content.path)
     issues.extend(network.issues)
@@ -332,7 +332,7 @@ def _positioned_loads(rows: list[ScheduleRow], equipment: list[Equipment], metre
         out_rows.append(replace(row, to_tag=tag) if tag != row.to_tag else row)
     drawn = {eq.tag for eq in equipment} & set(placed)
     if drawn:
-        issues.append(Issue("schedule-position",
+        issues.append(Issue(IssueCode.SCHEDULE_POSITION,
                             f"{rows[0].source}: load(s) {', '.join(sorted(drawn))} are in the drawing and given a position in the "
                             "schedule (to_x, to_y); the schedule's position is used"))
     kept = [eq for eq in equipment if eq.tag not in placed]

@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, NamedTuple
 
-from cablewright.core.errors import DrawingReadError, Issue
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode
 
 from .dxf_flatten import FLATTEN_TYPES, flatten_points
 from .dxf_tags import Symbol, TagMarks, TextMark, first_word, tag_symbols, text_anchor
@@ -160,16 +160,16 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     from ezdxf import recover
 
     if not path.exists():
-        raise DrawingReadError(f"{path}: file not found; check the drawing path")
+        raise DrawingReadError(file=path, problem="file not found", fix="check the drawing path")
     if path.is_dir():
-        raise DrawingReadError(f"{path}: is a folder, not a DXF file; give the drawing file")
+        raise DrawingReadError(file=path, problem="is a folder, not a DXF file", fix="give the drawing file")
     if path.stat().st_size == 0:
-        raise DrawingReadError(f"{path}: file is empty; export the drawing again as DXF")
+        raise DrawingReadError(file=path, problem="file is empty", fix="export the drawing again as DXF")
     try:
         with path.open("rb") as f:
             f.read(1)
     except OSError as exc:
-        raise DrawingReadError(f"{path}: cannot be opened ({exc}); check the path and permissions") from exc
+        raise DrawingReadError(file=path, problem=f"cannot be opened ({exc})", fix="check the path and permissions") from exc
     read_errors = (ezdxf.DXFError, UnicodeError, ValueError, EOFError, IndexError, TypeError, OSError,
                    StopIteration, KeyError, AttributeError)
     try:
@@ -180,24 +180,17 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     try:
         doc, auditor = recover.readfile(str(path))
     except read_errors as exc:
-        raise DrawingReadError(
-            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
-            f"({first_error}); export the drawing again as DXF"
-        ) from exc
+        raise DrawingReadError(file=path, problem=f'not a readable DXF file, or damaged or truncated beyond repair ({first_error})',
+                               fix="export the drawing again as DXF") from exc
     if len(doc.modelspace()) == 0:
-        raise DrawingReadError(
-            f"{path}: not a readable DXF file, or damaged or truncated beyond repair "
-            f"({first_error}); export the drawing again as DXF"
-        )
+        raise DrawingReadError(file=path, problem=f'not a readable DXF file, or damaged or truncated beyond repair ({first_error})',
+                               fix="export the drawing again as DXF")
     if not config.recover:
-        raise DrawingReadError(
-            f"{path}: the DXF file is damaged ({first_error}) and could be read only in part; "
-            "missing routes would give wrong lengths. Repair or re-export the drawing, or use "
-            "--recover to measure what can be read"
-        )
+        raise DrawingReadError(file=path, problem=f'the DXF file is damaged ({first_error}) and could be read only in part',
+                               fix="missing routes would give wrong lengths. Repair or re-export the drawing, or use --recover to measure what can be read")
     issues = [
         Issue(
-            "recovered",
+            IssueCode.RECOVERED,
             f"{path}: damaged file read in recover mode ({first_error}); "
             f"{len(doc.modelspace())} model-space entities could be read, anything past the "
             "damage is lost - check the routes against the drawing",
@@ -206,11 +199,11 @@ def _load(path: Path, config: DrawingConfig) -> tuple[Drawing, list[Issue]]:
     for err in auditor.errors:
         handle = getattr(getattr(err, "entity", None), "dxf", None)
         sid = getattr(handle, "handle", "") or ""
-        issues.append(Issue("recover-lost", f"{path}: {err.message}", sid))
+        issues.append(Issue(IssueCode.RECOVER_LOST, f"{path}: {err.message}", sid))
     for fix in auditor.fixes:
         handle = getattr(getattr(fix, "entity", None), "dxf", None)
         sid = getattr(handle, "handle", "") or ""
-        issues.append(Issue("recover-fixed", f"{path}: {fix.message}", sid))
+        issues.append(Issue(IssueCode.RECOVER_FIXED, f"{path}: {fix.message}", sid))
     return doc, issues
 
 
@@ -265,7 +258,7 @@ def _ocs_to_wcs(extrusion, pts: list[tuple[float, float, float]]) -> list[Point3
     ocs = OCS(extrusion)
     if ocs.uz.isclose((0, 0, 1)):
         return [(float(x), float(y), float(z)) for x, y, z in pts]
-    return [tuple(ocs.to_wcs(p)) for p in pts]  # type: ignore[misc]
+    return [tuple(ocs.to_wcs(p)) for p in pts]
 
 
 def _bulged_chain(
@@ -289,7 +282,7 @@ def _entity_points(e) -> list[Point3] | None:
     """World points (of the entity's own layout) of a route entity; None if unsupported."""
     t = e.dxftype()
     if t == "LINE":
-        return [tuple(e.dxf.start), tuple(e.dxf.end)]  # type: ignore[list-item]
+        return [tuple(e.dxf.start), tuple(e.dxf.end)]
     if t == "LWPOLYLINE":
         verts = [(float(x), float(y), float(b)) for x, y, b in e.get_points(format="xyb")]
         pts = _bulged_chain(verts, bool(e.closed), float(e.dxf.elevation))
@@ -299,7 +292,7 @@ def _entity_points(e) -> list[Point3] | None:
             pts3 = [tuple(v.dxf.location) for v in e.vertices]
             if e.is_closed and pts3:
                 pts3.append(pts3[0])
-            return pts3  # type: ignore[return-value]
+            return pts3
         if e.is_2d_polyline:
             elevation = float(e.dxf.elevation[2]) if e.dxf.hasattr("elevation") else 0.0
             verts = [
@@ -368,7 +361,7 @@ class _Walker:
         if kind is None:
             return
         if matrix is not None:
-            pts = [tuple(v) for v in matrix.transform_vertices(pts)]  # type: ignore[misc]
+            pts = [tuple(v) for v in matrix.transform_vertices(pts)]
         s = self.scale
         pts_m = tuple((float(x) * s, float(y) * s, float(z) * s) for x, y, z in pts)
         self.content.polylines.append(RoutePolyline(pts_m, layer.upper(), kind[0], kind[1], sid))
@@ -385,7 +378,7 @@ class _Walker:
             why = ""
         if not pts or len(pts) < 2:
             self.content.issues.append(Issue(
-                "unsupported-entity",
+                IssueCode.UNSUPPORTED_ENTITY,
                 f"{self.path}: {e.dxftype()} {sid} on route layer {layer} could not be flattened{why}; "
                 "ignored - redraw it as a polyline", sid))
             return
@@ -396,7 +389,7 @@ class _Walker:
         config = self.config
         if t == "CIRCLE" and config.layer_kind(layer):
             self.content.issues.append(Issue(
-                "unsupported-entity",
+                IssueCode.UNSUPPORTED_ENTITY,
                 f"{self.path}: CIRCLE {sid} on route layer {layer} is not a route; ignored - "
                 "draw the route as a line, polyline, arc or spline", sid))
         if not config.tags_from_text:
@@ -405,13 +398,13 @@ class _Walker:
             text = e.plain_text() if t == "MTEXT" else str(e.dxf.text)
             p = text_anchor(e)
         elif layer.upper() in {n.upper() for n in config.tag_symbol_layers}:
-            p = tuple(e.dxf.center if t == "CIRCLE" else e.dxf.location)  # type: ignore[assignment]
+            p = tuple(e.dxf.center if t == "CIRCLE" else e.dxf.location)
             if t == "CIRCLE":
-                p = tuple(e.ocs().to_wcs(p))  # type: ignore[assignment]
+                p = tuple(e.ocs().to_wcs(p))
         else:
             return
         if matrix is not None:
-            p = tuple(matrix.transform(p))  # type: ignore[assignment]
+            p = tuple(matrix.transform(p))
         s = self.scale
         pos = (float(p[0]) * s, float(p[1]) * s, float(p[2]) * s)
         if t in ("TEXT", "MTEXT"):
@@ -450,7 +443,7 @@ class _Walker:
                 handle = getattr(getattr(e, "dxf", None), "handle", None) or "?"
                 sid = prefix + str(handle)
                 self.content.issues.append(Issue(
-                    "unreadable-entity",
+                    IssueCode.UNREADABLE_ENTITY,
                     f"{self.path}: {e.dxftype()} {sid} cannot be read ({type(exc).__name__}: "
                     f"{(str(exc).splitlines() or [''])[0][:120]}); ignored - check it in the drawing",
                     sid,
@@ -478,7 +471,7 @@ class _Walker:
             if pts is None:
                 self.content.issues.append(
                     Issue(
-                        "unsupported-entity",
+                        IssueCode.UNSUPPORTED_ENTITY,
                         f"{self.path}: {t} {sid} on route layer {layer} is a mesh, not a "
                         "route line; ignored - redraw it as a polyline",
                         sid,
@@ -502,7 +495,7 @@ class _Walker:
         if problem is not None:
             self.content.issues.append(
                 Issue(
-                    "block-recursion",
+                    IssueCode.BLOCK_RECURSION,
                     f"{self.path}: INSERT {sid}: {problem}; its contents are skipped - "
                     "fix the block definitions in the drawing",
                     sid,
@@ -559,7 +552,7 @@ def _tag_from_text(walker: _Walker) -> None:
     if not walker.config.tags_from_text:
         if walker.config.tag_symbol_layers:
             content.issues.append(Issue(
-                "tags-from-text-off",
+                IssueCode.TAGS_FROM_TEXT_OFF,
                 f"{walker.path}: tag_symbol_layers is set but tags_from_text is false; the circles and "
                 "points on those layers are not read as equipment - set tags_from_text = true"))
         return
@@ -613,12 +606,8 @@ def read_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) 
     if not content.polylines:
         names = sorted({e.dxf.layer for e in doc.modelspace()})
         wanted = ", ".join(config.route_layers)
-        raise DrawingReadError(
-            f"{p}: no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer "
-            f"({wanted}); layers used in model space: {', '.join(names) or 'none'}. "
-            "Put the cable routes on those layers or add the layer names to the config "
-            f"('cablewright layers {p.name} --write-config FILE' suggests one)"
-        )
+        raise DrawingReadError(file=p, problem=f'no route entities (LINE, LWPOLYLINE, POLYLINE, ARC, SPLINE, ELLIPSE, MLINE) on a route layer ({wanted})',
+                               fix=f"layers used in model space: {', '.join(names) or 'none'}. Put the cable routes on those layers or add the layer names to the config ('cablewright layers {p.name} --write-config FILE' suggests one)")
     content.summary = summarise(doc, p, config, content)
     logger.info(
         "%s: %d route pieces, %d equipment, units %s",

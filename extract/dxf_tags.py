@@ -16,7 +16,7 @@ import re
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 
-from cablewright.core.errors import Issue
+from cablewright.core.errors import Issue, IssueCode
 
 from .model import Equipment, Point3
 
@@ -198,7 +198,7 @@ def tag_symbols(
         rest = (f"; {len(fallback)} had no text within {max_m:g} m and are named by block or layer "
                 f"and index ({shown})" if fallback else "")
         issues.append(Issue(
-            "tags-from-text",
+            IssueCode.TAGS_FROM_TEXT,
             f"{path}: {len(tag_of)} of {len(symbols)} equipment symbols without a tag attribute took "
             f"the first word of the nearest text as their tag{rest}; check the tags against the drawing",
         ))

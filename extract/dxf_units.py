@@ -11,7 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from cablewright.core.errors import DrawingReadError, Issue
+from cablewright.core.errors import DrawingReadError, Issue, IssueCode
 
 from .model import DrawingConfig
 from .units import (
@@ -75,23 +75,19 @@ def resolve_units(doc: Drawing, path: Path, config: DrawingConfig, issues: list[
     if config.units is not None:
         name = unit_name(str(config.units))
         if name is None:
-            raise DrawingReadError(
-                f"{path}: units {config.units!r} from the config or --units are not known; "
-                f"use one of {_known()}"
-            )
+            raise DrawingReadError(file=path, problem=f'units {config.units!r} from the config or --units are not known',
+                                   fix=f'use one of {_known()}')
         if header is not None and header != name:
             issues.append(Issue(
-                "units-override",
+                IssueCode.UNITS_OVERRIDE,
                 f"{path}: the drawing says {header} ($INSUNITS={code}); read in {name} as the "
                 "config or --units says",
             ))
         return name, "config", code
     if header is None:
         what = "unitless ($INSUNITS=0)" if code == 0 else f"in units that are not a length ($INSUNITS={code})"
-        raise DrawingReadError(
-            f"{path}: the drawing is {what}; give its units with --units or in the config "
-            f"([drawing] units = one of {', '.join(COMMON_UNITS)}), or save it with drawing units set"
-        )
+        raise DrawingReadError(file=path, problem=f'the drawing is {what}',
+                               fix=f"give its units with --units or in the config ([drawing] units = one of {', '.join(COMMON_UNITS)}), or save it with drawing units set")
     return header, "header", code
 
 
@@ -125,7 +121,7 @@ def summarise(doc: Drawing, path: Path, config: DrawingConfig, content) -> Drawi
                   f"--units {scale.likely_units[0]} (or [drawing] units) if so"
                   if scale.likely_units else "; check the drawing's units")
         content.issues.append(Issue(
-            "units-implausible",
+            IssueCode.UNITS_IMPLAUSIBLE,
             f"{path}: read in {content.units} ({'config' if source == 'config' else '$INSUNITS'}), "
             f"{scale.reason}{likely}",
         ))

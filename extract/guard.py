@@ -14,7 +14,7 @@ import math
 from collections.abc import Iterable, Sequence
 
 import numpy as np
-from cablewright.core.errors import ConfigError, Issue
+from cablewright.core.errors import ConfigError, Issue, IssueCode
 
 from .model import Equipment, RoutePolyline
 
@@ -119,7 +119,7 @@ def check_polylines(
             kept.append(pl)
         else:
             what = f"route piece {pl.source_id} on layer {pl.layer}"
-            issues.append(Issue("bad-coordinate", _refusal(source, what, value), pl.source_id))
+            issues.append(Issue(IssueCode.BAD_COORDINATE, _refusal(source, what, value), pl.source_id))
     return kept, issues
 
 
@@ -149,7 +149,7 @@ def check_equipment(
             kept.append(eq)
         else:
             what = f"equipment {eq.tag} ({eq.source_id}, block {eq.block_name})"
-            issues.append(Issue("bad-coordinate", _refusal(source, what, value), eq.source_id))
+            issues.append(Issue(IssueCode.BAD_COORDINATE, _refusal(source, what, value), eq.source_id))
     return kept, issues
 
 
@@ -232,7 +232,7 @@ def check_snap_tolerance(
     if not (math.isfinite(tol) and tol > 0.0):
         raise ConfigError(
             f"snap_tolerance_m = {snap_tolerance_m!r} must be a positive finite length in metres "
-            "(the default is 0.05 m)"
+            "(the default is 0.05 m)", column="snap_tolerance_m", value=snap_tolerance_m
         )
     if not polylines:
         return
@@ -244,7 +244,7 @@ def check_snap_tolerance(
             f"{where}snap_tolerance_m = {tol:g} m is {100 * tol / extent_m:.0f} % of the drawing's "
             f"extent ({extent_m:.0f} m), more than {100 * MAX_SNAP_FRACTION:.0f} %; it would join "
             "routes that do not meet - use a tolerance near the drawing's precision "
-            "(the default is 0.05 m)"
+            "(the default is 0.05 m)", file=source or None, column="snap_tolerance_m", value=tol
         )
     median_m = median_piece_length_m(polylines)
     if median_m > 0.0 and tol > MAX_SNAP_PIECE_FRACTION * median_m:
@@ -253,5 +253,6 @@ def check_snap_tolerance(
             f"{where}snap_tolerance_m = {tol:g} m is {tol / median_m:.3g} times the median route "
             f"piece length ({median_m:.3g} m, {len(polylines)} pieces, extent {extent_m:.3g} m); "
             "it would join most of the drawing - check the drawing units ([drawing] units or "
-            "--units) or use a smaller snap_tolerance_m"
+            "--units) or use a smaller snap_tolerance_m", file=source or None, column="snap_tolerance_m",
+            value=tol
         )

@@ -43,7 +43,7 @@ class UnsupportedGeometry(ValueError):
     """A curve or solid type this reader does not handle (the caller reports it)."""
 
 
-def world_matrix(product: ifcopenshell.entity_instance, cache: dict[int, np.ndarray] | None = None) -> np.ndarray:
+def world_matrix(product: ifcopenshell.entity_instance | _Holder, cache: dict[int, np.ndarray] | None = None) -> np.ndarray:
     """4x4 placement of ``product`` in world coordinates, project length units.
 
     The whole ``PlacementRelTo`` chain is resolved; a product with no placement

@@ -38,7 +38,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
-from cablewright.core.errors import CableRouteError, DrawingReadError, Issue
+from cablewright.core.errors import CableRouteError, DrawingReadError, Issue, IssueCode
 
 from .model import (
     CONTAINMENTS,
@@ -340,36 +340,29 @@ def open_model(path: str | os.PathLike[str]) -> Any:
     """
     p = Path(path)
     if not p.exists():
-        raise DrawingReadError(f"{p}: file not found; check the model path")
+        raise DrawingReadError(file=p, problem="file not found", fix="check the model path")
     if p.is_dir():
-        raise DrawingReadError(f"{p}: is a folder, not an IFC file; give the model file")
+        raise DrawingReadError(file=p, problem="is a folder, not an IFC file", fix="give the model file")
     if p.stat().st_size == 0:
-        raise DrawingReadError(f"{p}: file is empty; export the model again as IFC")
+        raise DrawingReadError(file=p, problem="file is empty", fix="export the model again as IFC")
     declared = _declared_schema(p)
     if declared is not None and not _schema_ok(declared):
-        raise DrawingReadError(
-            f"{p}: IFC schema {declared} is not supported; export as "
-            f"{', '.join(SUPPORTED_SCHEMAS)}"
-        )
+        raise DrawingReadError(file=p, problem=f'IFC schema {declared} is not supported',
+                               fix=f"export as {', '.join(SUPPORTED_SCHEMAS)}")
     try:
         import ifcopenshell
     except ImportError as exc:  # pragma: no cover - depends on the environment
-        raise DrawingReadError(
-            f"{p}: reading IFC needs ifcopenshell; install cablewright[ifc]"
-        ) from exc
+        raise DrawingReadError(file=p, problem="reading IFC needs ifcopenshell",
+                               fix="install cablewright[ifc]") from exc
     try:
         model = ifcopenshell.open(str(p))
     except (ifcopenshell.Error, OSError, RuntimeError, ValueError) as exc:
-        raise DrawingReadError(
-            f"{p}: not a readable IFC (STEP) file ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__}); "
-            "export the model again as IFC2X3, IFC4 or IFC4X3"
-        ) from exc
+        raise DrawingReadError(file=p, problem=f'not a readable IFC (STEP) file ({(str(exc).splitlines()[0] if str(exc) else type(exc).__name__)})',
+                               fix="export the model again as IFC2X3, IFC4 or IFC4X3") from exc
     schema = str(model.schema).upper()
     if not _schema_ok(schema):
-        raise DrawingReadError(
-            f"{p}: IFC schema {model.schema} is not supported; export as "
-            f"{', '.join(SUPPORTED_SCHEMAS)}"
-        )
+        raise DrawingReadError(file=p, problem=f'IFC schema {model.schema} is not supported',
+                               fix=f"export as {', '.join(SUPPORTED_SCHEMAS)}")
     return model
 
 
@@ -449,15 +442,13 @@ def _check_complete(p: Path, config: DrawingConfig, issues: list[Issue]) -> None
     if damage is None:
         return
     if not config.recover:
-        raise DrawingReadError(
-            f"{p}: the IFC file is damaged: {damage}; missing elements would give wrong lengths. "
-            "Export the model again, or use --recover to measure what can be read"
-        )
+        raise DrawingReadError(file=p, problem=f'the IFC file is damaged: {damage}',
+                               fix="missing elements would give wrong lengths. Export the model again, or use --recover to measure what can be read")
     lost = lost_entities(p)
     shown = ", ".join(lost[:20]) + (f" and {len(lost) - 20} more" if len(lost) > 20 else "")
-    issues.append(Issue("recovered", f"{p}: damaged file read in recover mode: {damage}"))
+    issues.append(Issue(IssueCode.RECOVERED, f"{p}: damaged file read in recover mode: {damage}"))
     issues.append(Issue(
-        "recover-lost",
+        IssueCode.RECOVER_LOST,
         f"{p}: lost with the end of the file: the entity cut off"
         + (f" and {len(lost)} entities referred to: {shown}" if lost else "")
         + " - check the routes against the model",
@@ -477,7 +468,7 @@ def _declared_schema(p: Path) -> str | None:
         with p.open("rb") as fh:
             head = fh.read(16384).decode("latin-1")
     except OSError as exc:
-        raise DrawingReadError(f"{p}: cannot be opened ({exc.strerror}); check the path and permissions") from exc
+        raise DrawingReadError(file=p, problem=f"cannot be opened ({exc.strerror})", fix="check the path and permissions") from exc
     m = re.search(r"FILE_SCHEMA\s*\(\s*\(\s*'([^']*)'", head, re.IGNORECASE)
     return m.group(1).strip() if m else None
 
@@ -498,12 +489,10 @@ def _unit_scale(model: Any, path: Path, config: DrawingConfig) -> tuple[float, s
         if ctx is not None:
             has_length = any(getattr(u, "UnitType", None) == "LENGTHUNIT" for u in ctx.Units)
     if not has_length:
-        if config.units in UNIT_TO_M:
-            return UNIT_TO_M[config.units], config.units  # type: ignore[index]
-        raise DrawingReadError(
-            f"{path}: the model states no length unit (IfcProject.UnitsInContext); "
-            "give the units in the config (units = \"mm\")"
-        )
+        if config.units is not None and config.units in UNIT_TO_M:
+            return UNIT_TO_M[config.units], config.units
+        raise DrawingReadError(file=path, problem="the model states no length unit (IfcProject.UnitsInContext)",
+                               fix='give the units in the config (units = "mm")')
     scale = float(uu.calculate_unit_scale(model))
     name = next((k for k, v in UNIT_TO_M.items() if abs(v - scale) <= 1e-12 * v), f"{scale:g} m")
     return scale, name
@@ -551,7 +540,7 @@ def _override(element: Any, issues: list[Issue]) -> tuple[str, str] | None:
     method = str(props.get("ReferenceMethod") or "").strip().upper()
     if containment and containment not in CONTAINMENTS:
         issues.append(Issue(
-            "bad-override",
+            IssueCode.BAD_OVERRIDE,
             f"{_label(element)}: {ROUTING_PSET}.Containment {containment!r} is not one of "
             f"{', '.join(CONTAINMENTS)}; ignored",
             _gid(element),
@@ -559,7 +548,7 @@ def _override(element: Any, issues: list[Issue]) -> tuple[str, str] | None:
         containment = ""
     if method and method not in REFERENCE_METHODS:
         issues.append(Issue(
-            "bad-override",
+            IssueCode.BAD_OVERRIDE,
             f"{_label(element)}: {ROUTING_PSET}.ReferenceMethod {method!r} is not one of "
             f"{', '.join(REFERENCE_METHODS)}; ignored",
             _gid(element),
@@ -633,13 +622,13 @@ def _read_ifc(
         summary = _equipment_summary(equipment, rows, failures)
         if not ic.estimate_routes:
             raise DrawingReadError(
-                f"{p}: the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); it holds "
-                f"{summary}; set [ifc] estimate_routes = true for estimated right-angle routes, "
+                file=p, problem=f"the model has no cable carriers ({', '.join(_ROUTE_CLASSES)}); it holds {summary}",
+                fix="set [ifc] estimate_routes = true for estimated right-angle routes, "
                 "or model the trays, ladders and conduits, or export the routes to DXF"
             )
         polylines = estimated_routes(rows, equipment, ic.default_kind)
         issues.append(Issue(
-            "estimated-routes",
+            IssueCode.ESTIMATED_ROUTES,
             f"{p}: no cable carriers; {len(polylines)} route(s) estimated as right-angle paths "
             f"([ifc] estimate_routes) for {summary}",
             "",
@@ -728,7 +717,7 @@ def _route_pieces(
                 local = body_axis_points(el)
         except UnsupportedGeometry as exc:
             issues.append(Issue(
-                "geometry",
+                IssueCode.GEOMETRY,
                 f"{p}: {_label(el)}: {exc} is not read"
                 + ("" if is_fitting else "; piece ignored")
                 + " - give it an 'Axis' polyline",
@@ -748,7 +737,7 @@ def _route_pieces(
                     polys.append(np.asarray([pp, origin]))
         else:
             issues.append(Issue(
-                "no-geometry",
+                IssueCode.NO_GEOMETRY,
                 f"{p}: {_label(el)} has neither an 'Axis' curve nor an extruded 'Body'; "
                 "ignored - give it an axis",
                 _gid(el),
@@ -766,10 +755,8 @@ def _route_pieces(
         shown = ", ".join(_label(el) for el in elements[:3]) + (
             f" and {len(elements) - 3} more" if len(elements) > 3 else ""
         )
-        raise DrawingReadError(
-            f"{p}: the model's {len(elements)} route element(s) ({shown}) have no usable geometry; "
-            "give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF"
-        )
+        raise DrawingReadError(file=p, problem=f"the model's {len(elements)} route element(s) ({shown}) have no usable geometry",
+                               fix="give each an 'Axis' polyline or an extruded 'Body', or export the routes to DXF")
     return pieces, port_owner, port_pos
 
 
@@ -815,7 +802,7 @@ def _assign_kinds(pieces: list[_Piece], roles: dict[int, str], p: Path, ic: IfcC
             if base is None:
                 base = ic.default_kind
                 issues.append(Issue(
-                    "carrier-type",
+                    IssueCode.CARRIER_TYPE,
                     f"{p}: {_label(el)} has PredefinedType {pre or 'none'}; taken as "
                     f"{base[0]} (method {base[1]}) - set {ROUTING_PSET}.Containment to say otherwise",
                     piece.gid,
@@ -854,8 +841,8 @@ def _fitting_kinds(
                     visited.add(k)
                     if pieces[k].is_fitting and not pieces[k].override:
                         nxt.append(k)
-                    elif pieces[k].kind is not None:
-                        found[pieces[k].kind] += 1
+                    elif (kind := pieces[k].kind) is not None:
+                        found[kind] += 1
             if found or not nxt:
                 break
             frontier = nxt
@@ -915,7 +902,7 @@ def _unlinked_issue(
     unlinked = [pc.gid for i, pc in enumerate(pieces) if i not in neighbours]
     if unlinked and not links:
         issues.append(Issue(
-            "no-ports",
+            IssueCode.NO_PORTS,
             f"{p}: no connected ports on the {len(pieces)} route pieces; joined by the drawing "
             f"rules instead (ends within {tol * 1000:.0f} mm, tees) - check the routes",
             unlinked[0],
@@ -923,7 +910,7 @@ def _unlinked_issue(
     elif unlinked:
         shown = ", ".join(unlinked[:5]) + (f" and {len(unlinked) - 5} more" if len(unlinked) > 5 else "")
         issues.append(Issue(
-            "no-ports",
+            IssueCode.NO_PORTS,
             f"{p}: {len(unlinked)} route piece(s) without connected ports ({shown}); joined by "
             f"the drawing rules instead (ends within {tol * 1000:.0f} mm, tees)",
             unlinked[0],
@@ -970,10 +957,8 @@ def read_ifc(
         # a damaged entity (a malformed number, a reference of the wrong type, a list of the
         # wrong length) surfaces from ifcopenshell or numpy while the geometry is read
         first = (str(exc).splitlines() or [""])[0][:160]
-        raise DrawingReadError(
-            f"{path}: the model holds an entity that cannot be read ({type(exc).__name__}: {first}); "
-            "check the file with an IFC validator or export the model again"
-        ) from exc
+        raise DrawingReadError(file=path, problem=f'the model holds an entity that cannot be read ({type(exc).__name__}: {first})',
+                               fix="check the file with an IFC validator or export the model again") from exc
 
 
 def _attach(piece: _Piece, port_at: np.ndarray | None, other: np.ndarray | None) -> np.ndarray:
@@ -1126,7 +1111,7 @@ def _device_fields(model: Any, gid: str | None) -> dict[str, str]:
         v = props.get(name)
         v = getattr(v, "wrappedValue", v)
         try:
-            x = float(v)
+            x = float(v)  # type: ignore[arg-type]  # None is caught below (TypeError)
         except (TypeError, ValueError):
             return None
         return x if np.isfinite(x) and x > 0 else None

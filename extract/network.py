@@ -25,11 +25,12 @@ from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
+from typing import cast
 
 import networkx as nx
 import numpy as np
 import shapely
-from cablewright.core.errors import ConfigError, Issue
+from cablewright.core.errors import ConfigError, Issue, IssueCode
 from shapely import STRtree
 
 from .guard import (
@@ -242,7 +243,7 @@ def _clean_input(polylines: Iterable[RoutePolyline | tuple], issues: list[Issue]
         if len(pts) < 2:
             issues.append(
                 Issue(
-                    "zero-length",
+                    IssueCode.ZERO_LENGTH,
                     f"route piece {pl.source_id} on layer {pl.layer} has no length; ignored - "
                     "delete it from the drawing",
                     pl.source_id,
@@ -286,7 +287,7 @@ def _geometry(polys: list[RoutePolyline]) -> _Geometry:
         counts = np.fromiter((len(v) - 1 for v in verts), dtype=np.intp, count=len(verts))
         s_owner = np.repeat(np.arange(len(verts)), counts)
         s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
-        seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))
+        seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
     else:
         sa = sb = np.zeros((0, 3))
         s_owner = s_k = np.zeros(0, dtype=int)
@@ -312,7 +313,7 @@ class _Cuts:
     xyz: list[Point3] = field(default_factory=list)
     joins: list[tuple[int, int, float]] = field(default_factory=list)
 
-    def new(self, i: int, s: float, xyz: Sequence[float]) -> int:
+    def new(self, i: int, s: float, xyz: Sequence[float] | np.ndarray) -> int:
         pid = self.uf.add()
         self.poly.append(i)
         self.s.append(s)
@@ -344,7 +345,7 @@ def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tu
 
 def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
     """End - end within the tolerance (3D)."""
-    end_tree = STRtree(shapely.points(ends[:, :2]))
+    end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
     qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True)
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
@@ -355,6 +356,7 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
 
 def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> None:
     """An end on another route's interior: a new cut point there, joined to the end."""
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True)
     own = qe // 2
     keep = geo.s_owner[qs] != own
@@ -384,7 +386,7 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
         return
     iv = np.asarray([geo.verts[i][k] for i, k in inner])
     iown = np.asarray([i for i, _ in inner])
-    itree = STRtree(shapely.points(iv[:, :2]))
+    itree = STRtree(shapely.points(iv[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
     qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
@@ -468,7 +470,7 @@ def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
     if len(found) <= MAX_CROSSINGS_LISTED:
         return [
             Issue(
-                "crossing",
+                IssueCode.CROSSING,
                 f"routes {name(a)} and {name(b)} cross at {at(xyz)} at the same level without a "
                 f"joint: not joined; {advice}",
                 geo.polys[int(geo.s_owner[a])].source_id,
@@ -478,7 +480,7 @@ def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
     first = "; ".join(f"{name(a)} x {name(b)} at {at(xyz)}" for a, b, xyz, _, _, _ in found[:5])
     return [
         Issue(
-            "crossing",
+            IssueCode.CROSSING,
             f"{len(found)} crossings of routes at the same level without a joint, not joined; first: "
             f"{first}; {advice}",
             geo.polys[int(geo.s_owner[found[0][0]])].source_id,
@@ -504,12 +506,13 @@ def _equipment_by_tag(
             handles = ", ".join(f"{e.source_id} (block {e.block_name})" for e in items)
             msg = f"tag {tag} is on {len(items)} equipment: {handles}; give each block its own tag"
             tag_failures[tag] = msg
-            issues.append(Issue("duplicate-tag", msg, items[1].source_id))
+            issues.append(Issue(IssueCode.DUPLICATE_TAG, msg, items[1].source_id))
     return eq_map, tag_failures
 
 
 def _nearest_3d(geo: _Geometry, p: np.ndarray, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Sub-segments meeting the plan box of half-side r around p, with t and 3D distance."""
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     c = np.sort(geo.seg_tree.query(_boxes(p[None, :2], r + 1e-9)[0]))
     t, d = _project(np.repeat(p[None, :], len(c), 0), geo.sa[c], geo.sb[c])
     return c, t, d
@@ -532,6 +535,7 @@ def _tails(
     if not usable:
         return tail_pid
     pos = np.asarray([eq_map[t].position_m for t in usable], dtype=float)
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
     first: dict[int, list[int]] = defaultdict(list)
     for e, s in zip(qe, qs, strict=False):
@@ -558,6 +562,7 @@ def _tails(
 
 def _too_far(geo: _Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
     """The message for an equipment farther than the maximum tail from every route."""
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     far = int(geo.seg_tree.query_nearest(shapely.points(p[:2]))[0])
     _, d_far = _project(p[None, :], geo.sa[far : far + 1], geo.sb[far : far + 1])
     _, _, d = _nearest_3d(geo, p, float(d_far[0]))
@@ -727,7 +732,7 @@ def _graph(
     eq_map: dict[str, Equipment],
 ) -> tuple[nx.Graph, dict[str, tuple[str, ...]], dict[str, Tail]]:
     """The routing graph: segment end nodes, one edge per segment (parallel ones halved), tails."""
-    g = nx.Graph()
+    g: nx.Graph = nx.Graph()
     for nd in sorted({nd for ends_ in ch.segment_ends.values() for nd in ends_}, key=_node_key):
         g.add_node(nd, pos_m=ch.pieces.node_pos[nd])
     segment_nodes: dict[str, tuple[str, ...]] = {}
@@ -861,11 +866,11 @@ def build_network(
         segment_ends=ch.segment_ends,
         segment_nodes=segment_nodes,
         crossings=[] if config.join_crossings else [
-            (_run_node(ch, geo, int(geo.s_owner[a])), _run_node(ch, geo, int(geo.s_owner[b])), tuple(map(float, xyz)))
+            (_run_node(ch, geo, int(geo.s_owner[a])), _run_node(ch, geo, int(geo.s_owner[b])), cast(Point3, tuple(map(float, xyz))))
             for a, b, xyz, _, _, _ in crossings
         ],
         gaps=[
-            (_run_node(ch, geo, i), _run_node(ch, geo, j), d, tuple(map(float, xyz)),
+            (_run_node(ch, geo, i), _run_node(ch, geo, j), d, cast(Point3, tuple(map(float, xyz))),
              geo.polys[i].source_id, geo.polys[j].source_id)
             for i, j, d, xyz in gaps
         ],
@@ -938,7 +943,7 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
             )
         else:
             text = f"route piece {shown} joins no other route and no equipment; check its joints in the drawing"
-        out.append(Issue("isolated", text, srcs[0] if srcs else ""))
+        out.append(Issue(IssueCode.ISOLATED, text, srcs[0] if srcs else ""))
     return out
 
 
@@ -954,6 +959,7 @@ def _near_misses(
     if not free:
         return out
     fe = np.asarray(free)
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
     own = fe[qe] // 2
     keep = geo.s_owner[qs] != own
@@ -977,7 +983,7 @@ def _near_misses(
         d_mm, tol_mm = _mm_pair(dd, tol)
         out.append(
             Issue(
-                "near-miss",
+                IssueCode.NEAR_MISS,
                 f"route end of {p.source_id} ({p.layer}) at {_fmt(ends[fe[e]])} is {d_mm} mm "
                 f"from route {geo.polys[j].source_id}, beyond the {tol_mm} mm snap tolerance: "
                 "not joined; join them in the drawing if they meet",

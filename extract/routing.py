@@ -148,7 +148,7 @@ def shortest_path_tree(
     .. [1] networkx ``algorithms/shortest_paths/weighted.py``, ``_dijkstra_multisource``
        (the search order reproduced here).
     """
-    adj = g._adj
+    adj = g._adj  # type: ignore[attr-defined]  # networkx's adjacency dict, read as its dijkstra reads it (not in the stubs)
     remaining = None if targets is None else set(targets) - {source}
     dist: dict[str, float] = {}
     seen: dict[str, float] = {source: 0}
@@ -198,7 +198,7 @@ def _leg(g: nx.Graph, a: str, b: str, cache: dict) -> tuple[float, list[str]]:
         dist, pred = cache[a]
         if b in dist:
             return dist[b], path_from_tree(pred, b, a)
-    return nx.single_source_dijkstra(g, a, b, weight=WEIGHT)
+    return nx.single_source_dijkstra(g, a, b, weight=WEIGHT)  # type: ignore[return-value]  # a target given: (length, path); the stubs' union covers none given
 
 
 def _route_via(

@@ -115,7 +115,8 @@ def _decode(path: Path, data: bytes) -> str:
 def _read_csv(path: Path) -> list[tuple[int, list[str]]]:
     text = _decode(path, path.read_bytes())
     if "\x00" in text:
-        raise ScheduleError(f"{path}: the schedule holds zero bytes (a binary file?); save it as CSV text")
+        raise ScheduleError(file=path, problem="the schedule holds zero bytes (a binary file?)",
+                            fix="save it as CSV text")
     try:
         dialect: type[csv.Dialect] | csv.Dialect = csv.Sniffer().sniff(text[:4096], delimiters=",;\t")
     except csv.Error:
@@ -134,22 +135,25 @@ def _check_xlsx_package(path: Path) -> None:
         infos = archive.infolist()
         total = sum(i.file_size for i in infos)
         if total > MAX_XLSX_UNPACKED_BYTES:
-            raise ScheduleError(f"{path}: the workbook unpacks to {total / 2**20:.0f} MiB, more than the "
-                                f"{MAX_XLSX_UNPACKED_BYTES / 2**20:.0f} MiB a schedule needs; save it again "
-                                "from a spreadsheet program or as CSV")
+            raise ScheduleError(file=path, value=total,
+                                problem=f"the workbook unpacks to {total / 2**20:.0f} MiB, more than the "
+                                f"{MAX_XLSX_UNPACKED_BYTES / 2**20:.0f} MiB a schedule needs",
+                                fix="save it again from a spreadsheet program or as CSV")
         for info in infos:
             if info.file_size > 2**20 and info.file_size > MAX_XLSX_RATIO * max(info.compress_size, 1):
-                raise ScheduleError(f"{path}: part {info.filename} unpacks {info.file_size // max(info.compress_size, 1)} "
-                                    "times its packed size (a zip bomb?); save the schedule again or as CSV")
+                raise ScheduleError(file=path, value=info.filename,
+                                    problem=f"part {info.filename} unpacks {info.file_size // max(info.compress_size, 1)} "
+                                    "times its packed size (a zip bomb?)", fix="save the schedule again or as CSV")
         for info in infos:
             if not info.filename.endswith((".xml", ".rels")):
                 continue
             with archive.open(info) as part:
                 head = part.read(65536)
             if b"<!DOCTYPE" in head or b"<!ENTITY" in head:
-                raise ScheduleError(f"{path}: part {info.filename} declares an XML document type "
-                                    "(entity expansion, which spreadsheet files never use); "
-                                    "save the schedule again from a spreadsheet program or as CSV")
+                raise ScheduleError(file=path, value=info.filename,
+                                    problem=f"part {info.filename} declares an XML document type "
+                                    "(entity expansion, which spreadsheet files never use)",
+                                    fix="save the schedule again from a spreadsheet program or as CSV")
             if info.filename.startswith("xl/worksheets/"):
                 match = re.search(rb'<dimension ref="([A-Z]*)(\d*):?([A-Z]*)(\d*)"', head)
                 if match:
@@ -179,9 +183,10 @@ def _check_used_rows(path: Path, archive: zipfile.ZipFile, info: zipfile.ZipInfo
                     widest = letters
             tail = text[-64:]
     if highest > MAX_XLSX_ROWS or _column_number(widest) > MAX_XLSX_COLUMNS:
-        raise ScheduleError(f"{path}: sheet {info.filename} uses row {highest} and column "
+        raise ScheduleError(file=path, value=info.filename,
+                            problem=f"sheet {info.filename} uses row {highest} and column "
                             f"{widest.decode() or '-'}, more than a schedule has ({MAX_XLSX_ROWS} rows, "
-                            f"{MAX_XLSX_COLUMNS} columns); delete the far-out cells or save the schedule as CSV")
+                            f"{MAX_XLSX_COLUMNS} columns)", fix="delete the far-out cells or save the schedule as CSV")
 
 
 def _column_number(letters: bytes) -> int:
@@ -198,9 +203,10 @@ def _check_extent(path: Path, part: str, match: re.Match[bytes]) -> None:
     cols = _column_number(last_col)
     if rows > MAX_XLSX_ROWS or cols > MAX_XLSX_COLUMNS:
         ref = match.group(0).decode(errors="replace")
-        raise ScheduleError(f"{path}: sheet {part} claims {rows} rows x {cols} columns ({ref}), more than a "
-                            f"schedule has ({MAX_XLSX_ROWS} x {MAX_XLSX_COLUMNS}); delete the far-out cells "
-                            "or save the schedule as CSV")
+        raise ScheduleError(file=path, value=ref,
+                            problem=f"sheet {part} claims {rows} rows x {cols} columns ({ref}), more than a "
+                            f"schedule has ({MAX_XLSX_ROWS} x {MAX_XLSX_COLUMNS})",
+                            fix="delete the far-out cells or save the schedule as CSV")
 
 
 def _read_xlsx(path: Path) -> list[tuple[int, list[str]]]:
@@ -244,8 +250,9 @@ def _refuse_uncached_formulas(path: Path, sheet: str, table: list[tuple[int, lis
         wb.close()
     if found:
         more = f" and {len(found) - 3} more" if len(found) > 3 else ""
-        raise ScheduleError(f"{path}: cell {', '.join(found[:3])}{more} holds a formula with no saved value; "
-                            "open the file in a spreadsheet program and save it, or type the values")
+        raise ScheduleError(file=path, value=found[0],
+                            problem=f"cell {', '.join(found[:3])}{more} holds a formula with no saved value",
+                            fix="open the file in a spreadsheet program and save it, or type the values")
 
 
 def _normal(name: str) -> str:
@@ -305,8 +312,8 @@ def _header_names(source: str, header_row: int, header: list[str]) -> list[str]:
         else:
             extra.append(header[k].strip())
     if misspelt:
-        raise ScheduleError(f"{source}: row {header_row} (the header): {'; '.join(misspelt)}; "
-                            "rename it to the column's name (contract.md, \"The circuit schedule\")")
+        raise ScheduleError(file=source, problem=f"row {header_row} (the header): {'; '.join(misspelt)}",
+                            fix="rename it to the column's name (contract.md, \"The circuit schedule\")")
     if extra:
         logger.warning("%s: ignored (extra) columns, kept as they are: %s", source, ", ".join(extra))
     return names
@@ -314,14 +321,16 @@ def _header_names(source: str, header_row: int, header: list[str]) -> list[str]:
 
 def _one_line(source: str, n: int, column: str, value: str) -> str:
     if "\n" in value or "\r" in value:
-        raise ScheduleError(f"{source} row {n}: the {column} cell holds a line break; put it on one line")
+        raise ScheduleError(file=source, row=n, column=column, value=value,
+                            problem=f"the {column} cell holds a line break", fix="put it on one line")
     return value
 
 
 def _rows_to_schedule(source: str, table: Sequence[tuple[int, list[str]]]) -> list[ScheduleRow]:
     body = [(n, cells) for n, cells in table if any(c for c in cells)]
     if not body:
-        raise ScheduleError(f"{source}: the schedule is empty; give a header row and one row per circuit")
+        raise ScheduleError(file=source, problem="the schedule is empty",
+                            fix="give a header row and one row per circuit")
     header_row, header = body[0]
     names = [h.strip().lower() for h in header]
     missing = [c for c in REQUIRED_COLUMNS if c not in names]
@@ -329,16 +338,18 @@ def _rows_to_schedule(source: str, table: Sequence[tuple[int, list[str]]]) -> li
         near = [f"{h.strip()!r} (meant {_intended(h)!r}?)" for h in header if _intended(h) in missing]
         hint = f"; {', '.join(near)}" if near else ""
         raise ScheduleError(
-            f"{source}: row {header_row} (the header) has no column {', '.join(missing)}{hint}; "
-            f"required columns are {', '.join(REQUIRED_COLUMNS)}"
+            file=source, column=missing[0],
+            problem=f"row {header_row} (the header) has no column {', '.join(missing)}{hint}",
+            fix=f"required columns are {', '.join(REQUIRED_COLUMNS)}"
         )
     dup_cols = sorted({n for n in names if n and names.count(n) > 1})
     if dup_cols:
-        raise ScheduleError(f"{source}: column {', '.join(dup_cols)} appears twice in the header; keep one")
+        raise ScheduleError(file=source, column=dup_cols[0],
+                            problem=f"column {', '.join(dup_cols)} appears twice in the header", fix="keep one")
     names = _header_names(source, header_row, header)
     if len(body) == 1:
-        raise ScheduleError(f"{source}: the schedule has a header (row {header_row}) but no circuit rows; "
-                            "add one row per circuit")
+        raise ScheduleError(file=source, problem=f"the schedule has a header (row {header_row}) but no circuit rows",
+                            fix="add one row per circuit")
     rows: list[ScheduleRow] = []
     seen: dict[str, tuple[int, str]] = {}
     for n, cells in body[1:]:
@@ -347,15 +358,18 @@ def _rows_to_schedule(source: str, table: Sequence[tuple[int, list[str]]]) -> li
         values = dict(fields)
         cid = _one_line(source, n, "circuit", values["circuit"].strip())
         if not cid:
-            raise ScheduleError(f"{source} row {n}: the circuit cell is blank; give every row a circuit id")
+            raise ScheduleError(file=source, row=n, column="circuit", problem="the circuit cell is blank",
+                                fix="give every row a circuit id")
         key = cid.casefold()
         if key in seen:
             first_row, first_id = seen[key]
             if first_id == cid:
-                raise ScheduleError(f"{source}: circuit {cid} appears twice, rows {first_row} and {n}; "
-                                    "circuit ids must be unique")
-            raise ScheduleError(f"{source}: circuits {first_id!r} (row {first_row}) and {cid!r} (row {n}) are one "
-                                "id once spaces and case are set aside; circuit ids must be unique")
+                raise ScheduleError(file=source, circuit_id=cid, column="circuit", value=cid,
+                                    problem=f"circuit {cid} appears twice, rows {first_row} and {n}",
+                                    fix="circuit ids must be unique")
+            raise ScheduleError(file=source, circuit_id=cid, column="circuit", value=cid,
+                                problem=f"circuits {first_id!r} (row {first_row}) and {cid!r} (row {n}) are one "
+                                "id once spaces and case are set aside", fix="circuit ids must be unique")
         seen[key] = (n, cid)
         from_tag = _one_line(source, n, "from", values["from"].strip())
         to_tag = _one_line(source, n, "to", values["to"].strip())
@@ -391,14 +405,15 @@ def read_schedule(path: str | os.PathLike[str]) -> list[ScheduleRow]:
     p = Path(path)
     suffix = p.suffix.lower()
     if not p.is_file():
-        raise ScheduleError(f"{p}: schedule file not found; check the --circuits path")
+        raise ScheduleError(file=p, problem="schedule file not found", fix="check the --circuits path")
     try:
         if suffix == ".csv":
             table = _read_csv(p)
         elif suffix in (".xlsx", ".xlsm"):
             table = _read_xlsx(p)
         else:
-            raise ScheduleError(f"{p}: schedule must be .csv or .xlsx, not {suffix or 'no suffix'}")
+            raise ScheduleError(file=p, value=suffix,
+                                problem=f"schedule must be .csv or .xlsx, not {suffix or 'no suffix'}")
     except ScheduleError:
         raise
     except (OSError, csv.Error, UnicodeError, ValueError, KeyError, zipfile.BadZipFile,
@@ -406,7 +421,8 @@ def read_schedule(path: str | os.PathLike[str]) -> list[ScheduleRow]:
         # xml.etree.ElementTree.ParseError (malformed XML, or expat's guard against
         # entity expansion) is a SyntaxError; defusedxml's errors are ValueErrors
         what = " ".join(str(exc).split())[:200] or type(exc).__name__
-        raise ScheduleError(f"{p}: cannot read the schedule ({what}); save it again as .csv or .xlsx") from exc
+        raise ScheduleError(file=p, problem=f"cannot read the schedule ({what})",
+                            fix="save it again as .csv or .xlsx") from exc
     return _rows_to_schedule(str(p), table)
 
 
@@ -442,8 +458,9 @@ def rows_from_equipment(equipment: Iterable[Equipment], source: str = "drawing")
             continue
         if cid.casefold() in seen:
             raise ScheduleError(
-                f"{source}: circuit {cid} is on two blocks, {seen[cid.casefold()]} and {eq.source_id} "
-                "(ids compared without case); circuit ids must be unique"
+                file=source, circuit_id=cid, source_id=eq.source_id,
+                problem=f"circuit {cid} is on two blocks, {seen[cid.casefold()]} and {eq.source_id} "
+                "(ids compared without case)", fix="circuit ids must be unique"
             )
         seen[cid.casefold()] = eq.source_id
         attrs.setdefault("to", eq.tag)
@@ -456,8 +473,8 @@ def rows_from_equipment(equipment: Iterable[Equipment], source: str = "drawing")
         )
     if not rows:
         raise ScheduleError(
-            f"{source}: no --circuits schedule given and no equipment block carries a CIRCUIT "
-            "attribute; give a schedule file (.csv or .xlsx)"
+            file=source, problem="no --circuits schedule given and no equipment block carries a CIRCUIT "
+            "attribute", fix="give a schedule file (.csv or .xlsx)"
         )
     return sorted(rows, key=lambda r: r.circuit_id)
 

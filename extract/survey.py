@@ -22,6 +22,7 @@ import unicodedata
 from collections import Counter
 from dataclasses import dataclass, field, replace
 from pathlib import Path
+from typing import TYPE_CHECKING, cast
 
 from cablewright.core.errors import DrawingReadError
 
@@ -29,7 +30,19 @@ from .dxf_reader import DxfContent, _load, _walk_layout, _Walker
 from .dxf_tags import first_word, looks_like_tag, text_anchor
 from .dxf_units import header_code
 from .model import DEFAULT_ROUTE_LAYERS, DrawingConfig
-from .units import INSUNITS, UNIT_TO_M, ScaleCheck, check_scale, extents, rank_units, unit_name
+from .units import (
+    INSUNITS,
+    UNIT_TO_M,
+    Extents,
+    ScaleCheck,
+    check_scale,
+    extents,
+    rank_units,
+    unit_name,
+)
+
+if TYPE_CHECKING:
+    from ezdxf.entities import Insert, MText
 
 __all__ = [
     "CONTAINMENT_WORDS",
@@ -197,7 +210,7 @@ class Survey:
     blocks: dict[str, BlockSurvey]
     tag_texts: list[TagText]
     tagged_inserts: int
-    extents_m: object | None = None  # units.Extents, [m] (drawing units as m when unitless)
+    extents_m: Extents | None = None  # units.Extents, [m] (drawing units as m when unitless)
     scale: ScaleCheck | None = None
     likely_units: tuple[str, ...] = ()
     tag_attribute: str = "TAG"
@@ -308,15 +321,15 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
     config = config or DrawingConfig()
     p = Path(path)
     if p.suffix.lower() != ".dxf":
-        raise DrawingReadError(f"{p}: layers reads a .dxf drawing, not {p.suffix or 'a file without suffix'}")
+        raise DrawingReadError(file=p, problem=f"layers reads a .dxf drawing, not {p.suffix or 'a file without suffix'}")
     doc, _ = _load(p, config)
     code = header_code(doc)
     units, source = INSUNITS.get(code, (None, 0.0))[0], "header"
     if config.units is not None:
         units = unit_name(str(config.units))
         if units is None:
-            raise DrawingReadError(f"{p}: units {config.units!r} from the config or --units are not known; "
-                                   "use mm, cm, dm, m, in, ft, ...")
+            raise DrawingReadError(file=p, problem=f'units {config.units!r} from the config or --units are not known',
+                                   fix="use mm, cm, dm, m, in, ft, ...")
         source = "config"
     elif units is None:
         source = "none"
@@ -357,12 +370,12 @@ def survey_drawing(path: str | os.PathLike[str], config: DrawingConfig | None = 
         if t == "INSERT":
             info = blocks.setdefault(e.dxf.name, BlockSurvey(e.dxf.name))
             info.inserts += 1
-            names = {a.dxf.tag.upper(): a.dxf.text for a in e.attribs}
+            names = {a.dxf.tag.upper(): a.dxf.text for a in cast("Insert", e).attribs}
             info.attributes.update(names)
             tagged += bool(names.get(tag_key, "").strip())
             tag_like.update(n for n, v in names.items() if n != tag_key and looks_like_tag(v.strip()))
         elif t in ("TEXT", "MTEXT"):
-            word = first_word(e.plain_text() if t == "MTEXT" else str(e.dxf.text))
+            word = first_word(str(cast("MText", e).plain_text()) if t == "MTEXT" else str(e.dxf.text))
             if looks_like_tag(word):
                 tag_texts.append(TagText(word, e.dxf.layer, text_anchor(e), e.dxf.handle or ""))
         elif t in ("CIRCLE", "POINT"):

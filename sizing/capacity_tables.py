@@ -55,6 +55,7 @@ from __future__ import annotations
 
 import difflib
 from dataclasses import dataclass
+from typing import cast
 
 from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
@@ -195,14 +196,16 @@ _PROV_EFG_AL = (
     "second public copy, the other columns rest on this single copy."
 )
 
-_ = None  # no value printed
+_: None = None  # no value printed
 
 
 def _rows(data: tuple[tuple[float | None, ...], ...]) -> tuple[CapacityRow, ...]:
-    return tuple(CapacityRow(float(r[0]), tuple(r[1:])) for r in data)
+    # the first cell of a row is its size, always printed
+    return tuple(CapacityRow(float(cast(float, r[0])), tuple(r[1:])) for r in data)
 
 
-def _abcd(table: str, ins: str, cond: str, loaded: int, data) -> CapacityTable:
+def _abcd(table: str, ins: str, cond: str, loaded: int,
+          data: tuple[tuple[float | None, ...], ...]) -> CapacityTable:
     return CapacityTable(
         table=table,
         insulation=ins,
@@ -217,7 +220,7 @@ def _abcd(table: str, ins: str, cond: str, loaded: int, data) -> CapacityTable:
     )
 
 
-def _efg(table: str, ins: str, cond: str, data) -> CapacityTable:
+def _efg(table: str, ins: str, cond: str, data: tuple[tuple[float | None, ...], ...]) -> CapacityTable:
     return CapacityTable(
         table=table,
         insulation=ins,
@@ -495,11 +498,11 @@ for _table in ALL_TABLES:
         _key = (_method, _table.conductor, _table.insulation, _loaded)
         _INDEX[_key] = (_table, _col)
         _VALUES[_key] = {
-            _row.csa_mm2: float(_row.amps[_col])
+            _row.csa_mm2: float(_amps)
             for _row in _table.rows
-            if _row.amps[_col] is not None
+            if (_amps := _row.amps[_col]) is not None
         }
-del _table, _col, _method, _loaded, _key
+del _table, _col, _method, _loaded, _key, _amps
 
 
 _METHOD_BY_UPPER = {m.upper(): m for m in METHODS}
@@ -535,7 +538,7 @@ def _check_key(kind: str, value: str, known: tuple[str, ...]) -> None:
         hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
         raise UnknownKeyError(
             f"unknown {kind} {value!r} for IEC 60364-5-52:2009 Annex B capacity tables; "
-            f"known: {', '.join(known)}{hint}"
+            f"known: {', '.join(known)}{hint}", value=value
         )
 
 
@@ -653,7 +656,7 @@ def tabulated_capacity(
             f"cross-section {csa_mm2:g} mm² has no value in {table.source}, "
             f"{_column_label(table, col)}, {conductor}/{insulation}; tabulated sizes run "
             f"{sizes[0]:g} to {sizes[-1]:g} mm²: {', '.join(f'{s:g}' for s in sizes)}. "
-            "Choose a tabulated size."
+            "Choose a tabulated size.", value=csa_mm2
         )
     return Tabulated(
         current_a=amps,

@@ -16,7 +16,7 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
 
-from cablewright.core.errors import CableRouteError
+from cablewright.core.errors import CableRouteError, IssueCode
 
 from .conductor_resistance import STANDARD_CSA_MM2, resistance_ohm_per_km
 from .model import Check, CheckResult, SizingResult, VoltageDrop
@@ -59,12 +59,18 @@ class SupplyCycleError(CableRouteError, ValueError):
         The circuits of the loop, in supply order, each once.
     """
 
+    default_code = IssueCode.SUPPLY_LOOP
+
     def __init__(self, circuit_ids: Sequence[str]) -> None:
         self.circuit_ids: tuple[str, ...] = tuple(circuit_ids)
         loop = list(self.circuit_ids) + list(self.circuit_ids[:1])
         super().__init__(
-            "circuits feed each other in a loop: " + " -> ".join(loop)
-            + "; check the 'from' and 'to' tags of these circuits in the schedule")
+            problem="circuits feed each other in a loop: " + " -> ".join(loop),
+            fix="check the 'from' and 'to' tags of these circuits in the schedule")
+
+    def __reduce__(self) -> tuple[type[SupplyCycleError], tuple[tuple[str, ...]]]:
+        # rebuilt from its circuit ids (the default would pass the message as the ids)
+        return type(self), (self.circuit_ids,)
 
 
 @dataclass(frozen=True)

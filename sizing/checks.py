@@ -266,7 +266,7 @@ class PreparedMotorStart:
             self.error = CircuitInputError(f"circuit {spec.circuit_id}: {exc}")
             return
         self.starter = starter
-        self.limit = _cfg(config, "motor_start_dip_pct", 15.0)
+        self.limit: float = _cfg(config, "motor_start_dip_pct", 15.0)
         fault = _fault_ka(spec, config) if _cfg(config, "motor_start_include_source", True) else None
         self.fault = fault
         self.conductor, self.temp, self.voltage_v = spec.conductor, conductor_temp_c, voltage_v
@@ -337,7 +337,7 @@ class PreparedProtectiveConductor:
 
     def __init__(self, spec: CircuitSpec, config: SizingConfig) -> None:
         self.error: CableRouteError | None = None
-        self.args: tuple = (spec.conductor, spec.insulation, "table")
+        self.args: tuple[str | float | None, ...] = (spec.conductor, spec.insulation, "table")
         if _cfg(config, "pe_rule", "table") == "adiabatic":
             fault = _fault_ka(spec, config)
             if fault:
@@ -375,7 +375,7 @@ class PreparedDisconnection:
     def __init__(self, spec: CircuitSpec, config: SizingConfig, device: DeviceSelection,
                  pe: PreparedProtectiveConductor) -> None:
         self.pe = pe
-        self.last: tuple = ()
+        self.last: tuple[float, int, DisconnectionResult | str] | tuple[()] = ()
         self.upsize_limited: int | None = None  # set by the selection when upsizing stopped
         self.text: str | None = None
         self.error: CableRouteError | None = None
@@ -409,7 +409,7 @@ class PreparedDisconnection:
             ia, _ = device_ia_a(self.kind, self.rating_a, time_s, self.curve, self.magnetic,
                                 self.multiple, self.tolerance)
             self.temp = fault_loop_temperature_c(self.insulation)
-            self.zs_max = self.vf * self.u0 / ia
+            self.zs_max: float = self.vf * self.u0 / ia
         except CableRouteError as exc:
             self.tn_error = exc
 

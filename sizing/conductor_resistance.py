@@ -117,7 +117,7 @@ def _check_conductor(conductor: str) -> None:
         hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
         raise UnknownKeyError(
             f"unknown conductor {conductor!r} for {IEC_60228_TABLE_2.source}; "
-            f"known: Cu, Al{hint}")
+            f"known: Cu, Al{hint}", value=conductor)
 
 
 def dc_resistance_20c_ohm_per_km(csa_mm2: float, conductor: str) -> float:
@@ -164,7 +164,7 @@ def dc_resistance_20c_ohm_per_km(csa_mm2: float, conductor: str) -> float:
         sizes = sorted(table)
         raise OutOfRangeError(
             f"cross-section {csa_mm2:g} mm² {conductor} is not in {IEC_60228_TABLE_2.source} "
-            f"(class 2); sizes run {sizes[0]:g} to {sizes[-1]:g} mm². Use a standard size.")
+            f"(class 2); sizes run {sizes[0]:g} to {sizes[-1]:g} mm². Use a standard size.", value=csa_mm2)
     if conductor == "Al" and csa_mm2 < 16:
         _log.info("aluminium %g mm²: listed by IEC 60228 but unusual below 16 mm²", csa_mm2)
     return r
@@ -207,7 +207,7 @@ def resistance_ohm_per_km(csa_mm2: float, conductor: str, temperature_c: float) 
     if not -50.0 <= temperature_c <= 250.0:
         raise OutOfRangeError(
             f"conductor temperature {temperature_c:g} °C is outside -50 to 250 °C "
-            "(IEC 60228:2004 Annex B linear correction)")
+            "(IEC 60228:2004 Annex B linear correction)", value=temperature_c)
     r20 = dc_resistance_20c_ohm_per_km(csa_mm2, conductor)
     return r20 * (1.0 + ALPHA_20_PER_K[conductor] * (temperature_c - 20.0))
 
@@ -240,11 +240,11 @@ def next_standard_csa(csa_mm2: float) -> float:
     .. [1] IEC 60228:2004, Table 2; IEC 60364-5-52:2009, Annex B.
     """
     if not csa_mm2 > 0:
-        raise OutOfRangeError(f"cross-section {csa_mm2!r} mm² must be > 0")
+        raise OutOfRangeError(f"cross-section {csa_mm2!r} mm² must be > 0", value=csa_mm2)
     for a in STANDARD_CSA_MM2:
         if a >= csa_mm2 - 1e-9:
             return a
     raise OutOfRangeError(
         f"no standard cross-section is at least {csa_mm2:g} mm²: the largest is "
         f"{STANDARD_CSA_MM2[-1]:g} mm² (IEC 60228:2004 Table 2 within the range of "
-        "IEC 60364-5-52:2009 Annex B); use cables in parallel.")
+        "IEC 60364-5-52:2009 Annex B); use cables in parallel.", value=csa_mm2)

@@ -295,7 +295,7 @@ class SizingConfig:
         except KeyError:
             raise UnknownKeyError(
                 f"[sizing] supply {self.supply!r} is unknown: use 'public' or 'private' "
-                "(IEC 60364-5-52:2009 Table G.52.1)") from None
+                "(IEC 60364-5-52:2009 Table G.52.1)", value=self.supply) from None
         limit = lighting if load_type == "lighting" else other
         if self.vd_long_run_allowance and length_m > VD_LONG_RUN_FROM_M:
             limit += min(VD_LONG_RUN_MAX_PCT, VD_LONG_RUN_PCT_PER_M * (length_m - VD_LONG_RUN_FROM_M))

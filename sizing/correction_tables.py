@@ -39,7 +39,9 @@ References
 from __future__ import annotations
 
 import difflib
+from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Any
 
 from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
@@ -97,8 +99,8 @@ class FactorGrid:
     arrangement: str
     row_label: str
     column_label: str
-    row_keys: tuple
-    column_keys: tuple
+    row_keys: tuple[Any, ...]  # numbers or words, as the table prints its rows
+    column_keys: tuple[Any, ...]
     values: tuple[tuple[float | None, ...], ...]
     notes: tuple[str, ...]
     provenance: str
@@ -111,24 +113,24 @@ class FactorGrid:
         """Citation, e.g. ``"IEC 60364-5-52:2009 Table B.52.14"``."""
         return f"{self.standard}:{self.edition} Table {self.table}"
 
-    def cell(self, row_key, column_key) -> float | None:
+    def cell(self, row_key: Any, column_key: Any) -> float | None:
         """Printed value at a row and column key (``None`` if blank)."""
         return self.values[self.row_keys.index(row_key)][self.column_keys.index(column_key)]
 
-    def column(self, column_key) -> dict:
+    def column(self, column_key: Any) -> dict[Any, float]:
         """Row key -> value of one column, blanks left out."""
         j = self.column_keys.index(column_key)
-        return {k: row[j] for k, row in zip(self.row_keys, self.values, strict=True)
-                if row[j] is not None}
+        return {k: v for k, row in zip(self.row_keys, self.values, strict=True)
+                if (v := row[j]) is not None}
 
-    def row(self, row_key) -> dict:
+    def row(self, row_key: Any) -> dict[Any, float]:
         """Column key -> value of one row, blanks left out."""
         i = self.row_keys.index(row_key)
         return {k: v for k, v in zip(self.column_keys, self.values[i], strict=True)
                 if v is not None}
 
 
-_ = None
+_: None = None
 
 # fmt: off
 #: IEC 60364-5-52:2009 Table B.52.14: correction factors for ambient air
@@ -290,7 +292,7 @@ _B20_PROV = ("Three public copies (two of them national adoptions) compared cell
 _B20_COLS = (1, 2, 3, 4, 6, 9)
 
 
-def _b20(arr: str, trays: tuple[int, ...], values) -> FactorGrid:
+def _b20(arr: str, trays: tuple[int, ...], values: tuple[tuple[float | None, ...], ...]) -> FactorGrid:
     return FactorGrid(
         table="B.52.20", arrangement=arr, row_label="number of trays or ladders",
         column_label="number of multi-core cables per tray", row_keys=trays,
@@ -343,7 +345,8 @@ _B21_PROV = ("Two public copies (a manufacturer's reproduction and a national wi
              "vertical_tray/touching, which are from memory.")
 
 
-def _b21(arr: str, trays: tuple[int, ...], values, prov: str = _B21_PROV) -> FactorGrid:
+def _b21(arr: str, trays: tuple[int, ...], values: tuple[tuple[float | None, ...], ...],
+         prov: str = _B21_PROV) -> FactorGrid:
     return FactorGrid(
         table="B.52.21", arrangement=arr, row_label="number of trays or ladders",
         column_label="number of three-phase circuits per tray", row_keys=trays,
@@ -371,13 +374,13 @@ B_52_21: dict[tuple[str, str], FactorGrid] = {
 _INSULATION_ALIAS = {"PVC": "PVC", "XLPE": "XLPE", "EPR": "XLPE"}
 
 
-def _unknown(kind: str, value: object, known, where: str) -> UnknownKeyError:
+def _unknown(kind: str, value: object, known: Iterable[object], where: str) -> UnknownKeyError:
     names = [str(k) for k in known]
     lower = {k.lower(): k for k in names}
     close = [lower[c] for c in difflib.get_close_matches(str(value).lower(), lower, n=3)]
     hint = f"; did you mean {', '.join(repr(c) for c in close)}?" if close else ""
-    return UnknownKeyError(f"unknown {kind} {value!r} for {where}; known: "
-                           f"{', '.join(names)}{hint}")
+    return UnknownKeyError(value=value, known=tuple(names), problem=f"unknown {kind} {value!r} for {where}",
+                           fix=f"known: {', '.join(names)}{hint}")
 
 
 def _insulation(insulation: str, grid: FactorGrid) -> str:
@@ -386,13 +389,14 @@ def _insulation(insulation: str, grid: FactorGrid) -> str:
     return _INSULATION_ALIAS[insulation]
 
 
-def _step_up(value: float, keys, what: str, unit: str, source: str) -> tuple[float, str]:
+def _step_up(value: float, keys: Iterable[float], what: str, unit: str, source: str) -> tuple[float, str]:
     """Smallest key >= value (the next more onerous row); raise beyond the last."""
     keys = sorted(keys)
     if value > keys[-1]:
         raise OutOfRangeError(
-            f"{what} {value:g}{unit} is beyond the last row of {source} "
-            f"({keys[-1]:g}{unit}); the table gives no factor there and none is extrapolated")
+            value=value, limit=keys[-1], source=source,
+            problem=f"{what} {value:g}{unit} is beyond the last row of {source} ({keys[-1]:g}{unit})",
+            fix="the table gives no factor there and none is extrapolated")
     for k in keys:
         if value <= k:
             if value == k:
@@ -517,7 +521,7 @@ def soil_resistivity_factor(resistivity_k_m_w: float, method: str) -> Factor:
         raise _unknown("method", method, grid.column_keys, grid.source)
     if not resistivity_k_m_w > 0:
         raise OutOfRangeError(
-            f"soil thermal resistivity {resistivity_k_m_w!r} K·m/W must be > 0 ({grid.source})")
+            f"soil thermal resistivity {resistivity_k_m_w!r} K·m/W must be > 0 ({grid.source})", value=resistivity_k_m_w)
     column = grid.column(method)
     key, how = _step_up(float(resistivity_k_m_w), column, "soil thermal resistivity",
                         " K·m/W", grid.source)
@@ -528,7 +532,7 @@ def soil_resistivity_factor(resistivity_k_m_w: float, method: str) -> Factor:
 
 def _check_count(cables: int, what: str, source: str) -> int:
     if isinstance(cables, bool) or int(cables) != cables or cables < 1:
-        raise OutOfRangeError(f"{what} {cables!r} must be a whole number >= 1 ({source})")
+        raise OutOfRangeError(f"{what} {cables!r} must be a whole number >= 1 ({source})", value=cables)
     return int(cables)
 
 
@@ -690,6 +694,7 @@ def grouping_factor(method: str, cables: int, *, trays: int = 1, spacing: str | 
             raise _unknown("support for method C", support, ("wall", "ceiling"),
                            "IEC 60364-5-52:2009 Table B.52.17")
         return b52_17_factor(arrangement, n)
+    grid: FactorGrid | None
     if method in ("D1", "D2"):
         grid = B_52_19 if method == "D1" else B_52_18
         if spacing not in grid.column_keys:

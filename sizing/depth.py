@@ -99,7 +99,7 @@ def external_thermal_resistance_k_m_w(depth_m: float, diameter_m: float, soil_k_
     if u <= 1.0:
         raise OutOfRangeError(
             f"depth {depth_m:g} m is not more than half the diameter {diameter_m:g} m "
-            "(IEC 60287-2-1:2015 4.2.3.2 needs u = 2L/De > 1)")
+            "(IEC 60287-2-1:2015 4.2.3.2 needs u = 2L/De > 1)", value=depth_m)
     return soil_k_m_w / (2.0 * math.pi) * math.log(u + math.sqrt(u * u - 1.0))
 
 
@@ -153,7 +153,7 @@ def depth_factor(
                 f"{name} {value:g} m is outside {low:g} m to {high:g} m, the range of the "
                 f"depth correction derived from {DEPTH_SOURCE}")
         if value / diameter_m < 3.0:
-            raise OutOfRangeError(f"{name} {value:g} m is less than 3 diameters ({diameter_m:g} m)")
+            raise OutOfRangeError(f"{name} {value:g} m is less than 3 diameters ({diameter_m:g} m)", value=value)
     if internal_ratio < 0:
         raise OutOfRangeError(f"internal thermal resistance ratio {internal_ratio:g} must be >= 0")
     ratio = (external_thermal_resistance_k_m_w(depth_m, diameter_m, 1.0)
@@ -172,7 +172,7 @@ def depth_factor_for_method(method: str, depth_m: float,
     ('depth', 0.949)
     """
     if method not in TYPICAL_INTERNAL_RATIO:
-        raise UnknownKeyError(f"depth correction is for methods D1 and D2, not {method!r}")
+        raise UnknownKeyError(f"depth correction is for methods D1 and D2, not {method!r}", value=method)
     value = depth_factor(depth_m, reference_depth_m, TYPICAL_DIAMETER_M[method],
                          TYPICAL_INTERNAL_RATIO[method])
     detail = (f"{method}, {depth_m:g} m (reference {reference_depth_m:g} m), "

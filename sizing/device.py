@@ -104,7 +104,7 @@ def conventional_operating_current_a(kind: str, rating_a: float) -> tuple[float,
         return factor * rating_a, f"IEC 60269-1:2006 Table 2, gG, I2 = {factor} In"
     if kind in ("motor_breaker", "overload_relay"):
         return 1.20 * rating_a, "IEC 60947-4-1:2018 Table 3, overload release, I2 = 1.20 In (from memory)"
-    raise UnknownKeyError(f"device kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
+    raise UnknownKeyError(f"device kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}", value=kind)
 
 
 def select_device(

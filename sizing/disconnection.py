@@ -179,7 +179,7 @@ def max_disconnection_time_s(
     .. [1] IEC 60364-4-41:2005, Table 41.1, 411.3.2.3 and 411.3.2.4.
     """
     if earthing not in DISTRIBUTION_TIME_S:
-        raise UnknownKeyError(f"earthing {earthing!r} is not handled: use TN or TT")
+        raise UnknownKeyError(f"earthing {earthing!r} is not handled: use TN or TT", value=earthing)
     if not final_circuit or rating_a > 32:
         return DISTRIBUTION_TIME_S[earthing]
     # Table 41.1 is read with the nominal U0: 400 V / sqrt(3) = 230.9 V is the
@@ -188,7 +188,7 @@ def max_disconnection_time_s(
     for low, high, times in TABLE_41_1:
         if low < u0_nominal <= high:
             return times[earthing]
-    raise OutOfRangeError(f"U0 {u0_v:g} V is outside Table 41.1 (above 50 V a.c.) ({TABLE_41_1_SOURCE})")
+    raise OutOfRangeError(f"U0 {u0_v:g} V is outside Table 41.1 (above 50 V a.c.) ({TABLE_41_1_SOURCE})", value=u0_v)
 
 
 @dataclass(frozen=True)
@@ -264,7 +264,7 @@ def instantaneous_trip(
     .. [2] IEC 60947-2:2016, 8.3.3.1.2 (tolerance, from memory).
     """
     if magnetic_a is not None and magnetic_a <= 0:
-        raise OutOfRangeError(f"magnetic setting {magnetic_a:g} A must be > 0")
+        raise OutOfRangeError(f"magnetic setting {magnetic_a:g} A must be > 0", value=magnetic_a)
     if kind == "motor_breaker":
         setting = magnetic_a if magnetic_a is not None else MOTOR_BREAKER_INSTANTANEOUS_MULTIPLE * rating_a
         what = (f"motor-protection breaker (IEC 60947-2 / IEC 60947-4-1), Ii {setting:g} A"
@@ -278,7 +278,7 @@ def instantaneous_trip(
     else:
         key = curve.strip().upper()
         if key not in BREAKER_INSTANTANEOUS_MULTIPLE:
-            raise UnknownKeyError(f"breaker curve {curve!r} is unknown: use B, C or D (IEC 60898-1)")
+            raise UnknownKeyError(f"breaker curve {curve!r} is unknown: use B, C or D (IEC 60898-1)", value=curve)
         low, high = BREAKER_NO_TRIP_MULTIPLE[key], BREAKER_INSTANTANEOUS_MULTIPLE[key]
         return InstantaneousTrip(low * rating_a, high * rating_a,
                                  f"IEC 60898-1:2015 Table 7, type {key}: {low:g}-{high:g} In")
@@ -335,7 +335,7 @@ def fuse_ia_a(rating_a: float, time_s: float) -> tuple[float, str]:
     .. [2] IEC 60364-4-41:2005, Table 41.1 (the times asked).
     """
     if time_s <= 0:
-        raise OutOfRangeError(f"disconnection time {time_s:g} s must be > 0")
+        raise OutOfRangeError(f"disconnection time {time_s:g} s must be > 0", value=time_s)
     for gate in GG_GATES:
         if abs(gate.rating_a - rating_a) < 1e-9:
             if time_s >= 5.0:
@@ -348,7 +348,7 @@ def fuse_ia_a(rating_a: float, time_s: float) -> tuple[float, str]:
                              "and Imax(0.1 s) gates (common practice; the maker's curve governs)")
     raise OutOfRangeError(
         f"no gG gate value for a {rating_a:g} A fuse ({GG_GATES_SOURCE} lists 16 A to 1250 A); "
-        "check the fuse maker's time-current curve")
+        "check the fuse maker's time-current curve", value=rating_a)
 
 
 def device_ia_a(
@@ -383,7 +383,7 @@ def device_ia_a(
             "an overload relay (IEC 60947-4-1) does not clear earth faults: give the magnetic "
             "setting (magnetic_a) of the short-circuit device backing it")
     raise UnknownKeyError(
-        f"device kind {device_kind!r} is unknown: use breaker, motor_breaker, fuse or overload_relay")
+        f"device kind {device_kind!r} is unknown: use breaker, motor_breaker, fuse or overload_relay", value=device_kind)
 
 
 def fault_loop_temperature_c(insulation: str) -> float:
@@ -402,7 +402,7 @@ def fault_loop_temperature_c(insulation: str) -> float:
     try:
         return 0.5 * (MAX_CONDUCTOR_TEMPERATURE_C[insulation] + FAULT_TEMPERATURE_C[insulation])
     except KeyError:
-        raise UnknownKeyError(f"insulation {insulation!r} is unknown: use PVC or XLPE") from None
+        raise UnknownKeyError(f"insulation {insulation!r} is unknown: use PVC or XLPE", value=insulation) from None
 
 
 def loop_resistance_ohm_per_m(
@@ -481,7 +481,7 @@ def max_length_m(
     .. [1] IEC 60364-4-41:2005, 411.4.4, equation (411.4.4).
     """
     if ia_a <= 0:
-        raise OutOfRangeError(f"operating current Ia {ia_a:g} A must be > 0")
+        raise OutOfRangeError(f"operating current Ia {ia_a:g} A must be > 0", value=ia_a)
     z_per_m = math.hypot(r_loop_ohm_per_m, x_loop_ohm_per_m)
     budget = voltage_factor * u0_v / ia_a - ze_ohm
     if budget <= 0:

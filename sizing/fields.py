@@ -27,9 +27,10 @@ def _number(name: str, text: str, circuit_id: str) -> float:
     try:
         value = float(str(text).strip().replace(",", "."))
     except ValueError:
-        raise CircuitInputError(f"circuit {circuit_id}: {name} {text!r} is not a number") from None
+        raise CircuitInputError(circuit_id=circuit_id, column=name, value=text,
+                                problem=f"{name} {text!r} is not a number") from None
     if value != value:  # NaN
-        raise CircuitInputError(f"circuit {circuit_id}: {name} is not a number")
+        raise CircuitInputError(circuit_id=circuit_id, column=name, value=text, problem=f"{name} is not a number")
     return value
 
 
@@ -39,10 +40,9 @@ def _choice(name: str, text: str, table: Mapping[str, str], circuit_id: str) -> 
         return table[key]
     close = difflib.get_close_matches(key, list(table), n=2)
     hint = f" (did you mean {' or '.join(close)}?)" if close else ""
-    raise UnknownKeyError(
-        f"circuit {circuit_id}: {name} {text!r} is unknown{hint}; use one of "
-        f"{', '.join(sorted(set(table.values())))}"
-    )
+    known = tuple(sorted(set(table.values())))
+    raise UnknownKeyError(circuit_id=circuit_id, column=name, value=text, known=known,
+                          problem=f"{name} {text!r} is unknown{hint}", fix=f"use one of {', '.join(known)}")
 
 
 def spec_from_fields(
@@ -75,55 +75,63 @@ def spec_from_fields(
 
     load_text = get("load")
     if load_text is None:
-        raise CircuitInputError(f"circuit {circuit_id}: no load given; write e.g. '55 kW'")
+        raise CircuitInputError(circuit_id=circuit_id, column="load", problem="no load given",
+                                fix="write e.g. '55 kW'")
     try:
         load = parse_load(load_text)
     except (CircuitInputError, UnknownKeyError) as exc:
         raise type(exc)(f"circuit {circuit_id}: {exc}") from None
     phases = 3
-    if get("phases") is not None:
-        phases_value = _number("phases", get("phases"), circuit_id)
+    if (text := get("phases")) is not None:
+        phases_value = _number("phases", text, circuit_id)
         if phases_value not in (1, 3):
-            raise CircuitInputError(f"circuit {circuit_id}: phases must be 1 or 3, not {get('phases')}")
+            raise CircuitInputError(circuit_id=circuit_id, column="phases", value=text,
+                                    problem=f"phases must be 1 or 3, not {text}")
         phases = int(phases_value)
     voltage = config.voltage_3ph_v if phases == 3 else config.voltage_1ph_v
-    if get("voltage") is not None:
-        voltage = _number("voltage", get("voltage").upper().rstrip("V").strip(), circuit_id)
+    if (text := get("voltage")) is not None:
+        voltage = _number("voltage", text.upper().rstrip("V").strip(), circuit_id)
         if voltage <= 0:
-            raise CircuitInputError(f"circuit {circuit_id}: voltage must be greater than zero")
+            raise CircuitInputError(circuit_id=circuit_id, column="voltage", value=voltage,
+                                    problem="voltage must be greater than zero")
     pf = config.power_factor
-    if get("power_factor") is not None:
-        pf = _number("power_factor", get("power_factor"), circuit_id)
+    if (text := get("power_factor")) is not None:
+        pf = _number("power_factor", text, circuit_id)
     if not 0 < pf <= 1:
-        raise CircuitInputError(f"circuit {circuit_id}: power factor {pf:g} is outside (0, 1]")
+        raise CircuitInputError(circuit_id=circuit_id, column="power_factor", value=pf,
+                                problem=f"power factor {pf:g} is outside (0, 1]")
     efficiency = 1.0
-    if get("efficiency") is not None:
-        efficiency = _number("efficiency", get("efficiency").rstrip("%"), circuit_id)
-        if efficiency > 1 and get("efficiency").endswith("%"):
+    if (text := get("efficiency")) is not None:
+        efficiency = _number("efficiency", text.rstrip("%"), circuit_id)
+        if efficiency > 1 and text.endswith("%"):
             efficiency /= 100.0
     if not 0 < efficiency <= 1:
-        raise CircuitInputError(f"circuit {circuit_id}: efficiency {efficiency:g} is outside (0, 1]")
+        raise CircuitInputError(circuit_id=circuit_id, column="efficiency", value=efficiency,
+                                problem=f"efficiency {efficiency:g} is outside (0, 1]")
     load_type = "general"
-    if get("load_type") is not None:
-        load_type = _choice("load_type", get("load_type"), {t: t for t in LOAD_TYPES}, circuit_id)
+    if (text := get("load_type")) is not None:
+        load_type = _choice("load_type", text, {t: t for t in LOAD_TYPES}, circuit_id)
     conductor = _choice("conductor", get("conductor") or "Cu", _CONDUCTORS, circuit_id)
     insulation = _choice("insulation", get("insulation") or "XLPE", _INSULATIONS, circuit_id)
     cores = None
-    if get("cores") is not None:
-        cores_value = _number("cores", get("cores"), circuit_id)
+    if (text := get("cores")) is not None:
+        cores_value = _number("cores", text, circuit_id)
         if cores_value not in (1, 2, 3, 4, 5):
-            raise CircuitInputError(f"circuit {circuit_id}: cores must be 1 to 5, not {get('cores')}")
+            raise CircuitInputError(circuit_id=circuit_id, column="cores", value=text,
+                                    problem=f"cores must be 1 to 5, not {text}")
         cores = int(cores_value)
     vd_limit = None
-    if get("vd_limit_pct") is not None:
-        vd_limit = _number("vd_limit_pct", get("vd_limit_pct").rstrip("%"), circuit_id)
+    if (text := get("vd_limit_pct")) is not None:
+        vd_limit = _number("vd_limit_pct", text.rstrip("%"), circuit_id)
         if not 0 < vd_limit <= 100:
-            raise CircuitInputError(f"circuit {circuit_id}: vd_limit_pct {vd_limit:g} is outside (0, 100]")
+            raise CircuitInputError(circuit_id=circuit_id, column="vd_limit_pct", value=vd_limit,
+                                    problem=f"vd_limit_pct {vd_limit:g} is outside (0, 100]")
     fault = None
-    if get("fault_ka") is not None:
-        fault = _number("fault_ka", get("fault_ka"), circuit_id)
+    if (text := get("fault_ka")) is not None:
+        fault = _number("fault_ka", text, circuit_id)
         if fault <= 0:
-            raise CircuitInputError(f"circuit {circuit_id}: fault_ka must be greater than zero")
+            raise CircuitInputError(circuit_id=circuit_id, column="fault_ka", value=fault,
+                                    problem="fault_ka must be greater than zero")
     extra = tuple(
         (key, str(value)) for key, value in fields.items()
         if key not in SCHEDULE_FIELDS and value is not None and str(value).strip()

@@ -148,7 +148,7 @@ def tray_fill_pct(diameters_mm: Sequence[float], width_mm: float) -> float:
     34.666666666666664
     """
     if width_mm <= 0:
-        raise OutOfRangeError(f"tray width {width_mm} mm must be > 0")
+        raise OutOfRangeError(f"tray width {width_mm} mm must be > 0", value=width_mm)
     return 100.0 * sum(diameters_mm) / width_mm
 
 
@@ -175,7 +175,7 @@ def duct_fill_pct(diameters_mm: Sequence[float], inner_diameter_mm: float) -> fl
     8.0
     """
     if inner_diameter_mm <= 0:
-        raise OutOfRangeError(f"duct inner diameter {inner_diameter_mm} mm must be > 0")
+        raise OutOfRangeError(f"duct inner diameter {inner_diameter_mm} mm must be > 0", value=inner_diameter_mm)
     return 100.0 * sum(math.pi * d * d / 4.0 for d in diameters_mm) / (math.pi * inner_diameter_mm ** 2 / 4.0)
 
 

@@ -151,5 +151,5 @@ def design_current_a(
     elif load.unit == "hp":
         power_w = load.value * HP_TO_KW * 1000.0
     else:
-        raise UnknownKeyError(f"load unit {load.unit!r} is unknown: use kW, hp, kVA or A")
+        raise UnknownKeyError(f"load unit {load.unit!r} is unknown: use kW, hp, kVA or A", value=load.unit)
     return power_w / efficiency / (k * voltage_v * power_factor)

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from enum import Enum
+from typing import TYPE_CHECKING, overload
 
 __all__ = [
     "CheckResult",
@@ -144,6 +145,11 @@ class CircuitSpec:
     stretches: tuple[Stretch, ...] = (Stretch(),)
     extra: tuple[tuple[str, str], ...] = ()
 
+    @overload
+    def extra_value(self, name: str, default: str) -> str: ...
+    @overload
+    def extra_value(self, name: str, default: None = None) -> str | None: ...
+
     def extra_value(self, name: str, default: str | None = None) -> str | None:
         """Value of a further schedule field, ``default`` when blank or absent."""
         for key, value in self.extra:
@@ -258,6 +264,10 @@ class Check:
     unit: str
     source: str
     message: str = ""
+
+    if TYPE_CHECKING:  # the constructor also takes a bool or the result's text (read below)
+        def __init__(self, name: str, result: CheckResult | bool | str, value: float,
+                     limit: float, unit: str, source: str, message: str = "") -> None: ...
 
     def __post_init__(self) -> None:
         result = self.result

@@ -98,7 +98,7 @@ def starter_data(kind: str, table: Mapping[str, Any] | None = None) -> StarterDa
     """
     key = _ALIASES.get(str(kind).strip().lower())
     if key is None:
-        raise UnknownKeyError(f"starter {kind!r} is unknown: use one of {', '.join(STARTERS)}")
+        raise UnknownKeyError(f"starter {kind!r} is unknown: use one of {', '.join(STARTERS)}", value=kind)
     value = (table or {}).get(key)
     if value is None:
         return DEFAULT_STARTERS[key]

@@ -88,7 +88,7 @@ def table_54_2_min_csa_mm2(line_csa_mm2: float) -> float:
     .. [1] IEC 60364-5-54:2011, Table 54.2.
     """
     if not line_csa_mm2 > 0:
-        raise OutOfRangeError(f"line conductor {line_csa_mm2!r} mm² must be > 0 ({TABLE_54_2_SOURCE})")
+        raise OutOfRangeError(f"line conductor {line_csa_mm2!r} mm² must be > 0 ({TABLE_54_2_SOURCE})", value=line_csa_mm2)
     if line_csa_mm2 <= 16:
         return line_csa_mm2
     if line_csa_mm2 <= 35:
@@ -164,7 +164,7 @@ def protective_conductor(
     if rule == "table":
         return ProtectiveConductor(table_csa, table_min, "table", TABLE_54_2_SOURCE)
     if rule != "adiabatic":
-        raise UnknownKeyError(f"protective conductor rule {rule!r} is unknown: use one of {', '.join(PE_RULES)}")
+        raise UnknownKeyError(f"protective conductor rule {rule!r} is unknown: use one of {', '.join(PE_RULES)}", value=rule)
     if fault_current_a is None or time_s is None:
         raise OutOfRangeError(
             "the adiabatic rule for the protective conductor needs the earth-fault current "

@@ -178,7 +178,7 @@ def plan_drums(cuts: Sequence[Cut], drum_lengths_m: Sequence[float]) -> DrumPlan
     room: list[float] = []
     for cut in sorted((c for c in cuts if c.length_m <= longest), key=lambda c: (-c.length_m, c.circuit_id)):
         if cut.length_m <= 0:
-            raise OutOfRangeError(f"circuit {cut.circuit_id}: cut length {cut.length_m} m must be > 0")
+            raise OutOfRangeError(f"circuit {cut.circuit_id}: cut length {cut.length_m} m must be > 0", value=cut.length_m)
         for i, left in enumerate(room):
             if cut.length_m <= left + 1e-9:
                 bins[i].append(cut)

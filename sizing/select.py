@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 from functools import lru_cache
+from typing import Any
 
 from cablewright.core.errors import CableRouteError, CircuitInputError, UnknownKeyError
 
@@ -195,7 +196,7 @@ def _environment_factors(
     depth_m: float = REFERENCE_DEPTH_M,
 ) -> tuple[Factor, ...]:
     if method in GROUND_METHODS:
-        factors = (
+        factors: tuple[Factor, ...] = (
             ground_temperature_factor(ambient_c, insulation),
             soil_resistivity_factor(soil_k_m_w, method),
         )
@@ -254,9 +255,9 @@ def stretch_rating(
 
 def _validate(spec: CircuitSpec) -> None:
     if spec.conductor not in CONDUCTORS:
-        raise UnknownKeyError(f"conductor {spec.conductor!r} is unknown: use Cu or Al")
+        raise UnknownKeyError(f"conductor {spec.conductor!r} is unknown: use Cu or Al", value=spec.conductor)
     if spec.insulation not in INSULATIONS:
-        raise UnknownKeyError(f"insulation {spec.insulation!r} is unknown: use XLPE or PVC")
+        raise UnknownKeyError(f"insulation {spec.insulation!r} is unknown: use XLPE or PVC", value=spec.insulation)
     if spec.phases not in (1, 3):
         raise CircuitInputError(f"phases must be 1 or 3, not {spec.phases}")
     if spec.design_length_m < 0 or not math.isfinite(spec.design_length_m):
@@ -327,7 +328,8 @@ def _column(method: str, conductor: str, insulation: str, loaded: int) -> dict[f
 
 @lru_cache(maxsize=65536)
 def _layout(methods: tuple[str, ...], conductor: str, insulation: str, loaded: int,
-            upper: float, minimum: float):
+            upper: float, minimum: float) -> tuple[
+                tuple[float, ...], tuple[float, ...], tuple[tuple[float, ...], ...], tuple[float, ...], bool]:
     """Sizes, allowed sizes and tabulated currents of every stretch's column.
 
     Returns ``(sizes, allowed, amps, amps_smallest, monotone)``: ``amps[s][i]``
@@ -357,7 +359,8 @@ def _stretch_total(method: str, insulation: str, ambient_c: float, soil_k_m_w: f
     return math.prod(f.value for f in factors), factors
 
 
-def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig):
+def _stretch_key(stretch: Stretch, method: str, insulation: str, config: SizingConfig
+                 ) -> tuple[str, str, float, float, float]:
     """The environment of a stretch with the config's defaults filled in:
     (method, insulation, ambient or ground °C, soil K·m/W, depth m)."""
     depth = REFERENCE_DEPTH_M
@@ -404,7 +407,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
     kind = device_kind_for(spec, config)
     if kind not in DEVICE_KINDS:
-        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}")
+        raise UnknownKeyError(f"device_kind {kind!r} is unknown: use one of {', '.join(DEVICE_KINDS)}", value=kind)
     device = select_device(ib, kind, config.margin_for(spec.load_type), config.standard_ratings_a)
     need = required_iz_a(device)
     # Third harmonics, IEC 60364-5-52:2009 Annex E: a reduction factor on every
@@ -418,7 +421,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     temp_rule = config.conductor_temp_for_vd
     if temp_rule not in ("operating", "max"):
         raise UnknownKeyError(
-            f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'")
+            f"[sizing] conductor_temp_for_vd {temp_rule!r} is unknown: use 'operating' or 'max'", value=temp_rule)
     operating = temp_rule == "operating"
     star = star_delta_cables(spec, config)
     relay = None
@@ -570,8 +573,11 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                             vd_temperature(index, parallel, totals), temp_rule, limit_source)
 
 
-def _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed, rated,
-                     rating, vd_temp_c, temp_rule, limit_source) -> SizingResult:
+def _prepared_result(spec: CircuitSpec, ctx: SizingContext, prep: PreparedChecks,
+                     allowed: tuple[float, ...], amps: tuple[tuple[float, ...], ...],
+                     methods: tuple[str, ...], index: int, parallel: int, governed: str,
+                     rated: list[tuple[float, tuple[Factor, ...]]], rating: tuple[float, int],
+                     vd_temp_c: float, temp_rule: str, limit_source: str) -> SizingResult:
     _, stretch_index = rating
     csa = allowed[index]
     total, factors = rated[stretch_index]
@@ -605,8 +611,10 @@ def _base_checks(ctx: SizingContext, iz: float) -> list[Check]:
     return out
 
 
-def _assemble(spec, cand, governed, ctx, stretch, method, iz, total, factors, checks, vd, extras,
-              ze_assumed_ohm: float = 0.0):
+def _assemble(spec: CircuitSpec, cand: Candidate, governed: str, ctx: SizingContext,
+              stretch: Stretch, method: str, iz: float, total: float,
+              factors: tuple[Factor, ...], checks: list[Check], vd: VoltageDrop | None,
+              extras: dict[str, Any], ze_assumed_ohm: float = 0.0) -> SizingResult:
     messages = [c.message or f"{c.name} check fails" for c in checks if c.failed]
     status = "fail" if messages else "ok"
     if extras.get("ze_assumed"):

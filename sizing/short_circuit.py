@@ -128,7 +128,7 @@ def k_value(conductor: str, insulation: str, csa_mm2: float) -> float:
     .. [1] IEC 60364-4-43:2008, Table 43A.
     """
     if conductor not in ("Cu", "Al"):
-        raise UnknownKeyError(f"conductor {conductor!r} is unknown for {TABLE_43A_SOURCE}: use Cu or Al")
+        raise UnknownKeyError(f"conductor {conductor!r} is unknown for {TABLE_43A_SOURCE}: use Cu or Al", value=conductor)
     if insulation == "EPR":
         insulation = "XLPE"
     band = "all"
@@ -137,7 +137,7 @@ def k_value(conductor: str, insulation: str, csa_mm2: float) -> float:
     for row in TABLE_43A:
         if row.insulation == insulation and row.band == band:
             return row.k_cu if conductor == "Cu" else row.k_al
-    raise UnknownKeyError(f"insulation {insulation!r} is unknown for {TABLE_43A_SOURCE}: use PVC or XLPE")
+    raise UnknownKeyError(f"insulation {insulation!r} is unknown for {TABLE_43A_SOURCE}: use PVC or XLPE", value=insulation)
 
 
 def adiabatic_min_csa_mm2(current_a: float, time_s: float, k: float) -> float:
@@ -185,9 +185,9 @@ def adiabatic_min_csa_mm2(current_a: float, time_s: float, k: float) -> float:
     if not 0 < time_s <= 5.0:
         raise OutOfRangeError(
             f"clearing time {time_s:g} s is outside (0, 5] s, the range of the adiabatic "
-            "equation (IEC 60364-4-43:2008 434.5.2)")
+            "equation (IEC 60364-4-43:2008 434.5.2)", value=time_s)
     if current_a < 0 or k <= 0:
-        raise OutOfRangeError(f"fault current {current_a:g} A and k {k:g} must be positive")
+        raise OutOfRangeError(f"fault current {current_a:g} A and k {k:g} must be positive", value=current_a)
     return current_a * math.sqrt(time_s) / k
 
 
@@ -238,7 +238,7 @@ def source_impedance_ohm(fault_ka: float, voltage_v: float, c: float = 1.05) -> 
     .. [1] IEC 60909-0:2016, 6.2, equation (3) (network feeder).
     """
     if fault_ka <= 0:
-        raise OutOfRangeError(f"fault level {fault_ka:g} kA must be greater than zero")
+        raise OutOfRangeError(f"fault level {fault_ka:g} kA must be greater than zero", value=fault_ka)
     return c * voltage_v / (math.sqrt(3.0) * fault_ka * 1000.0)
 
 

@@ -39,6 +39,6 @@ def size_for_standard(spec: CircuitSpec, config: SizingConfig | None = None) -> 
     try:
         sizer = STANDARDS[config.standard]
     except KeyError:
-        raise UnknownKeyError(f"[sizing] standard {config.standard!r} is unknown: use 'iec' or 'nec'"
+        raise UnknownKeyError(f"[sizing] standard {config.standard!r} is unknown: use 'iec' or 'nec'", value=config.standard
                               ) from None
     return sizer(spec, config)

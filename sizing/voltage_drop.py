@@ -207,7 +207,7 @@ def annex_g_drop_percent(
     try:
         rho1 = ANNEX_G_RESISTIVITY_OHM_MM2_PER_M[conductor]
     except KeyError:
-        raise UnknownKeyError(f"conductor {conductor!r} is unknown: use Cu or Al") from None
+        raise UnknownKeyError(f"conductor {conductor!r} is unknown: use Cu or Al", value=conductor) from None
     b = 1.0 if phases == 3 else 2.0
     u0 = voltage_v / math.sqrt(3.0) if phases == 3 else voltage_v
     lam = REACTANCE_MOHM_PER_M / 1000.0

@@ -74,3 +74,51 @@ def test_no_stage_imports_another_for_its_errors():
             for module in _imports(path):
                 assert not (module.endswith(".errors") and module != f"cablewright.{BASE}.errors"), (
                     f"{path.relative_to(ROOT)} imports {module}")
+
+
+def _package_imports(path: Path, package: str) -> set[str]:
+    """Every import of ``path`` (lazy ones inside functions too), relative ones resolved."""
+    names: set[str] = set()
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Import):
+            names.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom):
+            module = node.module or ""
+            if node.level:
+                base = package.split(".")[: len(package.split(".")) - node.level + 1]
+                module = ".".join(base + ([module] if module else []))
+            names.add(module)
+            names.update(f"{module}.{alias.name}" for alias in node.names)
+    return names
+
+
+def test_no_import_cycle_in_the_command_layer():
+    # issue 11: cli -> commands_drawing -> batch -> cli was a cycle; lazy imports
+    # count too (a cycle there is one call away).  Cycles found by networkx.
+    import networkx as nx
+
+    modules = {f"cablewright.{p.stem}": p for p in (ROOT / "cablewright").glob("*.py")
+               if p.stem != "__init__"}
+    graph = nx.DiGraph()
+    for name, path in modules.items():
+        for target in _package_imports(path, "cablewright") & modules.keys():
+            if target != name:
+                graph.add_edge(name, target)
+    assert list(nx.simple_cycles(graph)) == []
+
+
+def test_each_command_parser_is_registered_beside_its_handler():
+    # cli.py only assembles: it adds no argument but --version; each commands_*.py
+    # module has its register function(s) and every sub-command gets a handler.
+    from cablewright.cli import build_parser
+
+    cli_calls = [n for n in ast.walk(ast.parse((ROOT / "cablewright" / "cli.py").read_text()))
+                 if isinstance(n, ast.Call) and getattr(n.func, "attr", "") == "add_argument"]
+    assert len(cli_calls) == 1, "cli.py adds arguments; move them to the command's register()"
+    for path in (ROOT / "cablewright").glob("commands_*.py"):
+        assert "def register" in path.read_text(encoding="utf-8"), f"{path.name} has no register()"
+    parser = build_parser()
+    sub = next(a for a in parser._actions if a.dest == "command")
+    assert list(sub.choices) == ["size", "compare", "routes", "calc", "layers", "demo"]  # contract.md
+    for name, command in sub.choices.items():
+        assert callable(command.get_default("handler")), f"{name} has no handler"

@@ -12,6 +12,7 @@ import cablewright
 
 PACKAGES = [
     "cablewright.extract",
+    "cablewright.core",
     "cablewright.sizing",
     "cablewright.sizing.nec",
     "cablewright.annotate",

@@ -8,6 +8,7 @@ from typing import Any, NamedTuple
 
 import shapely
 from shapely.geometry import Polygon
+from shapely.geometry.base import BaseGeometry
 
 __all__ = ["Box", "LabelIndex", "label_polygon", "oriented_box", "bounds_box", "boxes_overlap"]
 
@@ -160,7 +161,7 @@ class LabelIndex:
     """
 
     def __init__(
-        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[Box] = (),
+        self, cell: float, obstacles: Iterable[BaseGeometry | None] = (), blocked: Iterable[Box] = (),
         lines: shapely.STRtree | None = None,
     ) -> None:
         if not cell > 0.0:

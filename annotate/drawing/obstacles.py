@@ -242,7 +242,7 @@ def _scan_insert(
     name = insert.dxf.name
     if name not in block_boxes:
         block = doc.blocks.get(name)
-        box = None
+        box: tuple[float, float, float, float] | Box | None = None
         if block is not None:
             parts = [b for b in block if b.dxftype() != "ATTDEF"]
             bb = ezbbox.extents(parts, fast=True) if parts else None

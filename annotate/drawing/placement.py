@@ -218,9 +218,9 @@ class _Search:
             rot,
             width,
             height,
-            None,
+            None,  # type: ignore[arg-type]  # a candidate: done() gives it its polygon
             False,
-            (mx, my),  # type: ignore[arg-type]
+            (mx, my),
         )
 
     def offsets(self, levels: int) -> Iterable[float]:

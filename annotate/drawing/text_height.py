@@ -74,7 +74,7 @@ def text_height_m_for_extents(
     0.25
     """
     need = max(1000.0 * width_m / sheet_mm[0], 1000.0 * height_m / sheet_mm[1], 1.0)
-    scale = next((s for s in USUAL_SCALES if s >= need - 1e-9), None)
+    scale: float | None = next((s for s in USUAL_SCALES if s >= need - 1e-9), None)
     if scale is None:
         scale = need
     return min(max(paper_text_height_mm * scale / 1000.0, min_m), max_m)

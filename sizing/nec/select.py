@@ -379,7 +379,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
     for ambient in ambients:  # outside Table 310.15(B)(1)(1): the circuit's error, said once
         ambient_factor(ambient, INSULATION_TEMP_C)
 
-    def rate(size: str, parallel: int):
+    def rate(size: str, parallel: int) -> tuple[NecStretchRating, int]:
         ratings = []
         for stretch, amb in zip(spec.stretches, ambients, strict=True):
             # each parallel set in its own raceway (310.10(G)(4)); the other circuits'
@@ -389,7 +389,7 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
         index = min(range(len(ratings)), key=lambda i: ratings[i].ampacity_a)
         return ratings[index], index
 
-    def capacity_ok(size: str, parallel: int):
+    def capacity_ok(size: str, parallel: int) -> tuple[bool, float, NecStretchRating, int, float] | None:
         try:
             rating, index = rate(size, parallel)
             term = ampacity_a(size, spec.conductor, demand.termination_c)
@@ -447,7 +447,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             if cap and cap[0] and faults.clears(step, step, demand.device_a, parallel, raceway):
                 size, governed = step, "disconnection"
                 break
-    _, ampacity, rating, index, term = capacity_ok(size, parallel)
+    checked = capacity_ok(size, parallel)
+    assert checked is not None  # the chosen size was rated in the search above
+    _, ampacity, rating, index, term = checked
     if notes:
         demand = replace(demand, notes=demand.notes + tuple(notes))
     return _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size,
@@ -482,8 +484,10 @@ def _fill(spec: CircuitSpec, wire_key: str, size: str, egc: str, cores: int) -> 
                  source, f"EMT trade size {trade} per set ({area:.3f} in² of conductors)")
 
 
-def _result(spec, config, demand, wire, cores, size, parallel, governed, minimum_size, ampacity,
-            rating, index, term, volts, limit, raceway, faults: NecFaults) -> SizingResult:
+def _result(spec: CircuitSpec, config: SizingConfig, demand: _Demand, wire: str, cores: int,
+            size: str, parallel: int, governed: str, minimum_size: str, ampacity: float,
+            rating: NecStretchRating, index: int, term: float, volts: float, limit: float,
+            raceway: str, faults: NecFaults) -> SizingResult:
     stretch = spec.stretches[index]
     total = math.prod(f.value for f in rating.factors)
     label = size_label(size)

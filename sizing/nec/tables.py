@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 from cablewright.core.errors import OutOfRangeError, UnknownKeyError
 
@@ -118,7 +119,7 @@ class NecTable:
     edition: str
     table: str
     unit: str
-    rows: dict
+    rows: dict[Any, Any]  # each table's own keys and cells (sizes, amperes, tuples)
 
     @property
     def source(self) -> str:
@@ -320,7 +321,7 @@ def adjustment_factor(current_carrying: int) -> float:
         raise OutOfRangeError(f"{current_carrying} current-carrying conductors: at least 1")
     for most, percent in ADJUSTMENT_310_15_C_1.rows.items():
         if current_carrying <= most:
-            return percent / 100.0
+            return float(percent) / 100.0
     raise AssertionError("unreachable: the last row is open-ended")
 
 
@@ -402,7 +403,7 @@ def egc_size(device_a: float, conductor: str) -> str:
     column = {"Cu": 0, "Al": 1}[conductor]
     for most, sizes in EGC_250_122.rows.items():
         if device_a <= most + 1e-9:
-            return sizes[column]
+            return str(sizes[column])
     raise OutOfRangeError(f"device {device_a:g} A is above {EGC_250_122.source} (6000 A)")
 
 
@@ -463,7 +464,7 @@ def impedance_ohm_per_m(size: str, conductor: str, raceway: str = "steel") -> tu
     if raceway not in _RACEWAY:
         raise UnknownKeyError(f"raceway {raceway!r} is unknown: use pvc, aluminum or steel")
     resistances = None if row is None else row[1 if conductor == "Cu" else 2]
-    if resistances is None:
+    if row is None or resistances is None:
         raise OutOfRangeError(f"{IMPEDANCE_CH9_T9.source} lists no {size_label(size)} {conductor}")
     xl = row[0][1 if raceway == "steel" else 0]
     per_m = 1.0 / (1000.0 * FT_M)
