@@ -78,6 +78,9 @@ def build_parser() -> argparse.ArgumentParser:
     size.add_argument("--out", metavar="DIR", help="output folder (default: beside the drawing)")
     size.add_argument("--jobs", type=int, default=1, metavar="N",
                       help="batch mode: drawings processed in parallel worker processes (default 1)")
+    size.add_argument("--scheduler", metavar="ADDRESS",
+                      help="batch mode on a Dask cluster: the scheduler's address (e.g. tcp://host:8786); "
+                           "needs cablewright[dask] and the paths shared by every worker")
     size.add_argument("--previous", metavar="DIR",
                       help="an earlier output folder: report what changed and write changes.json")
     size.add_argument("--watch", action="store_true",

@@ -115,7 +115,7 @@ def default_out(drawing: Path) -> Path:
 def run_size(args: argparse.Namespace) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
     settings = settings_for(args)  # validated before any drawing is read, batch too
-    if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
+    if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir() or getattr(args, "scheduler", None):
         from .batch import run_batch
 
         return run_batch(args)
