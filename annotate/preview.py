@@ -51,9 +51,9 @@ FONT_STRETCH = "condensed"
 CHAR_PER_CAP = 0.75
 #: Points per inch (PostScript point, matplotlib's unit of font size and line width).
 PT_PER_IN = 72.0
-#: Margin around the extents, as a fraction of the larger side (our choice: keeps the
-#: outermost line off the picture's edge).
-MARGIN_FRACTION = 0.01
+#: Margin around the extents, as a fraction of each side (matplotlib's default axes
+#: margin, which the earlier preview had: keeps the outermost line off the edge).
+MARGIN_FRACTION = 0.05
 #: Dashes of a line in a linetype of its own (our leaders: a long dash and two dots,
 #: as ``drawing.mark_style.LEADER_PATTERN_H``), in line widths.
 LEADER_DASHES = (0, (8.0, 2.0, 1.0, 2.0, 1.0, 2.0))
@@ -145,8 +145,9 @@ def _figure(extents: tuple[float, float, float, float], style: PreviewStyle) -> 
     from matplotlib.figure import Figure
 
     x0, y0, x1, y1 = extents
-    pad = MARGIN_FRACTION * max(x1 - x0, y1 - y0, 1e-9)
-    x0, y0, x1, y1 = x0 - pad, y0 - pad, x1 + pad, y1 + pad
+    size = max(x1 - x0, y1 - y0, 1e-9)
+    pad_x, pad_y = (MARGIN_FRACTION * max(d, 1e-3 * size) for d in (x1 - x0, y1 - y0))
+    x0, y0, x1, y1 = x0 - pad_x, y0 - pad_y, x1 + pad_x, y1 + pad_y
     aspect = min(max((y1 - y0) / (x1 - x0), style.min_aspect), style.max_aspect)
     w_in = style.width_px / style.dpi
     fig = Figure(figsize=(w_in, w_in * aspect), dpi=style.dpi, facecolor="white")

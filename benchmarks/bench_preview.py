@@ -12,7 +12,9 @@ their CPU seconds taken (``time.process_time``, a full collection before each):
   our layers kept);
 * ``after``: ``outputs._preview``: the routes of the measurement and the marks the
   writer placed as matplotlib line collections, the drawing's own linework as a
-  background from the document on a small drawing.
+  background from the document on a small drawing;
+* ``sketch``: the part of ``after`` spent in the writer (the :class:`Sketch` of the
+  entities it added; timed here again over our entities of the annotated document).
 
 Run: ``python benchmarks/bench_preview.py --drawing sample`` or
 ``python benchmarks/bench_preview.py --circuits 2000 --work /tmp/cw-bench --repeats 5``.
@@ -106,7 +108,11 @@ def main(argv: list[str] | None = None) -> int:
     doc = measurement.source_document
     ours = dict(summary.layers)
     schedule_layer = ours.pop("schedule")
-    figures: dict[str, list[float]] = {"before": [], "after": []}
+    from cablewright.annotate.sketch import layer_colors, sketch_entities
+
+    mine = {name.upper() for name in summary.layers.values()}
+    added = [e for e in doc.modelspace() if str(e.dxf.layer).upper() in mine]
+    figures: dict[str, list[float]] = {"before": [], "after": [], "sketch": []}
     sizes = {}
     for _ in range(args.repeats):
         t, sizes["before"] = _cpu(lambda: old.render_preview_png(
@@ -114,13 +120,17 @@ def main(argv: list[str] | None = None) -> int:
         figures["before"].append(t)
         t, sizes["after"] = _cpu(lambda: _preview(measurement, summary, doc, upm))
         figures["after"].append(t)
+        gc.collect()
+        c0 = time.process_time()
+        sizes["sketch"] = len(sketch_entities(added, layer_colors(doc)))
+        figures["sketch"].append(time.process_time() - c0)
     with open("/proc/loadavg", encoding="ascii") as f:
         load = f.read().split()[:3]
     print(f"{drawing.name}: {len(doc.modelspace())} entities, {len(measurement.rows)} circuits, "
           f"{args.repeats} paired repeats, load average {' '.join(load)}")
     for name, values in figures.items():
         print(f"  {name:6s} CPU s min {min(values):.3f} median {statistics.median(values):.3f} "
-              f"max {max(values):.3f}  ({sizes[name]} bytes)")
+              f"max {max(values):.3f}  ({sizes[name]} {'items' if name == 'sketch' else 'bytes'})")
     ratio = statistics.median(a / b for a, b in zip(figures["after"], figures["before"], strict=True))
     print(f"  after / before, median of the paired ratios: {ratio:.3f}")
     return 0

@@ -351,7 +351,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
     _record_units(document, measurement)
     # our marks are added to the document in memory and it is saved under the
-    # output name only; the preview is drawn from the same annotated document
+    # output name only; the preview is drawn from the measurement and the marks placed
     from cablewright.annotate.revision import changed_circuit_ids, fill_marks
 
     marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
@@ -411,8 +411,10 @@ def _preview(measurement, summary, document, units_per_m: float) -> bytes:
         (e.position_m[0] * units_per_m, e.position_m[1] * units_per_m)
         for e in measurement.equipment.values()]
     skip = () if background is not None else (ours.get("schedule", ""),)
-    routes = route_lines(measurement.segments.values(), units_per_m, summary.sketch.layer_aci)
-    return render_preview_png(routes, summary.sketch, background=background, equipment=equipment,
+    sketch = getattr(summary, "sketch", None)  # a writer that kept no sketch: routes alone
+    layer_aci = sketch.layer_aci if sketch is not None else {}
+    routes = route_lines(measurement.segments.values(), units_per_m, layer_aci)
+    return render_preview_png(routes, sketch, background=background, equipment=equipment,
                               text_height=summary.text_height, skip_layers=skip)
 
 

@@ -6,9 +6,10 @@ from __future__ import annotations
 
 import gc
 
+from cablewright.core.errors import DrawingReadError
+
 from cablewright import batch, collector
 from cablewright.collector import RUN_THRESHOLDS
-from cablewright.core.errors import DrawingReadError
 
 
 def test_one_drawing_runs_tuned_and_is_collected_after(monkeypatch, tmp_path):

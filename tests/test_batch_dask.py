@@ -18,6 +18,7 @@ import sys
 from pathlib import Path
 
 import pytest
+
 from cablewright import batch
 from cablewright.cli import main
 

@@ -141,7 +141,7 @@ def write_annotated_dxf(
         kept by the extract stage), so the file is not read a second time.  Our
         marks are added to this document, which is then saved to
         ``output_path`` (never to ``input_path``); afterwards it holds the
-        annotated drawing, e.g. for :func:`~cablewright.annotate.preview.render_preview_png`.
+        annotated drawing (the preview draws from ``AnnotationSummary.sketch`` instead).
 
     Returns
     -------
