@@ -10,7 +10,8 @@ one's peak memory is its own:
   included), the sizing engine alone (``size_circuit`` over prepared specs),
   and each output (annotated DXF, schedule csv / xlsx / json, preview PNG,
   HTML report), the way ``size`` runs them: the document parsed by ``read_dxf``
-  is annotated in memory and the preview is drawn from it (no second parse);
+  is annotated in memory and the preview is drawn from the measurement and the marks the
+  writer placed (no second parse);
 * ``whole``: the ``cablewright size`` command's own function
   (``commands_drawing.run_size``, console output to ``/dev/null``), once.
 
@@ -74,7 +75,6 @@ def _child_stages(drawing: Path, circuits: Path) -> dict:
     """Floor and every stage, timed one by one in this process."""
     import ezdxf
     from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
-    from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
@@ -95,7 +95,7 @@ def _child_stages(drawing: Path, circuits: Path) -> dict:
 
     from cablewright.config import load_settings
     from cablewright.console import CAUTION
-    from cablewright.outputs import _annotate_config
+    from cablewright.outputs import _annotate_config, _preview
     from cablewright.pipeline import _fields, _stretches, drawing_config, size_measurement
 
     clock = _Clock()
@@ -181,8 +181,7 @@ def _child_stages(drawing: Path, circuits: Path) -> dict:
     with clock("out_json"):
         write_schedule_json(out / "schedule.json", job.outcomes)
     with clock("out_preview"):
-        png = render_preview_png(measurement.source_document,
-                                 lean_skip_layers=(config.schedule_layer,))
+        png = _preview(measurement, summary, measurement.source_document, units_per_m)
     with clock("out_report"):
         write_report_html(out / "report.html", job.outcomes, title=f"Cable sizing: {drawing.name}",
                           drawing_name=drawing.name, preview_png=png, cautions=CAUTION)

@@ -3,6 +3,20 @@
 Each drawing's outputs go to a folder of their own; one drawing that fails
 never stops the others.  A drawing's schedule is ``--circuits`` when given,
 else ``<stem>_circuits.csv`` / ``.xlsx`` beside it, else its block attributes.
+
+The drawings run one after the other (``--jobs 1``), in worker processes of this
+machine (``--jobs N``) or on a Dask cluster (``--scheduler ADDRESS``: the
+optional extra ``cablewright[dask]``): the same per-drawing function in every
+case, each drawing's lines for standard error returned with its result and
+printed here in the order the drawings were given.  On a cluster the paths must
+be the same on every worker (a shared folder).  Each drawing runs with the
+collector's thresholds raised and a full collection after it
+(:mod:`.collector`), in whichever process it runs.
+
+References
+----------
+.. [1] Dask.distributed documentation, ``Client`` (``submit``, ``gather``),
+   ``LocalCluster``.
 """
 
 from __future__ import annotations
@@ -17,14 +31,21 @@ from pathlib import Path
 from types import SimpleNamespace
 
 from cablewright.annotate.jsonout import document as outcomes_document
-from cablewright.core.errors import CableRouteError, DrawingReadError
+from cablewright.core.errors import CableRouteError, ConfigError, DrawingReadError
 
 from .exits import EXIT_INPUT, exit_code_for, internal_error_line
-from .size_run import _issues, _report_errors, settings_from, size_drawing
+from .size_run import error_lines, issue_lines, settings_from, size_drawing
 
-__all__ = ["expand_drawings", "run_batch", "BatchItem", "output_folders"]
+__all__ = ["expand_drawings", "run_batch", "BatchItem", "BatchSchedulerError", "output_folders"]
 
 SUFFIXES = (".dxf", ".ifc")
+#: How long the client waits for the Dask scheduler before giving up [s] (our choice:
+#: a scheduler on the network answers in well under a second).
+SCHEDULER_TIMEOUT_S = 10.0
+
+
+class BatchSchedulerError(ConfigError):
+    """The Dask scheduler of ``--scheduler`` cannot be used (a setting unusable: exit code 2)."""
 
 
 @dataclass(frozen=True)
@@ -35,6 +56,7 @@ class BatchItem:
     exit_code: int
     summary: str
     document: dict | None = None
+    lines: tuple[str, ...] = ()
 
 
 def expand_drawings(paths: list[str]) -> list[Path]:
@@ -114,8 +136,18 @@ def output_folders(drawings: list[Path], out: str | None) -> tuple[list[Path], l
 
 def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str, recover: bool,
          units: str | None = None) -> BatchItem:
-    from .collector import collect_between
+    """One drawing of the batch, with the collector tuned, collected after (any process)."""
+    from .collector import collect_between, tuned_collector
 
+    try:
+        with tuned_collector():
+            return _size_one(drawing, circuits, config, out_dir, recover, units)
+    finally:
+        collect_between()  # this drawing's cyclic garbage, before the next one is read
+
+
+def _size_one(drawing: str, circuits: str | None, config: str | None, out_dir: str, recover: bool,
+              units: str | None) -> BatchItem:
     path = Path(drawing)
     circuits = circuits or _schedule_beside(path)
     try:
@@ -126,14 +158,33 @@ def _one(drawing: str, circuits: str | None, config: str | None, out_dir: str, r
     except Exception as exc:  # a bug in one drawing must not stop the batch
         where = SimpleNamespace(drawing=drawing, circuits=circuits, config=config)
         return BatchItem(drawing, EXIT_INPUT, internal_error_line(exc, where))
-    finally:
-        collect_between()  # this drawing's cyclic garbage, before the next one is read
-    _issues(run.measurement)
-    _report_errors(run.job.outcomes)
+    lines = (*issue_lines(run.measurement), *error_lines(run.job.outcomes))
     document = {**outcomes_document(run.job.outcomes, kind="size"), **run.extras}
     statuses = [o.status for o in run.job.outcomes]
     counts = ", ".join(f"{statuses.count(k)} {k}" for k in ("ok", "warning", "fail", "error"))
-    return BatchItem(drawing, run.exit_code, f"{drawing}: {len(statuses)} circuits ({counts})", document)
+    return BatchItem(drawing, run.exit_code, f"{drawing}: {len(statuses)} circuits ({counts})", document,
+                     lines)
+
+
+def _on_cluster(address: str, call: list[tuple]) -> list[BatchItem]:
+    """``_one`` for every drawing on the Dask cluster at ``address``, results in order.
+
+    Raises :class:`BatchSchedulerError` when ``distributed`` is missing or the
+    scheduler cannot be reached.
+    """
+    try:
+        from distributed import Client
+    except ImportError as exc:
+        raise BatchSchedulerError(f"--scheduler {address}: Dask distributed is not installed; "
+                                  "install cablewright[dask] or run without --scheduler") from exc
+    try:
+        client = Client(address, timeout=SCHEDULER_TIMEOUT_S)
+    except (OSError, TimeoutError, ValueError) as exc:
+        raise BatchSchedulerError(f"--scheduler {address}: cannot reach the Dask scheduler ({exc}); "
+                                  "check the address, or run without --scheduler") from exc
+    with client:
+        futures = [client.submit(_one, *c, pure=False) for c in call]
+        return list(client.gather(futures))
 
 
 def run_batch(args: argparse.Namespace) -> int:
@@ -145,12 +196,16 @@ def run_batch(args: argparse.Namespace) -> int:
         print(f"cablewright: {note}", file=sys.stderr)
     call = [(str(d), args.circuits, args.config, str(f), args.recover, getattr(args, "units", None))
             for d, f in zip(drawings, folders, strict=True)]
-    if jobs == 1 or len(drawings) == 1:
+    if getattr(args, "scheduler", None):
+        items = _on_cluster(args.scheduler, call)
+    elif jobs == 1 or len(drawings) == 1:
         items = [_one(*c) for c in call]
     else:
         with ProcessPoolExecutor(max_workers=min(jobs, len(drawings))) as pool:
             items = list(pool.map(_one, *zip(*call, strict=False)))
     for item in items:
+        for line in item.lines:
+            print(f"cablewright: {line}", file=sys.stderr)
         print(f"cablewright: {item.summary}", file=sys.stderr)
     if args.json:
         print(json.dumps({"drawings": [{"drawing": i.drawing, "exit_code": i.exit_code,

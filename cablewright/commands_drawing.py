@@ -117,7 +117,7 @@ def default_out(drawing: Path) -> Path:
 def run_size(args: argparse.Namespace) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
     settings = settings_for(args)  # validated before any drawing is read, batch too
-    if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir():
+    if getattr(args, "more_drawings", None) or Path(args.drawing).is_dir() or getattr(args, "scheduler", None):
         from .batch import run_batch
 
         return run_batch(args)
@@ -187,6 +187,9 @@ def register_size(subparsers: argparse._SubParsersAction) -> None:
     size.add_argument("--out", metavar="DIR", help="output folder (default: beside the drawing)")
     size.add_argument("--jobs", type=int, default=1, metavar="N",
                       help="batch mode: drawings processed in parallel worker processes (default 1)")
+    size.add_argument("--scheduler", metavar="ADDRESS",
+                      help="batch mode on a Dask cluster: the scheduler's address (e.g. tcp://host:8786); "
+                           "needs cablewright[dask] and the paths shared by every worker")
     size.add_argument("--previous", metavar="DIR",
                       help="an earlier output folder: report what changed and write changes.json")
     size.add_argument("--watch", action="store_true",

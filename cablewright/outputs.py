@@ -316,7 +316,6 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
                changes=None, previous_name: str = "") -> dict[str, str]:
     """Every output file into ``stage``; returns key -> file name, in writing order."""
     from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
-    from cablewright.annotate.preview import render_preview_png
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.report_pdf import write_report_pdf
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
@@ -353,7 +352,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
     _record_units(document, measurement)
     # our marks are added to the document in memory and it is saved under the
-    # output name only; the preview is drawn from the same annotated document
+    # output name only; the preview is drawn from the measurement and the marks placed
     from cablewright.annotate.revision import changed_circuit_ids, fill_marks
 
     marks = AnnotationInput(job.outcomes, measurement.segments, job.per_segment,
@@ -371,10 +370,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
 
         write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
         sections.insert(0, changes_section(changes, previous_name))
-    ours = dict(summary.layers)
-    schedule_layer = ours.pop("schedule", config.schedule_layer)
-    png = render_preview_png(document, lean_skip_layers=(schedule_layer,),
-                             keep_layers=tuple(ours.values()))
+    png = _preview(measurement, summary, document, units_per_m)
     (stage / names["png"]).write_bytes(png)
     report_cfg = report_config(settings)
     version = extras.get("tool", {}).get("version", "")
@@ -394,6 +390,33 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     shutil.rmtree(scratch, ignore_errors=True)
     order = ["dxf", "csv", "xlsx", "json", "png", "html", "pdf"] + (["changes"] if changes is not None else []) + ["ifc"]
     return {key: names[key] for key in order if key in names}
+
+
+def _preview(measurement, summary, document, units_per_m: float) -> bytes:
+    """The preview PNG from the measurement's routes and the marks the writer placed.
+
+    The drawing's own linework is a background where a parsed document is at
+    hand (a small drawing); otherwise the equipment is drawn as squares.  On a
+    large job (no background) our schedule table is left out: it is far larger
+    than the plant and is in the schedule files and the report.
+    """
+    from cablewright.annotate.preview import render_preview_png, route_lines
+    from cablewright.annotate.sketch import background_sketch
+
+    ours = dict(summary.layers)
+    route_layers = {str(s.layer) for s in measurement.segments.values()}
+    background = None
+    if document is not None:
+        background = background_sketch(document, route_layers | set(ours.values()))
+    equipment = () if background is not None else [
+        (e.position_m[0] * units_per_m, e.position_m[1] * units_per_m)
+        for e in measurement.equipment.values()]
+    skip = () if background is not None else (ours.get("schedule", ""),)
+    sketch = getattr(summary, "sketch", None)  # a writer that kept no sketch: routes alone
+    layer_aci = sketch.layer_aci if sketch is not None else {}
+    routes = route_lines(measurement.segments.values(), units_per_m, layer_aci)
+    return render_preview_png(routes, sketch, background=background, equipment=equipment,
+                              text_height=summary.text_height, skip_layers=skip)
 
 
 def changes_json(changes, previous_name: str = "") -> str:

@@ -77,17 +77,26 @@ def _stages(quiet: bool):
         yield stage
 
 
+def error_lines(outcomes: list[CircuitOutcome]) -> list[str]:
+    """The stderr lines (without the program name) of the circuits in error."""
+    return [f"circuit {o.circuit_id}: {message}" for o in outcomes if o.status == "error"
+            for message in o.messages]
+
+
+def issue_lines(measurement) -> list[str]:
+    """The stderr lines (without the program name) of the reader's warnings."""
+    return [f"warning: {issue.message}" + (f" [{issue.source_id}]" if issue.source_id else "")
+            for issue in measurement.issues]
+
+
 def _report_errors(outcomes: list[CircuitOutcome]) -> None:
-    for outcome in outcomes:
-        if outcome.status == "error":
-            for message in outcome.messages:
-                print(f"cablewright: circuit {outcome.circuit_id}: {message}", file=sys.stderr)
+    for line in error_lines(outcomes):
+        print(f"cablewright: {line}", file=sys.stderr)
 
 
 def _issues(measurement) -> None:
-    for issue in measurement.issues:
-        where = f" [{issue.source_id}]" if issue.source_id else ""
-        print(f"cablewright: warning: {issue.message}{where}", file=sys.stderr)
+    for line in issue_lines(measurement):
+        print(f"cablewright: {line}", file=sys.stderr)
 
 
 def _circuits_from_attributes(args: argparse.Namespace, measurement) -> None:

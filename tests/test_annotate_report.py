@@ -12,9 +12,8 @@ from dataclasses import replace
 from html.parser import HTMLParser
 
 from cablewright.annotate.drawing import CAUTIONS
-from cablewright.annotate.preview import render_preview_png
 from cablewright.annotate.report import write_report_html
-from test_annotate_fixtures import make_drawing, outcomes
+from test_annotate_fixtures import outcomes
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
 
@@ -85,11 +84,3 @@ def test_report_escapes_text_and_is_self_contained(tmp_path):
     # nothing fetched from elsewhere: no external links, scripts or stylesheets
     assert not [a for t, a in p.tags if t in ("script", "link")]
     assert not re.search(r"(src|href)=['\"](https?:|//)", raw)
-
-
-def test_preview_is_a_png(tmp_path):
-    src = make_drawing(tmp_path / "in.dxf")
-    data = render_preview_png(src, dpi=40, skip_layers=("WALLS",))
-    assert data[:8] == PNG_SIGNATURE
-    few = render_preview_png(src, dpi=40, max_entities=1)
-    assert few[:8] == PNG_SIGNATURE

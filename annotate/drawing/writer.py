@@ -5,7 +5,7 @@ from __future__ import annotations
 import logging
 import os
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
@@ -14,6 +14,7 @@ from cablewright.core.errors import DrawingReadError
 from ezdxf.fonts import fonts
 
 from ..atomic import atomic_path
+from ..sketch import Sketch, layer_colors, sketch_entities
 from .boxes import LabelIndex
 from .device_notes import place_equipment_notes
 from .entities import EntityWriter
@@ -58,6 +59,9 @@ class AnnotationSummary:
         Sized circuits that got no label (no route geometry), with the reason.
     revision_marks, fill_marks : int
         Revision marks beside changed labels; fill notes at over-full segments.
+    sketch : Sketch or None
+        Every entity we added, as the preview draws it, and the ACI colour of
+        every layer of the drawing (the route layers' in the preview; :mod:`..sketch`).
     """
 
     output_path: Path
@@ -73,6 +77,25 @@ class AnnotationSummary:
     unlabelled: tuple[str, ...] = ()
     revision_marks: int = 0
     fill_marks: int = 0
+    sketch: Sketch | None = field(default=None, repr=False, compare=False)
+
+
+class _RecordingWriter(EntityWriter):
+    """The pen, keeping every entity it adds (each passes :meth:`tag`) for the preview."""
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        super().__init__(*args, **kwargs)
+        self.added: list[Any] = []
+
+    def tag(self, entity: Any, kind: str, ref: str) -> Any:
+        self.added.append(entity)
+        return super().tag(entity, kind, ref)
+
+
+def _with_sketch(w: _RecordingWriter, summary: AnnotationSummary) -> AnnotationSummary:
+    """The summary with the sketch of what ``w`` added (for the preview)."""
+    layers = layer_colors(w.doc)
+    return replace(summary, sketch=sketch_entities(w.added, layers, Sketch(layer_aci=layers)))
 
 
 def _read_input(src: Path) -> Any:
@@ -118,7 +141,7 @@ def write_annotated_dxf(
         kept by the extract stage), so the file is not read a second time.  Our
         marks are added to this document, which is then saved to
         ``output_path`` (never to ``input_path``); afterwards it holds the
-        annotated drawing, e.g. for :func:`~cablewright.annotate.preview.render_preview_png`.
+        annotated drawing (the preview draws from ``AnnotationSummary.sketch`` instead).
 
     Returns
     -------
@@ -151,7 +174,7 @@ def write_annotated_dxf(
     extents_m = ((xmax - xmin) / k, (ymax - ymin) / k)
     h = choose_text_height_m(marks, extents_m, measure, config, str(src)) * k
     route_layers = sorted({str(getattr(s, "layer", "")) for s in marks.segments.values()} - {""})
-    w = EntityWriter(doc, config, h, route_layers)
+    w = _RecordingWriter(doc, config, h, route_layers)
     blocked = keep_clear_boxes(scan, config, h)
     routes = route_obstacles(scaled(s.points_m, k) for s in marks.segments.values())
     index = LabelIndex(
@@ -190,7 +213,7 @@ def write_annotated_dxf(
     log.info(
         "%s: %d cable labels, %d group tags, %d device notes", dst, labels, group_tags, device_notes
     )
-    return AnnotationSummary(
+    return _with_sketch(w, AnnotationSummary(
         output_path=dst,
         labels=labels,
         group_tags=group_tags,
@@ -207,4 +230,4 @@ def write_annotated_dxf(
                            and o.sizing is not None and o.sizing.cable is not None
                            and o.status != "error"),
         fill_marks=fill_notes,
-    )
+    ))
