@@ -230,32 +230,54 @@ def _totals(r: _Rows, sel: np.ndarray, parallel: int, c: CircuitColumns) -> np.n
 
 def _capacity(t: _Tables, r: _Rows, sel: np.ndarray, parallel, totals: np.ndarray,
               operating: bool):
-    """Iz of the governing stretch per size (n, sizes), its stretch, and the conductor
-    temperature for the voltage drop: the hottest stretch (IEC 60287-1-1:2006 1.4)."""
+    """Iz of the governing stretch per size (n, sizes) and the conductor temperature for
+    the voltage drop: the hottest stretch (IEC 60287-1-1:2006 1.4)."""
     rows = r.table_row[sel]
     ib = r.ib[sel][:, None]
     temp = r.temp[sel][:, None]
-    best = best_k = theta = None
+    best = theta = None
     for k in range(rows.shape[1]):
         valid = rows[:, k] >= 0
         amps = t.amps[np.maximum(rows[:, k], 0)]
         with np.errstate(invalid="ignore"):  # 0 x inf off an empty slot: never the least
             iz = parallel * amps * totals[:, k:k + 1]
-        if best is None:
-            best, best_k = iz, np.zeros(iz.shape, dtype=np.int64)
-        else:
-            lower = iz < best
-            best = np.where(lower, iz, best)
-            best_k = np.where(lower, k, best_k)
+        best = iz if best is None else np.fmin(best, iz)
         if operating:
             amb = r.ambient[sel][:, k:k + 1]
             with np.errstate(divide="ignore", invalid="ignore"):
                 ratio = np.where(iz > 0, np.minimum(1.0, ib / iz), 1.0)
-            th = np.where(valid[:, None], amb + (temp - amb) * ratio * ratio, -np.inf)
+            th = amb + (temp - amb) * ratio * ratio
+            if not valid.all():
+                th = np.where(valid[:, None], th, -np.inf)
             theta = th if theta is None else np.maximum(theta, th)
     if not operating:
         theta = np.broadcast_to(temp, best.shape)
-    return best, best_k, theta
+    return best, theta
+
+
+def _capacity_at(t: _Tables, r: _Rows, sel: np.ndarray, parallel: np.ndarray,
+                 totals: np.ndarray, index: np.ndarray, operating: bool):
+    """:func:`_capacity` at one size per row, with the governing stretch (the first of
+    the least, as the engine's loop keeps it)."""
+    rows = r.table_row[sel]
+    ib, temp = r.ib[sel], r.temp[sel]
+    best = best_k = theta = None
+    for k in range(rows.shape[1]):
+        valid = rows[:, k] >= 0
+        with np.errstate(invalid="ignore"):
+            iz = np.where(valid, parallel * t.amps[np.maximum(rows[:, k], 0), index]
+                          * totals[:, k], np.inf)
+        if best is None:
+            best, best_k = iz, np.zeros(len(sel), np.int64)
+        else:
+            lower = iz < best
+            best, best_k = np.where(lower, iz, best), np.where(lower, k, best_k)
+        amb = r.ambient[sel][:, k]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.where(iz > 0, np.minimum(1.0, ib / iz), 1.0)
+        th = np.where(valid, amb + (temp - amb) * ratio * ratio, -np.inf)
+        theta = th if theta is None else np.maximum(theta, th)
+    return best, best_k, (theta if operating else temp)
 
 
 def _resistance(t: _Tables, r: _Rows, sel: np.ndarray, temp_c) -> np.ndarray:
@@ -319,6 +341,12 @@ def size_columns(c: CircuitColumns, config: SizingConfig | None = None) -> Batch
     out = BatchResult(a.declined, a, np.zeros(n, np.int64), np.full(n, _NAN),
                       np.zeros(n, np.int64), np.zeros(n, np.int64), np.zeros(n, bool),
                       np.full(n, _NAN), np.zeros(n, np.int64), np.full(n, _NAN))
+    from .report import fill_checks
+
+    out.rows, out.first = None, np.zeros(n, np.int64)
+    if not c.layouts:  # every circuit declined (the rule set, the config, the inputs)
+        fill_checks(out, c, config)
+        return out
     t = _tables(c, config)
     with_layout = c.layout >= 0
     unusable = with_layout & ~t.usable[np.maximum(c.layout, 0)] & (out.declined == 0)
@@ -328,9 +356,8 @@ def size_columns(c: CircuitColumns, config: SizingConfig | None = None) -> Batch
     out.totals = np.full((n, r.slot.shape[1]), np.inf)
     out.tables, out.rows = t, r
     out.first = np.where(with_layout, t.lo[np.maximum(c.layout, 0)], 0)
-    _select(t, r, c, config, out)
-    from .report import fill_checks
-
+    if len(rows):
+        _select(t, r, c, config, out)
     fill_checks(out, c, config)
     return out
 
@@ -359,7 +386,7 @@ def _select(t: _Tables, r: _Rows, c: CircuitColumns, config: SizingConfig,
             continue
         lo, hi = r.lo[sel][:, None], r.hi[sel][:, None]
         inside = (columns >= lo) & (columns <= hi)
-        cap, _, theta = _capacity(t, r, sel, parallel, totals, operating)
+        cap, theta = _capacity(t, r, sel, parallel, totals, operating)
         enough = (cap >= r.need[sel][:, None] - 1e-9) & inside
         has = enough.any(axis=1)
         i0 = np.argmax(enough, axis=1)
@@ -417,11 +444,6 @@ def _final_values(t: _Tables, r: _Rows, sel: np.ndarray, out: BatchResult, opera
                   ) -> None:
     """Iz, governing stretch and conductor temperature of the chosen cable."""
     at = r.rows[sel]
-    parallel = out.parallel[at][:, None]
-    totals = out.totals[at]
-    cap, best_k, theta = _capacity(t, r, sel, parallel, totals, operating)
-    pick, index = np.arange(len(sel)), out.index[at]
-    out.iz_a[at] = cap[pick, index]
-    out.stretch[at] = best_k[pick, index]
-    out.vd_temp_c[at] = theta[pick, index]
-    out.sized_rows = sel
+    cap, best_k, theta = _capacity_at(t, r, sel, out.parallel[at], out.totals[at],
+                                      out.index[at], operating)
+    out.iz_a[at], out.stretch[at], out.vd_temp_c[at] = cap, best_k, theta

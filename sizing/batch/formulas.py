@@ -60,16 +60,24 @@ def per_distinct(fn: Callable[..., float], *columns: np.ndarray) -> np.ndarray:
     firsts = []
     radix = 1
     for column in columns:
-        column = np.asarray(column, dtype=float)
-        column = np.where(np.isnan(column), _NAN_STAND_IN, column)  # nan never equals itself
-        values, codes = np.unique(column, return_inverse=True)
-        if radix * len(values) >= 2**62:  # too many combinations for one key: fold them
-            _, key = np.unique(key, return_inverse=True)
-            radix = int(key.max()) + 1
+        column = np.asarray(column)
+        if column.dtype.kind in "iub" and column.min() >= 0 and column.max() < 4096:
+            codes, count = column.astype(np.int64), int(column.max()) + 1  # codes already
+        else:
+            column = column.astype(float)
+            column = np.where(np.isnan(column), _NAN_STAND_IN, column)  # nan never equals itself
+            values = np.unique(column)
+            codes, count = np.searchsorted(values, column), len(values)
+        if radix * count >= 2**62:  # too many combinations for one key: fold them
+            folded = np.unique(key)
+            key, radix = np.searchsorted(folded, key), len(folded)
         key = key + radix * codes.reshape(-1)
-        radix *= len(values)
-        firsts.append(column)
-    distinct, first, inverse = np.unique(key, return_index=True, return_inverse=True)
+        radix *= count
+        firsts.append(column.astype(float))
+    distinct = np.unique(key)
+    inverse = np.searchsorted(distinct, key)
+    first = np.empty(len(distinct), dtype=np.int64)
+    first[inverse] = np.arange(n)  # a row of each distinct key (any: they are equal)
     rows = np.column_stack([f[first] for f in firsts])
     rows = np.where(rows == _NAN_STAND_IN, np.nan, rows)
     values = np.array([fn(*row) for row in rows.tolist()], dtype=float)

@@ -45,7 +45,7 @@ def fill_checks(out: BatchResult, c: CircuitColumns, config: SizingConfig) -> No
     # IEC 60364-5-52:2009 Annex E: the neutral current where it governs
     put("neutral_current", _code(a.neutral, a.neutral_current <= iz + 1e-9), a.neutral_current, iz)
     r = out.rows
-    sel = np.flatnonzero(sized[r.rows])
+    sel = np.flatnonzero(sized[r.rows]) if r is not None else ()
     if len(sel):
         _group_checks(out.tables, r, sel, out, c, put)
     failed = np.zeros(n, bool)
