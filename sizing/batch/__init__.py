@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from .columns import DECLINE_REASONS, CircuitColumns, columns_from_specs
 from .core import BatchResult, size_columns
-from .records import record_for, size_specs
+from .records import BatchRound, record_for, size_specs
 
 __all__ = [
     "DECLINE_REASONS",
@@ -23,6 +23,7 @@ __all__ = [
     "columns_from_specs",
     "BatchResult",
     "size_columns",
+    "BatchRound",
     "record_for",
     "size_specs",
 ]

@@ -244,8 +244,9 @@ def _capacity(t: _Tables, r: _Rows, sel: np.ndarray, parallel, totals: np.ndarra
         best = iz if best is None else np.fmin(best, iz)
         if operating:
             amb = r.ambient[sel][:, k:k + 1]
+            # Iz 0 (a size outside the layout) gives ratio 1, as the engine's "capacity > 0"
             with np.errstate(divide="ignore", invalid="ignore"):
-                ratio = np.where(iz > 0, np.minimum(1.0, ib / iz), 1.0)
+                ratio = np.minimum(1.0, ib / iz)
             th = amb + (temp - amb) * ratio * ratio
             if not valid.all():
                 th = np.where(valid[:, None], th, -np.inf)
@@ -293,9 +294,15 @@ def _failing(t: _Tables, r: _Rows, sel: np.ndarray, parallel, theta: np.ndarray)
     vd = 100.0 * (r.vd_a[sel][:, None] * (res * r.pf[sel][:, None] + r.vd_x_sin[sel][:, None])
                   / parallel) / r.voltage[sel][:, None]
     vd_fail = ~(vd <= r.vd_limit[sel][:, None] + 1e-9)
-    need_sc = r.sc_num[sel][:, None] / t.k[r.ci[sel]]
-    sc_fail = r.sc_made[sel][:, None] & ~(need_sc <= t.csa + 1e-9)
-    ms_fail = r.motor[sel][:, None] & ~(_dip(t, r, sel, parallel) <= r.ms_limit + 1e-9)
+    sc_fail = np.zeros(vd.shape, bool)
+    made = r.sc_made[sel]
+    if made.any():
+        need_sc = r.sc_num[sel[made]][:, None] / t.k[r.ci[sel[made]]]
+        sc_fail[made] = ~(need_sc <= t.csa + 1e-9)
+    ms_fail = np.zeros(vd.shape, bool)
+    motor = r.motor[sel]
+    if motor.any():
+        ms_fail[motor] = ~(_dip(t, r, sel[motor], parallel) <= r.ms_limit + 1e-9)
     return np.where(vd_fail, 2, np.where(sc_fail, 3, np.where(ms_fail, 4, 0)))
 
 
