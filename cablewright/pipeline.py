@@ -17,6 +17,7 @@ from cablewright.annotate.model import CircuitOutcome
 from cablewright.core.errors import CableRouteError
 from cablewright.extract import grouping as extract_grouping
 from cablewright.extract.model import DrawingConfig, Measurement, ScheduleRow
+from cablewright.sizing.batch import BatchRound
 from cablewright.sizing.chain import (
     ChainCable,
     chain_drops,
@@ -156,23 +157,38 @@ def size_measurement(
     results: dict[str, SizingResult] = {}
     rounds = 0
     light: set[str] = set()  # left out of the others' group count (30 % rule), when on
+    # IEC: the batch core sizes each round (sizing.batch); the records are the engine's,
+    # built once for the last round.  NEC: the per-circuit engine.
+    batch = None
     for rounds in range(1, MAX_GROUPING_ROUNDS + 1):
         per_segment = extract_grouping.circuits_per_segment(routed, parallel)
         counted = {c: (0 if c in light else n) for c, n in parallel.items()}
         cables_on = {seg: sum(counted[c] for c in cids) for seg, cids in per_segment.items()}
-        for cid, spec in specs.items():
-            stretches = _stretches(measurement, routed[cid], counted[cid], cables_on, tiers_of)
-            results[cid] = size_for_standard(replace(spec, stretches=stretches), config)
-            if progress is not None and rounds == 1:
+        sized = {cid: replace(spec, stretches=_stretches(measurement, routed[cid], counted[cid],
+                                                         cables_on, tiers_of))
+                 for cid, spec in specs.items()}
+        if config.standard == "iec":
+            batch = BatchRound(sized, config)
+            new = batch.parallel_counts(parallel)
+            lightly = (batch.lightly_loaded(LIGHT_LOAD_FRACTION) if config.ignore_lightly_loaded
+                       else set())
+        else:
+            results = {cid: size_for_standard(spec, config) for cid, spec in sized.items()}
+            new = {cid: (r.cable.parallel if r.cable else parallel[cid])
+                   for cid, r in results.items()}
+            lightly = _lightly_loaded(results) if config.ignore_lightly_loaded else set()
+        if progress is not None and rounds == 1:
+            for _ in sized:
                 progress(1)
-        new = {cid: (r.cable.parallel if r.cable else parallel[cid]) for cid, r in results.items()}
-        new_light = light | (_lightly_loaded(results) if config.ignore_lightly_loaded else set())
+        new_light = light | lightly
         if new == parallel and new_light == light:
             break
         parallel = {cid: max(parallel[cid], new[cid]) for cid in parallel}
         light = new_light  # only grows, so the rounds settle
     else:
         log.warning("grouping did not settle after %d rounds; results use the last round", rounds)
+    if batch is not None:
+        results = batch.records()
 
     for cid in sorted(light & set(results)):
         results[cid] = replace(results[cid], messages=results[cid].messages + (LIGHT_LOAD_NOTE,))

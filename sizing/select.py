@@ -401,7 +401,10 @@ def device_kind_for(spec: CircuitSpec, config: SizingConfig) -> str:
     return config.device_kind
 
 
-def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
+def _size(spec: CircuitSpec, config: SizingConfig,
+          choice: tuple[int, int, str, bool] | None = None) -> SizingResult:
+    # ``choice`` (size index, parallel, governed_by, upsize limited), as the batch core
+    # (:mod:`.batch`) chose it: the record is built at that cable without the search.
     _validate(spec)
     cores = spec.cores or (4 if spec.phases == 3 else 3)
     ib = design_current_a(spec.load, spec.voltage_v, spec.phases, spec.power_factor, spec.efficiency)
@@ -508,6 +511,9 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
                 best, best_s = iz, s
         return best, best_s
 
+    if choice is not None:
+        return _chosen_result(spec, ctx, prep, allowed, amps, methods, keys, choice, capacity,
+                              vd_temperature, temp_rule, limit_source, max_steps)
     threshold = need - 1e-9
     first_ok = None
     last_tried = None
@@ -568,6 +574,25 @@ def _size(spec: CircuitSpec, config: SizingConfig) -> SizingResult:
             "change the route or raise max_parallel in the config"
         ) from None
     index, parallel, governed, rated, totals = first_ok
+    return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed,
+                            rated, capacity(index, parallel, totals),
+                            vd_temperature(index, parallel, totals), temp_rule, limit_source)
+
+
+def _chosen_result(spec, ctx, prep, allowed, amps, methods, keys, choice, capacity,
+                   vd_temperature, temp_rule, limit_source, max_steps) -> SizingResult:
+    # The record of a cable chosen elsewhere (the batch core), with the loop's factors.
+    index, parallel, governed, limited = choice
+    stretches = spec.stretches
+    rated = [_stretch_total(*k, stretches[s].other_cables + parallel, stretches[s].trays,
+                            stretches[s].containment) for s, k in enumerate(keys)]
+    h = ctx.harmonics
+    if h is not None and h.factor != 1.0:
+        hf = Factor("harmonics", h.factor, "IEC 60364-5-52:2009 Annex E, Table E.52.1", h.detail)
+        rated = [(t * hf.value, f + (hf,)) for t, f in rated]
+    totals = [t for t, _ in rated]
+    if limited:
+        prep.disconnection.upsize_limited = max_steps
     return _prepared_result(spec, ctx, prep, allowed, amps, methods, index, parallel, governed,
                             rated, capacity(index, parallel, totals),
                             vd_temperature(index, parallel, totals), temp_rule, limit_source)
