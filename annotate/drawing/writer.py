@@ -5,7 +5,7 @@ from __future__ import annotations
 import logging
 import os
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
@@ -25,6 +25,7 @@ from .obstacles import extents, keep_clear_boxes, scan_modelspace
 from .old_marks import remove_old_marks
 from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
+from .segment_ids import place_segment_ids
 from .stretches import route_obstacles, scaled
 from .style import DEFAULT_CONFIG, INDEX_CELL_H, SCHEDULE_GAP_H, AnnotateConfig
 from .text_height import choose_text_height_m
@@ -58,6 +59,11 @@ class AnnotationSummary:
         Sized circuits that got no label (no route geometry), with the reason.
     revision_marks, fill_marks : int
         Revision marks beside changed labels; fill notes at over-full segments.
+    segment_ids : int
+        Segment ids written on the route network.
+    placement : mapping
+        How the marks were placed (:class:`.mark_index.PlacementStats`): beside their
+        route, with a leader, and the last resorts (crossing a line, overlapping).
     """
 
     output_path: Path
@@ -73,6 +79,8 @@ class AnnotationSummary:
     unlabelled: tuple[str, ...] = ()
     revision_marks: int = 0
     fill_marks: int = 0
+    segment_ids: int = 0
+    placement: Mapping[str, float] = field(default_factory=dict)
 
 
 def _read_input(src: Path) -> Any:
@@ -157,8 +165,7 @@ def write_annotated_dxf(
     index = LabelIndex(
         cell=INDEX_CELL_H * h,
         blocked=blocked,
-        # the drawing's own linework as obstacles: off by default, the wider search it
-        # needs costs minutes on a 2,000-circuit plant (benchmarks/RESULTS.md)
+        # the drawing's own linework (walls, routes, symbol lines) as obstacles
         lines=drawing_linework(doc, config.appid, h, routes) if config.avoid_linework else None,
     )
     log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
@@ -170,7 +177,15 @@ def write_annotated_dxf(
         overlapping += extra
     device_notes, error_notes, extra = place_equipment_notes(w, index, marks)
     overlapping += extra
+    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
     fill_notes = place_fill_marks(w, index, marks)
+    stats = index.stats
+    if stats.fallbacks:
+        log.warning(
+            "%s: %d marks found no spot clear of everything: %d cross a line of the drawing, "
+            "%d overlap another text (last resort)", dst, stats.fallbacks,
+            stats.crossing_linework, stats.overlapping,
+        )
 
     # everything placed so far widens the extents the schedule sits beside
     placed = index.bounds()
@@ -181,10 +196,6 @@ def write_annotated_dxf(
     if config.schedule:
         schedule_rows = schedule_table(w, marks.outcomes, xmax + SCHEDULE_GAP_H * h, ymax, 0.0)
 
-    if overlapping:
-        log.warning(
-            "%s: %d labels or notes found no free spot and overlap others", dst, overlapping
-        )
     with atomic_path(dst) as tmp:
         doc.saveas(tmp)
     log.info(
@@ -198,7 +209,7 @@ def write_annotated_dxf(
         error_notes=error_notes,
         schedule_rows=schedule_rows,
         removed=removed,
-        overlapping=overlapping,
+        overlapping=stats.overlapping,
         text_height=h,
         layers=dict(w.layers),
         unlabelled=tuple(unlabelled),
@@ -207,4 +218,6 @@ def write_annotated_dxf(
                            and o.sizing is not None and o.sizing.cable is not None
                            and o.status != "error"),
         fill_marks=fill_notes,
+        segment_ids=segment_ids,
+        placement=stats.as_dict(),
     )
