@@ -72,7 +72,6 @@ def _routes(job, k: float) -> tuple[dict, dict]:
 def _one(job, drawing: Path, settings, dst: Path) -> tuple[float, float, object]:
     """One annotation of a fresh parse: (writer CPU s without save, save CPU s, summary)."""
     import ezdxf
-
     from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.extract.model import UNIT_TO_M
 
@@ -110,8 +109,9 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     variants = args.variant or ["default"]
 
-    import cablewright
     from cablewright.extract.model import UNIT_TO_M
+
+    import cablewright
 
     work = args.work or Path(tempfile.mkdtemp(prefix="cw-marks-"))
     work.mkdir(parents=True, exist_ok=True)

@@ -220,6 +220,10 @@ def _record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
         stats.beside += 1
     elif how == "leader":
         stats.with_leader += 1
+    elif how == "far":
+        stats.beyond_reach += 1
+        log.debug("mark at (%.0f, %.0f): no spot within reach; further out", spot.box.cx,
+                  spot.box.cy)
     elif how == "crossing":
         stats.crossing_linework += 1
         log.debug("mark at (%.0f, %.0f): no spot clear of the drawing's lines; crossing one",
@@ -325,6 +329,8 @@ def _ring_points(tried: Sequence[Stretch], h: float) -> list[tuple[float, float,
     return pts
 
 
+#: Last resort before an overlap: rings beyond the leader bound [text heights] (counted).
+FAR_GAPS_H = (5.5, 7.0, 8.5, 10.0, 12.0)
 #: Spacing of ring centres along a stretch [text heights] and their number at most.
 RING_STEP_H = 4.0
 MAX_RING_POINTS = 24
@@ -344,14 +350,21 @@ def _last_resort(index: LabelIndex, tried: Sequence[Stretch], rings: np.ndarray,
     spot = pick(index, rings, h, lines=False, leader_lines=False)
     if spot is not None:
         return _record(index, spot, h, leader=True, how="crossing")
+    far = ring_spots(_ring_points(tried, h), width, height, [g * h for g in FAR_GAPS_H])
+    spot = pick(index, far, h, leader_lines=False)
+    if spot is not None:
+        return _record(index, spot, h, leader=True, how="far")
     spot = _spot(stretch_spots(tried[0], width, height, [BESIDE_GAPS_H[0] * h]), 0)
     return _record(index, spot, h, leader=False, how="overlapping")
 
 
 #: Gaps from an equipment point to the nearest edge of its note [text heights]: the
 #: symbol round the point is kept clear anyway, so the first rings only fit beside a
-#: small symbol; ten heights at most, so the note still reads as the equipment's.
-NOTE_GAPS_H = (0.75, 1.25, 1.75, 2.5, 3.25, 4.0, 5.0, 6.0, 7.5, 10.0)
+#: small symbol; further rings a step of about one note height apart, to 16 heights (a
+#: note is tied to its symbol by its leader, drawn in a linetype no route uses).
+NOTE_GAPS_H = (0.75, 1.25, 1.75, 2.5, 3.25, 4.0, 5.0, 6.0, 7.5, 9.0, 10.5, 12.0, 14.0, 16.0)
+#: Directions tried round an equipment point (every 15 degrees).
+NOTE_DIRECTIONS = 24
 
 
 def place_near(index: LabelIndex, at: Sequence[float], width: float, height: float,
@@ -370,11 +383,13 @@ def place_near(index: LabelIndex, at: Sequence[float], width: float, height: flo
     h = text_height
     point = [(float(at[0]), float(at[1]), float(at[2]) if len(at) > 2 else 0.0)]
     gaps = [g * h for g in NOTE_GAPS_H]
-    spots = ring_spots(point, width, height, gaps)
+    spots = ring_spots(point, width, height, gaps, NOTE_DIRECTIONS)
     spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
     if spot is not None:
         return _record(index, spot, h, leader=True, how="leader")
     spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True)
     if spot is not None:
         return _record(index, spot, h, leader=True, how="crossing")
-    return _record(index, _spot(spots, 0), h, leader=True, how="overlapping")
+    # overlapping the drawing's own text or symbols rather than another mark of ours
+    i = index.first_free(spots, lines=False, fixed=False)
+    return _record(index, _spot(spots, 0 if i is None else i), h, leader=True, how="overlapping")

@@ -50,8 +50,11 @@ class PlacementStats:
     crossing_linework : int
         Last resort 1: no spot clear of the drawing's lines within reach; placed clear
         of every text and mark but crossing a line.
+    beyond_reach : int
+        Last resort 2: clear of everything only beyond the leader bound; placed there
+        with a longer leader.
     overlapping : int
-        Last resort 2: not even that; placed beside the route, overlapping.
+        Last resort 3: not even that; placed beside the route, overlapping.
     longest_leader_h : float
         Longest leader drawn [text heights].
     """
@@ -59,6 +62,7 @@ class PlacementStats:
     beside: int = 0
     with_leader: int = 0
     crossing_linework: int = 0
+    beyond_reach: int = 0
     overlapping: int = 0
     longest_leader_h: float = 0.0
     kinds: dict[str, int] = field(default_factory=dict)
@@ -70,8 +74,8 @@ class PlacementStats:
 
     @property
     def fallbacks(self) -> int:
-        """Marks placed by a last resort (crossing a line or overlapping)."""
-        return self.crossing_linework + self.overlapping
+        """Marks placed by a last resort (crossing a line, beyond reach, overlapping)."""
+        return self.crossing_linework + self.beyond_reach + self.overlapping
 
     def as_dict(self) -> dict[str, float | int]:
         """The counts as plain numbers (JSON)."""
@@ -79,6 +83,7 @@ class PlacementStats:
             "beside": self.beside,
             "with_leader": self.with_leader,
             "fallback_crossing_linework": self.crossing_linework,
+            "fallback_beyond_reach": self.beyond_reach,
             "fallback_overlapping": self.overlapping,
             "longest_leader_h": round(self.longest_leader_h, 2),
         }
@@ -94,6 +99,11 @@ def row_box(rows: np.ndarray, i: int) -> Box:
 
 def _as_box(boxes: Sequence[Box] | np.ndarray, i: int) -> Box:
     return row_box(boxes, i) if isinstance(boxes, np.ndarray) else boxes[i]
+
+
+#: Marks added before the tree of our marks is rebuilt: a rebuild costs about as much as
+#: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
+REBUILD_AFTER = 200
 
 
 def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
@@ -165,6 +175,11 @@ class LabelIndex:
         self._fixed_tree = shapely.STRtree(self._fixed_polys) if len(self._fixed) else None
         self._lines = lines if isinstance(lines, shapely.STRtree) or lines is None else _tree(lines)
         self.stats = PlacementStats()
+        # our marks so far in a tree (boxes and leaders), rebuilt every REBUILD_AFTER marks;
+        # those added since are tested through the grid
+        self._mark_geoms: list[Any] = []
+        self._mark_tree: shapely.STRtree | None = None
+        self._in_tree = (0, 0)  # boxes, lines in the tree
 
     # -- what is there -------------------------------------------------------------
     @property
@@ -203,6 +218,7 @@ class LabelIndex:
         """Record a placed box."""
         idx = len(self._boxes)
         self._boxes.append(box)
+        self._mark_geoms.append(_polygon(box))
         for key in self._cells(box.xmin, box.ymin, box.xmax, box.ymax):
             self._grid.setdefault(key, []).append(idx)
 
@@ -210,6 +226,7 @@ class LabelIndex:
         """Record one of our own lines (a leader) that later boxes must not cross."""
         idx = len(self._own_lines)
         self._own_lines.append(line)
+        self._mark_geoms.append(line)
         for key in self._cells(*line.bounds):
             self._line_grid.setdefault(key, []).append(idx)
 
@@ -226,23 +243,27 @@ class LabelIndex:
                 return True
         return False
 
-    def free_of_marks(self, box: Box) -> bool:
-        """True when ``box`` overlaps none of our placed boxes and crosses none of our lines."""
-        seen: set[int] = set()
+    def free_of_marks(self, box: Box, *, since_tree: bool = False) -> bool:
+        """True when ``box`` overlaps none of our placed boxes and crosses none of our lines
+        (with ``since_tree``, only those added since the marks' tree was built)."""
+        first_box, first_line = self._in_tree if since_tree else (0, 0)
         cells = list(self._cells(box.xmin, box.ymin, box.xmax, box.ymax))
+        seen: set[int] = set()
         for key in cells:
             for idx in self._grid.get(key, ()):
-                if idx not in seen:
+                if idx >= first_box and idx not in seen:
                     seen.add(idx)
                     if boxes_overlap(box, self._boxes[idx], self._eps):
                         return False
-        if not self._line_grid:
-            return True
+        return self._free_of_own_lines(box, cells, first_line)
+
+    def _free_of_own_lines(self, box: Box, cells: list[tuple[int, int]], first: int) -> bool:
+        """True when ``box`` crosses none of our lines from number ``first`` on."""
         poly = None
-        seen.clear()
+        seen: set[int] = set()
         for key in cells:
             for idx in self._line_grid.get(key, ()):
-                if idx in seen:
+                if idx < first or idx in seen:
                     continue
                 seen.add(idx)
                 line = self._own_lines[idx]
@@ -297,12 +318,9 @@ class LabelIndex:
         if fixed and self._fixed_tree is not None:
             rest = np.flatnonzero(ok)
             if len(rest):
+                # exact for two rectangles (a shared edge counts as a hit: on the safe side)
                 hit = self._fixed_tree.query(polys[rest], predicate="intersects")
-                for i, j in zip(hit[0], hit[1], strict=True):
-                    k = rest[i]
-                    if ok[k] and boxes_overlap(_as_box(boxes, int(k)), self._fixed[int(j)],
-                                               self._eps):
-                        ok[k] = False
+                ok[rest[hit[0]]] = False
         return ok
 
     def leader_free(self, a: Sequence[float], b: Sequence[float], *, shorten_a: float,
@@ -339,8 +357,28 @@ class LabelIndex:
         if len(boxes) == 0:
             return None
         ok = self.static_free(boxes, lines=lines, fixed=fixed)
-        for i in np.flatnonzero(ok):
+        rest = np.flatnonzero(ok)
+        if len(rest) == 0:
+            return None
+        tree = self._marks_tree()
+        if tree is not None:
+            hit = tree.query(box_polygons(boxes[rest] if isinstance(boxes, np.ndarray)
+                                          else [boxes[int(i)] for i in rest]),
+                             predicate="intersects")
+            keep = np.ones(len(rest), dtype=bool)
+            keep[hit[0]] = False
+            rest = rest[keep]
+        for i in rest:
             i = int(i)
-            if self.free_of_marks(_as_box(boxes, i)) and (accept is None or accept(i)):
+            if (self.free_of_marks(_as_box(boxes, i), since_tree=True)
+                    and (accept is None or accept(i))):
                 return i
         return None
+
+    def _marks_tree(self) -> shapely.STRtree | None:
+        """The tree of our marks, rebuilt when :data:`REBUILD_AFTER` were added since."""
+        n_box, n_line = self._in_tree
+        if len(self._boxes) + len(self._own_lines) - n_box - n_line >= REBUILD_AFTER:
+            self._mark_tree = shapely.STRtree(self._mark_geoms) if self._mark_geoms else None
+            self._in_tree = (len(self._boxes), len(self._own_lines))
+        return self._mark_tree

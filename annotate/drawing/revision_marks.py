@@ -59,8 +59,8 @@ def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput)
         lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
         bw, bh = w.block_box(lines)
         place = place_near(index, (x, y, z), bw, bh, w.height).place
-        written = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
-        draw_leader(w, place, written, Mark("fill", "fill-leader", fill.segment_id))
+        entities = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
+        draw_leader(w, place, entities, Mark("fill", "fill-leader", fill.segment_id))
         written += 1
     return written
 

@@ -95,6 +95,19 @@ def _read_input(src: Path) -> Any:
         ) from exc
 
 
+def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
+                 config: AnnotateConfig, progress: ProgressHook | None) -> tuple[Any, ...]:
+    """Every mark but the schedule, the least free first: cable labels (strict rule), group
+    tags (big blocks), segment ids (bound to their segment), fill notes, device and error
+    notes (free to go further out with their leader)."""
+    labels, _, unlabelled = place_cable_labels(w, index, marks, progress)
+    group_tags = place_group_tags(w, index, marks)[0] if config.group_tags else 0
+    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
+    fill_notes = place_fill_marks(w, index, marks)
+    device_notes, error_notes, _ = place_equipment_notes(w, index, marks)
+    return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
+
+
 def write_annotated_dxf(
     input_path: str | os.PathLike[str],
     output_path: str | os.PathLike[str],
@@ -170,21 +183,14 @@ def write_annotated_dxf(
     )
     log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
 
-    labels, overlapping, unlabelled = place_cable_labels(w, index, marks, progress)
-    group_tags = 0
-    if config.group_tags:
-        group_tags, extra = place_group_tags(w, index, marks)
-        overlapping += extra
-    device_notes, error_notes, extra = place_equipment_notes(w, index, marks)
-    overlapping += extra
-    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
-    fill_notes = place_fill_marks(w, index, marks)
+    labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = (
+        _place_marks(w, index, marks, config, progress))
     stats = index.stats
     if stats.fallbacks:
         log.warning(
-            "%s: %d marks found no spot clear of everything: %d cross a line of the drawing, "
-            "%d overlap another text (last resort)", dst, stats.fallbacks,
-            stats.crossing_linework, stats.overlapping,
+            "%s: %d marks found no spot clear of everything within reach: %d cross a line of "
+            "the drawing, %d sit further out, %d overlap another text (last resort)", dst.name,
+            stats.fallbacks, stats.crossing_linework, stats.beyond_reach, stats.overlapping,
         )
 
     # everything placed so far widens the extents the schedule sits beside
