@@ -169,7 +169,8 @@ def _spot(rows: np.ndarray, i: int) -> Spot:
 
 
 def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: bool = True,
-         leader_lines: bool | None = True, leader_from_symbol: bool = False) -> Spot | None:
+         leader_lines: bool | None = True, leader_from_symbol: bool = False,
+         fixed: bool = True) -> Spot | None:
     """The first spot clear of everything; with ``leader_lines`` not None, its leader
     (from the anchor to the box) clear too (of lines as well when True)."""
     if len(spots) == 0:
@@ -186,7 +187,7 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
             return index.leader_free(sp.anchor, near, shorten_a=start, lines=leader_lines,
                                      from_symbol=leader_from_symbol)
 
-    i = index.first_free(spots, lines=lines, accept=accept)
+    i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept)
     return None if i is None else _spot(spots, i)
 
 
@@ -390,6 +391,8 @@ def place_near(index: LabelIndex, at: Sequence[float], width: float, height: flo
     spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True)
     if spot is not None:
         return _record(index, spot, h, leader=True, how="crossing")
-    # overlapping the drawing's own text or symbols rather than another mark of ours
-    i = index.first_free(spots, lines=False, fixed=False)
-    return _record(index, _spot(spots, 0 if i is None else i), h, leader=True, how="overlapping")
+    # overlapping the drawing's own text or symbols rather than another mark of ours, its
+    # leader crossing none of our marks
+    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True,
+                fixed=False)
+    return _record(index, spot or _spot(spots, 0), h, leader=True, how="overlapping")
