@@ -361,6 +361,10 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
                             revision=config.revision,
                             fill_marks=fill_marks(takeoff.segments) if takeoff is not None else ())
     summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document)
+    # how the marks were placed, the last resorts counted (issue 12: never silent)
+    extras = {**extras, "drawing_marks": {"text_height": summary.text_height,
+                                          "segment_ids": summary.segment_ids,
+                                          **summary.placement}}
     write_schedule_csv(stage / names["csv"], job.outcomes)
     write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
     write_schedule_json(stage / names["json"], job.outcomes, extras)

@@ -10,11 +10,13 @@ route and the leaders tying labels to routes.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 import ezdxf
 from ezdxf import disassemble
+from ezdxf.tools import text_size
 from shapely import STRtree
 from shapely.geometry import LineString, Polygon
 
@@ -31,7 +33,29 @@ def _ours(entity) -> tuple[str, str] | None:
     return (tags[0], tags[1] if len(tags) > 1 else "")
 
 
+def _mtext_polygon(entity):
+    """An MTEXT's box from ezdxf's own measure of it (``ezdxf.tools.text_size.mtext_size``),
+    placed by its attachment point and rotation.  (ezdxf's ``make_primitive`` box of an
+    MTEXT with column width 0, "no wrapping" in the DXF reference, wraps at every word.)"""
+    size = text_size.mtext_size(entity)
+    w, h = size.total_width, size.total_height
+    if not (w > 0 and h > 0):
+        return None
+    ap = int(entity.dxf.get("attachment_point", 1))
+    col, row = (ap - 1) % 3, (ap - 1) // 3
+    x0 = -w * col / 2.0
+    y1 = h * row / 2.0
+    a = math.radians(entity.get_rotation())
+    c, s = math.cos(a), math.sin(a)
+    ins = entity.dxf.insert
+    pts = [(x, y) for x in (x0, x0 + w) for y in (y1 - h, y1)]
+    pts = [pts[0], pts[2], pts[3], pts[1]]
+    return Polygon([(ins[0] + c * x - s * y, ins[1] + s * x + c * y) for x, y in pts])
+
+
 def _polygon(entity):
+    if entity.dxftype() == "MTEXT":
+        return _mtext_polygon(entity)
     prim = disassemble.make_primitive(entity)
     pts = [(v.x, v.y) for v in prim.vertices()]
     if len(pts) < 3:
@@ -61,15 +85,27 @@ class Audit:
     labels_off_route: list[tuple[str, float]] = field(default_factory=list)
     leaders: list[tuple[str, float]] = field(default_factory=list)
     text_height: float = 0.0
+    segment_ids: int = 0
+    segment_ids_off: list[tuple[str, float]] = field(default_factory=list)
+    #: leader kind -> (count, longest) [drawing units]
+    leader_kinds: dict[str, tuple[int, float]] = field(default_factory=dict)
+
+    def longest(self, kind: str) -> float:
+        """Longest leader of ``kind`` (``label-leader``, ``group-leader``...) [drawing units]."""
+        return self.leader_kinds.get(kind, (0, 0.0))[1]
 
     def summary(self) -> str:
         far = max((d for _, d in self.labels_off_route), default=0.0)
         longest = max((d for _, d in self.leaders), default=0.0)
         h = self.text_height or 1.0
+        kinds = ", ".join(f"{k} {n} (longest {d / h:.1f} h)"
+                          for k, (n, d) in sorted(self.leader_kinds.items()))
         return (f"{self.texts} added texts, {len(self.crossing_linework)} crossing linework, "
                 f"{len(self.overlapping_text)} overlapping text; {self.labels} cable labels, "
                 f"{len(self.labels_off_route)} off their route without a leader "
-                f"(farthest {far / h:.1f} h); {len(self.leaders)} leaders, longest {longest / h:.1f} h")
+                f"(farthest {far / h:.1f} h); {self.segment_ids} segment ids, "
+                f"{len(self.segment_ids_off)} off their segment; "
+                f"{len(self.leaders)} leaders, longest {longest / h:.1f} h: {kinds}")
 
 
 def _collect(doc):
@@ -79,6 +115,8 @@ def _collect(doc):
         mark = _ours(entity)
         kind = entity.dxftype()
         if kind in TEXT_TYPES:
+            if kind == "ATTRIB" and entity.is_invisible:
+                continue  # attribute flag 1, invisible: not drawn (DXF reference, ATTRIB group 70)
             poly = _polygon(entity)
             if poly is not None and mark is None:
                 theirs_text.append(poly)
@@ -91,11 +129,13 @@ def _collect(doc):
     return ours_text, ours_lines, theirs_text, theirs_lines
 
 
-def audit(path, routes: Mapping[str, object], *, ignore_kinds=("schedule-cell", "schedule-title",
-                                                               "schedule-note")) -> Audit:
+def audit(path, routes: Mapping[str, object], *, segments: Mapping[str, object] | None = None,
+          ignore_kinds=("schedule-cell", "schedule-title", "schedule-note")) -> Audit:
     """Audit the annotated drawing at ``path``; ``routes`` maps circuit id -> its route line
-    (drawing units).  The schedule table's own cells sit inside our table rules and are
-    checked only against the drawing, not against the rules that frame them."""
+    (drawing units), ``segments`` segment id -> its line (segment ids are checked against
+    their segment as labels against their route).  The schedule table's own cells sit
+    inside our table rules and are checked only against the drawing, not against the rules
+    that frame them."""
     ours_text, ours_lines, theirs_text, theirs_lines = _collect(ezdxf.readfile(path))
     out = Audit()
     heights = [e.dxf.height for k, _, _, e in ours_text if k == "cable-label"]
@@ -123,16 +163,22 @@ def audit(path, routes: Mapping[str, object], *, ignore_kinds=("schedule-cell", 
             out.overlapping_text.append(name)
         if kind == "cable-label":
             out.labels += 1
-            _check_on_route(out, ref, poly, routes.get(ref), leaders, h, touch)
+            if not _on_route(ref, poly, routes.get(ref), leaders, "label-leader", h, touch):
+                out.labels_off_route.append((ref, poly.distance(routes[ref])))
+        elif kind == "segment-id" and segments is not None:
+            out.segment_ids += 1
+            if not _on_route(ref, poly, segments.get(ref), leaders, "segment-leader", h, touch):
+                out.segment_ids_off.append((ref, poly.distance(segments[ref])))
     out.leaders = [(m[1], g.length) for m, g in leaders]
+    for m, g in leaders:
+        n, d = out.leader_kinds.get(m[0], (0, 0.0))
+        out.leader_kinds[m[0]] = (n + 1, max(d, g.length))
     return out
 
 
-def _check_on_route(out: Audit, ref: str, poly, route, leaders, h: float, touch: float) -> None:
-    """A cable label within 1 text height of its route, or tied to it by one of its leaders."""
+def _on_route(ref: str, poly, route, leaders, leader_kind: str, h: float, touch: float) -> bool:
+    """A mark within 1 text height of its route, or tied to it by one of its leaders."""
     if route is None or poly.distance(route) <= h:
-        return
-    tied = [g for m, g in leaders if m[1] == ref and g.distance(poly) <= touch
-            and g.distance(route) <= touch]
-    if not tied:
-        out.labels_off_route.append((ref, poly.distance(route)))
+        return True
+    return any(m[0] == leader_kind and m[1] == ref and g.distance(poly) <= touch
+               and g.distance(route) <= touch for m, g in leaders)

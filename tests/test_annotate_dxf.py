@@ -128,14 +128,16 @@ def test_labels_lie_near_their_route_and_read_upright(tmp_path):
 
 
 def test_no_two_marks_overlap(tmp_path):
-    _, out, _ = _annotate(tmp_path)
+    _, out, summary = _annotate(tmp_path)
     doc = ezdxf.readfile(out)
     marks = [
         e
         for e in doc.modelspace().query("TEXT MTEXT")
         if e.dxf.layer in {"CW-CABLE-LABEL", "CW-GROUP-TAG", "CW-DEVICE-NOTE"}
     ]
-    assert len(marks) == 2 + 1 + 2  # labels, one shared segment (S1), two loads
+    # labels, one shared segment (S1), two loads, and each segment's id (issue 12)
+    assert summary.segment_ids == len(segments())
+    assert len(marks) == 2 + 1 + 2 + len(segments())
     polys = [_outline(e) for e in marks]
     assert _overlapping_pairs(polys, 1e-6) == []
 
@@ -280,7 +282,8 @@ def test_crowded_trays_labels_never_overlap(tmp_path):
         for e in back.modelspace().query("TEXT MTEXT")
         if e.dxf.layer in {"CW-CABLE-LABEL", "CW-GROUP-TAG"}
     ]
-    assert len(marks) == 240 + 6
+    assert summary.segment_ids == len(segs)  # each tray's id once (issue 12)
+    assert len(marks) == 240 + 6 + len(segs)
     polys = [_outline(e) for e in marks]
     assert _overlapping_pairs(polys, 1e-9 * summary.text_height**2) == []
 

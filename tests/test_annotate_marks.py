@@ -11,12 +11,13 @@ from __future__ import annotations
 
 import importlib.util
 import json
+import sys
 from pathlib import Path
 
 import ezdxf
 import pytest
 from drawing_audit import audit
-from shapely.geometry import LineString
+from shapely.geometry import LineString, MultiLineString
 
 from cablewright.cli import main
 
@@ -36,16 +37,12 @@ def _generator():
 def runs(tmp_path_factory):
     gen = _generator()
     base = tmp_path_factory.mktemp("marks")
-    # the drawing's linework kept clear of labels (an option: slow on large drawings)
-    config = base / "linework.toml"
-    config.write_text("[annotate]\navoid_linework = true\n", encoding="utf-8")
     out = {}
     for rev in (1, 2):
         src = base / f"rev{rev}"
         gen.main(src, rev)
         code = main(["size", str(src / "pumping_station.dxf"), "--circuits",
-                     str(src / "pumping_station_circuits.csv"), "--out", str(base / f"out{rev}"), "--json",
-                     "--config", str(config)]
+                     str(src / "pumping_station_circuits.csv"), "--out", str(base / f"out{rev}"), "--json"]
                     + (["--previous", str(base / "out1")] if rev == 2 else []))
         assert code in (0, 1)
         out[rev] = (src, base / f"out{rev}")
@@ -63,17 +60,49 @@ def _marks(dxf, kind):
     return doc, out
 
 
-def _routes(out_dir, k=1000.0):
-    """Each circuit's route line from schedule.json (segments' points, in drawing mm)."""
+def _segments(out_dir, k=1000.0):
+    """Each segment's line from schedule.json (points in m -> drawing mm)."""
     data = json.loads((out_dir / "schedule.json").read_text())
-    seg = {s["id"]: s["points_m"] for s in data.get("segments", [])}
+    return {s["id"]: LineString([(p[0] * k, p[1] * k) for p in s["points_m"]])
+            for s in data.get("segments", []) if len(s["points_m"]) >= 2}
+
+
+def _routes(out_dir, k=1000.0):
+    """Each circuit's route from schedule.json: its segments' lines (drawing mm), as one
+    geometry (no line is made up between segments that do not meet end to end)."""
+    data = json.loads((out_dir / "schedule.json").read_text())
+    seg = _segments(out_dir, k)
     routes = {}
     for c in data["circuits"]:
-        ids = (c.get("route") or {}).get("segments") or []
-        pts = [(p[0] * k, p[1] * k) for sid in ids for p in seg.get(sid, [])]
-        if len(pts) >= 2:
-            routes[c["id"]] = LineString(pts)
+        lines = [seg[sid] for sid in ((c.get("route") or {}).get("segments") or []) if sid in seg]
+        if lines:
+            routes[c["id"]] = MultiLineString(lines)
     return routes
+
+
+def _audit(out_dir, dxf_name):
+    return audit(out_dir / dxf_name, _routes(out_dir), segments=_segments(out_dir))
+
+
+def _reported(out_dir):
+    """How the writer says it placed the marks (schedule.json ``drawing_marks``)."""
+    return json.loads((out_dir / "schedule.json").read_text())["drawing_marks"]
+
+
+def check_accounted(result, reported) -> None:
+    """Every crossing and overlap the audit (ezdxf + shapely) finds is one the writer
+    counted as a last resort: a mark placed over a line is one crossing text; a mark
+    placed overlapping makes at most two overlapping texts (itself and the one under
+    it) and may also cross a line; nothing is silent.  Cable labels keep the rule:
+    leaders of at most 5 text heights (issue 12)."""
+    crossing = reported["fallback_crossing_linework"]
+    overlapping = reported["fallback_overlapping"]
+    assert len(result.crossing_linework) <= crossing + overlapping, (result.summary(), reported)
+    assert len(result.overlapping_text) <= 2 * overlapping + reported["fallback_beyond_reach"], (
+        result.summary(), reported)
+    assert len(result.labels_off_route) <= crossing + overlapping, (result.summary(), reported)
+    assert result.longest("label-leader") <= 5.0 * result.text_height + 1e-6, result.summary()
+    assert result.longest("segment-leader") <= 5.0 * result.text_height + 1e-6, result.summary()
 
 
 def test_revision_marks_exactly_the_changed_circuits(runs):
@@ -138,9 +167,10 @@ def test_colours_chosen_from_a_drawing_with_other_layer_colours(runs, tmp_path):
                  "--out", str(out), "--json"])
     assert code in (0, 1)
     _check_colours(out / "recoloured_annotated.dxf")
-    result = audit(out / "recoloured_annotated.dxf", _routes(out))
-    print("recoloured:", result.summary())
+    result = _audit(out, "recoloured_annotated.dxf")
+    print("recoloured:", result.summary(), _reported(out))
     assert result.labels >= 19
+    check_accounted(result, _reported(out))
 
 
 def test_demo_labels_carry_what_the_installer_needs(runs):
@@ -163,24 +193,39 @@ def test_demo_labels_carry_what_the_installer_needs(runs):
 
 
 def test_demo_audit_counts(runs):
-    """Counts of the audit printed (before this work: 27 of 56 added texts crossing
-    linework, 7 of 19 labels off their route with nothing tying them, leaders to 32.7 h)."""
+    """Counts of the audit printed (before issue 12's placement: 27 of 56 added texts
+    crossing linework, 25 overlapping, 7 of 19 labels off their route); every crossing and
+    overlap left is one the writer counted and reported in schedule.json."""
     out1 = runs[1][1]
-    result = audit(out1 / "pumping_station_annotated.dxf", _routes(out1))
-    print("demo:", result.summary())
+    result = _audit(out1, "pumping_station_annotated.dxf")
+    reported = _reported(out1)
+    print("demo:", result.summary(), reported)
     assert result.labels == 19
-    assert len(result.labels_off_route) < 7
-    assert len(result.crossing_linework) < 27
+    # every segment with a plan length named once (a vertical riser has none to write along)
+    assert result.segment_ids >= sum(1 for g in _segments(out1).values() if g.length > 0)
+    assert len(result.crossing_linework) < 27 and len(result.overlapping_text) < 25
+    check_accounted(result, reported)
 
 
-@pytest.mark.xfail(strict=True, reason="issue 12 not yet met on the demo: group tags and "
-                   "device notes still cross walls/routes and overlap text at the demo's 1:200 lettering")
+def test_demo_cable_labels_keep_the_rule(runs):
+    """Issue 12: every cable label along its own route within 1 text height, or tied to it
+    by a leader of at most 5 text heights, and crossing none of the drawing's lines."""
+    out1 = runs[1][1]
+    result = _audit(out1, "pumping_station_annotated.dxf")
+    assert result.labels_off_route == []
+    assert not [n for n in result.crossing_linework if n.startswith("cable-label ")]
+    assert result.longest("label-leader") <= 5.0 * result.text_height
+
+
+@pytest.mark.xfail(strict=True, reason="issue 12 not yet met on the demo at its 1:200 lettering: "
+                   "a few device notes and the two segment ids of the switchroom tray (both sides "
+                   "taken by labels) find no spot clear of everything; counted as last resorts")
 def test_demo_no_text_crosses_linework_or_text(runs):
     out1 = runs[1][1]
-    result = audit(out1 / "pumping_station_annotated.dxf", _routes(out1))
+    result = _audit(out1, "pumping_station_annotated.dxf")
     assert result.crossing_linework == [] and result.overlapping_text == []
-    assert result.labels_off_route == []
-    assert max(d for _, d in result.leaders) <= 5.0 * result.text_height
+    assert result.labels_off_route == [] and result.segment_ids_off == []
+    assert max(d for _, d in result.leaders) <= 10.0 * result.text_height
 
 
 def test_schedule_on_the_drawing_gives_the_length_to_order(runs):
@@ -203,3 +248,35 @@ def test_schedule_on_the_drawing_gives_the_length_to_order(runs):
     assert float(order[ids.index("F-MCC1")]) == pytest.approx(2 * 16.34, abs=0.06)
     joined = "\n".join(texts)
     assert "DRAWING REVISION" in joined and "cablewright" in joined and "CAUTION" in joined
+
+
+@pytest.fixture(scope="module")
+def plant(tmp_path_factory):
+    """A 200-circuit benchmark plant (benchmarks/generate_plant.py, invented data), sized
+    with the defaults; the 2,000-circuit plant is run by benchmarks/bench_marks.py (its
+    counts in benchmarks/RESULTS.md), too slow for the suite."""
+    spec = importlib.util.spec_from_file_location("gen_plant_marks",
+                                                  ROOT / "benchmarks" / "generate_plant.py")
+    gen = importlib.util.module_from_spec(spec)
+    sys.modules[spec.name] = gen  # its dataclasses look their module up
+    spec.loader.exec_module(gen)
+    base = tmp_path_factory.mktemp("plant")
+    files = gen.generate_plant(base / "in", circuits=200)
+    out = base / "out"
+    code = main(["size", str(files.dxf_path), "--circuits", str(files.csv_path), "--out", str(out),
+                 "--json"])
+    assert code in (0, 1)
+    return out, Path(files.dxf_path).stem + "_annotated.dxf"
+
+
+def test_plant_marks_are_accounted_for(plant):
+    """On the 200-circuit plant every cable label and segment id is written, and every
+    crossing or overlap the audit finds is a last resort the writer counted (printed)."""
+    out, name = plant
+    result = _audit(out, name)
+    reported = _reported(out)
+    print("plant 200:", result.summary(), reported)
+    assert result.labels == 200
+    # every segment with a plan length named once (a vertical riser has none to write along)
+    assert result.segment_ids >= sum(1 for g in _segments(out).values() if g.length > 0)
+    check_accounted(result, reported)

@@ -8,7 +8,8 @@ from collections.abc import Mapping
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
-from .placement import place_near_point
+from .label_spots import place_near
+from .leaders import draw_leader
 from .stretches import scaled
 from .text import rating_text
 
@@ -56,10 +57,11 @@ def _notes_at_equipment(
             continue
         x, y, z = scaled([eq.position_m], k)[0]
         bw, bh = w.block_box(lines)
-        place = place_near_point(index, x, y, z, bw, bh)
+        spot = place_near(index, (x, y, z), bw, bh, w.height)
+        place = spot.place
         overlaps += place.overlaps
-        w.block(lines, place, Mark(role, f"{kind}-note", tag))
-        index.add_line(w.leader(place, z, Mark(role, f"{kind}-leader", tag)))
+        written = w.block(lines, place, Mark(role, f"{kind}-note", tag))
+        draw_leader(w, place, written, Mark(role, f"{kind}-leader", tag))
         placed += 1
     return placed, overlaps
 

@@ -6,18 +6,21 @@ from collections import defaultdict
 from collections.abc import Mapping, Sequence
 from typing import Any
 
-from shapely.geometry import Point
-
 from ..model import CircuitOutcome
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .label_spots import place_on_route
+from .leaders import draw_leader
 from .stretches import rank_stretches, scaled, straight_stretches
-from .style import GROUP_LEADER_AFTER_H
 from .text import clean
 
-__all__ = ["group_runs", "group_tag_lines", "segment_cables", "place_group_tags"]
+#: Farthest a group tag's box may sit from its run [text heights]: a tag is a block of
+#: several lines, so it gets twice a label's reach (:data:`.label_spots.MAX_LEADER_H`),
+#: still near enough to read as the run's (our own choice).
+GROUP_MAX_LEADER_H = 10.0
+
+__all__ = ["GROUP_MAX_LEADER_H", "group_runs", "group_tag_lines", "segment_cables", "place_group_tags"]
 
 
 def group_runs(
@@ -221,13 +224,12 @@ def place_group_tags(
         if not stretches:
             continue
         bw, bh = w.block_box(lines)
-        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h)
+        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
+                              max_leader_h=GROUP_MAX_LEADER_H)
         place = spot.place
         overlapping += place.overlaps
-        w.block(lines, place, Mark("group", "group-tag", ",".join(run)))
-        if place.polygon.distance(Point(place.anchor)) > GROUP_LEADER_AFTER_H * h:
-            leader = w.leader(place, place.z, Mark("group", "group-leader", run[0]))
-            if spot.leader is None:
-                index.add_line(leader)
+        written = w.block(lines, place, Mark("group", "group-tag", ",".join(run)))
+        if spot.leader is not None:
+            draw_leader(w, place, written, Mark("group", "group-leader", run[0]))
         group_tags += 1
     return group_tags, overlapping

@@ -1,187 +1,398 @@
-"""A cable label on its own route: beside a straight stretch, else tied to it by a short leader.
+"""A mark on its own route: beside a straight stretch, else tied to it by a short leader.
 
-The rule (issue 12): a label sits along a straight stretch of the circuit's own
-route, within one text height of it, crossing none of the drawing's linework,
-text, symbols or our other marks.  Where no such spot is free, the label goes a
-little further out and a leader of at most :data:`MAX_LEADER_H` text heights ties it
-to the route.  Only when neither exists is it put beside its best stretch and
-flagged as overlapping.
+The rule (issue 12): a cable label sits along a straight stretch of the circuit's own
+route, within one text height of it, crossing none of the drawing's linework, text,
+symbols or our other marks.  Where no such spot is free, it goes further out (the
+box edge at most :data:`MAX_LEADER_H` text heights from the route) and a leader ties it
+to the route.  Group tags and segment ids are placed the same way on their stretches.
+
+The search, tier by tier; within a tier every spot of one stretch is built at once and
+tested against the drawing's fixed obstacles in one bulk query (:mod:`.mark_index`):
+
+1. beside: along each stretch (best first), both sides, at :data:`BESIDE_GAPS_H`;
+2. leader: further out, at :data:`LEADER_GAPS_H`, the leader clear of every text,
+   symbol, mark and line; then the same with the leader allowed over a line;
+3. rings: a horizontal spot around points of each stretch, box edge within the bound;
+4. last resorts, counted in ``index.stats`` and reported: a spot clear of every text
+   and mark but crossing a line; else beside the best stretch, overlapping.
 """
 
 from __future__ import annotations
 
+import logging
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
-from shapely.geometry import LineString, Point
-from shapely.ops import nearest_points
+import numpy as np
+from shapely.geometry import LineString
 
-from .boxes import Box, LabelIndex, _box, _polygon
-from .placement import DEFAULT_LIMITS, Placement, _along_offsets, _Search
-from .stretches import Stretch
+from .boxes import Box, _polygon
+from .mark_index import LabelIndex, row_box
+from .placement import Placement, readable_angle_deg
+from .stretches import Point2, Stretch
 
-__all__ = ["MAX_LEADER_H", "RouteSpot", "place_on_route"]
+__all__ = ["MAX_LEADER_H", "BESIDE_GAPS_H", "LEADER_GAPS_H", "RouteSpot", "Spot",
+           "place_on_route", "place_near", "stretch_spots", "ring_spots", "pick"]
+
+log = logging.getLogger(__name__)
 
 #: Longest leader from a label to its route, in text heights: beyond about five the
 #: reader can no longer see at a glance which line the label belongs to (issue 12:
 #: "at most ~5 text heights"; our own choice of the exact figure).
 MAX_LEADER_H = 5.0
-#: Stretches of the own route tried: every straight stretch of a typical route
-#: (a route of more than 12 stretches is tried on its 12 best, see ``rank_stretches``).
-MAX_STRETCHES = 12
-#: Positions tried along a stretch either way from its middle, a quarter label apart.
-ALONG_STEPS = 12
-#: Spots tested per label before the fallback; bounds the time per label on a
-#: crowded plant.
-BUDGET = 600
+#: Gaps between the route line and the box edge tried beside a stretch [text heights].
+#: A label box has 0.35 h clear above the cap line and 0.07 h below the descender
+#: (ezdxf's text box in a 1.7 h box), so with a gap of at most 0.6 h the text itself is
+#: within 1 h of the route on either side: 0.25 h first (reads as belonging to the
+#: line without touching it), then 0.05 h and 0.55 h to step round a neighbour.
+BESIDE_GAPS_H = (0.25, 0.05, 0.55)
+#: Gaps tried further out, with a leader [text heights]: half-height steps up to
+#: 4.5 h, so the leader to the text stays within :data:`MAX_LEADER_H`.
+LEADER_GAPS_H = (0.9, 1.4, 1.9, 2.4, 2.9, 3.4, 3.9, 4.5)
+#: Stretches of the own route tried (a route of more has its best ones tried).
+MAX_STRETCHES = 24
+#: Positions along one stretch at most, spread evenly from its middle outwards.
+MAX_ALONG = 24
+#: Share of a box's width that may hang over a stretch's end (a third: two thirds of the
+#: label still run beside the line it belongs to).
+OVERHANG = 0.3
+#: Columns of a candidate array: box (centre, unit x axis, half sizes), anchor, gap, z.
+COLUMNS = ("cx", "cy", "ux", "uy", "hw", "hh", "ax", "ay", "gap", "z")
+#: A leader starts this far off the route (it leaves the route line there) [text heights].
+LEADER_START_H = 0.05
+
+
+@dataclass(frozen=True)
+class Spot:
+    """One candidate: the box, the point on the route it refers to, its gap from it."""
+
+    box: Box
+    anchor: Point2
+    gap: float
+    z: float
 
 
 @dataclass(frozen=True)
 class RouteSpot:
-    """Where the label went and whether it needs a leader (from ``anchor`` to the box)."""
+    """Where the mark went and whether it needs a leader (from ``anchor`` to the box)."""
 
     place: Placement
     leader: LineString | None
 
 
-def _leader(place: Placement) -> LineString:
-    _, near = nearest_points(Point(place.anchor), place.polygon.exterior)
-    return LineString([place.anchor, (near.x, near.y)])
+def _along(length: float, width: float, height: float) -> list[float]:
+    """Centre positions from the stretch middle outwards.
+
+    The box stays beside the stretch; at the ends it may hang over by up to
+    :data:`OVERHANG` of its width (past a free end of the route, or a label longer
+    than a short stretch), so it still lies along the stretch over most of its length.
+    """
+    reach = abs(length - width) / 2.0 + OVERHANG * width
+    step = max(height, 2.0 * reach / MAX_ALONG)
+    out = [0.0]
+    k = 1
+    while k * step <= reach + 1e-9:
+        out += [k * step, -k * step]
+        k += 1
+    if out[-1] < reach - 1e-9:  # the two ends, so a label reaches a free end of the stretch
+        out += [reach, -reach]
+    return out
 
 
-def _leader_free(index: LabelIndex, place: Placement, box: Box) -> bool:
-    """True when the leader from the route to ``box`` crosses no placed or fixed box."""
-    poly = _polygon(box)
-    _, near = nearest_points(Point(place.anchor), poly.exterior)
-    ax, ay = place.anchor
-    length = math.hypot(near.x - ax, near.y - ay)
-    if length <= 0.0:
-        return True
-    angle = math.degrees(math.atan2(near.y - ay, near.x - ax))
-    # the leader as a thin box, a hair short of both ends (it touches the box and the route)
-    thin = _box((ax + near.x) / 2.0, (ay + near.y) / 2.0, 0.9 * length, 1e-6 * length, angle)
-    return index._box_free(thin)
+def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]) -> np.ndarray:
+    """Boxes along ``s`` on both sides at each gap (drawing units), best first: gap by gap,
+    from the middle outwards, the side above the text first.
+
+    Returns an array of rows ``cx, cy, ux, uy, hw, hh, ax, ay, gap, z`` (:data:`COLUMNS`).
+    """
+    dx, dy = s.end[0] - s.start[0], s.end[1] - s.start[1]
+    n = math.hypot(dx, dy)
+    if n <= 0.0 or not gaps:
+        return np.empty((0, len(COLUMNS)))
+    ux, uy = dx / n, dy / n
+    a = math.radians(readable_angle_deg(dx, dy))
+    vx, vy = -math.sin(a), math.cos(a)
+    mx, my = (s.start[0] + s.end[0]) / 2.0, (s.start[1] + s.end[1]) / 2.0
+    t = np.asarray(_along(n, width, height))
+    g = np.asarray(gaps, dtype=float)
+    off = (height / 2.0 + g)[:, None, None] * np.array([1.0, -1.0])[None, None, :]  # (G, 1, 2)
+    px = (mx + ux * t)[None, :, None]
+    py = (my + uy * t)[None, :, None]
+    shape = (len(g), len(t), 2)
+    rows = np.empty(shape + (len(COLUMNS),))
+    rows[..., 0] = px + vx * off
+    rows[..., 1] = py + vy * off
+    rows[..., 2] = math.cos(a)
+    rows[..., 3] = math.sin(a)
+    rows[..., 4] = width / 2.0
+    rows[..., 5] = height / 2.0
+    rows[..., 6] = np.broadcast_to(px, shape)
+    rows[..., 7] = np.broadcast_to(py, shape)
+    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
+    rows[..., 9] = s.z
+    return rows.reshape(-1, len(COLUMNS))
+
+
+def ring_spots(points: Sequence[tuple[float, float, float]], width: float, height: float,
+               gaps: Sequence[float], directions: int = 16) -> np.ndarray:
+    """Horizontal boxes round each point, the nearest box edge ``gap`` from it, ring by ring
+    (rows as :func:`stretch_spots`)."""
+    if not points or not gaps:
+        return np.empty((0, len(COLUMNS)))
+    ang = 2.0 * np.pi * np.arange(directions) / directions
+    c, sn = np.cos(ang), np.sin(ang)
+    with np.errstate(divide="ignore"):
+        reach = np.minimum(np.where(np.abs(c) > 1e-9, width / 2.0 / np.abs(c), np.inf),
+                           np.where(np.abs(sn) > 1e-9, height / 2.0 / np.abs(sn), np.inf))
+    pts = np.asarray(points, dtype=float)  # (P, 3)
+    g = np.asarray(gaps, dtype=float)
+    d = g[:, None, None] + reach[None, None, :]  # (G, 1, D)
+    shape = (len(g), len(pts), directions)
+    rows = np.empty(shape + (len(COLUMNS),))
+    rows[..., 0] = pts[None, :, 0, None] + c * d
+    rows[..., 1] = pts[None, :, 1, None] + sn * d
+    rows[..., 2] = 1.0
+    rows[..., 3] = 0.0
+    rows[..., 4] = width / 2.0
+    rows[..., 5] = height / 2.0
+    rows[..., 6] = np.broadcast_to(pts[None, :, 0, None], shape)
+    rows[..., 7] = np.broadcast_to(pts[None, :, 1, None], shape)
+    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
+    rows[..., 9] = np.broadcast_to(pts[None, :, 2, None], shape)
+    return rows.reshape(-1, len(COLUMNS))
+
+
+def _spot(rows: np.ndarray, i: int) -> Spot:
+    r = rows[i]
+    return Spot(row_box(rows, i), (float(r[6]), float(r[7])), float(r[8]), float(r[9]))
+
+
+def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: bool = True,
+         leader_lines: bool | None = True, leader_from_symbol: bool = False,
+         fixed: bool = True) -> Spot | None:
+    """The first spot clear of everything; with ``leader_lines`` not None, its leader
+    (from the anchor to the box) clear too (of lines as well when True)."""
+    if len(spots) == 0:
+        return None
+    accept: Callable[[int], bool] | None = None
+    if leader_lines is not None:
+        start = LEADER_START_H * text_height
+
+        def accept(i: int) -> bool:
+            sp = _spot(spots, i)
+            if sp.gap <= 0.0:
+                return True
+            near = _nearest_on_box(sp.box, sp.anchor)
+            return index.leader_free(sp.anchor, near, shorten_a=start, lines=leader_lines,
+                                     from_symbol=leader_from_symbol)
+
+    i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept)
+    return None if i is None else _spot(spots, i)
+
+
+def _nearest_on_box(box: Box, p: Point2) -> Point2:
+    """The point of ``box`` nearest to ``p`` (``p`` outside the box)."""
+    dx, dy = p[0] - box.cx, p[1] - box.cy
+    lx = max(-box.hw, min(box.hw, dx * box.ux + dy * box.uy))
+    ly = max(-box.hh, min(box.hh, -dx * box.uy + dy * box.ux))
+    return (box.cx + lx * box.ux - ly * box.uy, box.cy + lx * box.uy + ly * box.ux)
+
+
+def _placement(spot: Spot, overlaps: bool = False) -> Placement:
+    b = spot.box
+    return Placement(b.cx, b.cy, spot.z, math.degrees(math.atan2(b.uy, b.ux)), 2.0 * b.hw,
+                     2.0 * b.hh, _polygon(b), overlaps, spot.anchor)
+
+
+def _record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
+            how: str) -> RouteSpot:
+    """Record the spot in the index (box, leader) and in the counts; the result."""
+    index.add(spot.box)
+    place = _placement(spot, overlaps=how == "overlapping")
+    line = None
+    if leader:
+        near = _nearest_on_box(spot.box, spot.anchor)
+        line = LineString([spot.anchor, near])
+        index.add_line(line)
+        index.stats.leader(line.length, text_height)
+    stats = index.stats
+    if how == "beside":
+        stats.beside += 1
+    elif how == "leader":
+        stats.with_leader += 1
+    elif how == "far":
+        stats.beyond_reach += 1
+        log.debug("mark at (%.0f, %.0f): no spot within reach; further out", spot.box.cx,
+                  spot.box.cy)
+    elif how == "crossing":
+        stats.crossing_linework += 1
+        log.debug("mark at (%.0f, %.0f): no spot clear of the drawing's lines; crossing one",
+                  spot.box.cx, spot.box.cy)
+    else:
+        stats.overlapping += 1
+        log.debug("mark at (%.0f, %.0f): no free spot; overlapping", spot.box.cx, spot.box.cy)
+    return RouteSpot(place, line)
 
 
 def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float,
-                   height: float, text_height: float) -> RouteSpot:
-    """Place one label (box ``width`` x ``height``) on ``stretches`` (best first).
+                   height: float, text_height: float, *,
+                   max_leader_h: float = MAX_LEADER_H) -> RouteSpot:
+    """Place one mark (box ``width`` x ``height``) on ``stretches`` (best first).
 
     Parameters
     ----------
     index : LabelIndex
-        Placed marks and the drawing's linework (updated with the label and its leader).
+        Placed marks and the drawing's obstacles (updated with the mark and its leader).
     stretches : sequence of Stretch
-        The circuit's own route, best stretches first.
+        The route (or run, or segment), best stretches first.
     width, height : float
-        The label's box [drawing units].
+        The mark's box [drawing units].
     text_height : float
-        Text height [drawing units]; the leader bound is counted in it.
+        Text height [drawing units]; gaps and the leader bound are counted in it.
+    max_leader_h : float
+        Farthest the box edge may go from the route [text heights].
 
     Returns
     -------
     RouteSpot
+        ``leader`` is the line from the route to the box, or None beside the route.
+
+    Raises
+    ------
+    ValueError
+        When ``stretches`` is empty.
     """
     if not stretches:
         raise ValueError("no stretch to place a label on")
-    search = _Search(index, width, height, DEFAULT_LIMITS)
+    h = text_height
     tried = list(stretches[:MAX_STRETCHES])
-    max_gap = MAX_LEADER_H * text_height
-    levels = []
-    off = search.base + search.level_step
-    while off - height / 2.0 <= max_gap:
-        levels.append(off)
-        off += search.level_step
-    spot = _beside(search, tried)
-    if spot is None:
-        spot = _with_leader(search, tried, levels)
-    if spot is None:
-        spot = _rings(search, tried)
-    if spot is None:
-        spot = _clear_of_marks(search, tried, text_height)
-    if spot is not None:
-        return spot
-    placed = search.fallback(tried[0])
-    far = placed.polygon.distance(Point(placed.anchor)) > text_height
-    return RouteSpot(placed, _leader(placed) if far else None)
-
-
-def _beside(search: _Search, tried: Sequence[Stretch]) -> RouteSpot | None:
-    """Pass 1: right beside the route (box edge a quarter box height off the line)."""
-    budget = BUDGET
+    beside = [g * h for g in BESIDE_GAPS_H]
+    out = [g * h for g in _leader_gaps(max_leader_h)]
     for s in tried:
-        for t in _along_offsets(s.length, search.width, max(search.width * 0.25, search.height),
-                                ALONG_STEPS):
-            for off in (search.base, -search.base):
-                budget -= 1
-                box, place = search.candidate(s, t, off)
-                if search.index.is_free(box):
-                    return RouteSpot(search.done(box, place), None)
-        if budget < 0:
-            break
-    return None
+        spot = pick(index, stretch_spots(s, width, height, beside), h, leader_lines=None)
+        if spot is not None:
+            return _record(index, spot, h, leader=False, how="beside")
+    rings = ring_spots(_ring_points(tried, h), width, height, out)
+    loose: Spot | None = None  # the first spot whose leader crosses a line of the drawing
+    for spots in [*(stretch_spots(s, width, height, out) for s in tried), rings]:
+        spot, over_line = _pick_leader(index, spots, h)
+        if spot is not None:
+            return _record(index, spot, h, leader=True, how="leader")
+        loose = loose or over_line
+    if loose is not None:
+        return _record(index, loose, h, leader=True, how="leader")
+    return _last_resort(index, tried, rings, width, height, h)
 
 
-def _with_leader(search: _Search, tried: Sequence[Stretch],
-                 levels: Sequence[float]) -> RouteSpot | None:
-    """Pass 2: further out, tied to the route by a leader of bounded length."""
-    budget = BUDGET
-    index = search.index
-    for level in levels:
-        for s in tried:
-            for t in _along_offsets(s.length, search.width, max(search.width * 0.5, search.height), 3):
-                for side in (level, -level):
-                    budget -= 1
-                    box, place = search.candidate(s, t, side)
-                    if index.is_free(box) and _leader_free(index, place, box):
-                        placed = search.done(box, place)
-                        leader = _leader(placed)
-                        index.add_line(leader)
-                        return RouteSpot(placed, leader)
-            if budget < 0:
-                return None
-    return None
+def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float) -> tuple[Spot | None, Spot | None]:
+    """The first spot clear of everything whose leader crosses nothing, and (when there is
+    none) the first whose leader crosses a line of the drawing but no text or mark."""
+    loose: list[Spot] = []
+    start = LEADER_START_H * h
+
+    def accept(i: int) -> bool:
+        sp = _spot(spots, i)
+        near = _nearest_on_box(sp.box, sp.anchor)
+        if index.leader_free(sp.anchor, near, shorten_a=start, lines=True):
+            return True
+        if not loose and index.leader_free(sp.anchor, near, shorten_a=start, lines=False):
+            loose.append(sp)
+        return False
+
+    i = index.first_free(spots, accept=accept)
+    return (None if i is None else _spot(spots, i)), (loose[0] if loose else None)
 
 
-#: Rings of spots tried around a stretch's middle when nothing is free beside it,
-#: each a box height further out (pass 2b): a longer leader, but no crossing.
-RINGS = 12
+def _leader_gaps(max_leader_h: float) -> list[float]:
+    """:data:`LEADER_GAPS_H`, continued in steps of one height up to ``max_leader_h`` less
+    the last step's half height (the leader reaches into the box's margin)."""
+    gaps = [g for g in LEADER_GAPS_H if g <= max_leader_h - 0.5]
+    g = LEADER_GAPS_H[-1] + 1.0
+    while g <= max_leader_h - 0.5:
+        gaps.append(g)
+        g += 1.0
+    return gaps
 
 
-def _rings(search: _Search, tried: Sequence[Stretch]) -> RouteSpot | None:
-    """Pass 2b: a horizontal spot on rings around each stretch's middle, clear of
-    everything, its leader clear of every text and mark."""
-    index, h = search.index, search.height
-    directions = ((1, 1), (1, -1), (-1, 1), (-1, -1), (0, 1), (0, -1), (1, 0), (-1, 0))
-    for ring in range(RINGS):
-        r = h * (1.0 + ring)
-        for s in tried[:4]:
-            x, y = (s.start[0] + s.end[0]) / 2.0, (s.start[1] + s.end[1]) / 2.0
-            for sx, sy in directions:
-                cx = x + sx * (r + search.width / 2.0 if sx else 0.0)
-                cy = y + sy * (r + h / 2.0 if sy else 0.0)
-                box = _box(cx, cy, search.width, h, 0.0)
-                place = Placement(cx, cy, s.z, 0.0, search.width, h, None, False, (x, y))  # type: ignore[arg-type]
-                if index.is_free(box) and _leader_free(index, place, box):
-                    placed = search.done(box, place)
-                    leader = _leader(placed)
-                    index.add_line(leader)
-                    return RouteSpot(placed, leader)
-    return None
+def _ring_points(tried: Sequence[Stretch], h: float) -> list[tuple[float, float, float]]:
+    """Ring centres: points along the stretches, about :data:`RING_STEP_H` apart, at most
+    :data:`MAX_RING_POINTS`, the best stretches first."""
+    pts: list[tuple[float, float, float]] = []
+    for s in tried:
+        n = max(1, min(8, int(s.length / (RING_STEP_H * h))))
+        for k in range(n):
+            f = (k + 0.5) / n
+            pts.append((s.start[0] + f * (s.end[0] - s.start[0]),
+                        s.start[1] + f * (s.end[1] - s.start[1]), s.z))
+            if len(pts) >= MAX_RING_POINTS:
+                return pts
+    return pts
 
 
-def _clear_of_marks(search: _Search, tried: Sequence[Stretch], text_height: float) -> RouteSpot | None:
-    """Pass 3: no spot clear of the linework: one clear of every text and mark at least,
-    level by level beside the stretches (a crowded tray stacks its labels)."""
-    limits = search.limits
-    for off in search.offsets(limits.max_levels + limits.fallback_levels):
-        for s in tried[: limits.max_stretches]:
-            for t in _along_offsets(s.length, search.width, max(search.width * 0.5, search.height),
-                                    limits.along_steps):
-                box, place = search.candidate(s, t, off)
-                if search.index._box_free(box):
-                    placed = search.done(box, place)
-                    far = placed.polygon.distance(Point(placed.anchor)) > text_height
-                    return RouteSpot(placed, _leader(placed) if far else None)
-    return None
+#: Last resort before an overlap: rings beyond the leader bound [text heights] (counted).
+FAR_GAPS_H = (5.5, 7.0, 8.5, 10.0, 12.0)
+#: Spacing of ring centres along a stretch [text heights] and their number at most.
+RING_STEP_H = 4.0
+MAX_RING_POINTS = 24
+
+
+def _last_resort(index: LabelIndex, tried: Sequence[Stretch], rings: np.ndarray,
+                 width: float, height: float, h: float) -> RouteSpot:
+    """No spot clear of everything: one clear of text and marks (crossing a line), else
+    beside the best stretch, overlapping; both counted."""
+    gaps = [g * h for g in (*BESIDE_GAPS_H, *LEADER_GAPS_H)]
+    for s in tried:
+        spot = pick(index, stretch_spots(s, width, height, gaps), h, lines=False,
+                    leader_lines=False)
+        if spot is not None:
+            return _record(index, spot, h, leader=spot.gap > BESIDE_GAPS_H[-1] * h,
+                           how="crossing")
+    spot = pick(index, rings, h, lines=False, leader_lines=False)
+    if spot is not None:
+        return _record(index, spot, h, leader=True, how="crossing")
+    far = ring_spots(_ring_points(tried, h), width, height, [g * h for g in FAR_GAPS_H])
+    spot = pick(index, far, h, leader_lines=False)
+    if spot is not None:
+        return _record(index, spot, h, leader=True, how="far")
+    spot = _spot(stretch_spots(tried[0], width, height, [BESIDE_GAPS_H[0] * h]), 0)
+    return _record(index, spot, h, leader=False, how="overlapping")
+
+
+#: Gaps from an equipment point to the nearest edge of its note [text heights]: the
+#: symbol round the point is kept clear anyway, so the first rings only fit beside a
+#: small symbol; further rings a step of about one note height apart, to 16 heights (a
+#: note is tied to its symbol by its leader, drawn in a linetype no route uses).
+NOTE_GAPS_H = (0.75, 1.25, 1.75, 2.5, 3.25, 4.0, 5.0, 6.0, 7.5, 9.0, 10.5, 12.0, 14.0, 16.0)
+#: Directions tried round an equipment point (every 15 degrees).
+NOTE_DIRECTIONS = 24
+
+
+def place_near(index: LabelIndex, at: Sequence[float], width: float, height: float,
+               text_height: float) -> RouteSpot:
+    """Place a horizontal note near the point ``at`` (x, y, z), with a leader from it.
+
+    Rings of :data:`NOTE_GAPS_H` round the point, 16 directions each; the note clear of
+    every line, text, symbol and mark, its leader clear of texts and marks (it starts
+    inside the equipment's symbol).  Last resorts as for :func:`place_on_route`, counted.
+
+    Returns
+    -------
+    RouteSpot
+        ``leader`` from the point to the note's box.
+    """
+    h = text_height
+    point = [(float(at[0]), float(at[1]), float(at[2]) if len(at) > 2 else 0.0)]
+    gaps = [g * h for g in NOTE_GAPS_H]
+    spots = ring_spots(point, width, height, gaps, NOTE_DIRECTIONS)
+    spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
+    if spot is not None:
+        return _record(index, spot, h, leader=True, how="leader")
+    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True)
+    if spot is not None:
+        return _record(index, spot, h, leader=True, how="crossing")
+    # overlapping the drawing's own text or symbols rather than another mark of ours, its
+    # leader crossing none of our marks
+    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True,
+                fixed=False)
+    return _record(index, spot or _spot(spots, 0), h, leader=True, how="overlapping")

@@ -13,6 +13,7 @@ from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .label_spots import place_on_route
+from .leaders import draw_leader
 from .revision_marks import draw_revision_mark, revision_room
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .style import FAIL_COLOR
@@ -130,6 +131,7 @@ def place_cable_labels(
     labels = overlapping = 0
     unlabelled: list[str] = []
     cut_cache: dict[str, list[Stretch]] = {}
+    todo = []
     for o in marks.outcomes:
         if o.status == "error" or o.sizing is None or o.sizing.cable is None:
             continue
@@ -142,27 +144,37 @@ def place_cable_labels(
                 "circuit %s: sized but has no route geometry; no label on the drawing", o.circuit_id
             )
             continue
-        text = label_text(o, w.config.label_fields)
-        bw, bh = w.line_box(text)
-        changed = o.circuit_id in marks.changed
-        extra = revision_room(w.height) if changed else 0.0
-        spot = place_on_route(index, rank_stretches(stretches, bw + extra), bw + extra, bh, w.height)
-        place = spot.place
-        overlapping += place.overlaps
-        a = math.radians(place.rotation_deg)
-        at = (place.x - math.cos(a) * extra / 2.0, place.y - math.sin(a) * extra / 2.0, place.z)
-        w.text(
-            text,
-            at,
-            Mark("label", "cable-label", o.circuit_id),
-            rotation=place.rotation_deg,
-            color=FAIL_COLOR if o.status == "fail" else None,
-        )
-        if spot.leader is not None:
-            w.leader(place, place.z, Mark("label", "label-leader", o.circuit_id))
-        if changed:
-            draw_revision_mark(w, o.circuit_id, at, bw, place.rotation_deg, marks.revision)
+        todo.append((sum(s.length for s in stretches), o, stretches))
+    # the shortest routes first: they have the fewest spots to choose from
+    todo.sort(key=lambda item: item[0])
+    for _, o, stretches in todo:
+        overlapping += _place_label(w, index, marks, o, stretches)
         labels += 1
         if progress is not None:
             progress(1)
     return labels, overlapping, unlabelled
+
+
+def _place_label(w: EntityWriter, index: LabelIndex, marks: AnnotationInput, o: CircuitOutcome,
+                 stretches: list[Stretch]) -> int:
+    """One circuit's label (and its leader, revision mark); 1 when it overlaps, else 0."""
+    text = label_text(o, w.config.label_fields)
+    bw, bh = w.line_box(text)
+    changed = o.circuit_id in marks.changed
+    extra = revision_room(w.height) if changed else 0.0
+    spot = place_on_route(index, rank_stretches(stretches, bw + extra), bw + extra, bh, w.height)
+    place = spot.place
+    a = math.radians(place.rotation_deg)
+    at = (place.x - math.cos(a) * extra / 2.0, place.y - math.sin(a) * extra / 2.0, place.z)
+    entity = w.text(
+        text,
+        at,
+        Mark("label", "cable-label", o.circuit_id),
+        rotation=place.rotation_deg,
+        color=FAIL_COLOR if o.status == "fail" else None,
+    )
+    if spot.leader is not None:
+        draw_leader(w, place, [entity], Mark("label", "label-leader", o.circuit_id))
+    if changed:
+        draw_revision_mark(w, o.circuit_id, at, bw, place.rotation_deg, marks.revision)
+    return int(place.overlaps)

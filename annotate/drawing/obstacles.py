@@ -15,7 +15,7 @@ import ezdxf
 from cablewright.extract.dxf_reader import block_problems
 from ezdxf import bbox as ezbbox
 
-from .boxes import Box, oriented_box
+from .boxes import Box, bounds_box, oriented_box
 from .style import BOX_SIDES_PER_HALF, LINE_PITCH, AnnotateConfig
 
 __all__ = ["DrawingScan", "scan_modelspace", "extents", "keep_clear_boxes"]
@@ -260,6 +260,7 @@ def _scan_insert(
         box = oriented_box((c1.x + c3.x) / 2.0, (c1.y + c3.y) / 2.0, w, h, rot)
         scan.symbols.append(box)
         scan.take_box(box)
+    parts = [scan.symbols[-1]] if local is not None else []
     for attrib in insert.attribs:
         if attrib.is_invisible:
             continue
@@ -267,6 +268,12 @@ def _scan_insert(
         if box is not None:
             scan.texts.append(box)
             scan.take_box(box)
+            parts.append(box)
+    if len(parts) > 1:
+        # the symbol with its tag as one box (as ``ezdxf.bbox`` measures a block reference):
+        # a note squeezed into the corner between a symbol and its tag reads as neither's
+        scan.symbols.append(bounds_box(min(b.xmin for b in parts), min(b.ymin for b in parts),
+                                       max(b.xmax for b in parts), max(b.ymax for b in parts)))
 
 
 def extents(

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 
 from shapely.geometry import LineString
 
-__all__ = ["Stretch", "scaled", "straight_stretches", "rank_stretches", "route_obstacles"]
+__all__ = ["TAIL_KEYS", "Stretch", "scaled", "straight_stretches", "rank_stretches", "route_obstacles"]
 
 Point2 = tuple[float, float]
 
@@ -116,8 +116,15 @@ def straight_stretches(
     return out
 
 
+#: Keys of stretches that are no drawn line (a circuit's straight tail from its equipment
+#: to the route network): tried after every stretch of a drawn route, since a label
+#: beside a line the reader cannot see reads as belonging to nothing.
+TAIL_KEYS = frozenset({"source-tail", "load-tail"})
+
+
 def rank_stretches(stretches: Iterable[Stretch], label_width: float) -> list[Stretch]:
-    """Best stretches first: long enough for the label, least crowded, longest.
+    """Best stretches first: drawn routes before tails, long enough for the label, least
+    crowded, longest.
 
     Examples
     --------
@@ -129,7 +136,7 @@ def rank_stretches(stretches: Iterable[Stretch], label_width: float) -> list[Str
     """
     return sorted(
         stretches,
-        key=lambda s: (s.length < label_width, s.crowd, -s.length),
+        key=lambda s: (s.key in TAIL_KEYS, s.length < label_width, s.crowd, -s.length),
     )
 
 

@@ -123,8 +123,11 @@ class AnnotateConfig:
     avoid_drawing_text : bool
         Keep marks off the drawing's own TEXT, MTEXT and visible ATTRIB boxes.
     avoid_linework : bool
-        Keep labels off the drawing's lines (walls, routes): False by default,
-        since the wider search it needs is slow on large drawings.
+        Keep our texts off the drawing's lines (walls, routes, symbol lines; issue 12).
+        False only places marks clear of text, symbols and each other.
+    segment_ids : bool
+        Write every route segment's id once on the segment (the ids of the segment
+        schedule and of ``route.segments`` in schedule.json).
     avoid_symbols : bool
         Keep marks off block references (equipment symbols).
     symbol_max_text_heights : float
@@ -196,7 +199,8 @@ class AnnotateConfig:
     group_tag_max_ids: int = 6
     avoid_drawing_text: bool = True
     avoid_symbols: bool = True
-    avoid_linework: bool = False
+    avoid_linework: bool = True
+    segment_ids: bool = True
     symbol_max_text_heights: float = 40.0
     cautions: str = CAUTIONS
     crowd_fraction: float | None = 0.25

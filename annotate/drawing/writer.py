@@ -26,6 +26,7 @@ from .obstacles import extents, keep_clear_boxes, scan_modelspace
 from .old_marks import remove_old_marks
 from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
+from .segment_ids import place_segment_ids
 from .stretches import route_obstacles, scaled
 from .style import DEFAULT_CONFIG, INDEX_CELL_H, SCHEDULE_GAP_H, AnnotateConfig
 from .text_height import choose_text_height_m
@@ -62,6 +63,11 @@ class AnnotationSummary:
     sketch : Sketch or None
         Every entity we added, as the preview draws it, and the ACI colour of
         every layer of the drawing (the route layers' in the preview; :mod:`..sketch`).
+    segment_ids : int
+        Segment ids written on the route network.
+    placement : mapping
+        How the marks were placed (:class:`.mark_index.PlacementStats`): beside their
+        route, with a leader, and the last resorts (crossing a line, overlapping).
     """
 
     output_path: Path
@@ -77,6 +83,8 @@ class AnnotationSummary:
     unlabelled: tuple[str, ...] = ()
     revision_marks: int = 0
     fill_marks: int = 0
+    segment_ids: int = 0
+    placement: Mapping[str, float] = field(default_factory=dict)
     sketch: Sketch | None = field(default=None, repr=False, compare=False)
 
 
@@ -108,6 +116,19 @@ def _read_input(src: Path) -> Any:
         raise DrawingReadError(
             f"{src}: the drawing is damaged ({exc}); repair it in CAD or re-export it"
         ) from exc
+
+
+def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
+                 config: AnnotateConfig, progress: ProgressHook | None) -> tuple[Any, ...]:
+    """Every mark but the schedule, the least free first: cable labels (strict rule), group
+    tags (big blocks), segment ids (bound to their segment), fill notes, device and error
+    notes (free to go further out with their leader)."""
+    labels, _, unlabelled = place_cable_labels(w, index, marks, progress)
+    group_tags = place_group_tags(w, index, marks)[0] if config.group_tags else 0
+    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
+    fill_notes = place_fill_marks(w, index, marks)
+    device_notes, error_notes, _ = place_equipment_notes(w, index, marks)
+    return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
 
 
 def write_annotated_dxf(
@@ -180,20 +201,20 @@ def write_annotated_dxf(
     index = LabelIndex(
         cell=INDEX_CELL_H * h,
         blocked=blocked,
-        # the drawing's own linework as obstacles: off by default, the wider search it
-        # needs costs minutes on a 2,000-circuit plant (benchmarks/RESULTS.md)
+        # the drawing's own linework (walls, routes, symbol lines) as obstacles
         lines=drawing_linework(doc, config.appid, h, routes) if config.avoid_linework else None,
     )
     log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
 
-    labels, overlapping, unlabelled = place_cable_labels(w, index, marks, progress)
-    group_tags = 0
-    if config.group_tags:
-        group_tags, extra = place_group_tags(w, index, marks)
-        overlapping += extra
-    device_notes, error_notes, extra = place_equipment_notes(w, index, marks)
-    overlapping += extra
-    fill_notes = place_fill_marks(w, index, marks)
+    labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = (
+        _place_marks(w, index, marks, config, progress))
+    stats = index.stats
+    if stats.fallbacks:
+        log.warning(
+            "%s: %d marks found no spot clear of everything within reach: %d cross a line of "
+            "the drawing, %d sit further out, %d overlap another text (last resort)", dst.name,
+            stats.fallbacks, stats.crossing_linework, stats.beyond_reach, stats.overlapping,
+        )
 
     # everything placed so far widens the extents the schedule sits beside
     placed = index.bounds()
@@ -204,10 +225,6 @@ def write_annotated_dxf(
     if config.schedule:
         schedule_rows = schedule_table(w, marks.outcomes, xmax + SCHEDULE_GAP_H * h, ymax, 0.0)
 
-    if overlapping:
-        log.warning(
-            "%s: %d labels or notes found no free spot and overlap others", dst, overlapping
-        )
     with atomic_path(dst) as tmp:
         doc.saveas(tmp)
     log.info(
@@ -221,7 +238,7 @@ def write_annotated_dxf(
         error_notes=error_notes,
         schedule_rows=schedule_rows,
         removed=removed,
-        overlapping=overlapping,
+        overlapping=stats.overlapping,
         text_height=h,
         layers=dict(w.layers),
         unlabelled=tuple(unlabelled),
@@ -230,4 +247,6 @@ def write_annotated_dxf(
                            and o.sizing is not None and o.sizing.cable is not None
                            and o.status != "error"),
         fill_marks=fill_notes,
+        segment_ids=segment_ids,
+        placement=stats.as_dict(),
     ))

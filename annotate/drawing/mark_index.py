@@ -1,0 +1,385 @@
+"""The index of what our marks keep clear of: the drawing's own geometry and our marks so far.
+
+Two kinds of obstacle, both plain shapely geometry in drawing units (so any source of
+obstacles, a parsed document or a streamed one, can hand them in):
+
+* fixed ones, known before the first mark: the drawing's linework (walls, routes,
+  symbol lines) and its text and symbol boxes, each kind in one shapely ``STRtree``;
+  a batch of candidate spots is tested against them in one bulk query
+  (``STRtree.query`` with an array of polygons);
+* our marks placed so far (label boxes, leaders, revision diamonds), which change with
+  every mark: a uniform grid of oriented boxes, tested by the separating axis test
+  (:func:`.boxes.boxes_overlap`), only for the spots the bulk query left free, in the
+  order of preference, up to the first free one.
+
+:class:`PlacementStats` counts how each mark was placed; the last-resort placements are
+counted there and reported (``AnnotationSummary.placement``), never silent.
+
+References
+----------
+.. [1] shapely 2 manual, ``STRtree.query(geometry_array, predicate="intersects")`` and
+   ``shapely.polygons`` (vectorised constructors).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+import shapely
+from shapely.geometry import Point, Polygon
+
+from .boxes import Box, _box, _polygon, boxes_overlap
+
+__all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
+
+
+@dataclass
+class PlacementStats:
+    """How the marks were placed (counts), for the summary and ``schedule.json``.
+
+    Attributes
+    ----------
+    beside : int
+        Marks beside their own route or point, clear of everything, no leader.
+    with_leader : int
+        Marks clear of everything, tied to their route or point by a leader.
+    crossing_linework : int
+        Last resort 1: no spot clear of the drawing's lines within reach; placed clear
+        of every text and mark but crossing a line.
+    beyond_reach : int
+        Last resort 2: clear of everything only beyond the leader bound; placed there
+        with a longer leader.
+    overlapping : int
+        Last resort 3: not even that; placed beside the route, overlapping.
+    longest_leader_h : float
+        Longest leader drawn [text heights].
+    """
+
+    beside: int = 0
+    with_leader: int = 0
+    crossing_linework: int = 0
+    beyond_reach: int = 0
+    overlapping: int = 0
+    longest_leader_h: float = 0.0
+    kinds: dict[str, int] = field(default_factory=dict)
+
+    def leader(self, length: float, text_height: float) -> None:
+        """Record a leader of ``length`` [drawing units]."""
+        if text_height > 0.0:
+            self.longest_leader_h = max(self.longest_leader_h, length / text_height)
+
+    @property
+    def fallbacks(self) -> int:
+        """Marks placed by a last resort (crossing a line, beyond reach, overlapping)."""
+        return self.crossing_linework + self.beyond_reach + self.overlapping
+
+    def as_dict(self) -> dict[str, float | int]:
+        """The counts as plain numbers (JSON)."""
+        return {
+            "beside": self.beside,
+            "with_leader": self.with_leader,
+            "fallback_crossing_linework": self.crossing_linework,
+            "fallback_beyond_reach": self.beyond_reach,
+            "fallback_overlapping": self.overlapping,
+            "longest_leader_h": round(self.longest_leader_h, 2),
+        }
+
+
+def row_box(rows: np.ndarray, i: int) -> Box:
+    """Row ``i`` of an array of boxes (columns cx, cy, ux, uy, hw, hh, ...) as a :class:`Box`."""
+    cx, cy, ux, uy, hw, hh = (float(v) for v in rows[i, :6])
+    ex = hw * abs(ux) + hh * abs(uy)
+    ey = hw * abs(uy) + hh * abs(ux)
+    return Box(cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
+
+
+def _as_box(boxes: Sequence[Box] | np.ndarray, i: int) -> Box:
+    return row_box(boxes, i) if isinstance(boxes, np.ndarray) else boxes[i]
+
+
+#: Marks added before the tree of our marks is rebuilt: a rebuild costs about as much as
+#: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
+REBUILD_AFTER = 200
+
+
+def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
+    """The boxes (a sequence of :class:`Box`, or an array whose first six columns are
+    cx, cy, ux, uy, hw, hh) as shapely polygons, in one vectorised construction."""
+    if len(boxes) == 0:
+        return np.empty(0, dtype=object)
+    a = boxes if isinstance(boxes, np.ndarray) else np.asarray([b[:6] for b in boxes], dtype=float)
+    cx, cy, ux, uy, hw, hh = a[:, :6].T
+    vx, vy = -uy, ux
+    sx = np.stack([-1.0, 1.0, 1.0, -1.0])[:, None]
+    sy = np.stack([-1.0, -1.0, 1.0, 1.0])[:, None]
+    xs = cx + sx * ux * hw + sy * vx * hh
+    ys = cy + sx * uy * hw + sy * vy * hh
+    coords = np.stack([xs.T, ys.T], axis=-1)  # (n, 4, 2)
+    # an (n, 4, 2) input gives an array (shapely's stubs type the scalar case too)
+    return shapely.polygons(coords)  # type: ignore[return-value]
+
+
+def thin_box(a: Sequence[float], b: Sequence[float], shorten_a: float = 0.0) -> Box | None:
+    """A leader from ``a`` to ``b`` as a hair-thin box, ``shorten_a`` cut off at ``a`` and a
+    hair cut off at ``b`` (it touches the box it leads to); None when nothing is left."""
+    dx, dy = b[0] - a[0], b[1] - a[1]
+    length = math.hypot(dx, dy)
+    keep = length - shorten_a - 1e-3 * length
+    if keep <= 0.0:
+        return None
+    ux, uy = dx / length, dy / length
+    s0 = shorten_a
+    mx, my = a[0] + ux * (s0 + keep / 2.0), a[1] + uy * (s0 + keep / 2.0)
+    return _box(mx, my, keep, 1e-6 * length, math.degrees(math.atan2(dy, dx)))
+
+
+def _tree(geoms: Iterable[Any]) -> shapely.STRtree | None:
+    items = [g for g in geoms if g is not None and not g.is_empty]
+    return shapely.STRtree(items) if items else None
+
+
+class LabelIndex:
+    """Our marks placed so far, the drawing's fixed obstacles, and the bulk tests.
+
+    Parameters
+    ----------
+    cell : float
+        Grid cell of the placed marks [drawing units]; about a label's length.
+    obstacles : iterable of shapely geometries, optional
+        Soft lines (route lines) a spot should rather not cross
+        (:meth:`crosses_obstacle`; used by :func:`.placement.place_along`).
+    blocked : iterable of Box, optional
+        The drawing's text and symbol boxes: no mark goes on them.
+    lines : shapely.STRtree or iterable of shapely geometries, optional
+        The drawing's linework (walls, routes, symbol lines): no text crosses it.
+    """
+
+    def __init__(
+        self, cell: float, obstacles: Iterable[object] = (), blocked: Iterable[Box] = (),
+        lines: shapely.STRtree | Iterable[Any] | None = None,
+    ) -> None:
+        if not cell > 0.0:
+            raise ValueError(f"grid cell must be > 0, got {cell!r}")
+        self.cell = float(cell)
+        self._eps = 1e-9 * self.cell
+        self._grid: dict[tuple[int, int], list[int]] = {}
+        self._boxes: list[Box] = []
+        self._line_grid: dict[tuple[int, int], list[int]] = {}
+        self._own_lines: list[Any] = []
+        self._obstacles = _tree(obstacles)
+        self._fixed = list(blocked)
+        self._fixed_polys = box_polygons(self._fixed)
+        self._fixed_tree = shapely.STRtree(self._fixed_polys) if len(self._fixed) else None
+        self._lines = lines if isinstance(lines, shapely.STRtree) or lines is None else _tree(lines)
+        self.stats = PlacementStats()
+        # our marks so far in a tree (boxes and leaders), rebuilt every REBUILD_AFTER marks;
+        # those added since are tested through the grid
+        self._mark_geoms: list[Any] = []
+        self._mark_tree: shapely.STRtree | None = None
+        self._in_tree = (0, 0)  # boxes, lines in the tree
+
+    # -- what is there -------------------------------------------------------------
+    @property
+    def blocked(self) -> tuple[Polygon, ...]:
+        """Every fixed box (drawing text, symbols), as shapely polygons."""
+        return tuple(self._fixed_polys)
+
+    @property
+    def boxes(self) -> tuple[Polygon, ...]:
+        """Every box placed so far, as shapely polygons."""
+        return tuple(_polygon(b) for b in self._boxes)
+
+    @property
+    def has_linework(self) -> bool:
+        """True when the drawing's linework is an obstacle."""
+        return self._lines is not None
+
+    def __len__(self) -> int:
+        return len(self._boxes)
+
+    def bounds(self) -> tuple[float, float, float, float] | None:
+        """(xmin, ymin, xmax, ymax) of every box placed, ``None`` when empty."""
+        if not self._boxes:
+            return None
+        return (min(b.xmin for b in self._boxes), min(b.ymin for b in self._boxes),
+                max(b.xmax for b in self._boxes), max(b.ymax for b in self._boxes))
+
+    def _cells(self, xmin: float, ymin: float, xmax: float, ymax: float) -> Iterable[tuple[int, int]]:
+        c = self.cell
+        for i in range(math.floor(xmin / c), math.floor(xmax / c) + 1):
+            for j in range(math.floor(ymin / c), math.floor(ymax / c) + 1):
+                yield (i, j)
+
+    # -- recording -----------------------------------------------------------------
+    def add(self, box: Box) -> None:
+        """Record a placed box."""
+        idx = len(self._boxes)
+        self._boxes.append(box)
+        self._mark_geoms.append(_polygon(box))
+        for key in self._cells(box.xmin, box.ymin, box.xmax, box.ymax):
+            self._grid.setdefault(key, []).append(idx)
+
+    def add_line(self, line: Any) -> None:
+        """Record one of our own lines (a leader) that later boxes must not cross."""
+        idx = len(self._own_lines)
+        self._own_lines.append(line)
+        self._mark_geoms.append(line)
+        for key in self._cells(*line.bounds):
+            self._line_grid.setdefault(key, []).append(idx)
+
+    # -- single tests --------------------------------------------------------------
+    def _box_free(self, box: Box) -> bool:
+        """True when ``box`` overlaps no placed box and no fixed (text, symbol) box."""
+        if self._fixed_tree is not None and self._hits_fixed(box):
+            return False
+        return self.free_of_marks(box)
+
+    def _hits_fixed(self, box: Box) -> bool:
+        for i in self._fixed_tree.query(_polygon(box)):  # type: ignore[union-attr]
+            if boxes_overlap(box, self._fixed[int(i)], self._eps):
+                return True
+        return False
+
+    def free_of_marks(self, box: Box, *, since_tree: bool = False) -> bool:
+        """True when ``box`` overlaps none of our placed boxes and crosses none of our lines
+        (with ``since_tree``, only those added since the marks' tree was built)."""
+        first_box, first_line = self._in_tree if since_tree else (0, 0)
+        cells = list(self._cells(box.xmin, box.ymin, box.xmax, box.ymax))
+        seen: set[int] = set()
+        for key in cells:
+            for idx in self._grid.get(key, ()):
+                if idx >= first_box and idx not in seen:
+                    seen.add(idx)
+                    if boxes_overlap(box, self._boxes[idx], self._eps):
+                        return False
+        return self._free_of_own_lines(box, cells, first_line)
+
+    def _free_of_own_lines(self, box: Box, cells: list[tuple[int, int]], first: int) -> bool:
+        """True when ``box`` crosses none of our lines from number ``first`` on."""
+        poly = None
+        seen: set[int] = set()
+        for key in cells:
+            for idx in self._line_grid.get(key, ()):
+                if idx < first or idx in seen:
+                    continue
+                seen.add(idx)
+                line = self._own_lines[idx]
+                x0, y0, x1, y1 = line.bounds
+                if x1 < box.xmin or x0 > box.xmax or y1 < box.ymin or y0 > box.ymax:
+                    continue
+                poly = _polygon(box) if poly is None else poly
+                if poly.intersects(line):
+                    return False
+        return True
+
+    def crosses_line(self, box: Box) -> bool:
+        """True when ``box`` crosses the drawing's linework or one of our leaders."""
+        if self._lines is not None and len(self._lines.query(_polygon(box), predicate="intersects")):
+            return True
+        # our leaders: free of our boxes but not of our marks means a leader is crossed
+        return self.free_of_boxes(box) and not self.free_of_marks(box)
+
+    def free_of_boxes(self, box: Box) -> bool:
+        """True when ``box`` overlaps none of our placed boxes (leaders not counted)."""
+        for key in self._cells(box.xmin, box.ymin, box.xmax, box.ymax):
+            for idx in self._grid.get(key, ()):
+                if boxes_overlap(box, self._boxes[idx], self._eps):
+                    return False
+        return True
+
+    def is_free(self, box: Box) -> bool:
+        """True when ``box`` overlaps no placed or fixed box and crosses no line."""
+        return bool(self.static_free([box], lines=True)[0]) and self.free_of_marks(box)
+
+    def crosses_obstacle(self, box: Box) -> bool:
+        """True when ``box`` touches one of the soft obstacles (route lines)."""
+        if self._obstacles is None:
+            return False
+        return len(self._obstacles.query(_polygon(box), predicate="intersects")) > 0
+
+    # -- bulk tests ----------------------------------------------------------------
+    def static_free(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool = True,
+                    fixed: bool = True) -> np.ndarray:
+        """Per box, True when it is clear of the fixed obstacles (one bulk query per tree).
+
+        ``lines`` and ``fixed`` choose the trees: the drawing's linework and its text
+        and symbol boxes.
+        """
+        ok = np.ones(len(boxes), dtype=bool)
+        if len(boxes) == 0:
+            return ok
+        polys = box_polygons(boxes)
+        if lines and self._lines is not None:
+            hit = self._lines.query(polys, predicate="intersects")
+            ok[hit[0]] = False
+        if fixed and self._fixed_tree is not None:
+            rest = np.flatnonzero(ok)
+            if len(rest):
+                # exact for two rectangles (a shared edge counts as a hit: on the safe side)
+                hit = self._fixed_tree.query(polys[rest], predicate="intersects")
+                ok[rest[hit[0]]] = False
+        return ok
+
+    def leader_free(self, a: Sequence[float], b: Sequence[float], *, shorten_a: float,
+                    lines: bool = True, from_symbol: bool = False) -> bool:
+        """True when a leader from ``a`` to ``b`` (its first ``shorten_a`` left out, where it
+        leaves the route) crosses no text, symbol or mark of ours and, with ``lines``, none
+        of the drawing's lines; ``from_symbol`` lets it leave the symbol box holding ``a``."""
+        thin = thin_box(a, b, shorten_a)
+        if thin is None:
+            return True
+        if not self.free_of_boxes(thin):
+            return False
+        poly = _polygon(thin)
+        if lines and self._lines is not None and len(self._lines.query(poly, predicate="intersects")):
+            return False
+        if self._fixed_tree is None:
+            return True
+        start = Point(a[0], a[1])
+        for j in self._fixed_tree.query(poly, predicate="intersects"):
+            j = int(j)
+            if from_symbol and self._fixed_polys[j].covers(start):
+                continue
+            if boxes_overlap(thin, self._fixed[j], self._eps):
+                return False
+        return True
+
+    def first_free(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool = True, fixed: bool = True,
+                   accept=None) -> int | None:
+        """Index of the first box (in the given order of preference) clear of everything.
+
+        The fixed obstacles are tested in bulk; our marks only for the boxes left, in
+        order; ``accept(i)`` (optional) is a last test, e.g. of the leader.
+        """
+        if len(boxes) == 0:
+            return None
+        ok = self.static_free(boxes, lines=lines, fixed=fixed)
+        rest = np.flatnonzero(ok)
+        if len(rest) == 0:
+            return None
+        tree = self._marks_tree()
+        if tree is not None:
+            hit = tree.query(box_polygons(boxes[rest] if isinstance(boxes, np.ndarray)
+                                          else [boxes[int(i)] for i in rest]),
+                             predicate="intersects")
+            keep = np.ones(len(rest), dtype=bool)
+            keep[hit[0]] = False
+            rest = rest[keep]
+        for j in rest:
+            i = int(j)
+            if (self.free_of_marks(_as_box(boxes, i), since_tree=True)
+                    and (accept is None or accept(i))):
+                return i
+        return None
+
+    def _marks_tree(self) -> shapely.STRtree | None:
+        """The tree of our marks, rebuilt when :data:`REBUILD_AFTER` were added since."""
+        n_box, n_line = self._in_tree
+        if len(self._boxes) + len(self._own_lines) - n_box - n_line >= REBUILD_AFTER:
+            self._mark_tree = shapely.STRtree(self._mark_geoms) if self._mark_geoms else None
+            self._in_tree = (len(self._boxes), len(self._own_lines))
+        return self._mark_tree

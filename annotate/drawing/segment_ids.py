@@ -1,0 +1,54 @@
+"""Segment ids on the route network: every segment named once, on the segment itself.
+
+The ids are those of ``schedule.json`` (``segments[].id``, each circuit's
+``route.segments``) and of the segment schedule, so a reader of the drawing finds
+the row of any stretch of tray.  A shared segment is named once, however many
+circuits run on it.  Each id is a mark like a cable label: along a straight stretch
+of its segment within one text height of it, else tied to it by a short leader
+(:func:`.label_spots.place_on_route`).
+"""
+
+from __future__ import annotations
+
+from .entities import EntityWriter, Mark
+from .inputs import AnnotationInput
+from .label_spots import place_on_route
+from .leaders import draw_leader
+from .mark_index import LabelIndex
+from .stretches import rank_stretches, scaled, straight_stretches
+from .text import clean
+
+__all__ = ["place_segment_ids", "segment_order"]
+
+
+def segment_order(segment_id: str) -> tuple[int, str]:
+    """Sort key: ``S2`` before ``S10`` (shorter ids first, then by text).
+
+    Examples
+    --------
+    >>> sorted(["S10", "S2", "S1"], key=segment_order)
+    ['S1', 'S2', 'S10']
+    """
+    return (len(segment_id), segment_id)
+
+
+def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
+    """One id per segment with a plan length, on the group-tag layer; the number written."""
+    k = float(marks.units_per_m)
+    written = 0
+    for seg_id in sorted(marks.segments, key=segment_order):
+        pts = scaled(getattr(marks.segments[seg_id], "points_m", ()) or (), k)
+        stretches = straight_stretches(pts, crowd=len(marks.per_segment.get(seg_id, ())),
+                                       key=seg_id) if len(pts) >= 2 else []
+        if not stretches:
+            continue  # a vertical riser: no plan length to write its id along
+        text = clean(seg_id)
+        bw, bh = w.line_box(text)
+        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, w.height)
+        place = spot.place
+        entity = w.text(text, (place.x, place.y, place.z), Mark("group", "segment-id", seg_id),
+                        rotation=place.rotation_deg)
+        if spot.leader is not None:
+            draw_leader(w, place, [entity], Mark("group", "segment-leader", seg_id))
+        written += 1
+    return written
