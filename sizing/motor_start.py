@@ -17,8 +17,10 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, TypeVar
 
+import numpy as np
+import numpy.typing as npt
 from cablewright.core.errors import UnknownKeyError
 
 from .short_circuit import SOURCE_R_OVER_X, source_impedance_ohm
@@ -37,6 +39,9 @@ __all__ = [
     "starter_kind",
     "star_delta_winding_current_a",
 ]
+
+#: A current [A]: one circuit's, or one per circuit (the batch core, sizing/batch).
+_Current = TypeVar("_Current", float, npt.NDArray[np.float64])
 
 STARTERS = ("dol", "star_delta", "soft", "drive")
 
@@ -229,7 +234,7 @@ def is_star_delta(kind: str | None) -> bool:
     return starter_kind(kind) == "star_delta"
 
 
-def star_delta_winding_current_a(line_current_a: float) -> float:
+def star_delta_winding_current_a(line_current_a: _Current) -> _Current:
     """Current in each winding (and in each conductor of the two cables) in delta [A].
 
     .. math:: I_{ph} = I_L / \\sqrt{3}

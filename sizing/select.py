@@ -16,6 +16,7 @@ The procedure of IEC 60364-4-43 433.1 and IEC 60364-5-52 clause 523:
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 from functools import lru_cache
 from typing import Any
@@ -579,8 +580,13 @@ def _size(spec: CircuitSpec, config: SizingConfig,
                             vd_temperature(index, parallel, totals), temp_rule, limit_source)
 
 
-def _chosen_result(spec, ctx, prep, allowed, amps, methods, keys, choice, capacity,
-                   vd_temperature, temp_rule, limit_source, max_steps) -> SizingResult:
+def _chosen_result(spec: CircuitSpec, ctx: SizingContext, prep: PreparedChecks,
+                   allowed: tuple[float, ...], amps: tuple[tuple[float, ...], ...],
+                   methods: tuple[str, ...], keys: list[tuple[str, str, float, float, float]],
+                   choice: tuple[int, int, str, bool],
+                   capacity: Callable[[int, int, list[float]], tuple[float, int]],
+                   vd_temperature: Callable[[int, int, list[float]], float], temp_rule: str,
+                   limit_source: str, max_steps: int) -> SizingResult:
     # The record of a cable chosen elsewhere (the batch core), with the loop's factors.
     index, parallel, governed, limited = choice
     stretches = spec.stretches

@@ -13,9 +13,10 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import NamedTuple
+from typing import Any, NamedTuple, TypedDict
 
 import numpy as np
+import numpy.typing as npt
 from cablewright.core.errors import CableRouteError
 
 from ..checks import (
@@ -40,6 +41,7 @@ from ..select import (
     loaded_conductors,
     third_harmonic_pct,
 )
+from .arrays import BoolArray, FloatArray, IntArray
 
 __all__ = ["DECLINE_REASONS", "MAX_STRETCHES", "CircuitColumns", "columns_from_specs"]
 
@@ -57,6 +59,8 @@ DECLINE_REASONS = (
 MAX_STRETCHES = 8
 #: Load units in the order of :func:`cablewright.sizing.load.design_current_a`'s branches.
 LOAD_UNITS = ("A", "kVA", "kW", "hp")
+#: A layout: sorted installation methods, conductor, insulation, loaded conductors.
+_Layout = tuple[tuple[str, ...], str, str, int]
 
 
 class CircuitContext(NamedTuple):
@@ -96,49 +100,49 @@ class CircuitColumns:
     """
 
     n: int
-    load_value: np.ndarray
-    load_unit: np.ndarray
-    voltage_v: np.ndarray
-    phases: np.ndarray
-    power_factor: np.ndarray
-    efficiency: np.ndarray
-    length_m: np.ndarray
-    cores: np.ndarray
-    fault_ka: np.ndarray
-    conductor: np.ndarray
-    insulation: np.ndarray
-    load_type: np.ndarray
+    load_value: FloatArray
+    load_unit: IntArray
+    voltage_v: FloatArray
+    phases: IntArray
+    power_factor: FloatArray
+    efficiency: FloatArray
+    length_m: FloatArray
+    cores: IntArray
+    fault_ka: FloatArray
+    conductor: IntArray
+    insulation: IntArray
+    load_type: IntArray
     load_types: tuple[str, ...]
-    kind: np.ndarray
-    margin: np.ndarray
-    third_harmonic_pct: np.ndarray
-    star: np.ndarray
-    motor: np.ndarray
-    starter_multiple: np.ndarray
-    starter_pf: np.ndarray
-    drive: np.ndarray
-    curve: np.ndarray
+    kind: IntArray
+    margin: FloatArray
+    third_harmonic_pct: FloatArray
+    star: BoolArray
+    motor: BoolArray
+    starter_multiple: FloatArray
+    starter_pf: FloatArray
+    drive: BoolArray
+    curve: IntArray
     curves: tuple[str, ...]
-    magnetic_a: np.ndarray
-    tn: np.ndarray
-    ze_ohm: np.ndarray
-    ze_assumed: np.ndarray
-    clearing_time_s: np.ndarray
-    let_through_ka2s: np.ndarray
-    vd_limit_pct: np.ndarray
-    layout: np.ndarray
-    layouts: tuple[tuple[tuple[str, ...], str, str, int], ...]
-    slot: np.ndarray
-    method: np.ndarray
+    magnetic_a: FloatArray
+    tn: BoolArray
+    ze_ohm: FloatArray
+    ze_assumed: BoolArray
+    clearing_time_s: FloatArray
+    let_through_ka2s: FloatArray
+    vd_limit_pct: FloatArray
+    layout: IntArray
+    layouts: tuple[_Layout, ...]
+    slot: IntArray
+    method: IntArray
     method_names: tuple[str, ...]
-    ambient_c: np.ndarray
-    soil_k_m_w: np.ndarray
-    depth_m: np.ndarray
-    other_cables: np.ndarray
-    trays: np.ndarray
-    containment: np.ndarray
+    ambient_c: FloatArray
+    soil_k_m_w: FloatArray
+    depth_m: FloatArray
+    other_cables: IntArray
+    trays: IntArray
+    containment: IntArray
     containments: tuple[str, ...]
-    declined: np.ndarray
+    declined: IntArray
 
 
 def _nan(value: float | None) -> float:
@@ -185,7 +189,7 @@ def _valid(spec: CircuitSpec) -> bool:
             and spec.load.unit in LOAD_UNITS and len(spec.stretches) <= MAX_STRETCHES)
 
 
-def _codes(values: list, names: dict) -> np.ndarray:
+def _codes(values: Sequence[str], names: dict[str, int]) -> IntArray:
     return np.array([names.setdefault(v, len(names)) for v in values], dtype=np.int64)
 
 
@@ -207,7 +211,7 @@ def columns_from_specs(specs: Sequence[CircuitSpec], config: SizingConfig | None
     n = len(specs)
     whole = (config.standard != "iec" or config.pe_rule != "table"
              or config.conductor_temp_for_vd not in ("operating", "max"))
-    memo: dict[tuple, CircuitContext | None] = {}
+    memo: dict[tuple[object, ...], CircuitContext | None] = {}
     contexts: list[CircuitContext | None] = []
     declined = np.zeros(n, dtype=np.int64)
     for i, spec in enumerate(specs):
@@ -225,7 +229,7 @@ def columns_from_specs(specs: Sequence[CircuitSpec], config: SizingConfig | None
                            math.nan, False, math.nan, math.nan)
     ctxs = [c or blank for c in contexts]
 
-    def col(values, dtype=float) -> np.ndarray:
+    def col(values: Sequence[object], dtype: npt.DTypeLike = float) -> npt.NDArray[Any]:
         return np.array(values, dtype=dtype)
 
     cores = col([s.cores or (4 if s.phases == 3 else 3) for s in specs], np.int64)
@@ -274,8 +278,25 @@ def columns_from_specs(specs: Sequence[CircuitSpec], config: SizingConfig | None
     )
 
 
-def _stretch_columns(specs: Sequence[CircuitSpec], cores: np.ndarray, declined: np.ndarray,
-                     config: SizingConfig) -> dict:
+class _StretchColumns(TypedDict):
+    """The per-stretch fields of :class:`CircuitColumns` (:func:`_stretch_columns`)."""
+
+    layout: IntArray
+    layouts: tuple[_Layout, ...]
+    slot: IntArray
+    method: IntArray
+    method_names: tuple[str, ...]
+    ambient_c: FloatArray
+    soil_k_m_w: FloatArray
+    depth_m: FloatArray
+    other_cables: IntArray
+    trays: IntArray
+    containment: IntArray
+    containments: tuple[str, ...]
+
+
+def _stretch_columns(specs: Sequence[CircuitSpec], cores: IntArray, declined: IntArray,
+                     config: SizingConfig) -> _StretchColumns:
     """The (n, MAX_STRETCHES) stretch columns and each circuit's layout."""
     n, k = len(specs), MAX_STRETCHES
     slot = np.full((n, k), -1, dtype=np.int64)
@@ -289,7 +310,7 @@ def _stretch_columns(specs: Sequence[CircuitSpec], cores: np.ndarray, declined: 
     layout = np.full(n, -1, dtype=np.int64)
     method_names: dict[str, int] = {}
     containments: dict[str, int] = {}
-    layouts: dict[tuple, int] = {}
+    layouts: dict[_Layout, int] = {}
     for i, spec in enumerate(specs):
         if declined[i]:
             continue
@@ -305,7 +326,7 @@ def _stretch_columns(specs: Sequence[CircuitSpec], cores: np.ndarray, declined: 
         slot[i, :len(names)] = [methods.index(m) for m in names]
         key = (methods, spec.conductor, spec.insulation, loaded_conductors(spec.phases))
         layout[i] = layouts.setdefault(key, len(layouts))
-    return dict(layout=layout, layouts=tuple(layouts), slot=slot, method=method,
-                method_names=tuple(method_names), ambient_c=ambient, soil_k_m_w=soil,
-                depth_m=depth, other_cables=other, trays=trays, containment=containment,
-                containments=tuple(containments))
+    return _StretchColumns(layout=layout, layouts=tuple(layouts), slot=slot, method=method,
+                           method_names=tuple(method_names), ambient_c=ambient,
+                           soil_k_m_w=soil, depth_m=depth, other_cables=other, trays=trays,
+                           containment=containment, containments=tuple(containments))

@@ -30,6 +30,7 @@ from ..conductor_resistance import ALPHA_20_PER_K, dc_resistance_20c_ohm_per_km
 from ..config import SizingConfig
 from ..select import INSULATIONS, _layout, _stretch_total
 from ..voltage_drop import REACTANCE_MOHM_PER_M
+from .arrays import BoolArray, FloatArray, IndexArray, IntArray
 from .columns import MAX_STRETCHES, CircuitColumns
 from .formulas import CircuitArrays, circuit_arrays, per_distinct
 
@@ -58,18 +59,25 @@ class BatchResult:
     per check name ``checks[name] = (code, value, limit)`` (:data:`RESULT_CODES`).
     """
 
-    declined: np.ndarray
+    declined: IntArray
     arrays: CircuitArrays
-    index: np.ndarray
-    csa_mm2: np.ndarray
-    parallel: np.ndarray
-    governed: np.ndarray
-    upsize_limited: np.ndarray
-    iz_a: np.ndarray
-    stretch: np.ndarray
-    vd_temp_c: np.ndarray
-    status: np.ndarray = field(default_factory=lambda: np.zeros(0, dtype=np.int64))
-    checks: dict = field(default_factory=dict)
+    index: IntArray
+    csa_mm2: FloatArray
+    parallel: IntArray
+    governed: IntArray
+    upsize_limited: BoolArray
+    iz_a: FloatArray
+    stretch: IntArray
+    vd_temp_c: FloatArray
+    status: IntArray = field(default_factory=lambda: np.zeros(0, dtype=np.int64))
+    checks: dict[str, tuple[IntArray, FloatArray, FloatArray]] = field(default_factory=dict)
+    # set by size_columns (not arguments, not shown, not compared): the axis index of
+    # each circuit's first allowed size, and where a layout exists the tables, the
+    # circuits' rows and the correction factors of the chosen count per stretch
+    first: IntArray = field(init=False, repr=False, compare=False)
+    rows: _Rows | None = field(init=False, repr=False, compare=False)
+    tables: _Tables = field(init=False, repr=False, compare=False)
+    totals: FloatArray = field(init=False, repr=False, compare=False)
 
     def choice(self, i: int) -> tuple[int, int, str, bool]:
         """(size index, parallel, governed_by, upsize limited) of circuit ``i``."""
@@ -88,20 +96,20 @@ class _Tables:
     k (IEC 60364-4-43:2008 Table 43A) and the PE (IEC 60364-5-54:2011 Table 54.2).
     """
 
-    csa: np.ndarray
-    amps: np.ndarray
-    smallest: np.ndarray
-    row_of: dict
-    lo: np.ndarray
-    hi: np.ndarray
-    below_min: np.ndarray
-    usable: np.ndarray
-    r20: np.ndarray
-    alpha: np.ndarray
-    k: np.ndarray
-    pe_csa: np.ndarray
-    pe_required: np.ndarray
-    r20_pe: np.ndarray
+    csa: FloatArray
+    amps: FloatArray
+    smallest: FloatArray
+    row_of: dict[tuple[int, int], int]
+    lo: IntArray
+    hi: IntArray
+    below_min: BoolArray
+    usable: BoolArray
+    r20: FloatArray
+    alpha: FloatArray
+    k: FloatArray
+    pe_csa: FloatArray
+    pe_required: FloatArray
+    r20_pe: FloatArray
 
 
 def _r20_or_nan(a: float, conductor: str) -> float:
@@ -112,7 +120,8 @@ def _r20_or_nan(a: float, conductor: str) -> float:
 
 
 def _tables(c: CircuitColumns, config: SizingConfig) -> _Tables:
-    found = []
+    found: list[tuple[tuple[float, ...], tuple[float, ...], tuple[tuple[float, ...], ...],
+                      tuple[float, ...]]] = []
     for methods, conductor, insulation, loaded in c.layouts:
         try:
             sizes, allowed, amps, smallest, _ = _layout(
@@ -126,7 +135,9 @@ def _tables(c: CircuitColumns, config: SizingConfig) -> _Tables:
     n_layouts = len(c.layouts)
     lo, hi = np.zeros(n_layouts, np.int64), np.zeros(n_layouts, np.int64)
     below, usable = np.zeros(n_layouts, bool), np.zeros(n_layouts, bool)
-    rows, smallest_rows, row_of = [], [], {}
+    rows: list[FloatArray] = []
+    smallest_rows: list[float] = []
+    row_of: dict[tuple[int, int], int] = {}
     for number, (sizes, allowed, amps, smallest) in enumerate(found):
         if not allowed:
             continue
@@ -163,7 +174,21 @@ def _tables(c: CircuitColumns, config: SizingConfig) -> _Tables:
 class _Rows:
     """Every circuit's columns with the tables gathered to it (rows of the axis)."""
 
-    def __init__(self, rows: np.ndarray, c: CircuitColumns, a: CircuitArrays, t: _Tables,
+    # gathered from CircuitArrays by name in __init__
+    ib: FloatArray
+    need: FloatArray
+    hf: FloatArray
+    vd_a: FloatArray
+    vd_x_sin: FloatArray
+    temp: FloatArray
+    ms_a_v: FloatArray
+    ms_x_sin: FloatArray
+    ms_source_v: FloatArray
+    disc_mode: IntArray
+    zs_max: FloatArray
+    disc_temp: FloatArray
+
+    def __init__(self, rows: IndexArray, c: CircuitColumns, a: CircuitArrays, t: _Tables,
                  config: SizingConfig) -> None:
         self.rows = rows
         self.ms_limit = float(config.motor_start_dip_pct)
@@ -204,7 +229,7 @@ class _Rows:
         self.sc_made = ~np.isnan(fault) & ~np.isnan(self.sc_num)
 
 
-def _totals(r: _Rows, sel: np.ndarray, parallel: int, c: CircuitColumns) -> np.ndarray:
+def _totals(r: _Rows, sel: IndexArray, parallel: int, c: CircuitColumns) -> FloatArray:
     """Product of the correction factors of every stretch of the rows ``sel`` [1]
     (:func:`.select._stretch_total`: Tables B.52.14 to B.52.21 of IEC 60364-5-52:2009
     and the depth factor), times the harmonic factor of Table E.52.1; ``inf`` on
@@ -212,7 +237,8 @@ def _totals(r: _Rows, sel: np.ndarray, parallel: int, c: CircuitColumns) -> np.n
     valid = r.valid[sel]
     out = np.full(valid.shape, np.inf)
 
-    def total(m, ins, amb, soil, depth, cables, trays, cont) -> float:
+    def total(m: float, ins: float, amb: float, soil: float, depth: float, cables: float,
+              trays: float, cont: float) -> float:
         try:
             return _stretch_total(c.method_names[int(m)], INSULATIONS[int(ins)], amb, soil,
                                   depth, int(cables), int(trays), c.containments[int(cont)])[0]
@@ -228,14 +254,15 @@ def _totals(r: _Rows, sel: np.ndarray, parallel: int, c: CircuitColumns) -> np.n
     return np.where(hf != 1.0, out * hf, out)
 
 
-def _capacity(t: _Tables, r: _Rows, sel: np.ndarray, parallel, totals: np.ndarray,
-              operating: bool):
+def _capacity(t: _Tables, r: _Rows, sel: IndexArray, parallel: int, totals: FloatArray,
+              operating: bool) -> tuple[FloatArray, FloatArray]:
     """Iz of the governing stretch per size (n, sizes) and the conductor temperature for
     the voltage drop: the hottest stretch (IEC 60287-1-1:2006 1.4)."""
     rows = r.table_row[sel]
     ib = r.ib[sel][:, None]
     temp = r.temp[sel][:, None]
-    best = theta = None
+    best: FloatArray | None = None
+    theta: FloatArray | None = None
     for k in range(rows.shape[1]):
         valid = rows[:, k] >= 0
         amps = t.amps[np.maximum(rows[:, k], 0)]
@@ -251,24 +278,29 @@ def _capacity(t: _Tables, r: _Rows, sel: np.ndarray, parallel, totals: np.ndarra
             if not valid.all():
                 th = np.where(valid[:, None], th, -np.inf)
             theta = th if theta is None else np.maximum(theta, th)
+    assert best is not None  # one stretch slot at least (_Rows: width >= 1)
     if not operating:
         theta = np.broadcast_to(temp, best.shape)
+    assert theta is not None  # operating: set on the first slot
     return best, theta
 
 
-def _capacity_at(t: _Tables, r: _Rows, sel: np.ndarray, parallel: np.ndarray,
-                 totals: np.ndarray, index: np.ndarray, operating: bool):
+def _capacity_at(t: _Tables, r: _Rows, sel: IndexArray, parallel: IntArray,
+                 totals: FloatArray, index: IntArray, operating: bool
+                 ) -> tuple[FloatArray, IntArray, FloatArray]:
     """:func:`_capacity` at one size per row, with the governing stretch (the first of
     the least, as the engine's loop keeps it)."""
     rows = r.table_row[sel]
     ib, temp = r.ib[sel], r.temp[sel]
-    best = best_k = theta = None
+    best: FloatArray | None = None
+    best_k: IntArray | None = None
+    theta: FloatArray | None = None
     for k in range(rows.shape[1]):
         valid = rows[:, k] >= 0
         with np.errstate(invalid="ignore"):
             iz = np.where(valid, parallel * t.amps[np.maximum(rows[:, k], 0), index]
                           * totals[:, k], np.inf)
-        if best is None:
+        if best is None or best_k is None:  # the first slot (both set together)
             best, best_k = iz, np.zeros(len(sel), np.int64)
         else:
             lower = iz < best
@@ -278,16 +310,19 @@ def _capacity_at(t: _Tables, r: _Rows, sel: np.ndarray, parallel: np.ndarray,
             ratio = np.where(iz > 0, np.minimum(1.0, ib / iz), 1.0)
         th = np.where(valid, amb + (temp - amb) * ratio * ratio, -np.inf)
         theta = th if theta is None else np.maximum(theta, th)
+    # one stretch slot at least (_Rows: width >= 1)
+    assert best is not None and best_k is not None and theta is not None
     return best, best_k, (theta if operating else temp)
 
 
-def _resistance(t: _Tables, r: _Rows, sel: np.ndarray, temp_c) -> np.ndarray:
+def _resistance(t: _Tables, r: _Rows, sel: IndexArray, temp_c: FloatArray) -> FloatArray:
     """R = R20 (1 + α20 (θ - 20)) [Ω/km], IEC 60228:2004 Annex B, per row and size."""
     cond = r.cond[sel]
     return t.r20[cond] * (1.0 + t.alpha[cond][:, None] * (temp_c - 20.0))
 
 
-def _failing(t: _Tables, r: _Rows, sel: np.ndarray, parallel, theta: np.ndarray) -> np.ndarray:
+def _failing(t: _Tables, r: _Rows, sel: IndexArray, parallel: int, theta: FloatArray
+             ) -> IntArray:
     """The first failing upsize check per size: 0 none, 2 voltage drop, 3 short circuit,
     4 motor start (codes of :data:`GOVERNED`)."""
     res = _resistance(t, r, sel, theta) / 1000.0
@@ -306,7 +341,7 @@ def _failing(t: _Tables, r: _Rows, sel: np.ndarray, parallel, theta: np.ndarray)
     return np.where(vd_fail, 2, np.where(sc_fail, 3, np.where(ms_fail, 4, 0)))
 
 
-def _dip(t: _Tables, r: _Rows, sel, parallel) -> np.ndarray:
+def _dip(t: _Tables, r: _Rows, sel: IndexArray, parallel: int | IntArray) -> FloatArray:
     """Starting dip [%]: 100 (b I_st L (R cos φst + X sin φst) / n + ΔU source) / U
     (IEC 60364-5-52:2009 Annex G at the starting current; IEC 60909-0:2016 6.2)."""
     rmax = _resistance(t, r, sel, r.temp[sel][:, None]) / 1000.0
@@ -315,22 +350,30 @@ def _dip(t: _Tables, r: _Rows, sel, parallel) -> np.ndarray:
     return 100.0 * dip_v / r.voltage[sel][:, None]
 
 
-def _zs(t: _Tables, r: _Rows, sel: np.ndarray, index: np.ndarray, parallel) -> np.ndarray:
+def _zs(t: _Tables, r: _Rows, sel: IndexArray, index: IntArray, parallel: int | IntArray
+        ) -> FloatArray:
     """Zs = Ze + L |R_loop + j X_loop| at the fault-loop temperature (IEC 60364-4-41:2005
     411.4.4; :func:`.disconnection.loop_impedance_ohm`), per row at ``index``."""
-    n = np.where(r.star[sel], 1, parallel)
+    n: IntArray = np.where(r.star[sel], 1, parallel)
     cond, ci = r.cond[sel], r.ci[sel]
     corr = 1.0 + t.alpha[cond] * (r.disc_temp[sel] - 20.0)
-    res = (t.r20[cond, index] * corr + t.r20_pe[ci, index] * corr) / 1000.0 / n
+    # numpy's stubs give Any for an index by several arrays: the tables' dtype is float
+    r20: FloatArray = t.r20[cond, index]
+    r20_pe: FloatArray = t.r20_pe[ci, index]
+    res = (r20 * corr + r20_pe * corr) / 1000.0 / n
     x = 2 * REACTANCE_MOHM_PER_M / 1000.0 / n
     return r.ze[sel] + r.length[sel] * np.hypot(res, x)
 
 
-def _disc_made(t: _Tables, r: _Rows, sel, index) -> np.ndarray:
-    return (r.disc_mode[sel] == 2) & ~np.isnan(t.r20_pe[r.ci[sel], index])
+def _disc_made(t: _Tables, r: _Rows, sel: IndexArray, index: IntArray) -> BoolArray:
+    # numpy's stubs give Any for == and for an index by several arrays
+    r20_pe: FloatArray = t.r20_pe[r.ci[sel], index]
+    mode_made: BoolArray = r.disc_mode[sel] == 2
+    return mode_made & ~np.isnan(r20_pe)
 
 
-def _disc_passes(t: _Tables, r: _Rows, sel, index, parallel) -> np.ndarray:
+def _disc_passes(t: _Tables, r: _Rows, sel: IndexArray, index: IntArray, parallel: int
+                 ) -> BoolArray:
     zs = _zs(t, r, sel, index, parallel)
     return ~_disc_made(t, r, sel, index) | (zs <= r.zs_max[sel] + 1e-12)
 
@@ -447,7 +490,7 @@ def _select(t: _Tables, r: _Rows, c: CircuitColumns, config: SizingConfig,
     _final_values(t, r, np.flatnonzero(done), out, operating)
 
 
-def _final_values(t: _Tables, r: _Rows, sel: np.ndarray, out: BatchResult, operating: bool
+def _final_values(t: _Tables, r: _Rows, sel: IndexArray, out: BatchResult, operating: bool
                   ) -> None:
     """Iz, governing stretch and conductor temperature of the chosen cable."""
     at = r.rows[sel]

@@ -13,8 +13,10 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
+import numpy.typing as npt
 from cablewright.core.errors import CableRouteError
 
 from ..checks import _X_OHM_PER_M
@@ -39,15 +41,18 @@ from ..motor_start import (
 from ..select import INSULATIONS
 from ..short_circuit import SOURCE_R_OVER_X, peak_factor, source_impedance_ohm
 from ..voltage_drop import MAX_CONDUCTOR_TEMPERATURE_C, REACTANCE_MOHM_PER_M
+from .arrays import BoolArray, FloatArray, IntArray
 from .columns import CircuitColumns
 
 __all__ = ["per_distinct", "CircuitArrays", "circuit_arrays"]
 
 SQRT3 = math.sqrt(3.0)
 _NAN_STAND_IN = -1.7976931348623157e308  # the most negative float: no input takes it
+#: (curve names, voltage factor c, industrial instantaneous multiple, tolerance) of _zs_max.
+_DisconnectionSetting = tuple[tuple[str, ...], float, float, float]
 
 
-def per_distinct(fn: Callable[..., float], *columns: np.ndarray) -> np.ndarray:
+def per_distinct(fn: Callable[..., float], *columns: npt.NDArray[Any]) -> FloatArray:
     """``fn`` evaluated once per distinct row of ``columns``, spread back to every row.
 
     ``fn`` returns a float, or ``nan`` where the engine's function raises.
@@ -88,32 +93,32 @@ def per_distinct(fn: Callable[..., float], *columns: np.ndarray) -> np.ndarray:
 class CircuitArrays:
     """What :func:`.select._size` and :class:`.checks.PreparedChecks` compute before sizes."""
 
-    ib: np.ndarray
-    rating: np.ndarray
-    i2: np.ndarray
-    ol_rating: np.ndarray
-    ol_i2: np.ndarray
-    need: np.ndarray
-    hf: np.ndarray
-    neutral: np.ndarray
-    neutral_current: np.ndarray
-    vd_a: np.ndarray
-    vd_x_sin: np.ndarray
-    vd_factor: np.ndarray
-    temp: np.ndarray
-    ms_a_v: np.ndarray
-    ms_x_sin: np.ndarray
-    ms_source_v: np.ndarray
-    disc_mode: np.ndarray
-    zs_max: np.ndarray
-    disc_temp: np.ndarray
-    trip_applicable: np.ndarray
-    trip_peak: np.ndarray
-    trip_limit: np.ndarray
-    declined: np.ndarray
+    ib: FloatArray
+    rating: FloatArray
+    i2: FloatArray
+    ol_rating: FloatArray
+    ol_i2: FloatArray
+    need: FloatArray
+    hf: FloatArray
+    neutral: BoolArray
+    neutral_current: FloatArray
+    vd_a: FloatArray
+    vd_x_sin: FloatArray
+    vd_factor: FloatArray
+    temp: FloatArray
+    ms_a_v: FloatArray
+    ms_x_sin: FloatArray
+    ms_source_v: FloatArray
+    disc_mode: IntArray
+    zs_max: FloatArray
+    disc_temp: FloatArray
+    trip_applicable: BoolArray
+    trip_peak: FloatArray
+    trip_limit: FloatArray
+    declined: IntArray
 
 
-def design_current_a(c: CircuitColumns) -> np.ndarray:
+def design_current_a(c: CircuitColumns) -> FloatArray:
     """Ib [A], :func:`cablewright.sizing.load.design_current_a` over arrays.
 
     I = P / η / (k U cos φ), I = S / (k U), k = √3 for 3 phases, 1 for one
@@ -131,7 +136,8 @@ def _i2(kind: float, rating: float) -> float:
     return conventional_operating_current_a(DEVICE_KINDS[int(kind)], rating)[0]
 
 
-def device(c: CircuitColumns, ib: np.ndarray, config: SizingConfig, declined: np.ndarray):
+def device(c: CircuitColumns, ib: FloatArray, config: SizingConfig, declined: IntArray
+           ) -> tuple[FloatArray, FloatArray]:
     """In: the smallest standard rating >= margin x Ib - 1e-9 (IEC 60364-4-43:2008 433.1,
     :func:`.device.select_device`); I2 of the device (:func:`.device.conventional_operating_current_a`)."""
     ratings = np.asarray(config.standard_ratings_a, dtype=float)
@@ -141,7 +147,8 @@ def device(c: CircuitColumns, ib: np.ndarray, config: SizingConfig, declined: np
     return rating, per_distinct(_i2, c.kind, rating)
 
 
-def harmonics(c: CircuitColumns, ib: np.ndarray, envelope: bool):
+def harmonics(c: CircuitColumns, ib: FloatArray, envelope: bool
+              ) -> tuple[FloatArray, BoolArray, FloatArray, FloatArray]:
     """Table E.52.1 of IEC 60364-5-52:2009 Annex E (:func:`.harmonics.harmonic_sizing`):
     reduction factor, whether the neutral current governs, the current to carry."""
     h = c.third_harmonic_pct
@@ -161,7 +168,8 @@ def harmonics(c: CircuitColumns, ib: np.ndarray, envelope: bool):
     return hf, neutral, np.where(neutral, current, ib), np.where(applies, i_n, 0.0)
 
 
-def _zs_max(u0, rating, final, kind, curve, magnetic, setting) -> float:
+def _zs_max(u0: float, rating: float, final: float, kind: float, curve: float, magnetic: float,
+            setting: _DisconnectionSetting) -> float:
     """Zs max = c U0 / Ia, Ia within Table 41.1's time (IEC 60364-4-41:2005 411.4.4)."""
     curves, vf, multiple, tolerance = setting
     try:
@@ -173,7 +181,8 @@ def _zs_max(u0, rating, final, kind, curve, magnetic, setting) -> float:
     return vf * u0 / ia
 
 
-def _no_trip(rating, kind, curve, magnetic, curves, multiple, tolerance) -> float:
+def _no_trip(rating: float, kind: float, curve: float, magnetic: float, curves: tuple[str, ...],
+             multiple: float, tolerance: float) -> float:
     try:
         return instantaneous_trip(rating, curves[int(curve)], None if math.isnan(magnetic)
                                   else magnetic, DEVICE_KINDS[int(kind)], multiple,
@@ -228,9 +237,10 @@ def circuit_arrays(c: CircuitColumns, config: SizingConfig) -> CircuitArrays:
     zs_max = np.full(c.n, np.nan)
     tn = c.tn & (declined == 0)
     if tn.any():
+        disc_setting = (c.curves, config.disconnection_voltage_factor, multiple, tolerance)
         zs_max[tn] = per_distinct(
-            lambda *a: _zs_max(*a, (c.curves, config.disconnection_voltage_factor, multiple,
-                                    tolerance)),
+            lambda u0_v, rating_a, final_, kind, curve, magnetic: _zs_max(
+                u0_v, rating_a, final_, kind, curve, magnetic, disc_setting),
             u0[tn], rating[tn], final[tn], c.kind[tn], c.curve[tn], c.magnetic_a[tn])
     disc_mode = np.where(~c.tn, 0, np.where(np.isnan(zs_max), 1, 2))
     disc_temp = np.array([fault_loop_temperature_c(i) for i in INSULATIONS])[c.insulation]
@@ -239,7 +249,8 @@ def circuit_arrays(c: CircuitColumns, config: SizingConfig) -> CircuitArrays:
     no_trip = np.full(c.n, np.nan)
     if trip_rows.any():
         no_trip[trip_rows] = per_distinct(
-            lambda *a: _no_trip(*a, c.curves, multiple, tolerance),
+            lambda rating_a, kind, curve, magnetic: _no_trip(
+                rating_a, kind, curve, magnetic, c.curves, multiple, tolerance),
             rating[trip_rows], c.kind[trip_rows], c.curve[trip_rows], c.magnetic_a[trip_rows])
     declined[trip_rows & np.isnan(no_trip) & (declined == 0)] = 5
     sin_phi = np.sqrt(np.maximum(0.0, 1.0 - spf * spf))

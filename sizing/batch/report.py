@@ -7,17 +7,26 @@ engine's conditions (the 1e-9 allowances of its comparisons included) and status
 
 from __future__ import annotations
 
+from collections.abc import Callable
+from typing import Any
+
 import numpy as np
+import numpy.typing as npt
 
 from ..config import SizingConfig
 from ..voltage_drop import REACTANCE_MOHM_PER_M
+from .arrays import BoolArray, FloatArray, IndexArray, IntArray
 from .columns import CircuitColumns
 from .core import CHECK_NAMES, BatchResult, _dip, _disc_made, _Rows, _Tables, _zs
 
 __all__ = ["fill_checks"]
 
+#: A check's result codes (ints, or spread to floats), values and limits into ``out.checks``
+#: on the rows given (None: every circuit sized by the core).
+_Put = Callable[[str, IntArray | FloatArray, FloatArray, FloatArray, BoolArray | None], None]
 
-def _code(made: np.ndarray, passed: np.ndarray) -> np.ndarray:
+
+def _code(made: BoolArray, passed: BoolArray) -> IntArray:
     return np.where(made, np.where(passed, 1, 2), 0)
 
 
@@ -32,7 +41,8 @@ def fill_checks(out: BatchResult, c: CircuitColumns, config: SizingConfig) -> No
     sized = out.declined == 0
     yes = np.ones(n, bool)
 
-    def put(name, code, value, limit, rows=None):
+    def put(name: str, code: IntArray | FloatArray, value: FloatArray, limit: FloatArray,
+            rows: BoolArray | None = None) -> None:
         rows = sized if rows is None else rows
         checks[name][0][rows] = code[rows]
         checks[name][1][rows] = value[rows]
@@ -45,9 +55,10 @@ def fill_checks(out: BatchResult, c: CircuitColumns, config: SizingConfig) -> No
     # IEC 60364-5-52:2009 Annex E: the neutral current where it governs
     put("neutral_current", _code(a.neutral, a.neutral_current <= iz + 1e-9), a.neutral_current, iz)
     r = out.rows
-    sel = np.flatnonzero(sized[r.rows]) if r is not None else ()
-    if len(sel):
-        _group_checks(out.tables, r, sel, out, c, put)
+    if r is not None:  # out.tables is set with out.rows
+        sel = np.flatnonzero(sized[r.rows])
+        if len(sel):
+            _group_checks(out.tables, r, sel, out, c, put)
     failed = np.zeros(n, bool)
     for code, _, _ in checks.values():
         failed |= code == 2
@@ -55,8 +66,8 @@ def fill_checks(out: BatchResult, c: CircuitColumns, config: SizingConfig) -> No
     out.status = np.where(failed, 2, np.where(warn, 1, 0))
 
 
-def _group_checks(g: _Tables, r: _Rows, sel: np.ndarray, out: BatchResult, c: CircuitColumns,
-                  put) -> None:
+def _group_checks(g: _Tables, r: _Rows, sel: IndexArray, out: BatchResult, c: CircuitColumns,
+                  put: _Put) -> None:
     at = r.rows[sel]
     n = c.n
     index, parallel = out.index[at], out.parallel[at]
@@ -64,7 +75,7 @@ def _group_checks(g: _Tables, r: _Rows, sel: np.ndarray, out: BatchResult, c: Ci
     full = np.zeros(n, bool)
     full[at] = True
 
-    def spread(values, fill=np.nan):
+    def spread(values: npt.NDArray[Any], fill: float = np.nan) -> FloatArray:
         arr = np.full(n, fill, dtype=float)
         arr[at] = values
         return arr
