@@ -370,14 +370,14 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
                             fill_marks=fill_marks(takeoff.segments) if takeoff is not None else ())
     summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document)
     write_schedule_csv(stage / names["csv"], job.outcomes, unit)
-    write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff), unit=unit)
+    write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff, unit), unit=unit)
     write_schedule_json(stage / names["json"], job.outcomes, extras)
-    sections = takeoff_sections(takeoff)
+    sections = takeoff_sections(takeoff, unit)
     if changes is not None:
         from cablewright.annotate.atomic import write_text_atomic
 
         write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
-        sections.insert(0, changes_section(changes, previous_name))
+        sections.insert(0, changes_section(changes, previous_name, unit))
     ours = dict(summary.layers)
     schedule_layer = ours.pop("schedule", config.schedule_layer)
     png = render_preview_png(document, lean_skip_layers=(schedule_layer,),

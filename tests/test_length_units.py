@@ -109,6 +109,13 @@ def test_nec_schedule_files_are_in_feet(nec_run):
     headers = [c.value for c in sheet[1]]
     column = headers.index("routed length [ft]")
     assert sheet.cell(row=2, column=column + 1).number_format == '0.0" ft"'
+    boq = openpyxl.load_workbook(out / "schedule.xlsx")["BOQ"]
+    boq_headers = [c.value for c in boq[1]]
+    assert "length to order [ft]" in boq_headers
+    ordered = {q["cable"]: q["length_to_order_m"] for q in doc["quantities"]}
+    for line in boq.iter_rows(min_row=2, values_only=True):
+        if line[0] == "cable":  # printed to 0.1 ft; JSON metres to 0.1 m at most
+            assert line[4] == pytest.approx(_ft(ordered[line[1]]), abs=0.05 + _ft(0.05))
 
 
 def test_nec_drawing_table_and_labels_are_in_feet(nec_run):
@@ -133,6 +140,7 @@ def test_nec_report_lists_feet_and_defers_to_the_authority(nec_run):
     shown = f"{_ft(first['route']['routed_length_m']):.1f} ft"
     assert f'<td class="num">{shown}</td>' in html
     assert re.search(r"Route: routed length [0-9.]+ ft", html)
+    assert "<th>length to order</th>" in html and re.search(r"<td class=\"num\">[0-9.]+ ft</td>", html)
     caution = re.search(r'<div class="caution">([^<]*)</div>', html).group(1)
     assert "authority having jurisdiction" in caution
 
