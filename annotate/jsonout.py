@@ -57,18 +57,13 @@ def _cable_dict(row: ScheduleRow) -> dict[str, Any] | None:
     return cable
 
 
+#: Keys of ``voltage_drop``, in the document's order: the row's rounded :class:`VoltageDrop` fields.
+DROP_KEYS = ("volts", "percent", "limit_percent", "mv_per_a_m", "annex_g_percent", "cumulative_percent")
+
+
 def _drop_dict(row: ScheduleRow) -> dict[str, Any] | None:
     vd = row.drop
-    if vd is None:
-        return None
-    return {
-        "volts": vd.volts,
-        "percent": vd.percent,
-        "limit_percent": vd.limit_percent,
-        "mv_per_a_m": vd.mv_per_a_m,
-        "annex_g_percent": vd.annex_g_percent,
-        "cumulative_percent": vd.cumulative_percent,
-    }
+    return None if vd is None else {key: getattr(vd, key) for key in DROP_KEYS}
 
 
 def row_to_dict(row: ScheduleRow, kind: str = "size") -> dict[str, Any]:
