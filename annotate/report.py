@@ -31,6 +31,7 @@ from .report_trace import (
     failures_first,
     report_date,
 )
+from .rows import LengthUnit, rows
 
 __all__ = ["render_report_html", "write_report_html", "header_text"]
 
@@ -114,8 +115,8 @@ def _trace_table(t: TraceTable) -> str:
     return "".join(out)
 
 
-def _circuit_section(o: CircuitOutcome) -> str:
-    t = circuit_trace(o)
+def _circuit_section(o: CircuitOutcome, unit: LengthUnit | None = None) -> str:
+    t = circuit_trace(o, unit)
     parts = [
         f'<section class="circuit" id="c-{_e(o.circuit_id)}">',
         f"<h3>{_e(t.title)} {_status(o.status)}"
@@ -179,6 +180,7 @@ def render_report_html(
     drawing_facts: Sequence[tuple[str, str]] = (),
     config: ReportConfig | None = None,
     tool_version: str = "",
+    unit: LengthUnit | None = None,
 ) -> str:
     """The report as one HTML string (see :func:`write_report_html`)."""
     config = config or ReportConfig()
@@ -227,26 +229,24 @@ def render_report_html(
             "<h2>Drawing</h2><div class='preview'>"
             f"<img alt='annotated drawing {_e(drawing_name)}' src='data:image/png;base64,{data}'></div>"
         )
-    rows = []
-    for o in outcomes:
-        s = o.sizing
-        cable = s.cable.describe() if s is not None and s.cable is not None else "–"
-        length = getattr(o.route, "routed_length_m", None) if o.route is not None else None
-        rows.append(
-            (
-                f"<a href='#c-{_e(o.circuit_id)}'>{_e(o.circuit_id)}</a>",
-                _e(o.from_tag),
-                _e(o.to_tag),
-                _e(cable),
-                _num(s.device_rating_a, 0, "A") if s is not None else "–",
-                _num(length, 1, "m"),
-                _status(o.status),
-            )
+    table = rows(outcomes, unit)
+    unit = table[0].unit if table else unit
+    listed = [
+        (
+            f"<a href='#c-{_e(r.circuit_id)}'>{_e(r.circuit_id)}</a>",
+            _e(r.from_tag),
+            _e(r.to_tag),
+            _e(r.cable.text if r.cable is not None else "–"),
+            _num(r.device_rating_a, 0, "A"),
+            r.unit.text(r.routed_length_m, 1, missing="–"),
+            _status(r.status),
         )
+        for r in table
+    ]
     out.append("<h2>Schedule</h2>")
     out.append(
         _table(
-            ("circuit", "from", "to", "cable", "device", "routed length", "status"), rows, {4, 5}
+            ("circuit", "from", "to", "cable", "device", "routed length", "status"), listed, {4, 5}
         )
     )
     out += list(extra_sections)  # changes, quantities, fill (annotate/report_sections.py)
@@ -255,7 +255,7 @@ def render_report_html(
                "every correction factor with its table and row, the capacity table and its "
                "tabulated value, Iz, and every check with its value, limit and clause. "
                "A check that could not be made reads \"not checked\" with the reason; it is not a pass.</p>")
-    out += [_circuit_section(o) for o in outcomes]
+    out += [_circuit_section(o, unit) for o in outcomes]
     out.append(caution)
     out.append("</body></html>")
     return "\n".join(out)
@@ -281,6 +281,7 @@ def write_report_html(
     drawing_facts: Sequence[tuple[str, str]] = (),
     config: ReportConfig | None = None,
     tool_version: str = "",
+    unit: LengthUnit | None = None,
 ) -> Path:
     """Write the HTML report, atomically.
 
@@ -308,6 +309,8 @@ def write_report_html(
         Project, revision and date of the page header (``[annotate]`` keys).
     tool_version : str
         Our version, in the page header.
+    unit : LengthUnit, optional
+        Unit of the lengths (:func:`.rows.length_unit`); ``None``: the rule set's.
 
     Returns
     -------
@@ -316,6 +319,6 @@ def write_report_html(
     text = render_report_html(
         outcomes, title=title, drawing_name=drawing_name, preview_png=preview_png, cautions=cautions,
         extra_sections=extra_sections,
-        drawing_facts=drawing_facts, config=config, tool_version=tool_version,
+        drawing_facts=drawing_facts, config=config, tool_version=tool_version, unit=unit,
     )
     return write_text_atomic(path, text, encoding="utf-8")

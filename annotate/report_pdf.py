@@ -36,6 +36,7 @@ from .report_trace import (
     circuit_trace,
     failures_first,
 )
+from .rows import LengthUnit, rows
 
 __all__ = ["render_report_pdf", "write_report_pdf", "FONT_FAMILY"]
 
@@ -258,6 +259,7 @@ def render_report_pdf(
     cautions: str,
     config: ReportConfig | None = None,
     tool_version: str = "",
+    unit: LengthUnit | None = None,
 ) -> bytes:
     """The report as PDF bytes (see :func:`write_report_pdf`)."""
     from .report import header_text
@@ -282,23 +284,23 @@ def render_report_pdf(
     if bad:
         _draw_table(pdf, TraceTable("Circuits to look at first", ("circuit", "status", "reason"),
                                     tuple(bad)))
-    rows = []
-    for o in outcomes:
-        s = o.sizing
-        cable = s.cable.describe() if s is not None and s.cable is not None else "-"
-        length = getattr(o.route, "routed_length_m", None) if o.route is not None else None
-        device = f"{s.device_rating_a:g} A" if s is not None and s.device_rating_a else "-"
-        rows.append((o.circuit_id, o.from_tag, o.to_tag, cable, device,
-                     "-" if length is None else f"{length:.1f} m", o.status))
+    table = rows(outcomes, unit)
+    unit = table[0].unit if table else unit
+    listed = tuple(
+        (r.circuit_id, r.from_tag, r.to_tag, r.cable.text if r.cable is not None else "-",
+         f"{r.device_rating_a:g} A" if r.device_rating_a else "-", r.unit.text(r.routed_length_m, 1),
+         r.status)
+        for r in table
+    )
     _draw_table(pdf, TraceTable("Schedule", ("circuit", "from", "to", "cable", "device",
-                                             "routed length", "status"), tuple(rows)))
+                                             "routed length", "status"), listed))
     pdf.add_page()
     _paragraph(pdf, "Circuits, step by step", 12, True)
     _paragraph(pdf, "Each circuit: the load as given, Ib and its formula, the device, every correction "
                     "factor with its table and row, the capacity table and its tabulated value, Iz, and "
                     "every check with its value, limit and clause. \"not checked\" is not a pass.")
     for o in outcomes:
-        _circuit_block(pdf, circuit_trace(o))
+        _circuit_block(pdf, circuit_trace(o, unit))
     _paragraph(pdf, cautions, BODY_PT, True, (176, 0, 32))
     return bytes(pdf.output())
 
@@ -312,6 +314,7 @@ def write_report_pdf(
     cautions: str,
     config: ReportConfig | None = None,
     tool_version: str = "",
+    unit: LengthUnit | None = None,
 ) -> Path:
     """Write ``report.pdf`` atomically.
 
@@ -331,13 +334,15 @@ def write_report_pdf(
         Project, revision and date of the page header.
     tool_version : str
         Our version, in the page header.
+    unit : LengthUnit, optional
+        Unit of the lengths (:func:`.rows.length_unit`); ``None``: the rule set's.
 
     Returns
     -------
     pathlib.Path
     """
     data = render_report_pdf(outcomes, title=title, drawing_name=drawing_name, cautions=cautions,
-                             config=config, tool_version=tool_version)
+                             config=config, tool_version=tool_version, unit=unit)
     with atomic_path(path) as tmp:
         Path(tmp).write_bytes(data)
     return Path(path)

@@ -27,6 +27,7 @@ from datetime import datetime, timezone
 from typing import Any
 
 from .model import CircuitOutcome
+from .rows import METRE, LengthUnit, length_unit
 
 __all__ = [
     "ReportConfig",
@@ -134,7 +135,7 @@ def _g(value: float) -> str:
     return f"{value:g}"
 
 
-def _load_rows(spec: Any) -> tuple[tuple[str, ...], ...]:
+def _load_rows(spec: Any, unit: LengthUnit = METRE) -> tuple[tuple[str, ...], ...]:
     """The load as written in the schedule (or the config default it took): (name, value, from)."""
     load = spec.load
     u_kind = "line-to-line" if spec.phases == 3 else "line-to-neutral"
@@ -147,7 +148,7 @@ def _load_rows(spec: Any) -> tuple[tuple[str, ...], ...]:
     if load.unit in ("kW", "hp"):
         rows.append(("power factor cos φ", f"{spec.power_factor:g}", "schedule or config"))
         rows.append(("efficiency η", f"{spec.efficiency:g}", "schedule (default 1)"))
-    rows.append(("design length", _n(spec.design_length_m, 1, "m"),
+    rows.append(("design length", unit.text(spec.design_length_m, 1),
                  "routed + allowances"))
     return tuple(rows)
 
@@ -181,8 +182,13 @@ def _factor_rows(s: Any) -> tuple[tuple[str, ...], ...]:
     return tuple((f.name, f.source, f.detail or "-", _n(f.value, 3)) for f in s.factors)
 
 
-def circuit_trace(o: CircuitOutcome) -> CircuitTrace:
-    """The circuit followed from its inputs to its result (see the module docstring)."""
+def circuit_trace(o: CircuitOutcome, unit: LengthUnit | None = None) -> CircuitTrace:
+    """The circuit followed from its inputs to its result (see the module docstring).
+
+    Lengths are shown in ``unit`` (``None``: the unit of the circuit's rule set,
+    :func:`.rows.length_unit`).
+    """
+    unit = unit or length_unit(o.sizing.standard if o.sizing is not None else "iec")
     title = f"{o.circuit_id}: {o.from_tag} → {o.to_tag}"
     lines: list[str] = []
     tables: list[TraceTable] = []
@@ -190,13 +196,13 @@ def circuit_trace(o: CircuitOutcome) -> CircuitTrace:
     if route is not None:
         segs = ", ".join(getattr(route, "segment_ids", ()) or ()) or "-"
         lines.append(
-            f"Route: routed length {_n(getattr(route, 'routed_length_m', None), 1, 'm')} (tails "
-            f"{_n(getattr(route, 'source_tail_m', None), 1, 'm')} + {_n(getattr(route, 'load_tail_m', None), 1, 'm')}), "
-            f"design length {_n(getattr(route, 'design_length_m', None), 1, 'm')}; segments {segs}.")
+            f"Route: routed length {unit.text(route.routed_length_m)} (tails "
+            f"{unit.text(route.source_tail_m)} + {unit.text(route.load_tail_m)}), "
+            f"design length {unit.text(route.design_length_m)}; segments {segs}.")
     s = o.sizing
     spec = getattr(s, "spec", None) if s is not None else None
     if spec is not None:
-        rows = _load_rows(spec)
+        rows = _load_rows(spec, unit)
         tables.append(TraceTable("1. Load as given", tuple(r[0] for r in rows),
                                  (tuple(r[1] for r in rows), tuple(r[2] for r in rows))))
     if s is None or s.load_current_a is None:

@@ -1,8 +1,10 @@
 """The cable schedule as CSV, XLSX and JSON: one row per circuit, the same values in each.
 
-Every row is taken from the contract's JSON object of the circuit
-(:func:`cablewright.annotate.jsonout.outcome_to_dict`), so the three files agree
-row by row and value by value (same rounding).  Units are in the column headers.
+Every row is read from the circuit's typed :class:`.rows.ScheduleRow`, the rows
+``schedule.json`` is written from too, so the three files agree row by row and
+value by value (same rounding).  Units are in the column headers; lengths are in
+the unit of the rule set (metres for IEC, feet for NEC) or of
+``[annotate] length_unit`` (:func:`.rows.length_unit`); ``schedule.json`` keeps metres.
 All files are written atomically (:mod:`.atomic`).
 
 The CSV is UTF-8 with a byte-order mark (so spreadsheet programs read ``mm²``
@@ -35,12 +37,17 @@ from pathlib import Path
 from typing import Any
 
 from .atomic import atomic_path, write_text_atomic
-from .jsonout import dumps, outcome_to_dict
+from .jsonout import dumps
 from .model import CircuitOutcome
+from .rows import METRE, LengthUnit, ScheduleRow, rows
+from .rows import length_unit as length_unit_of
 from .xlsx_style import setup_print, styled_row
 
 __all__ = [
     "COLUMNS",
+    "HEADERS",
+    "columns",
+    "schedule_table",
     "FORMULA_LEADS",
     "is_formula_like",
     "csv_safe_text",
@@ -51,81 +58,77 @@ __all__ = [
 ]
 
 
-def _get(*keys: str) -> Callable[[dict[str, Any]], Any]:
-    def getter(data: dict[str, Any]) -> Any:
-        value: Any = data
-        for key in keys:
-            if not isinstance(value, dict):
-                return None
-            value = value.get(key)
-        return value
-
-    return getter
-
-
-#: Column header -> how to read it from the circuit's JSON object.
-def _cable_text(cable: dict[str, Any] | None) -> str | None:
-    """The cable as the installer orders it, e.g. ``"2x 4C 240 mm² Cu/XLPE"``."""
-    if not cable:
+def _order_length(row: ScheduleRow) -> float | None:
+    """Design length times the parallel count, in the row's unit: the cable to order."""
+    design = row.unit.rounded(row.design_length_m)
+    if design is None or row.cable is None:
         return None
-    lead = f"{cable['parallel']}x " if cable["parallel"] > 1 else ""
-    size = cable.get("size_label") or f"{cable['csa_mm2']:g} mm²"
-    return f"{lead}{cable['cores']}C {size} {cable['conductor']}/{cable['insulation']}"
+    return round(design * row.cable.parallel, 1)
 
 
-def _order_length(data: dict[str, Any]) -> float | None:
-    """Design length times the parallel count [m]: the cable to order for the circuit."""
-    route, cable = data.get("route"), data.get("cable")
-    if not route or not cable or route.get("design_length_m") is None:
-        return None
-    return round(route["design_length_m"] * cable["parallel"], 1)
+#: A cell of a row: its value as the files write it (``None`` for a blank).
+Cell = Callable[[ScheduleRow], Any]
 
 
-COLUMNS: tuple[tuple[str, Callable[[dict[str, Any]], Any]], ...] = (
-    ("circuit", _get("id")),
-    ("from", _get("from")),
-    ("to", _get("to")),
-    ("status", _get("status")),
-    ("load current [A]", _get("load_current_a")),
-    ("device [A]", _get("device_rating_a")),
-    ("method", _get("method")),
-    ("routed length [m]", _get("route", "routed_length_m")),
-    ("design length [m]", _get("route", "design_length_m")),
-    ("circuits in group", _get("grouping", "circuits_in_group")),
-    ("cables in group", _get("grouping", "cables_in_group")),
-    ("governing segment", _get("grouping", "governing_segment")),
-    ("correction factor", _get("correction_factor")),
-    ("required capacity [A]", _get("required_capacity_a")),
-    ("conductor", _get("cable", "conductor")),
-    ("insulation", _get("cable", "insulation")),
-    ("cores", _get("cable", "cores")),
-    ("csa [mm²]", _get("cable", "csa_mm2")),
-    ("parallel", _get("cable", "parallel")),
-    ("capacity [A]", _get("cable", "capacity_a")),
-    ("governed by", _get("cable", "governed_by")),
-    ("cable", lambda d: _cable_text(d.get("cable"))),
-    ("protective conductor [mm²]", _get("protective_conductor_mm2")),
-    ("cable to order [m]", lambda d: _order_length(d)),
-    ("voltage drop [%]", _get("voltage_drop", "percent")),
-    ("vd from origin [%]", _get("voltage_drop", "cumulative_percent")),
-    ("vd limit [%]", _get("voltage_drop", "limit_percent")),
-    ("max length for disconnection [m]", _get("max_length_m")),
-    ("messages", lambda d: "; ".join(d.get("messages") or ())),
-)
+def columns(unit: LengthUnit = METRE) -> tuple[tuple[str, Cell], ...]:
+    """Column header -> its cell of a :class:`.rows.ScheduleRow`, lengths in ``unit``
+    (rounded as the JSON rounds metres)."""
+    u = unit.symbol
+    return (
+        ("circuit", lambda r: r.circuit_id),
+        ("from", lambda r: r.from_tag),
+        ("to", lambda r: r.to_tag),
+        ("status", lambda r: r.status),
+        ("load current [A]", lambda r: r.load_current_a),
+        ("device [A]", lambda r: r.device_rating_a),
+        ("method", lambda r: r.method or None),
+        (f"routed length [{u}]", lambda r: r.unit.rounded(r.routed_length_m)),
+        (f"design length [{u}]", lambda r: r.unit.rounded(r.design_length_m)),
+        ("circuits in group", lambda r: r.grouping.circuits_in_group if r.grouping else None),
+        ("cables in group", lambda r: r.grouping.cables_in_group if r.grouping else None),
+        ("governing segment", lambda r: r.grouping.governing_segment if r.grouping else None),
+        ("correction factor", lambda r: r.correction_factor),
+        ("required capacity [A]", lambda r: r.required_capacity_a),
+        ("conductor", lambda r: r.cable.selection.conductor if r.cable else None),
+        ("insulation", lambda r: r.cable.selection.insulation if r.cable else None),
+        ("cores", lambda r: r.cable.selection.cores if r.cable else None),
+        ("csa [mm²]", lambda r: r.cable.csa_mm2 if r.cable else None),
+        ("parallel", lambda r: r.cable.parallel if r.cable else None),
+        ("capacity [A]", lambda r: r.cable.capacity_a if r.cable else None),
+        ("governed by", lambda r: r.cable.selection.governed_by if r.cable else None),
+        ("cable", lambda r: r.cable.text if r.cable else None),
+        ("protective conductor [mm²]", lambda r: r.protective_conductor_mm2),
+        (f"cable to order [{u}]", _order_length),
+        ("voltage drop [%]", lambda r: r.drop.percent if r.drop else None),
+        ("vd from origin [%]", lambda r: r.drop.cumulative_percent if r.drop else None),
+        ("vd limit [%]", lambda r: r.drop.limit_percent if r.drop else None),
+        (f"max length for disconnection [{u}]", lambda r: r.unit.rounded(r.max_length_m, 3)),
+        ("messages", lambda r: "; ".join(r.messages)),
+    )
 
+
+#: The columns with lengths in metres (the IEC rule set's unit).
+COLUMNS = columns(METRE)
 HEADERS: tuple[str, ...] = tuple(name for name, _ in COLUMNS)
 
 
-def schedule_rows(outcomes: Iterable[CircuitOutcome]) -> list[dict[str, Any]]:
-    """One dict per circuit, keyed by the column headers of :data:`COLUMNS`.
+def schedule_table(outcomes: Iterable[CircuitOutcome], unit: LengthUnit | None = None,
+                   length_unit: str = "") -> tuple[tuple[str, ...], list[dict[str, Any]]]:
+    """The headers and one dict per circuit keyed by them (see :func:`schedule_rows`)."""
+    table = rows(outcomes, unit, length_unit)
+    cols = columns(table[0].unit if table else (unit or length_unit_of("iec", length_unit)))
+    headers = tuple(name for name, _ in cols)
+    return headers, [{name: cell(row) for name, cell in cols} for row in table]
 
-    Blank cells are ``None``; numbers keep the rounding of the JSON document.
+
+def schedule_rows(outcomes: Iterable[CircuitOutcome], unit: LengthUnit | None = None,
+                  length_unit: str = "") -> list[dict[str, Any]]:
+    """One dict per circuit, keyed by the column headers of :func:`columns`.
+
+    Blank cells are ``None``; numbers keep the rounding of the JSON document;
+    lengths are in ``unit`` (``None``: the rule set's, or ``length_unit``: "m", "ft").
     """
-    rows = []
-    for outcome in outcomes:
-        data = outcome_to_dict(outcome, "size")
-        rows.append({name: get(data) for name, get in COLUMNS})
-    return rows
+    return schedule_table(outcomes, unit, length_unit)[1]
 
 
 #: First characters that make a spreadsheet program read a cell as a formula
@@ -166,24 +169,30 @@ def _csv_cell(value: Any) -> str:
     return csv_safe_text(str(value))
 
 
-def write_schedule_csv(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome]) -> Path:
-    """Write the schedule as CSV (UTF-8 with BOM, RFC 4180 quoting); returns the path."""
+def write_schedule_csv(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],
+                       unit: LengthUnit | None = None) -> Path:
+    """Write the schedule as CSV (UTF-8 with BOM, RFC 4180 quoting); returns the path.
+
+    Lengths are in ``unit`` (``None``: the unit of the rule set the circuits were sized with).
+    """
+    headers, table = schedule_table(outcomes, unit)
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\r\n")
-    writer.writerow(HEADERS)
-    for row in schedule_rows(outcomes):
-        writer.writerow([_csv_cell(row[h]) for h in HEADERS])
+    writer.writerow(headers)
+    for row in table:
+        writer.writerow([_csv_cell(row[h]) for h in headers])
     return write_text_atomic(path, buf.getvalue(), encoding="utf-8-sig", newline="")
 
 
 def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[CircuitOutcome],
-                        extra_sheets: Sequence[tuple[str, Sequence[str], Sequence[Sequence[Any]]]] = ()) -> Path:
+                        extra_sheets: Sequence[tuple[str, Sequence[str], Sequence[Sequence[Any]]]] = (),
+                        unit: LengthUnit | None = None) -> Path:
     """Write the schedule as an Excel workbook; returns the path.
 
     One sheet ``schedule``: bold header, frozen below the header, an auto-filter,
     numbers stored as numbers shown with their unit, failed rows filled, columns wide
     enough for their contents, printed landscape one page wide with the header
-    repeated (:mod:`.xlsx_style`).
+    repeated (:mod:`.xlsx_style`).  Lengths are in ``unit`` (as :func:`write_schedule_csv`).
     """
     from openpyxl import Workbook
     from openpyxl.cell import WriteOnlyCell
@@ -194,28 +203,28 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     # cell objects kept); sheet settings go in before the first row
     wb = Workbook(write_only=True)
     ws = wb.create_sheet("schedule")
-    rows = schedule_rows(outcomes)
-    for i, header in enumerate(HEADERS, start=1):
+    headers, rows = schedule_table(outcomes, unit)
+    for i, header in enumerate(headers, start=1):
         longest = max([len(header)] + [len(_csv_cell(r[header])) for r in rows])
         ws.column_dimensions[get_column_letter(i)].width = min(60, max(8, longest + 2))
     ws.freeze_panes = "B2"
     setup_print(ws)  # landscape, fit to width, header row repeated (annotate/xlsx_style.py)
-    ws.auto_filter.ref = f"A1:{get_column_letter(len(HEADERS))}{len(rows) + 1}"
+    ws.auto_filter.ref = f"A1:{get_column_letter(len(headers))}{len(rows) + 1}"
     bold = Font(bold=True)
     middle = Alignment(wrap_text=False, vertical="center")
     head = []
-    for header in HEADERS:
+    for header in headers:
         cell = WriteOnlyCell(ws, value=header)
         cell.font = bold
         cell.alignment = middle
         head.append(cell)
     ws.append(head)
     for row in rows:  # unit number formats, failed rows filled (annotate/xlsx_style.py)
-        ws.append(_text_safe(styled_row(ws, HEADERS, [row[h] for h in HEADERS], row["status"])))
-    for title, headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
+        ws.append(_text_safe(styled_row(ws, headers, [row[h] for h in headers], row["status"])))
+    for title, sheet_headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
         setup_print(extra)
-        extra.append([WriteOnlyCell(extra, value=h) for h in headers])
+        extra.append([WriteOnlyCell(extra, value=h) for h in sheet_headers])
         for sheet_row in sheet_rows:
             extra.append([_xlsx_cell(extra, v) for v in sheet_row])
     try:

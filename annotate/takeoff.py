@@ -28,6 +28,7 @@ from cablewright.sizing.quantities import (
 )
 
 from .model import CircuitOutcome
+from .rows import METRE, LengthUnit
 
 __all__ = [
     "Takeoff",
@@ -248,24 +249,27 @@ def document_extras(takeoff: Takeoff, drawing: str | Path, config) -> dict[str, 
     }
 
 
-def xlsx_sheets(takeoff: Takeoff) -> list[tuple[str, list[str], list[list[Any]]]]:
-    """Sheets ``BOQ`` (cables, drums, devices) and ``segments`` of ``schedule.xlsx``."""
+def xlsx_sheets(takeoff: Takeoff, unit: LengthUnit = METRE) -> list[tuple[str, list[str], list[list[Any]]]]:
+    """Sheets ``BOQ`` (cables, drums, devices) and ``segments`` of ``schedule.xlsx``, lengths
+    in ``unit`` (:func:`.rows.length_unit`)."""
     boq: list[list[Any]] = []
+    u = unit.symbol
     for row in takeoff.quantities:
-        drums = "; ".join(f"{d.length_m:g} m: " + ", ".join(f"{c.circuit_id} {c.length_m:.1f}" for c in d.cuts)
-                          + f" (waste {d.waste_m:.1f})" for d in row.plan.drums)
-        too_long = ", ".join(f"{c.circuit_id} {c.length_m:.1f} m" for c in row.plan.too_long)
-        boq.append(["cable", row.cable.text(), row.circuits, row.runs, _r(row.length_to_order_m, 1),
-                    len(row.plan.drums), _r(row.plan.waste_m, 1), drums, too_long or None])
+        drums = "; ".join(f"{unit.of(d.length_m):g} {u}: "
+                          + ", ".join(f"{c.circuit_id} {unit.of(c.length_m):.1f}" for c in d.cuts)
+                          + f" (waste {unit.of(d.waste_m):.1f})" for d in row.plan.drums)
+        too_long = ", ".join(f"{c.circuit_id} {unit.text(c.length_m)}" for c in row.plan.too_long)
+        boq.append(["cable", row.cable.text(), row.circuits, row.runs, unit.rounded(row.length_to_order_m, 1),
+                    len(row.plan.drums), unit.rounded(row.plan.waste_m, 1), drums, too_long or None])
     for d in takeoff.devices:
         boq.append(["device", f"{d.kind} {d.rating_a:g} A", d.count, None, None, None, None, None, None])
-    boq_headers = ["item", "type", "circuits / count", "runs", "length to order [m]", "drums",
-                   "waste [m]", "drum plan (drum: cuts [m])", "longer than a drum"]
-    seg_headers = ["segment", "layer", "containment", "method", "length [m]", "circuits", "cables",
+    boq_headers = ["item", "type", "circuits / count", "runs", f"length to order [{u}]", "drums",
+                   f"waste [{u}]", f"drum plan (drum: cuts [{u}])", "longer than a drum"]
+    seg_headers = ["segment", "layer", "containment", "method", f"length [{u}]", "circuits", "cables",
                    "fill rule", "size [mm]", "fill [%]", "limit [%]", "fill result", "message",
                    "size from"]
     segs = [[r.segment.segment_id, r.segment.layer, r.segment.containment, r.segment.method,
-             _r(r.segment.length_m), ", ".join(r.circuits), r.cables, r.fill.rule, r.fill.size_mm,
+             unit.rounded(r.segment.length_m), ", ".join(r.circuits), r.cables, r.fill.rule, r.fill.size_mm,
              _r(r.fill.percent, 1), r.fill.limit_percent, r.fill.result, r.fill.message or None,
              r.size_source or None]
             for r in takeoff.segments]

@@ -5,7 +5,7 @@ row here to be styled, and each sheet to be set up for printing.
 
 - Number formats carry the unit of the column header (``12.7 m``, ``132.5 A``,
   ``0.52 %``, ``70 mm²``), so a printed or copied cell still says what it is;
-  the cell keeps the plain number.
+  the cell keeps the plain number; lengths in feet (NEC) read ``41.7 ft``.
 - Rows whose status is ``fail`` or ``error`` are filled red, ``warning`` amber.
 - Every sheet prints landscape, fitted to one page wide, with the header row
   repeated on every page.
@@ -28,6 +28,7 @@ __all__ = ["number_format", "STATUS_FILLS", "styled_row", "setup_print"]
 #: Number format per unit in a column header "[...]" (ECMA-376 numFmt codes).
 UNIT_FORMATS = {
     "[m]": '0.0" m"',
+    "[ft]": '0.0" ft"',
     "[A]": '0.0" A"',
     "[%]": '0.00" %"',
     "[mm²]": 'General" mm²"',

@@ -65,6 +65,11 @@ def _result(args: argparse.Namespace) -> tuple[SizingResult, float]:
     return result, length_m
 
 
+def _length_unit(args: argparse.Namespace) -> str:
+    """``[annotate] length_unit`` of the config ("" follows the rule set)."""
+    return load_settings(args.config).annotate.length_unit
+
+
 def run(args: argparse.Namespace) -> int:
     """Size the circuit described by the arguments; 0 pass, 1 fail or error, 2 bad config."""
     if args.standard in UNAVAILABLE_STANDARDS:
@@ -76,7 +81,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         print(json.dumps(document([outcome], kind="calc"), indent=2, ensure_ascii=False, allow_nan=False))
     else:
-        print(calc_steps(result, length_m))
+        print(calc_steps(result, length_m, _length_unit(args)))
     if result.status == "error":
         for message in result.messages:
             print(f"cablewright: error: {message}", file=sys.stderr)

@@ -8,6 +8,7 @@ from pathlib import Path
 
 from cablewright.annotate.jsonout import dumps
 from cablewright.annotate.model import CircuitOutcome
+from cablewright.annotate.rows import length_unit, rows, rule_set_cautions
 
 from .arguments import drawing_arguments
 from .config import Settings
@@ -74,6 +75,15 @@ def _reason(outcome: CircuitOutcome) -> str:
     return short if len(short) <= 40 else short[:39] + "\u2026"
 
 
+def _unit(settings):
+    """Lengths of the terminal tables: the rule set's unit or ``[annotate] length_unit``."""
+    return length_unit(settings.sizing.standard, settings.annotate.length_unit)
+
+
+def _in(unit, length_m: float | None) -> float | None:
+    return None if length_m is None else unit.of(length_m)
+
+
 def _fmt(value, digits: int = 1) -> str:
     return "-" if value is None else f"{value:.{digits}f}"
 
@@ -90,18 +100,16 @@ def run_routes(args: argparse.Namespace) -> int:
     if args.json:
         print(dumps(outcomes, kind="routes", extra=_extra(measurement)))
     else:
-        rows = []
-        for o in outcomes:
-            route, group = o.route, o.group
-            busiest = max(group.segment_counts, key=lambda s: (s[2], s[1]))[0] if group and group.segment_counts else "-"
-            rows.append([
-                o.circuit_id, o.from_tag, o.to_tag,
-                _fmt(route.routed_length_m if route else None),
-                _fmt(route.design_length_m if route else None),
-                str(group.circuits_in_group) if group else "-",
-                busiest, o.status,
-            ])
-        print(format_table(["circuit", "from", "to", "routed [m]", "design [m]", "group", "busiest segment", "status"], rows))
+        unit = _unit(settings)
+        table = [
+            [r.circuit_id, r.from_tag, r.to_tag, _fmt(_in(unit, r.routed_length_m)),
+             _fmt(_in(unit, r.design_length_m)),
+             str(r.grouping.circuits_in_group) if r.grouping else "-",
+             (r.grouping.governing_segment or "-") if r.grouping else "-", r.status]
+            for r in rows(outcomes, unit)
+        ]
+        print(format_table(["circuit", "from", "to", f"routed [{unit.symbol}]", f"design [{unit.symbol}]",
+                            "group", "busiest segment", "status"], table))
     return _exit_code(outcomes, ("ok", "warning"))
 
 
@@ -131,20 +139,18 @@ def run_size(args: argparse.Namespace) -> int:
     if args.json:
         print(dumps(job.outcomes, kind="size", extra=extras))
     else:
-        rows = []
-        for o in job.outcomes:
-            s = o.sizing
-            rows.append([
-                o.circuit_id, o.from_tag, o.to_tag,
-                _fmt(o.route.routed_length_m if o.route else None),
-                _fmt(s.load_current_a if s else None),
-                f"{s.device_rating_a:g}" if s and s.device_rating_a else "-",
-                s.cable.describe() if s and s.cable else "-",
-                _fmt(s.voltage_drop.percent if s and s.voltage_drop else None, 2),
-                o.status, _reason(o),
-            ])
-        print(format_table(["circuit", "from", "to", "route m", "Ib A", "In A", "cable", "VD %", "status",
-                            "reason"], rows, min_last=16, keep=(6,)))
+        unit = _unit(settings)
+        table = [
+            [r.circuit_id, r.from_tag, r.to_tag, _fmt(_in(unit, r.routed_length_m)),
+             _fmt(r.sizing.load_current_a if r.sizing else None),
+             f"{r.device_rating_a:g}" if r.device_rating_a else "-",
+             r.cable.text if r.cable else "-",
+             _fmt(r.sizing.voltage_drop.percent if r.sizing and r.sizing.voltage_drop else None, 2),
+             r.status, _reason(o)]
+            for r, o in zip(rows(job.outcomes, unit), job.outcomes, strict=True)
+        ]
+        print(format_table(["circuit", "from", "to", f"route {unit.symbol}", "Ib A", "In A", "cable", "VD %",
+                            "status", "reason"], table, min_last=16, keep=(6,)))
         counts = {k: sum(1 for o in job.outcomes if o.status == k) for k in ("ok", "warning", "fail", "error")}
         print(f"\n{len(job.outcomes)} circuits: " + ", ".join(f"{v} {k}" for k, v in counts.items()))
         if changes is not None:
@@ -155,7 +161,7 @@ def run_size(args: argparse.Namespace) -> int:
         print("outputs:")
         for path in written:
             print(f"  {path}")
-        print("\n".join(textwrap.wrap(CAUTION, TABLE_WIDTH)))
+        print("\n".join(textwrap.wrap(rule_set_cautions(CAUTION, settings.sizing.standard), TABLE_WIDTH)))
     return run.exit_code
 
 

@@ -90,8 +90,16 @@ _STEP_SOURCES = {
 }
 
 
-def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
-    """The calculation of one circuit, step by step, with the source of each value."""
+def calc_steps(result: SizingResult, length_m: float | None = None, length_unit: str = "") -> str:
+    """The calculation of one circuit, step by step, with the source of each value.
+
+    The length is shown in the rule set's unit (feet for NEC) or ``length_unit``
+    ("m", "ft": ``[annotate] length_unit``); the NEC caution is added for NEC.
+    """
+    from cablewright.annotate.rows import length_unit as unit_for
+    from cablewright.annotate.rows import rule_set_cautions
+
+    unit = unit_for(result.standard, length_unit)
     rows: list[list[str]] = []
     src = _STEP_SOURCES.get(result.standard, _STEP_SOURCES["iec"])
     if result.load_current_a is not None:
@@ -112,7 +120,7 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
         rows.append(["corrected capacity Iz", f"{cable.capacity_a:.1f} A", src["iz"]])
     if result.voltage_drop is not None:
         vd = result.voltage_drop
-        where = f" over {length_m:g} m" if length_m else ""
+        where = f" over {unit.of(length_m):g} {unit.symbol}" if length_m else ""
         rows.append(["voltage drop", f"{vd.volts:.2f} V = {vd.percent:.2f} %{where} (limit {vd.limit_percent:g} %)",
                      src["vd"]])
         if result.standard == "iec":
@@ -125,5 +133,5 @@ def calc_steps(result: SizingResult, length_m: float | None = None) -> str:
     for message in result.messages:
         text.extend(textwrap.wrap(message, TABLE_WIDTH, initial_indent="  - ", subsequent_indent="    "))
     text.append("")
-    text.extend(textwrap.wrap(CAUTION, TABLE_WIDTH))
+    text.extend(textwrap.wrap(rule_set_cautions(CAUTION, result.standard), TABLE_WIDTH))
     return "\n".join(text)

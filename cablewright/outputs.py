@@ -28,6 +28,7 @@ References
 from __future__ import annotations
 
 import ctypes
+import dataclasses
 import errno
 import logging
 import os
@@ -320,6 +321,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     from cablewright.annotate.report_pdf import write_report_pdf
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
     from cablewright.annotate.reproducible import file_digest, pin_dxf_metadata, seeded_ifc_guids
+    from cablewright.annotate.rows import length_unit, rule_set_cautions
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
         write_schedule_json,
@@ -329,7 +331,13 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
 
     names = output_names(drawing)
     measurement = job.measurement
-    config = _annotate_config(settings)
+    standard = settings.sizing.standard
+    # lengths in the rule set's unit unless [annotate] length_unit says (annotate/rows.py);
+    # the NEC caution (authority having jurisdiction) on the drawing note and the report
+    unit = length_unit(standard, settings.annotate.length_unit)
+    config = dataclasses.replace(_annotate_config(settings),
+                                 cautions=rule_set_cautions(settings.annotate.cautions, standard))
+    cautions = rule_set_cautions(CAUTION, standard)
     units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
     seed = file_digest(drawing)
     dxf_input = drawing
@@ -365,26 +373,26 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     extras = {**extras, "drawing_marks": {"text_height": summary.text_height,
                                           "segment_ids": summary.segment_ids,
                                           **summary.placement}}
-    write_schedule_csv(stage / names["csv"], job.outcomes)
-    write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff))
+    write_schedule_csv(stage / names["csv"], job.outcomes, unit)
+    write_schedule_xlsx(stage / names["xlsx"], job.outcomes, extra_sheets=xlsx_sheets(takeoff, unit), unit=unit)
     write_schedule_json(stage / names["json"], job.outcomes, extras)
-    sections = takeoff_sections(takeoff)
+    sections = takeoff_sections(takeoff, unit)
     if changes is not None:
         from cablewright.annotate.atomic import write_text_atomic
 
         write_text_atomic(stage / names["changes"], changes_json(changes, previous_name), encoding="utf-8")
-        sections.insert(0, changes_section(changes, previous_name))
+        sections.insert(0, changes_section(changes, previous_name, unit))
     png = _preview(measurement, summary, document, units_per_m)
     (stage / names["png"]).write_bytes(png)
     report_cfg = report_config(settings)
     version = extras.get("tool", {}).get("version", "")
     write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",
-                      drawing_name=drawing.name, preview_png=png, cautions=CAUTION,
+                      drawing_name=drawing.name, preview_png=png, cautions=cautions,
                       extra_sections=sections, drawing_facts=drawing_facts(measurement),
-                      config=report_cfg, tool_version=version)
+                      config=report_cfg, tool_version=version, unit=unit)
     write_report_pdf(stage / names["pdf"], job.outcomes, title=f"Cable sizing: {drawing.name}",
-                     drawing_name=drawing.name, cautions=CAUTION, config=report_cfg,
-                     tool_version=version)
+                     drawing_name=drawing.name, cautions=cautions, config=report_cfg,
+                     tool_version=version, unit=unit)
     if drawing.suffix.lower() == ".ifc":  # a copy of the model with the sized cables
         from cablewright.annotate.ifc_writer import write_ifc_copy
 

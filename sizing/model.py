@@ -9,6 +9,8 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import TYPE_CHECKING, overload
 
+from .cable_text import cable_text, size_text
+
 __all__ = [
     "CheckResult",
     "Load",
@@ -198,12 +200,12 @@ class CableSelection:
     @property
     def label(self) -> str:
         """``size_label``, or ``"95 mm²"`` from the area when the rule set gave none."""
-        return self.size_label or f"{self.csa_mm2:g} mm²"
+        return size_text(self.csa_mm2, self.size_label)
 
     def describe(self) -> str:
-        """Short text for labels, e.g. ``"2x 4C 240 mm² Cu/XLPE"``."""
-        lead = f"{self.parallel}x " if self.parallel > 1 else ""
-        return f"{lead}{self.cores}C {self.label} {self.conductor}/{self.insulation}"
+        """The cable in one line, e.g. ``"2x 4C 240 mm² Cu/XLPE"`` (:func:`.cable_text.cable_text`)."""
+        return cable_text(self.cores, self.csa_mm2, self.conductor, self.insulation, self.parallel,
+                          self.size_label)
 
 
 @dataclass(frozen=True)

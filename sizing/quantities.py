@@ -23,6 +23,8 @@ from dataclasses import dataclass
 
 from cablewright.core.errors import OutOfRangeError
 
+from .cable_text import cable_text
+
 __all__ = [
     "CableType",
     "CableRun",
@@ -50,8 +52,8 @@ class CableType:
 
     def text(self) -> str:
         """The cable as written in the schedule, e.g. ``"4C 95 mm² Cu/XLPE"``."""
-        size = self.size_label or f"{self.csa_mm2:g} mm²"
-        return f"{self.cores}C {size} {self.conductor}/{self.insulation}"
+        return cable_text(self.cores, self.csa_mm2, self.conductor, self.insulation,
+                          size_label=self.size_label)
 
 
 @dataclass(frozen=True)

@@ -8,7 +8,10 @@ from collections import defaultdict
 from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
+from cablewright.sizing.cable_text import cable_text, parallel_text, pe_text
+
 from ..model import CircuitOutcome
+from ..rows import length_unit
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
@@ -24,19 +27,9 @@ __all__ = ["label_fields", "label_text", "route_stretches", "place_cable_labels"
 log = logging.getLogger(__name__)
 
 
-def _pe_text(outcome: CircuitOutcome) -> str:
-    """``"PE35"`` (mm²) when the protective conductor is smaller than the phase conductors
-    (IEC 60364-5-54:2011 543.1.2, Table 54.2 allows a reduced one), else ""."""
-    sizing = outcome.sizing
-    pe = getattr(sizing, "protective_conductor_mm2", None)
-    cable = sizing.cable if sizing is not None else None
-    if pe is None or cable is None or float(pe) >= float(cable.csa_mm2):
-        return ""
-    return f"PE{float(pe):g}"
-
-
-def label_fields(outcome: CircuitOutcome) -> dict[str, str]:
-    """Every field a cable label may show (see ``AnnotateConfig.label_fields``)."""
+def label_fields(outcome: CircuitOutcome, override: str = "") -> dict[str, str]:
+    """Every field a cable label may show (see ``AnnotateConfig.label_fields``); the
+    length to order in the rule set's unit, or ``override`` ("m", "ft")."""
     sizing = outcome.sizing
     if sizing is None or sizing.cable is None:
         raise ValueError(f"circuit {outcome.circuit_id} has no cable to label")
@@ -45,25 +38,27 @@ def label_fields(outcome: CircuitOutcome) -> dict[str, str]:
     length = getattr(route, "design_length_m", None) if route is not None else None
     rating = getattr(sizing, "device_rating_a", None)
     kind = getattr(sizing, "device_kind", "") or ""
-    return {
+    unit = length_unit(sizing.standard, override)
+    return {  # cable and PE texts: cablewright.sizing.cable_text, as the schedules write them
         "circuit": outcome.circuit_id,
-        "cable": f"{c.cores}x{c.label} {c.conductor}/{c.insulation}",
-        "pe": _pe_text(outcome),
-        "parallel": f"{c.parallel}x" if c.parallel > 1 else "",
-        "length": f"order {float(length) * c.parallel:.0f} m" if length else "",
+        "cable": cable_text(c.cores, c.csa_mm2, c.conductor, c.insulation, size_label=c.size_label,
+                            form="label"),
+        "pe": pe_text(sizing.protective_conductor_mm2, c.csa_mm2, form="label"),
+        "parallel": parallel_text(c.parallel),
+        "length": f"order {unit.text(float(length) * c.parallel, 0)}" if length else "",
         "device": f"{kind} {rating:g} A".strip() if rating is not None else "",
     }
 
 
 def label_text(outcome: CircuitOutcome,
-               fields: Sequence[str] = ("circuit", "parallel", "cable", "pe")) -> str:
+               fields: Sequence[str] = ("circuit", "parallel", "cable", "pe"), override: str = "") -> str:
     """The cable label of a sized circuit, e.g. ``"P-101: 2x 4x70 mm² Cu/XLPE PE35"``.
 
     The trade's short form: parallel count, cores x size, conductor/insulation,
     then a reduced protective conductor; the fields and their order are
     ``AnnotateConfig.label_fields``.
     """
-    values = label_fields(outcome)
+    values = label_fields(outcome, override)
     parts = [values[f] for f in fields if f != "circuit" and values.get(f)]
     head = values["circuit"] if "circuit" in fields else ""
     text = f"{head}: {' '.join(parts)}" if head and parts else head or " ".join(parts)
@@ -158,7 +153,7 @@ def place_cable_labels(
 def _place_label(w: EntityWriter, index: LabelIndex, marks: AnnotationInput, o: CircuitOutcome,
                  stretches: list[Stretch]) -> int:
     """One circuit's label (and its leader, revision mark); 1 when it overlaps, else 0."""
-    text = label_text(o, w.config.label_fields)
+    text = label_text(o, w.config.label_fields, w.config.length_unit)
     bw, bh = w.line_box(text)
     changed = o.circuit_id in marks.changed
     extra = revision_room(w.height) if changed else 0.0

@@ -5,9 +5,11 @@ from __future__ import annotations
 import textwrap
 from collections.abc import Sequence
 
+from cablewright.sizing.cable_text import pe_text
 from ezdxf.enums import TextEntityAlignment
 
 from ..model import CircuitOutcome
+from ..rows import METRE, LengthUnit, rows, unit_of_outcomes
 from .entities import EntityWriter, Mark
 from .placement import Placement
 from .style import (
@@ -21,9 +23,9 @@ from .style import (
     TITLE_HEIGHT_H,
     TITLE_TO_TABLE_H,
 )
-from .text import clean, mtext_escape, rating_text
+from .text import clean, mtext_escape
 
-__all__ = ["HEADER", "schedule_table", "cautions_and_title", "schedule_rows", "title_block_lines"]
+__all__ = ["HEADER", "header", "schedule_table", "cautions_and_title", "schedule_rows", "title_block_lines"]
 
 
 #: Columns of the schedule table on the drawing (contract.md, "The annotated DXF").
@@ -43,23 +45,25 @@ def schedule_table(
     h = w.height
     y = cautions_and_title(w, x0, y_top, z)
     y -= TITLE_TO_TABLE_H * h
-    rows = schedule_rows(outcomes)
+    unit = unit_of_outcomes(outcomes, w.config.length_unit)
+    head = header(unit)
+    table = schedule_rows(outcomes, unit)
     widths = [
-        max(w.text_width(r[i]) for r in [HEADER, *rows]) + COLUMN_PADDING_H * h
-        for i in range(len(HEADER))
+        max(w.text_width(r[i]) for r in [head, *table]) + COLUMN_PADDING_H * h
+        for i in range(len(head))
     ]
     table_w = sum(widths)
     row_h = (R12_ROW_PITCH_H if w.r12 else LINE_PITCH) * h
     per_panel = max(1, w.config.schedule_rows_per_panel)
-    panels = [rows[i : i + per_panel] for i in range(0, len(rows), per_panel)] or [[]]
+    panels = [table[i : i + per_panel] for i in range(0, len(table), per_panel)] or [[]]
     for p, panel in enumerate(panels):
         px = x0 + p * (table_w + PANEL_GAP_H * h)
-        lines = [HEADER, *panel]
+        lines = [head, *panel]
         if w.r12:
             _schedule_cells_r12(w, lines, widths, px, y, z, row_h)
         else:
             _schedule_panel(w, lines, widths, px, y, z, row_h)
-    return len(rows)
+    return len(table)
 
 
 def tool_version() -> str:
@@ -107,23 +111,27 @@ def cautions_and_title(w: EntityWriter, x0: float, y_top: float, z: float) -> fl
     return y
 
 
-def schedule_rows(outcomes: Sequence[CircuitOutcome]) -> list[tuple[str, ...]]:
-    """One row of :data:`HEADER` per circuit, ``"-"`` where there is no value."""
-    rows = []
-    for o in outcomes:
-        s = o.sizing
-        c = s.cable if s is not None else None
-        cable = c.describe() if c is not None else "-"
-        pe = getattr(s, "protective_conductor_mm2", None) if s is not None else None
-        pe_text = f"{pe:g} mm²" if pe is not None and c is not None and pe < c.csa_mm2 else "-"
-        device = "-"
-        if s is not None and s.device_rating_a is not None:
-            device = f"{(s.device_kind or '').strip()} {rating_text(s.device_rating_a)} A".strip()
-        design = getattr(o.route, "design_length_m", None) if o.route is not None else None
-        order = f"{design * (c.parallel if c is not None else 1):.1f}" if design is not None else "-"
-        rows.append(tuple(clean(v) for v in (o.circuit_id, o.from_tag, o.to_tag, cable, pe_text,
-                                             device, order, o.status)))
-    return rows
+def header(unit: LengthUnit = METRE) -> tuple[str, ...]:
+    """:data:`HEADER` with the length to order in ``unit`` (``"order ft"`` for NEC)."""
+    return (*HEADER[:6], f"order {unit.symbol}", HEADER[7])
+
+
+def schedule_rows(outcomes: Sequence[CircuitOutcome], unit: LengthUnit | None = None,
+                  length_unit: str = "") -> list[tuple[str, ...]]:
+    """One row of :data:`HEADER` per circuit, ``"-"`` where there is no value.
+
+    Read from the circuits' :class:`..rows.ScheduleRow`; the length to order is
+    in ``unit`` (``None``: the rule set's, or ``length_unit``: "m", "ft").
+    """
+    out = []
+    for r in rows(outcomes, unit, length_unit):
+        c = r.cable
+        pe = pe_text(r.sizing.protective_conductor_mm2, c.selection.csa_mm2) if r.sizing and c else ""
+        order = r.order_length_m
+        out.append(tuple(clean(v) for v in (
+            r.circuit_id, r.from_tag, r.to_tag, c.text if c is not None else "-", pe or "-",
+            r.device_text or "-", "-" if order is None else f"{r.unit.of(order):.1f}", r.status)))
+    return out
 
 
 def _schedule_panel(
@@ -144,7 +152,7 @@ def _schedule_panel(
     table_w = sum(widths)
     bottom = y - len(lines) * row_h
     cx = px
-    for c in range(len(HEADER)):
+    for c in range(len(lines[0])):
         column = "\\P".join(mtext_escape(row[c]) for row in lines)
         entity = w.msp.add_mtext(
             column,
@@ -159,7 +167,7 @@ def _schedule_panel(
                 "width": 0.0,
             },
         )
-        w.tag(entity, "schedule", f"column {HEADER[c]}")
+        w.tag(entity, "schedule", f"column {lines[0][c]}")
         cx += widths[c]
     rules: list[tuple[float, float]] = []
     for r in range(len(lines) + 1):
@@ -168,10 +176,10 @@ def _schedule_panel(
         rules += ends if r % 2 == 0 else ends[::-1]
     cols: list[tuple[float, float]] = []
     cx = px
-    for c in range(len(HEADER) + 1):
+    for c in range(len(widths) + 1):
         ends = [(cx, y), (cx, bottom)]
         cols += ends if c % 2 == 0 else ends[::-1]
-        if c < len(HEADER):
+        if c < len(widths):
             cx += widths[c]
     for pts, ref in ((rules, "grid rows"), (cols, "grid columns")):
         entity = w.msp.add_lwpolyline(

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, field
+from typing import Literal
 
 __all__ = ["CAUTIONS", "DEFAULT_CONFIG", "LINE_PITCH", "AnnotateConfig"]
 
@@ -110,6 +111,11 @@ class AnnotateConfig:
         ``length`` (length to order), ``device``.
     device_fields : tuple of str
         What a device note shows besides the tag: ``device`` (kind and rating).
+    length_unit : str
+        Unit of the lengths on the drawing, in the schedule files and the report:
+        ``"m"`` or ``"ft"`` (1 ft = 0.3048 m exactly); "" follows the rule set,
+        metres for IEC, feet for NEC (:func:`cablewright.annotate.rows.length_unit`).
+        ``schedule.json`` keeps metres.
     group_tags, device_notes, schedule, error_notes : bool
         Switch each kind of mark on or off (labels are always written).
     schedule_rows_per_panel : int
@@ -211,6 +217,7 @@ class AnnotateConfig:
     fill_layer: str = "CW-FILL"
     label_fields: tuple[str, ...] = ("circuit", "parallel", "cable", "pe")
     device_fields: tuple[str, ...] = ("device",)
+    length_unit: Literal["", "m", "ft"] = ""
 
 
 
