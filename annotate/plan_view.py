@@ -25,6 +25,7 @@ from cablewright.core.errors import DrawingReadError
 from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
 
 from .atomic import atomic_path
+from .reproducible import keep_classes_stable
 
 if TYPE_CHECKING:  # pragma: no cover
     from cablewright.extract.model import Measurement
@@ -115,6 +116,7 @@ def write_plan_view(measurement: Measurement, path: str | os.PathLike[str]) -> P
                                                   eq.position_m[1] - k * _TEXT_H_M * 1.5, eq.position_m[2]),
                                     dxfattribs={"height": _TEXT_H_M, "layer": EQUIPMENT_LAYER})
             attrib.is_invisible = k > 0
+    keep_classes_stable(doc)  # the same bytes whatever PYTHONHASHSEED (annotate.reproducible)
     try:
         with atomic_path(target) as tmp:
             doc.saveas(tmp)

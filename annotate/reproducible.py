@@ -28,7 +28,7 @@ from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from typing import Any
 
-__all__ = ["file_digest", "pin_dxf_metadata", "seeded_ifc_guids", "stable_relation_order", "FIXED_JULIAN_DATE"]
+__all__ = ["file_digest", "keep_classes_stable", "pin_dxf_metadata", "seeded_ifc_guids", "stable_relation_order", "FIXED_JULIAN_DATE"]
 
 #: 2000-01-01 00:00 as a Julian date, the date ezdxf itself writes for
 #: reproducible files (``ezdxf.options.write_fixed_meta_data_for_testing``);
@@ -85,6 +85,7 @@ def pin_dxf_metadata(doc: Any, seed: str, *, own_drawing: bool = False) -> None:
                  "$TDUUPDATE": header.get("$TDUUPDATE") or header.get("$TDUPDATE") or created}
     version_guid = "{" + str(uuid.uuid5(_NAMESPACE, f"dxf:{seed}")).upper() + "}"
     fingerprint_guid = "{" + str(uuid.uuid5(_NAMESPACE, f"dxf-fingerprint:{seed}")).upper() + "}"
+    keep_classes_stable(doc)
     original = doc._update_metadata
 
     def update_metadata() -> None:
@@ -101,6 +102,38 @@ def pin_dxf_metadata(doc: Any, seed: str, *, own_drawing: bool = False) -> None:
             meta[CREATED_BY_EZDXF] = f"ezdxf {ezdxf.__version__}"
 
     doc._update_metadata = update_metadata
+
+
+def keep_classes_stable(doc: Any) -> None:
+    """Make the next saves of ``doc`` write its CLASSES section in a stable order
+    (see :func:`_classes_in_stable_order`)."""
+    if doc.dxfversion <= "AC1009":
+        return  # R12 has no CLASSES section
+    loaded = list(doc.classes.classes)
+    original = doc._update_metadata
+
+    def update_metadata() -> None:
+        original()  # after ezdxf added the classes it needs (Drawing.update_all)
+        _classes_in_stable_order(doc, loaded)
+
+    doc._update_metadata = update_metadata
+
+
+def _classes_in_stable_order(doc: Any, loaded: list[Any]) -> None:
+    """CLASSES as read, then the ones ezdxf added while saving, sorted by name.
+
+    ezdxf adds the classes of the entity types in use from a set, whose order
+    follows Python's string hash (``PYTHONHASHSEED``), so two runs could write
+    the section in different orders (seen on the IFC plan view).  Only the added
+    ones move; a class read from the drawing keeps its place (DXF numbers proxy
+    classes by position, DXF Reference "CLASSES Section").
+    """
+    classes = doc.classes.classes
+    kept = [k for k in loaded if k in classes]
+    added = sorted((k for k in classes if k not in set(loaded)), key=str)
+    ordered = {k: classes[k] for k in (*kept, *added)}
+    classes.clear()
+    classes.update(ordered)
 
 
 @contextmanager
