@@ -403,12 +403,14 @@ class _Reader:
                 if self.collector is not None:
                     self.collect(t, tags, [])
             return
-        if self.collector is not None:
+        if self.collector is not None and t not in _ROUTE_TYPES and t != "CIRCLE":
             self.collect(t, tags, [])
         if t in _ROUTE_TYPES or t in FLATTEN_TYPES or t == "CIRCLE":
             e = _entity(t, tags)
             if self.in_paper_space(e):
                 return
+            if self.collector is not None and t not in FLATTEN_TYPES:
+                self.collector.entity(t, tags, [], e.first)
             layer = e.get(8, "0")
             on_route = self.kind(layer) is not None
             if t in FLATTEN_TYPES:

@@ -206,16 +206,23 @@ class ObstacleCollector:
     def is_ours(self, tags: Tags, layer: str) -> bool:
         return layer.upper() in self._ours or self._xdata in tags
 
-    def entity(self, kind: str, tags: Tags, children: list[tuple[str, Tags]]) -> None:
-        """One model-space entity (with its VERTEX/ATTRIB sub-entities), paper space already left out."""
-        layer = first_value(tags, 8, "0")
+    def entity(self, kind: str, tags: Tags, children: list[tuple[str, Tags]],
+               first: dict[int, str] | None = None) -> None:
+        """One model-space entity (with its VERTEX/ATTRIB sub-entities), paper space already left out.
+
+        ``first`` is the first value of each group code outside 102 groups and
+        extended data, when the reader has it already.
+        """
+        layer = first.get(8, "0") if first is not None else first_value(tags, 8, "0")
         if self.is_ours(tags, layer):
             return
         if self._is_route(layer):
-            color = int(float(first_value(tags, 62, "256")))
+            color = int(float(first.get(62, "256") if first is not None else first_value(tags, 62, "256")))
             if 0 < color < 256:
                 self.result.route_colors.add(color)
-        if kind in _POINT_TYPES:
+        if kind in _POINT_TYPES and first is not None and kind != "LWPOLYLINE" and kind != "POLYLINE":
+            self._circle_or_line(kind, first)
+        elif kind in _POINT_TYPES:
             self._points(kind, tags, children)
         elif kind == "HATCH" and self._hatch(tags):
             return
@@ -233,6 +240,15 @@ class ObstacleCollector:
             self._y0 = y
         if y > self._y1:
             self._y1 = y
+
+    def _circle_or_line(self, kind: str, first: dict[int, str]) -> None:
+        if kind == "LINE":
+            self._take(_num(first.get(10, "0")), _num(first.get(20, "0")))
+            self._take(_num(first.get(11, "0")), _num(first.get(21, "0")))
+        else:
+            cx, cy, r = (_num(first.get(c, "0")) for c in (10, 20, 40))
+            self._take(cx - r, cy - r)
+            self._take(cx + r, cy + r)
 
     def _points(self, kind: str, tags: Tags, children: list[tuple[str, Tags]]) -> None:
         if kind in ("CIRCLE", "ARC"):

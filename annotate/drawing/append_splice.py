@@ -107,7 +107,7 @@ def _is_ours(handle: str, first_handle: int) -> bool:
 
 
 def _export(entity: Any, version: str) -> list[DXFTag]:
-    collector = TagCollector(dxfversion=version)
+    collector = TagCollector(dxfversion=version, optional=False)  # as ezdxf's own save writes
     entity.export_dxf(collector)
     return collector.tags
 
