@@ -52,8 +52,9 @@ def _dxf_only(drawing: Path, schedule: Path, out: Path, reader: str) -> dict:
     """Read, measure, size and write the annotated DXF, as ``size`` does them."""
     from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
     from cablewright.annotate.drawing.append_writer import AppendRequest
-    from cablewright.config import load_settings
     from cablewright.extract.model import UNIT_TO_M
+
+    from cablewright.config import load_settings
     from cablewright.pipeline import measure_drawing, size_measurement
 
     settings = load_settings(None)
