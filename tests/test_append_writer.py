@@ -242,3 +242,20 @@ def test_binary_dxf_is_declined(tmp_path):
     doc.saveas(tmp_path / "binary.dxf", fmt="bin")
     with pytest.raises(StreamDeclined, match="binary"):
         stream_dxf(tmp_path / "binary.dxf", marks_appid=APPID)
+
+
+def test_size_appends_with_the_units_and_version_guid_of_the_full_writer(tmp_path):
+    from cablewright.annotate.reproducible import dxf_version_guid, file_digest
+    from cablewright.size_run import settings_from, size_drawing
+
+    def unitless(doc):
+        doc.header["$INSUNITS"] = 0
+
+    dxf = _small_drawing(tmp_path / "unitless.dxf", "AC1032", unitless)
+    run = size_drawing(dxf, str(_schedule(tmp_path / "c.csv")), None, settings_from(None, "m"),
+                       tmp_path / "out", quiet=True)
+    out = next(p for p in run.written if p.suffix == ".dxf")
+    doc = ezdxf.readfile(out)
+    assert doc.header["$INSUNITS"] == 6  # DXF reference: $INSUNITS 6 = metres
+    assert doc.header["$VERSIONGUID"] == dxf_version_guid(file_digest(dxf))
+    assert not read_back(out)[1]
