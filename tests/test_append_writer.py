@@ -246,6 +246,7 @@ def test_binary_dxf_is_declined(tmp_path):
 
 def test_size_appends_with_the_units_and_version_guid_of_the_full_writer(tmp_path):
     from cablewright.annotate.reproducible import dxf_version_guid, file_digest
+
     from cablewright.size_run import settings_from, size_drawing
 
     def unitless(doc):
