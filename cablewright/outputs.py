@@ -350,9 +350,9 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
         request = AppendRequest(stream, _appended_header(seed, measurement), prepare)
     summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document,
                                   stream=request)
-    # the drawing as the writer had it (parsed, or the appending writer's scratch copy of
-    # its linework, text and symbols): the preview's background on a small drawing
-    document = summary.document
+    # the parsed drawing (the full writer's): the preview's background on a small drawing;
+    # an appended copy has none (its scratch document holds the LINEs as shapely lines only)
+    document = None if summary.appended else summary.document
     # how the marks were placed, the last resorts counted (issue 12: never silent)
     extras = {**extras, "drawing_marks": {"text_height": summary.text_height,
                                           "segment_ids": summary.segment_ids,

@@ -13,6 +13,8 @@ the streaming reader's one pass (:func:`~.dxf_stream.stream_dxf` with
   entities and of HATCH polyline paths, measured from their points the way the
   drawing writer's scan measures them (vertices; circles and arcs as their
   full circle);
+* that linework itself, for the marks to keep off it (``avoid_linework``): the
+  end points of every LINE (plan x, y as written), the tags of the others;
 * the tags of every other model-space entity (text, block references with their
   attributes, hatches with curved edges, dimensions ...) and of the block
   definitions, for the writer to rebuild as ezdxf entities and measure exactly
@@ -35,6 +37,7 @@ References
 from __future__ import annotations
 
 import math
+from array import array
 from dataclasses import dataclass, field
 
 __all__ = ["StreamObstacles", "ObstacleCollector", "REBUILT_TYPES", "Declined", "first_value"]
@@ -78,6 +81,12 @@ class StreamObstacles:
         Extents of the entities measured from their points [drawing units].
     entities : list of Record
         The other model-space entities (not ours), to rebuild.
+    lines : array of float
+        x0, y0, x1, y1 of every model-space LINE (not ours), four numbers a line
+        [drawing units]: the linework the marks avoid, with :attr:`linework`.
+    linework : list of Record
+        The model-space LWPOLYLINE, POLYLINE, CIRCLE and ARC entities (not ours),
+        rebuilt only for the marks to avoid them (their extents are in :attr:`box`).
     blocks : dict
         Block name (upper case) -> (name, base point, records) of every block definition.
     route_colors : set of int
@@ -95,6 +104,8 @@ class StreamObstacles:
     appids: list[str] = field(default_factory=list)
     box: tuple[float, float, float, float] | None = None
     entities: list[Record] = field(default_factory=list)
+    lines: array[float] = field(default_factory=lambda: array("d"))
+    linework: list[Record] = field(default_factory=list)
     blocks: dict[str, tuple[str, tuple[float, float, float], list[Record]]] = field(default_factory=dict)
     route_colors: set[int] = field(default_factory=set)
 
@@ -220,10 +231,13 @@ class ObstacleCollector:
             color = int(float(first.get(62, "256") if first is not None else first_value(tags, 62, "256")))
             if 0 < color < 256:
                 self.result.route_colors.add(color)
-        if kind in _POINT_TYPES and first is not None and kind != "LWPOLYLINE" and kind != "POLYLINE":
-            self._circle_or_line(kind, first)
-        elif kind in _POINT_TYPES:
-            self._points(kind, tags, children)
+        if kind in _POINT_TYPES:
+            if first is not None and kind != "LWPOLYLINE" and kind != "POLYLINE":
+                self._circle_or_line(kind, first)
+            else:
+                self._points(kind, tags, children)
+            if kind != "LINE":  # LINEs kept as their end points (_line)
+                self.result.linework.append((kind, tags, children))
         elif kind == "HATCH" and self._hatch(tags):
             return
         elif kind in REBUILT_TYPES:
@@ -241,10 +255,15 @@ class ObstacleCollector:
         if y > self._y1:
             self._y1 = y
 
+    def _line(self, x0: float, y0: float, x1: float, y1: float) -> None:
+        self._take(x0, y0)
+        self._take(x1, y1)
+        self.result.lines.extend((x0, y0, x1, y1))
+
     def _circle_or_line(self, kind: str, first: dict[int, str]) -> None:
         if kind == "LINE":
-            self._take(_num(first.get(10, "0")), _num(first.get(20, "0")))
-            self._take(_num(first.get(11, "0")), _num(first.get(21, "0")))
+            self._line(_num(first.get(10, "0")), _num(first.get(20, "0")),
+                       _num(first.get(11, "0")), _num(first.get(21, "0")))
         else:
             cx, cy, r = (_num(first.get(c, "0")) for c in (10, 20, 40))
             self._take(cx - r, cy - r)
@@ -260,8 +279,8 @@ class ObstacleCollector:
                 if vkind == "VERTEX":
                     self._take(_num(first_value(vtags, 10, "0")), _num(first_value(vtags, 20, "0")))
         elif kind == "LINE":
-            self._take(_num(first_value(tags, 10, "0")), _num(first_value(tags, 20, "0")))
-            self._take(_num(first_value(tags, 11, "0")), _num(first_value(tags, 21, "0")))
+            self._line(_num(first_value(tags, 10, "0")), _num(first_value(tags, 20, "0")),
+                       _num(first_value(tags, 11, "0")), _num(first_value(tags, 21, "0")))
         else:  # LWPOLYLINE: its vertices (bulges leave the box of the vertices)
             self._xy_pairs(tags, 0, len(tags))
 

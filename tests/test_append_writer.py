@@ -260,3 +260,29 @@ def test_size_appends_with_the_units_and_version_guid_of_the_full_writer(tmp_pat
     assert doc.header["$INSUNITS"] == 6  # DXF reference: $INSUNITS 6 = metres
     assert doc.header["$VERSIONGUID"] == dxf_version_guid(file_digest(dxf))
     assert not read_back(out)[1]
+
+
+def test_streamed_linework_is_the_parsed_drawings(plant):
+    # avoid_linework (the default): the lines the marks keep off, from the stream, are the
+    # ones linework.py reads from the drawing as ezdxf parses it (LINEs, polylines, circles,
+    # block and dimension lines; the closed rectangles keep their last vertex)
+    import collections
+
+    import shapely
+    from cablewright.annotate.drawing.append_scan import scratch_drawing
+    from cablewright.annotate.drawing.linework import linework_geometries
+    from ezdxf.fonts import fonts
+
+    content = stream_dxf(plant.dxf_path, marks_appid=APPID)
+    scratch = scratch_drawing(content.obstacles, DEFAULT_CONFIG,
+                              fonts.make_font(DEFAULT_CONFIG.font, 1.0).text_width, [])
+    h = 250.0  # a text height of the plant [mm]; curves flattened to h / 10
+
+    def keys(geoms):
+        return collections.Counter(shapely.to_wkt(g, rounding_precision=6) for g in geoms)
+
+    doc = ezdxf.readfile(plant.dxf_path)
+    parsed = keys(linework_geometries(doc, APPID, h))
+    streamed = keys([*linework_geometries(scratch.doc, APPID, h), *scratch.lines])
+    assert len(scratch.lines) == len(doc.modelspace().query("LINE")) > 0
+    assert streamed == parsed

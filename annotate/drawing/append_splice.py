@@ -33,6 +33,7 @@ from __future__ import annotations
 import bisect
 import re
 from collections.abc import Iterable, Mapping
+from collections.abc import Set as AbstractSet
 from typing import Any
 
 from ezdxf.lldxf.tagwriter import TagCollector
@@ -81,7 +82,7 @@ def _header_var(data: bytes, span: tuple[int, int], name: str) -> re.Match[bytes
 
 
 def _tag_text(tags: Iterable[DXFTag], owner: str, first_handle: int,
-              drop: set[int] = frozenset()) -> str:
+              drop: AbstractSet[int] = frozenset()) -> str:
     """An exported entity as DXF text, owned by ``owner``; other pointers must be to ours."""
     out = []
     owned = False
@@ -127,7 +128,10 @@ def _table_edits(data: bytes, span: tuple[int, int], scratch: ScratchDrawing,
         end = _ENDTAB.search(data, m.end(), span[1]) if m else None
         if m is None or end is None:
             raise AppendDeclined(f"no {dxf_name} table")
-        head_end = _START.search(data, m.end(), end.end()).start()
+        start = _START.search(data, m.end(), end.end())
+        if start is None:
+            raise AppendDeclined(f"the {dxf_name} table has no entries section")
+        head_end = start.start()
         handle = re.search(rb"(?m)^ *5\r?\n *([0-9A-Fa-f]+)\r?$", data[m.end():head_end])
         count = re.search(rb"(?m)^ *70\r?\n *(-?\d+)(\r?)$", data[m.end():head_end])
         if handle is None or count is None:
@@ -202,9 +206,9 @@ def splice_marks(data: bytes, scratch: ScratchDrawing, obstacles: Any,
         return (text.replace("\n", eol) if eol != "\n" else text).encode(encoding, errors="dxfreplace")
 
     sections = _sections(data)
-    for name in (b"HEADER", b"TABLES", b"ENTITIES"):
-        if name not in sections:
-            raise AppendDeclined(f"no {name.decode()} section")
+    for section in (b"HEADER", b"TABLES", b"ENTITIES"):
+        if section not in sections:
+            raise AppendDeclined(f"no {section.decode()} section")
     if not obstacles.msp_owner:
         raise AppendDeclined("no model-space BLOCK_RECORD handle")
     doc = scratch.doc

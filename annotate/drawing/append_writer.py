@@ -93,15 +93,14 @@ def append_annotated_dxf(
         raise AppendDeclined("the drawing was not streamed for this application id")
     if not obstacles.dxfversion or obstacles.dxfversion <= "AC1012":
         raise AppendDeclined(f"DXF version {obstacles.dxfversion or 'unknown'} (R12 and older)")
-    if config.avoid_linework:
-        raise AppendDeclined("avoid_linework needs the drawing's linework")
     data = src.read_bytes()
     if data.startswith(b"AutoCAD Binary DXF"):
         raise AppendDeclined("binary DXF")
     measure = fonts.make_font(config.font, 1.0).text_width
     route_layers = sorted({str(getattr(s, "layer", "")) for s in marks.segments.values()} - {""})
     scratch = scratch_drawing(obstacles, config, measure, route_layers)
-    counts = add_marks(scratch.doc, scratch.scan, marks, config, measure, str(src), progress)
+    counts = add_marks(scratch.doc, scratch.scan, marks, config, measure, str(src), progress,
+                       lines=scratch.lines)
     out, removed = splice_marks(data, scratch, obstacles, header)
     if removed:
         log.info("%s: removed %d marks of an earlier run", src, removed)

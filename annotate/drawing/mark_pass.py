@@ -10,8 +10,9 @@ is and where it goes.
 from __future__ import annotations
 
 import logging
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass, field
+from itertools import chain
 from typing import Any
 
 from ..sketch import Sketch, layer_colors, sketch_entities
@@ -95,6 +96,8 @@ def add_marks(
     measure: Callable[[str], float],
     source: str,
     progress: ProgressHook | None = None,
+    *,
+    lines: Iterable[Any] = (),
 ) -> MarkCounts:
     """Choose the text height and add labels, tags, ids, notes and the schedule to ``doc``.
 
@@ -113,6 +116,9 @@ def add_marks(
         The input's name, for messages.
     progress : callable, optional
         Called with 1 per cable label placed.
+    lines : iterable of shapely geometries, optional
+        More of the drawing's linework than ``doc`` holds (the appending writer's
+        LINEs, :mod:`.append_scan`), avoided with it.
     """
     k = float(marks.units_per_m)
     route_pts = [p for seg in marks.segments.values() for p in scaled(seg.points_m, k)]
@@ -128,7 +134,8 @@ def add_marks(
         cell=INDEX_CELL_H * h,
         blocked=blocked,
         # the drawing's own linework (walls, routes, symbol lines) as obstacles
-        lines=drawing_linework(doc, config.appid, h, routes) if config.avoid_linework else None,
+        lines=drawing_linework(doc, config.appid, h, chain(routes, lines))
+        if config.avoid_linework else None,
     )
     log.debug("%s: %d text and symbol boxes kept clear", source, len(blocked))
 
