@@ -28,7 +28,8 @@ from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from typing import Any
 
-__all__ = ["file_digest", "keep_classes_stable", "pin_dxf_metadata", "seeded_ifc_guids", "stable_relation_order", "FIXED_JULIAN_DATE"]
+__all__ = ["file_digest", "dxf_version_guid", "keep_classes_stable", "pin_dxf_metadata",
+           "seeded_ifc_guids", "stable_relation_order", "FIXED_JULIAN_DATE"]
 
 #: 2000-01-01 00:00 as a Julian date, the date ezdxf itself writes for
 #: reproducible files (``ezdxf.options.write_fixed_meta_data_for_testing``);
@@ -46,6 +47,11 @@ def file_digest(path: str | os.PathLike[str]) -> str:
         for chunk in iter(lambda: fh.read(1 << 20), b""):
             sha.update(chunk)
     return sha.hexdigest()
+
+
+def dxf_version_guid(seed: str) -> str:
+    """``$VERSIONGUID`` of the annotated copy: a name-based UUID of ``seed`` [2]_ [4]_."""
+    return "{" + str(uuid.uuid5(_NAMESPACE, f"dxf:{seed}")).upper() + "}"
 
 
 def pin_dxf_metadata(doc: Any, seed: str, *, own_drawing: bool = False) -> None:
@@ -83,7 +89,7 @@ def pin_dxf_metadata(doc: Any, seed: str, *, own_drawing: bool = False) -> None:
         dates = {"$TDCREATE": created, "$TDUCREATE": created,
                  "$TDUPDATE": header.get("$TDUPDATE") or created,
                  "$TDUUPDATE": header.get("$TDUUPDATE") or header.get("$TDUPDATE") or created}
-    version_guid = "{" + str(uuid.uuid5(_NAMESPACE, f"dxf:{seed}")).upper() + "}"
+    version_guid = dxf_version_guid(seed)
     fingerprint_guid = "{" + str(uuid.uuid5(_NAMESPACE, f"dxf-fingerprint:{seed}")).upper() + "}"
     keep_classes_stable(doc)
     original = doc._update_metadata

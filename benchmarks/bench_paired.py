@@ -11,10 +11,14 @@ end: interpreter start, imports and the command) and peak RSS
   reader (``stream_dxf``) alone;
 * ``size:<reader>:<gc>`` and ``routes:<reader>:<gc>``: the command's function
   (``run_size`` / ``run_routes``, console output to ``/dev/null``) with
-  ``reader`` = ``full`` (the document kept, as before) or ``stream`` (streaming
-  reader; ``size`` then parses the drawing for the writer only) and ``gc`` =
-  ``default`` (CPython's thresholds, as before), ``tuned``
-  (:data:`cablewright.collector.RUN_THRESHOLDS`, imports frozen) or ``off``.
+  ``reader`` = ``full`` (the document kept, ezdxf's save, as before) or
+  ``append`` (``size``: streaming reader and appending writer, issue 13 item 2;
+  ``routes``: ``stream``, the streaming reader) and ``gc`` = ``default``
+  (CPython's thresholds, as before), ``tuned``
+  (:data:`cablewright.collector.RUN_THRESHOLDS`, imports frozen) or ``off``;
+* ``dxf:<reader>:<gc>``: what ``size`` does up to the annotated DXF only (read,
+  network, routing, sizing, the annotated copy; no schedule files, preview or
+  reports), ``reader`` = ``full`` or ``append`` as above.
 
 Run: ``python benchmarks/bench_paired.py --sizes 2000 8000 --repeats 3 [--work DIR] [--json FILE]``.
 Prints min / median / max per variant and the ratio of the minima to the floor.
@@ -40,9 +44,29 @@ sys.path.insert(0, str(HERE))
 __all__ = ["main"]
 
 GC_MODES = {"default": None, "tuned": "tuned", "off": (0, 10, 10)}
-DEFAULT_VARIANTS = ("floor", "read_full", "read_stream", "size:full:default", "size:full:tuned",
-                    "size:full:off", "size:stream:tuned", "routes:full:default", "routes:stream:default",
-                    "routes:stream:tuned")
+DEFAULT_VARIANTS = ("floor", "read_full", "read_stream", "dxf:full:tuned", "dxf:append:tuned",
+                    "size:full:tuned", "size:append:tuned")
+
+
+def _dxf_only(drawing: Path, schedule: Path, out: Path, reader: str) -> dict:
+    """Read, measure, size and write the annotated DXF, as ``size`` does them."""
+    from cablewright.annotate.drawing import AnnotationInput, write_annotated_dxf
+    from cablewright.annotate.drawing.append_writer import AppendRequest
+    from cablewright.extract.model import UNIT_TO_M
+
+    from cablewright.config import load_settings
+    from cablewright.pipeline import measure_drawing, size_measurement
+
+    settings = load_settings(None)
+    append = reader == "append"
+    m = measure_drawing(drawing, schedule, settings, keep_document=not append,
+                        marks_appid=settings.annotate.appid if append else None)
+    job = size_measurement(m, settings)
+    marks = AnnotationInput(job.outcomes, m.segments, job.per_segment, m.equipment,
+                            1.0 / UNIT_TO_M.get(m.units, 1.0))
+    kwargs = {"stream": AppendRequest(m.source_document)} if append else {"document": m.source_document}
+    summary = write_annotated_dxf(drawing, out / "annotated.dxf", marks, settings.annotate, **kwargs)
+    return {"labels": summary.labels, "appended": summary.appended}
 
 
 def _child(variant: str, drawing: Path, schedule: Path) -> dict:
@@ -62,14 +86,18 @@ def _child(variant: str, drawing: Path, schedule: Path) -> dict:
         result["pieces"] = len(content.polylines)
     else:
         command, reader, gc_mode = variant.split(":")
-        from cablewright import collector, commands_drawing
+        from cablewright import collector, commands_drawing, size_run
 
         keep = reader == "full"
-        commands_drawing.SIZE_KEEPS_DOCUMENT = keep
+        size_run.SIZE_STREAMS = not keep
         commands_drawing.ROUTES_KEEPS_DOCUMENT = keep
         thresholds = GC_MODES[gc_mode]
         if thresholds == "tuned":
             thresholds = collector.RUN_THRESHOLDS
+    if variant.startswith("dxf:"):
+        with collector.tuned_collector(thresholds):
+            result.update(_dxf_only(drawing, schedule, out, reader))
+    elif variant not in ("floor", "read_full", "read_stream"):
         args = argparse.Namespace(drawing=str(drawing), circuits=str(schedule), config=None,
                                   out=str(out), json=False, debug=False, recover=False, units=None)
         run = commands_drawing.run_size if command == "size" else commands_drawing.run_routes

@@ -320,7 +320,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     from cablewright.annotate.report import write_report_html
     from cablewright.annotate.report_pdf import write_report_pdf
     from cablewright.annotate.report_sections import changes_section, takeoff_sections
-    from cablewright.annotate.reproducible import file_digest, pin_dxf_metadata, seeded_ifc_guids
+    from cablewright.annotate.reproducible import file_digest, seeded_ifc_guids
     from cablewright.annotate.rows import length_unit, rule_set_cautions
     from cablewright.annotate.schedule_files import (
         write_schedule_csv,
@@ -340,25 +340,8 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     cautions = rule_set_cautions(CAUTION, standard)
     units_per_m = 1.0 / UNIT_TO_M.get(measurement.units, 1.0)
     seed = file_digest(drawing)
-    dxf_input = drawing
-    document = None
     scratch = stage / ".scratch"
-    if drawing.suffix.lower() != ".dxf":  # IFC: a plan view drawn from the measurement
-        scratch.mkdir()
-        dxf_input = _plan_view_for(measurement, scratch)
-    else:  # the drawing parsed by the extract stage, not read a second time
-        document = getattr(measurement, "source_document", None)
-    if document is None:
-        import ezdxf
-
-        try:
-            document = ezdxf.readfile(dxf_input)
-        except (OSError, ezdxf.DXFStructureError) as exc:
-            raise DrawingReadError(file=dxf_input, problem=f'cannot read the drawing ({exc})',
-                                   fix="check the path or re-export it") from exc
-    # no run time and no random GUID in the annotated drawing (annotate.reproducible)
-    pin_dxf_metadata(document, seed, own_drawing=dxf_input is not drawing)
-    _record_units(document, measurement)
+    dxf_input, document, stream, prepare = _writer_source(drawing, measurement, scratch, seed)
     # our marks are added to the document in memory and it is saved under the
     # output name only; the preview is drawn from the measurement and the marks placed
     from cablewright.annotate.revision import changed_circuit_ids, fill_marks
@@ -368,7 +351,16 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
                             changed=changed_circuit_ids(changes) if changes is not None else frozenset(),
                             revision=config.revision,
                             fill_marks=fill_marks(takeoff.segments) if takeoff is not None else ())
-    summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document)
+    request = None
+    if stream is not None:
+        from cablewright.annotate.drawing.append_writer import AppendRequest
+
+        request = AppendRequest(stream, _appended_header(seed, measurement), prepare)
+    summary = write_annotated_dxf(dxf_input, stage / names["dxf"], marks, config, document=document,
+                                  stream=request)
+    # the parsed drawing (the full writer's): the preview's background on a small drawing;
+    # an appended copy has none (its scratch document holds the LINEs as shapely lines only)
+    document = None if summary.appended else summary.document
     # how the marks were placed, the last resorts counted (issue 12: never silent)
     extras = {**extras, "drawing_marks": {"text_height": summary.text_height,
                                           "segment_ids": summary.segment_ids,
@@ -508,13 +500,67 @@ def _swap_in(stage: Path, out: Path) -> None:
     os.rename(old, stage)
 
 
-def _plan_view_for(measurement, folder: Path) -> Path:
-    """A plan-view DXF of the route network, for models that are not DXF (IFC)."""
-    from cablewright.annotate.plan_view import write_plan_view
+def _writer_source(drawing: Path, measurement, scratch: Path, seed: str):
+    """What the DXF writer starts from: (input path, parsed document or None,
+    streamed obstacles or None, the step pinning a parsed document's metadata)."""
+    from cablewright.annotate.reproducible import pin_dxf_metadata
 
-    path = folder / "_plan_view.dxf"
-    write_plan_view(measurement, path)
-    return path
+    dxf_input = drawing
+    document = stream = None
+    if drawing.suffix.lower() != ".dxf":  # IFC: a plan view drawn from the measurement,
+        from cablewright.annotate.plan_view import plan_view_document
+
+        scratch.mkdir()  # in memory (no file round trip); the name is for messages only
+        dxf_input = scratch / "_plan_view.dxf"
+        document = plan_view_document(measurement)
+    else:  # the drawing parsed by the extract stage, not read a second time
+        document = getattr(measurement, "source_document", None)
+        if _is_streamed(document):  # streamed: the appending writer copies the bytes
+            stream, document = document, None
+    if document is None and stream is None:
+        import ezdxf
+
+        try:
+            document = ezdxf.readfile(dxf_input)
+        except (OSError, ezdxf.DXFStructureError) as exc:
+            raise DrawingReadError(file=dxf_input, problem=f'cannot read the drawing ({exc})',
+                                   fix="check the path or re-export it") from exc
+
+    def prepare(doc) -> None:  # no run time and no random GUID in it (annotate.reproducible)
+        pin_dxf_metadata(doc, seed, own_drawing=dxf_input is not drawing)
+        _record_units(doc, measurement)
+
+    if document is not None:
+        prepare(document)
+    return dxf_input, document, stream, prepare
+
+
+def _is_streamed(document) -> bool:
+    from cablewright.extract.dxf_stream_scan import StreamObstacles
+
+    return isinstance(document, StreamObstacles)
+
+
+def _units_code(measurement) -> int | None:
+    """The ``$INSUNITS`` code of the units the config gave, or None (read from the drawing)."""
+    from cablewright.extract.units import INSUNITS
+
+    summary = getattr(measurement, "drawing_summary", None)
+    if summary is None or summary.units_source != "config":
+        return None
+    return next((c for c, (name, _) in INSUNITS.items() if name == summary.units), None)
+
+
+def _appended_header(seed: str, measurement) -> dict:
+    """What the appending writer sets in the header: the version GUID as the full
+    writer pins it, and ``$INSUNITS`` when the config gave the units."""
+    from cablewright.annotate.reproducible import dxf_version_guid
+
+    header = {"$VERSIONGUID": (2, dxf_version_guid(seed))}
+    code = _units_code(measurement)
+    if code is not None:
+        header["$INSUNITS"] = (70, str(code))
+    return header
 
 
 def _record_units(document, measurement) -> None:

@@ -67,16 +67,18 @@ def drawing_config(settings: Settings, recover: bool = False) -> DrawingConfig:
 
 
 def measure_drawing(drawing: str | Path, circuits: str | Path | None, settings: Settings,
-                    recover: bool = False, keep_document: bool = True) -> Measurement:
+                    recover: bool = False, keep_document: bool = True,
+                    marks_appid: str | None = None) -> Measurement:
     """Extract the network and equipment and route every circuit of the schedule.
 
     ``keep_document=False`` (``routes``, which writes no drawing) reads a DXF with
-    the streaming reader and keeps no parsed document.
+    the streaming reader and keeps no parsed document; with ``marks_appid`` as
+    well (``size``) it keeps what the appending DXF writer needs instead.
     """
     from cablewright.extract import measure
 
     ifc = ifc_config(settings) if str(drawing).lower().endswith(".ifc") else None
-    return measure(drawing, circuits, drawing_config(settings, recover), ifc, keep_document)
+    return measure(drawing, circuits, drawing_config(settings, recover), ifc, keep_document, marks_appid)
 
 
 def ifc_config(settings: Settings):

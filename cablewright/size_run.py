@@ -27,6 +27,11 @@ if TYPE_CHECKING:
 
 __all__ = ["SizeRun", "settings_from", "size_drawing"]
 
+#: ``size`` reads a DXF with the streaming reader and writes the annotated copy
+#: with the appending writer (no parsed document); a drawing either declines is
+#: parsed and saved by ezdxf as before (benchmarks/RESULTS.md, issue 13).
+SIZE_STREAMS = True
+
 
 @dataclass(frozen=True)
 class SizeRun:
@@ -134,7 +139,9 @@ def size_drawing(drawing: str | Path, circuits: str | None, config: str | None, 
     # the output folder is checked against the inputs and locked before anything is read
     with output_session(out_dir, inputs), _stages(quiet) as stage:
         stage(f"reading and routing {drawing.name}")
-        measurement = measure_drawing(drawing, circuits, settings, recover)
+        measurement = measure_drawing(drawing, circuits, settings, recover,
+                                      keep_document=not SIZE_STREAMS,
+                                      marks_appid=settings.annotate.appid if SIZE_STREAMS else None)
         if circuits is None:
             _attributes_note(drawing, measurement)
         stage("sizing")

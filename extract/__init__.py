@@ -131,6 +131,7 @@ def read_drawing(
     config: DrawingConfig | None = None,
     ifc_config: Any = None,
     keep_document: bool = True,
+    marks_appid: str | None = None,
 ) -> ReaderResult:
     """Read a ``.dxf`` drawing or an ``.ifc`` model into a :class:`ReaderResult`.
 
@@ -166,9 +167,11 @@ def read_drawing(
         else:
             from .dxf_stream import read_dxf_fast
 
-            content = read_dxf_fast(p, config)
+            content = read_dxf_fast(p, config, marks_appid=marks_appid)
+        # streamed for a writer appending to the drawing: what it needs, in place of the document
+        document = content.document if content.document is not None else getattr(content, "obstacles", None)
         return ReaderResult(str(p), content.units, content.polylines, content.equipment,
-                            tuple(content.issues), document=content.document, summary=content.summary)
+                            tuple(content.issues), document=document, summary=content.summary)
     if suffix == ".ifc":
         from .ifc_reader import reader_result  # ifcopenshell only when an IFC model is given
 
@@ -182,6 +185,7 @@ def measure(
     config: DrawingConfig | None = None,
     ifc_config: Any = None,
     keep_document: bool = True,
+    marks_appid: str | None = None,
 ) -> Measurement:
     """Read a drawing and a schedule, build the network and route every circuit.
 
@@ -201,6 +205,12 @@ def measure(
     keep_document : bool
         Keep the parsed DXF document (for the annotated copy); False lets the
         streaming reader measure (``routes``), see :func:`read_drawing`.
+    marks_appid : str, optional
+        With ``keep_document=False``: our XDATA application id; the streaming
+        reader then also keeps what the appending DXF writer needs
+        (``Measurement.source_document`` is that
+        :class:`~.dxf_stream_scan.StreamObstacles`, or the parsed document
+        where the stream declined the drawing).
 
     Returns
     -------
@@ -219,7 +229,8 @@ def measure(
     .. [1] contract.md, "Drawing conventions", "Lengths and grouping".
     """
     config = config or DrawingConfig()
-    return measure_content(read_drawing(drawing_path, config, ifc_config, keep_document), schedule_path, config)
+    return measure_content(read_drawing(drawing_path, config, ifc_config, keep_document, marks_appid),
+                           schedule_path, config)
 
 
 def measure_content(

@@ -53,6 +53,7 @@ from cablewright.core.errors import Issue
 
 from .dxf_flatten import FLATTEN_TYPES
 from .dxf_reader import DxfContent, _arc_points, _bulged_chain, read_dxf
+from .dxf_stream_scan import Declined, ObstacleCollector, StreamObstacles, first_value
 from .dxf_units import resolve_units, summarise
 from .model import UNIT_TO_M, DrawingConfig, Equipment, Point3, RoutePolyline
 
@@ -144,6 +145,7 @@ class StreamContent(DxfContent):
     texts: list[TextRecord] = field(default_factory=list)
     inserts: list[InsertRecord] = field(default_factory=list)
     extents: tuple[float, float, float, float] | None = None
+    obstacles: StreamObstacles | None = None
 
 
 class _Header:
@@ -284,6 +286,8 @@ class _Reader:
     #: a POLYLINE or INSERT waiting for its VERTEX / ATTRIB entities and SEQEND
     _parent: _Entity | None = None
     _children: list[_Entity] = field(default_factory=list)
+    #: what an appending writer needs (``stream_dxf(..., marks_appid=...)``), else None
+    collector: ObstacleCollector | None = None
 
     def kind(self, layer: str) -> tuple[str, str] | None:
         if layer not in self._kind_cache:
@@ -325,6 +329,8 @@ class _Reader:
                 self.header[v] = tags[k + 1][1]
 
     def table_record(self, kind: str, tags: Tags) -> None:
+        if self.collector is not None:
+            self.collector.table(kind, tags)
         if kind != "BLOCK_RECORD":
             return
         e = _entity(kind, tags)
@@ -336,6 +342,8 @@ class _Reader:
 
     def block_record(self, kind: str, tags: Tags) -> None:
         """Per block: route-layer geometry, layer-0 geometry, block references (as the full reader's ``block_info``)."""
+        if self.collector is not None:
+            self.collector.block(kind, tags)
         if kind == "BLOCK":
             if self._block is not None:
                 raise StreamDeclined("BLOCK inside a block definition")
@@ -377,6 +385,8 @@ class _Reader:
                     self.polyline(parent, children)
                 else:
                     self.insert(parent, children)
+                if self.collector is not None:
+                    self.collect(parent.kind, parent.tags, [(c.kind, c.tags) for c in children])
             elif t == ("VERTEX" if parent.kind == "POLYLINE" else "ATTRIB"):
                 self._children.append(_entity(t, tags))
             else:
@@ -390,11 +400,17 @@ class _Reader:
                 self._parent = e
             else:
                 self.insert(e, [])
+                if self.collector is not None:
+                    self.collect(t, tags, [])
             return
+        if self.collector is not None and t not in _ROUTE_TYPES and t != "CIRCLE":
+            self.collect(t, tags, [])
         if t in _ROUTE_TYPES or t in FLATTEN_TYPES or t == "CIRCLE":
             e = _entity(t, tags)
             if self.in_paper_space(e):
                 return
+            if self.collector is not None and t not in FLATTEN_TYPES:
+                self.collector.entity(t, tags, [], e.first)
             layer = e.get(8, "0")
             on_route = self.kind(layer) is not None
             if t in FLATTEN_TYPES:
@@ -418,6 +434,16 @@ class _Reader:
             self.texts.append(_text_record(t, e, text))
         elif t == "MINSERT":
             raise StreamDeclined("MINSERT")
+
+    def collect(self, t: str, tags: Tags, children: list[tuple[str, Tags]]) -> None:
+        """One model-space entity for the appending writer (paper space left out)."""
+        assert self.collector is not None
+        owner = first_value(tags, 330)
+        if owner and owner == self.psp_owner:
+            return
+        if not (owner and owner == self.msp_owner) and first_value(tags, 67, "0").strip() == "1":
+            return
+        self.collector.entity(t, tags, children)
 
     def route(self, e: _Entity, layer: str, on_route: bool) -> None:
         """LINE, LWPOLYLINE or ARC: its points, flattened as :mod:`.dxf_reader` does."""
@@ -537,7 +563,8 @@ def _lw_vertices(tags: Tags) -> list[tuple[float, float, float]]:
     return [(x, y, bz) for x, y, bz in verts]
 
 
-def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None) -> StreamContent:
+def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None, *,
+               marks_appid: str | None = None) -> StreamContent:
     """Read route pieces and equipment in one pass over the file's tag/value pairs.
 
     Parameters
@@ -546,6 +573,10 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
         The DXF file; only read.
     config : DrawingConfig, optional
         Layers, units override, tag attribute.
+    marks_appid : str, optional
+        Our XDATA application id: also keep what a writer appending to the
+        drawing's bytes needs (``StreamContent.obstacles``,
+        :mod:`.dxf_stream_scan`), leaving out the marks of an earlier run.
 
     Returns
     -------
@@ -579,6 +610,8 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
         raise StreamDeclined("\\U+ escapes in text")
     ascii_only = data.isascii()
     reader = _Reader(p, config)
+    if marks_appid is not None:
+        reader.collector = ObstacleCollector(marks_appid, lambda layer: reader.kind(layer) is not None)
     saw_eof = [False]
     text = io.TextIOWrapper(io.BytesIO(data), encoding="utf-8-sig", errors="strict")
     del data
@@ -588,6 +621,10 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
         raise StreamDeclined(f"text is not UTF-8 ({exc.reason})") from exc
     except (IndexError, KeyError) as exc:
         raise StreamDeclined(f"unexpected tag structure ({type(exc).__name__})") from exc
+    except Declined as exc:
+        raise StreamDeclined(str(exc)) from exc
+    except ValueError as exc:  # a number in a table, block or hatch the collector reads
+        raise StreamDeclined(f"a number cannot be read ({exc})") from exc
     if not saw_eof[0]:
         raise StreamDeclined("no EOF at the end (truncated or damaged)")
     version = str(reader.header.get("$ACADVER", "")).strip()
@@ -608,6 +645,9 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
                             handseed=str(reader.header.get("$HANDSEED", "")).strip(),
                             dxfversion=version, texts=reader.texts, inserts=reader.inserts,
                             extents=reader.box.value())
+    if reader.collector is not None:
+        content.obstacles = reader.collector.finish(
+            version, content.handseed, str(reader.header.get("$DWGCODEPAGE", "")).strip(), reader.msp_owner)
     kinds = reader.kind
     for layer, pts, sid in reader.raw_routes:
         kind = kinds(layer)
@@ -623,7 +663,8 @@ def stream_dxf(path: str | os.PathLike[str], config: DrawingConfig | None = None
     return content
 
 
-def read_dxf_fast(path: str | os.PathLike[str], config: DrawingConfig | None = None) -> DxfContent:
+def read_dxf_fast(path: str | os.PathLike[str], config: DrawingConfig | None = None, *,
+                  marks_appid: str | None = None) -> DxfContent:
     """The streaming reader, or the full reader where the stream declines the drawing.
 
     Parameters
@@ -632,6 +673,8 @@ def read_dxf_fast(path: str | os.PathLike[str], config: DrawingConfig | None = N
         The DXF file; only read.
     config : DrawingConfig, optional
         As for :func:`~.dxf_reader.read_dxf`.
+    marks_appid : str, optional
+        As for :func:`stream_dxf`.
 
     Returns
     -------
@@ -645,7 +688,7 @@ def read_dxf_fast(path: str | os.PathLike[str], config: DrawingConfig | None = N
         As :func:`~.dxf_reader.read_dxf`.
     """
     try:
-        return stream_dxf(path, config)
+        return stream_dxf(path, config, marks_appid=marks_appid)
     except StreamDeclined as exc:
         logger.info("%s: read with the full DXF reader: the streaming reader declined it (%s)",
                     path, exc.reason)

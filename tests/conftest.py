@@ -94,7 +94,31 @@ def _both_dxf_readers(monkeypatch):
     yield
 
 
+@pytest.fixture(autouse=True)
+def _both_dxf_writers(monkeypatch):
+    """Every appended annotated copy is compared with the full writer's (``append_check``)."""
+    from append_check import compare_with_full_writer
+    from cablewright.annotate.drawing import writer
+
+    real = writer.write_annotated_dxf
+
+    def checked(input_path, output_path, marks, config=writer.DEFAULT_CONFIG, **kwargs):
+        summary = real(input_path, output_path, marks, config, **kwargs)
+        if kwargs.get("stream") is not None:
+            compare_with_full_writer(real, input_path, output_path, marks, config, summary)
+        return summary
+
+    monkeypatch.setattr(writer, "write_annotated_dxf", checked)
+    yield
+
+
 def pytest_terminal_summary(terminalreporter):
+    from append_check import APPEND_CHECK
+
+    if APPEND_CHECK["same"] or APPEND_CHECK["declined"]:
+        terminalreporter.write_line(
+            f"appending DXF writer: same drawing as the full writer on {len(APPEND_CHECK['same'])} "
+            f"annotated copies, declined {len(APPEND_CHECK['declined'])} (written by the full writer)")
     same, declined = STREAM_CHECK["same"], STREAM_CHECK["declined"]
     if same or declined:
         terminalreporter.write_line(

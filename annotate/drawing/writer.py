@@ -1,11 +1,11 @@
-"""The one writer: reads the drawing, chooses the text height, adds every mark, saves."""
+"""The DXF writer: chooses the appending or the full writer, and sums up what was written."""
 
 from __future__ import annotations
 
 import logging
 import os
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
@@ -14,22 +14,13 @@ from cablewright.core.errors import DrawingReadError
 from ezdxf.fonts import fonts
 
 from ..atomic import atomic_path
-from ..sketch import Sketch, layer_colors, sketch_entities
-from .boxes import LabelIndex
-from .device_notes import place_equipment_notes
-from .entities import EntityWriter
-from .group_tags import place_group_tags
+from ..sketch import Sketch
+from .append_writer import AppendDeclined, AppendRequest, append_annotated_dxf
 from .inputs import AnnotationInput
-from .labels import place_cable_labels
-from .linework import drawing_linework
-from .obstacles import extents, keep_clear_boxes, scan_modelspace
+from .mark_pass import MarkCounts, add_marks
+from .obstacles import scan_modelspace
 from .old_marks import remove_old_marks
-from .revision_marks import place_fill_marks
-from .schedule_table import schedule_table
-from .segment_ids import place_segment_ids
-from .stretches import route_obstacles, scaled
-from .style import DEFAULT_CONFIG, INDEX_CELL_H, SCHEDULE_GAP_H, AnnotateConfig
-from .text_height import choose_text_height_m
+from .style import DEFAULT_CONFIG, AnnotateConfig
 
 __all__ = ["AnnotationSummary", "write_annotated_dxf"]
 
@@ -68,6 +59,11 @@ class AnnotationSummary:
     placement : mapping
         How the marks were placed (:class:`.mark_index.PlacementStats`): beside their
         route, with a leader, and the last resorts (crossing a line, overlapping).
+    document : ezdxf.document.Drawing
+        The document holding our marks: the annotated drawing (full writer) or
+        the scratch document of the drawing's obstacles (appending writer).
+    appended : bool
+        Written by the appending writer (the input's bytes with our marks).
     """
 
     output_path: Path
@@ -86,24 +82,8 @@ class AnnotationSummary:
     segment_ids: int = 0
     placement: Mapping[str, float] = field(default_factory=dict)
     sketch: Sketch | None = field(default=None, repr=False, compare=False)
-
-
-class _RecordingWriter(EntityWriter):
-    """The pen, keeping every entity it adds (each passes :meth:`tag`) for the preview."""
-
-    def __init__(self, *args: Any, **kwargs: Any) -> None:
-        super().__init__(*args, **kwargs)
-        self.added: list[Any] = []
-
-    def tag(self, entity: Any, kind: str, ref: str) -> Any:
-        self.added.append(entity)
-        return super().tag(entity, kind, ref)
-
-
-def _with_sketch(w: _RecordingWriter, summary: AnnotationSummary) -> AnnotationSummary:
-    """The summary with the sketch of what ``w`` added (for the preview)."""
-    layers = layer_colors(w.doc)
-    return replace(summary, sketch=sketch_entities(w.added, layers, Sketch(layer_aci=layers)))
+    document: Any = field(default=None, repr=False, compare=False)
+    appended: bool = False
 
 
 def _read_input(src: Path) -> Any:
@@ -118,19 +98,6 @@ def _read_input(src: Path) -> Any:
         ) from exc
 
 
-def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
-                 config: AnnotateConfig, progress: ProgressHook | None) -> tuple[Any, ...]:
-    """Every mark but the schedule, the least free first: cable labels (strict rule), group
-    tags (big blocks), segment ids (bound to their segment), fill notes, device and error
-    notes (free to go further out with their leader)."""
-    labels, _, unlabelled = place_cable_labels(w, index, marks, progress)
-    group_tags = place_group_tags(w, index, marks)[0] if config.group_tags else 0
-    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
-    fill_notes = place_fill_marks(w, index, marks)
-    device_notes, error_notes, _ = place_equipment_notes(w, index, marks)
-    return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
-
-
 def write_annotated_dxf(
     input_path: str | os.PathLike[str],
     output_path: str | os.PathLike[str],
@@ -139,6 +106,7 @@ def write_annotated_dxf(
     *,
     progress: ProgressHook | None = None,
     document: Any = None,
+    stream: AppendRequest | None = None,
 ) -> AnnotationSummary:
     """Write a copy of the drawing with cable labels, group tags, notes and schedule.
 
@@ -163,6 +131,13 @@ def write_annotated_dxf(
         marks are added to this document, which is then saved to
         ``output_path`` (never to ``input_path``); afterwards it holds the
         annotated drawing (the preview draws from ``AnnotationSummary.sketch`` instead).
+    stream : AppendRequest, optional
+        What the streaming reader kept of the drawing, the header values to set
+        and what to do to a document parsed here (:class:`.append_writer.AppendRequest`).
+        Without ``document``, the appending writer copies the input's bytes with
+        our marks (:mod:`.append_writer`), or, where it declines the drawing
+        (said in the debug log), the drawing is parsed here, ``stream.prepare``
+        is called on it and the full writer saves it.
 
     Returns
     -------
@@ -179,74 +154,68 @@ def write_annotated_dxf(
         raise DrawingReadError(
             f"{dst}: the annotated drawing would overwrite the input; choose another output folder"
         )
-    doc = document if document is not None else _read_input(src)
-
+    if document is None and stream is not None:
+        try:
+            counts, removed, scratch = append_annotated_dxf(src, dst, marks, config, stream.obstacles,
+                                                            progress=progress, header=stream.header)
+        except AppendDeclined as exc:
+            log.debug("%s: written by the full DXF writer: the appending writer declined it (%s)",
+                      src, exc.reason)
+        else:
+            return _summary(dst, marks, counts, removed, scratch.doc, appended=True)
+    doc = document
+    if doc is None:
+        doc = _read_input(src)
+        if stream is not None and stream.prepare is not None:
+            stream.prepare(doc)
     removed = remove_old_marks(doc, config)
     if removed:
         log.info("%s: removed %d marks of an earlier run", src, removed)
-    k = float(marks.units_per_m)
-
     r12 = doc.dxfversion <= "AC1009"
     measure = fonts.make_font("txt" if r12 else config.font, 1.0).text_width
     scan = scan_modelspace(doc, measure)
-    route_pts = [p for seg in marks.segments.values() for p in scaled(seg.points_m, k)]
-    route_pts += [scaled([e.position_m], k)[0] for e in marks.equipment.values()]
-    xmin, ymin, xmax, ymax = extents(scan, route_pts)
-    extents_m = ((xmax - xmin) / k, (ymax - ymin) / k)
-    h = choose_text_height_m(marks, extents_m, measure, config, str(src)) * k
-    route_layers = sorted({str(getattr(s, "layer", "")) for s in marks.segments.values()} - {""})
-    w = _RecordingWriter(doc, config, h, route_layers)
-    blocked = keep_clear_boxes(scan, config, h)
-    routes = route_obstacles(scaled(s.points_m, k) for s in marks.segments.values())
-    index = LabelIndex(
-        cell=INDEX_CELL_H * h,
-        blocked=blocked,
-        # the drawing's own linework (walls, routes, symbol lines) as obstacles
-        lines=drawing_linework(doc, config.appid, h, routes) if config.avoid_linework else None,
-    )
-    log.debug("%s: %d text and symbol boxes kept clear", src, len(blocked))
+    counts = add_marks(doc, scan, marks, config, measure, str(src), progress)
+    with atomic_path(dst) as tmp:
+        doc.saveas(tmp)
+    return _summary(dst, marks, counts, removed, doc)
 
-    labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = (
-        _place_marks(w, index, marks, config, progress))
-    stats = index.stats
-    if stats.fallbacks:
+
+def _summary(dst: Path, marks: AnnotationInput, counts: MarkCounts, removed: int,
+             doc: Any, *, appended: bool = False) -> AnnotationSummary:
+    """The summary of what either writer wrote, and its log lines."""
+    stats = counts.placement
+    fallbacks = sum(int(stats.get(k, 0)) for k in
+                    ("fallback_crossing_linework", "fallback_beyond_reach", "fallback_overlapping"))
+    if fallbacks:
         log.warning(
             "%s: %d marks found no spot clear of everything within reach: %d cross a line of "
             "the drawing, %d sit further out, %d overlap another text (last resort)", dst.name,
-            stats.fallbacks, stats.crossing_linework, stats.beyond_reach, stats.overlapping,
+            fallbacks, stats["fallback_crossing_linework"], stats["fallback_beyond_reach"],
+            stats["fallback_overlapping"],
         )
-
-    # everything placed so far widens the extents the schedule sits beside
-    placed = index.bounds()
-    if placed is not None:
-        _, _, placed_xmax, placed_ymax = placed
-        xmax, ymax = max(xmax, placed_xmax), max(ymax, placed_ymax)
-    schedule_rows = 0
-    if config.schedule:
-        schedule_rows = schedule_table(w, marks.outcomes, xmax + SCHEDULE_GAP_H * h, ymax, 0.0)
-
-    with atomic_path(dst) as tmp:
-        doc.saveas(tmp)
-    log.info(
-        "%s: %d cable labels, %d group tags, %d device notes", dst, labels, group_tags, device_notes
-    )
-    return _with_sketch(w, AnnotationSummary(
+    log.info("%s: %d cable labels, %d group tags, %d device notes", dst, counts.labels,
+             counts.group_tags, counts.device_notes)
+    unlabelled = counts.unlabelled
+    return AnnotationSummary(
         output_path=dst,
-        labels=labels,
-        group_tags=group_tags,
-        device_notes=device_notes,
-        error_notes=error_notes,
-        schedule_rows=schedule_rows,
+        labels=counts.labels,
+        group_tags=counts.group_tags,
+        device_notes=counts.device_notes,
+        error_notes=counts.error_notes,
+        schedule_rows=counts.schedule_rows,
         removed=removed,
-        overlapping=stats.overlapping,
-        text_height=h,
-        layers=dict(w.layers),
+        overlapping=counts.overlapping,
+        text_height=counts.text_height,
+        layers=dict(counts.layers),
         unlabelled=tuple(unlabelled),
         revision_marks=sum(1 for o in marks.outcomes if o.circuit_id in marks.changed
                            and o.circuit_id not in {u.split(":")[0] for u in unlabelled}
                            and o.sizing is not None and o.sizing.cable is not None
                            and o.status != "error"),
-        fill_marks=fill_notes,
-        segment_ids=segment_ids,
-        placement=stats.as_dict(),
-    ))
+        fill_marks=counts.fill_marks,
+        segment_ids=counts.segment_ids,
+        placement=dict(counts.placement),
+        sketch=counts.sketch,
+        document=doc,
+        appended=appended,
+    )
