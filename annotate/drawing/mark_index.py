@@ -97,13 +97,10 @@ def row_box(rows: np.ndarray, i: int) -> Box:
     return Box(cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
 
 
-def _as_box(boxes: Sequence[Box] | np.ndarray, i: int) -> Box:
-    return row_box(boxes, i) if isinstance(boxes, np.ndarray) else boxes[i]
-
-
 #: Marks added before the tree of our marks is rebuilt: a rebuild costs about as much as
 #: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
 REBUILD_AFTER = 200
+POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resorts reuse some)
 
 
 def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
@@ -181,6 +178,8 @@ class LabelIndex:
         self._mark_geoms: list[Any] = []
         self._mark_tree: shapely.STRtree | None = None
         self._in_tree = (0, 0)  # boxes, lines in the tree
+        # polygons of the last few candidate arrays, held with the array (identity is safe)
+        self._poly_memo: list[tuple[np.ndarray, np.ndarray]] = []
 
     # -- what is there -------------------------------------------------------------
     @property
@@ -309,10 +308,24 @@ class LabelIndex:
         ``lines`` and ``fixed`` choose the trees: the drawing's linework and its text
         and symbol boxes.
         """
+        return self._static_free(boxes, self._polys_of(boxes), lines=lines, fixed=fixed)
+
+    def _polys_of(self, boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
+        """The boxes as polygons (:func:`box_polygons`), kept for the last few arrays."""
+        if not isinstance(boxes, np.ndarray):
+            return box_polygons(boxes)
+        for arr, polys in self._poly_memo:
+            if arr is boxes:
+                return polys
+        polys = box_polygons(boxes)
+        self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], (boxes, polys)]
+        return polys
+
+    def _static_free(self, boxes: Sequence[Box] | np.ndarray, polys: np.ndarray, *,
+                     lines: bool, fixed: bool) -> np.ndarray:
         ok = np.ones(len(boxes), dtype=bool)
         if len(boxes) == 0:
             return ok
-        polys = box_polygons(boxes)
         if lines and self._lines is not None:
             hit = self._lines.query(polys, predicate="intersects")
             ok[hit[0]] = False
@@ -357,21 +370,22 @@ class LabelIndex:
         """
         if len(boxes) == 0:
             return None
-        ok = self.static_free(boxes, lines=lines, fixed=fixed)
+        polys = self._polys_of(boxes)
+        ok = self._static_free(boxes, polys, lines=lines, fixed=fixed)
         rest = np.flatnonzero(ok)
         if len(rest) == 0:
             return None
         tree = self._marks_tree()
         if tree is not None:
-            hit = tree.query(box_polygons(boxes[rest] if isinstance(boxes, np.ndarray)
-                                          else [boxes[int(i)] for i in rest]),
-                             predicate="intersects")
+            hit = tree.query(polys[rest], predicate="intersects")
             keep = np.ones(len(rest), dtype=bool)
             keep[hit[0]] = False
             rest = rest[keep]
+        as_rows = isinstance(boxes, np.ndarray)
         for j in rest:
             i = int(j)
-            if (self.free_of_marks(_as_box(boxes, i), since_tree=True)
+            box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
+            if (self.free_of_marks(box, since_tree=True)
                     and (accept is None or accept(i))):
                 return i
         return None
