@@ -23,9 +23,9 @@ References
 
 from __future__ import annotations
 
+import hashlib
 import math
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -33,60 +33,9 @@ import shapely
 from shapely.geometry import Point, Polygon
 
 from .boxes import Box, _box, _polygon, boxes_overlap
+from .placement_stats import PlacementStats
 
 __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
-
-
-@dataclass
-class PlacementStats:
-    """How the marks were placed (counts), for the summary and ``schedule.json``.
-
-    Attributes
-    ----------
-    beside : int
-        Marks beside their own route or point, clear of everything, no leader.
-    with_leader : int
-        Marks clear of everything, tied to their route or point by a leader.
-    crossing_linework : int
-        Last resort 1: no spot clear of the drawing's lines within reach; placed clear
-        of every text and mark but crossing a line.
-    beyond_reach : int
-        Last resort 2: clear of everything only beyond the leader bound; placed there
-        with a longer leader.
-    overlapping : int
-        Last resort 3: not even that; placed beside the route, overlapping.
-    longest_leader_h : float
-        Longest leader drawn [text heights].
-    """
-
-    beside: int = 0
-    with_leader: int = 0
-    crossing_linework: int = 0
-    beyond_reach: int = 0
-    overlapping: int = 0
-    longest_leader_h: float = 0.0
-    kinds: dict[str, int] = field(default_factory=dict)
-
-    def leader(self, length: float, text_height: float) -> None:
-        """Record a leader of ``length`` [drawing units]."""
-        if text_height > 0.0:
-            self.longest_leader_h = max(self.longest_leader_h, length / text_height)
-
-    @property
-    def fallbacks(self) -> int:
-        """Marks placed by a last resort (crossing a line, beyond reach, overlapping)."""
-        return self.crossing_linework + self.beyond_reach + self.overlapping
-
-    def as_dict(self) -> dict[str, float | int]:
-        """The counts as plain numbers (JSON)."""
-        return {
-            "beside": self.beside,
-            "with_leader": self.with_leader,
-            "fallback_crossing_linework": self.crossing_linework,
-            "fallback_beyond_reach": self.beyond_reach,
-            "fallback_overlapping": self.overlapping,
-            "longest_leader_h": round(self.longest_leader_h, 2),
-        }
 
 
 def row_box(rows: np.ndarray, i: int) -> Box:
@@ -180,6 +129,8 @@ class LabelIndex:
         self._in_tree = (0, 0)  # boxes, lines in the tree
         # polygons of the last few candidate arrays, held with the array (identity is safe)
         self._poly_memo: list[tuple[np.ndarray, np.ndarray]] = []
+        # the fixed obstacles never change: a candidate array's bulk result, by its boxes
+        self._static_memo: dict[tuple[bool, bool, bytes], np.ndarray] = {}
 
     # -- what is there -------------------------------------------------------------
     @property
@@ -321,6 +272,18 @@ class LabelIndex:
         self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], (boxes, polys)]
         return polys
 
+    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool, fixed: bool) -> np.ndarray:
+        """:meth:`static_free`, remembered per array of boxes (its first six columns)."""
+        if not isinstance(boxes, np.ndarray):
+            return self._static_free(boxes, box_polygons(boxes), lines=lines, fixed=fixed)
+        digest = hashlib.blake2b(np.ascontiguousarray(boxes[:, :6]).tobytes(), digest_size=20)
+        key = (lines, fixed, digest.digest())
+        ok = self._static_memo.get(key)
+        if ok is None:
+            ok = self._static_free(boxes, self._polys_of(boxes), lines=lines, fixed=fixed)
+            self._static_memo[key] = ok
+        return ok
+
     def _static_free(self, boxes: Sequence[Box] | np.ndarray, polys: np.ndarray, *,
                      lines: bool, fixed: bool) -> np.ndarray:
         ok = np.ones(len(boxes), dtype=bool)
@@ -370,14 +333,12 @@ class LabelIndex:
         """
         if len(boxes) == 0:
             return None
-        polys = self._polys_of(boxes)
-        ok = self._static_free(boxes, polys, lines=lines, fixed=fixed)
-        rest = np.flatnonzero(ok)
+        rest = np.flatnonzero(self._static_ok(boxes, lines=lines, fixed=fixed))
         if len(rest) == 0:
             return None
         tree = self._marks_tree()
         if tree is not None:
-            hit = tree.query(polys[rest], predicate="intersects")
+            hit = tree.query(self._polys_of(boxes)[rest], predicate="intersects")
             keep = np.ones(len(rest), dtype=bool)
             keep[hit[0]] = False
             rest = rest[keep]

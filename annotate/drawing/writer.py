@@ -57,7 +57,7 @@ class AnnotationSummary:
     segment_ids : int
         Segment ids written on the route network.
     placement : mapping
-        How the marks were placed (:class:`.mark_index.PlacementStats`): beside their
+        How the marks were placed (:class:`.placement_stats.PlacementStats`): beside their
         route, with a leader, and the last resorts (crossing a line, overlapping).
     document : ezdxf.document.Drawing
         The document holding our marks: the annotated drawing (full writer) or

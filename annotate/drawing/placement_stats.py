@@ -1,0 +1,59 @@
+"""How the marks were placed: counts for the summary and ``schedule.json`` (issue 12)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+__all__ = ["PlacementStats"]
+
+
+@dataclass
+class PlacementStats:
+    """How the marks were placed (counts), for the summary and ``schedule.json``.
+
+    Attributes
+    ----------
+    beside : int
+        Marks beside their own route or point, clear of everything, no leader.
+    with_leader : int
+        Marks clear of everything, tied to their route or point by a leader.
+    crossing_linework : int
+        Last resort 1: no spot clear of the drawing's lines within reach; placed clear
+        of every text and mark but crossing a line.
+    beyond_reach : int
+        Last resort 2: clear of everything only beyond the leader bound; placed there
+        with a longer leader.
+    overlapping : int
+        Last resort 3: not even that; placed beside the route, overlapping.
+    longest_leader_h : float
+        Longest leader drawn [text heights].
+    """
+
+    beside: int = 0
+    with_leader: int = 0
+    crossing_linework: int = 0
+    beyond_reach: int = 0
+    overlapping: int = 0
+    longest_leader_h: float = 0.0
+    kinds: dict[str, int] = field(default_factory=dict)
+
+    def leader(self, length: float, text_height: float) -> None:
+        """Record a leader of ``length`` [drawing units]."""
+        if text_height > 0.0:
+            self.longest_leader_h = max(self.longest_leader_h, length / text_height)
+
+    @property
+    def fallbacks(self) -> int:
+        """Marks placed by a last resort (crossing a line, beyond reach, overlapping)."""
+        return self.crossing_linework + self.beyond_reach + self.overlapping
+
+    def as_dict(self) -> dict[str, float | int]:
+        """The counts as plain numbers (JSON)."""
+        return {
+            "beside": self.beside,
+            "with_leader": self.with_leader,
+            "fallback_crossing_linework": self.crossing_linework,
+            "fallback_beyond_reach": self.beyond_reach,
+            "fallback_overlapping": self.overlapping,
+            "longest_leader_h": round(self.longest_leader_h, 2),
+        }
