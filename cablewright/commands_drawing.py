@@ -28,11 +28,6 @@ __all__ = ["run_size", "run_routes", "run_demo", "settings_for", "SAMPLE_DIR",
 
 SAMPLE_DIR = Path(__file__).resolve().parents[1] / "sample_drawings"
 
-#: ``size`` keeps the document parsed by the full reader for the annotated copy
-#: and the preview (one parse).  Streaming the measurement and parsing only for
-#: the writer costs a little more in all (benchmarks/RESULTS.md, "Streaming
-#: reader"), so ``size`` streams only once the writer needs no parsed document.
-SIZE_KEEPS_DOCUMENT = True
 #: ``routes`` writes no drawing: it reads with the streaming reader, no document.
 ROUTES_KEEPS_DOCUMENT = False
 SAMPLE_DRAWING = "pumping_station.dxf"

@@ -35,7 +35,7 @@ from dataclasses import dataclass, replace
 
 from cablewright.core.errors import CableRouteError, CircuitInputError, OutOfRangeError
 
-from ..checks import not_checked
+from ..checks import _extra_float, not_checked
 from ..config import SizingConfig
 from ..model import Check, CheckResult, CircuitSpec
 from .tables import SIZES, area_cmil, impedance_ohm_per_m, size_label
@@ -282,19 +282,6 @@ def ground_fault_loop(voltage_to_ground_v: float, source_fault_a: float, length_
 
 def _outcome(passed: bool) -> CheckResult:
     return CheckResult.PASS if passed else CheckResult.FAIL
-
-
-def _extra_float(spec: CircuitSpec, name: str, default: float | None) -> float | None:
-    text = spec.extra_value(name)
-    if text is None:
-        return default
-    try:
-        value = float(text.replace(",", "."))
-    except ValueError:
-        raise CircuitInputError(f"{name} {text!r} is not a number") from None
-    if not math.isfinite(value) or value < 0:
-        raise CircuitInputError(f"{name} {text!r} must be zero or more")
-    return value
 
 
 @dataclass(frozen=True)
