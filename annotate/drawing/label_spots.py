@@ -81,13 +81,10 @@ class RouteSpot:
     leader: LineString | None
 
 
-def _along(length: float, width: float, height: float) -> list[float]:
-    """Centre positions from the stretch middle outwards.
-
-    The box stays beside the stretch; at the ends it may hang over by up to
-    :data:`OVERHANG` of its width (past a free end of the route, or a label longer
-    than a short stretch), so it still lies along the stretch over most of its length.
-    """
+def _along(length: float, width: float, height: float, ends_first: bool = False) -> list[float]:
+    """Centre positions from the stretch middle outwards, hanging over its ends by up to
+    :data:`OVERHANG` of the width (a free route end, a label longer than the stretch);
+    ``ends_first``: from the two ends inwards, the box kept within the stretch."""
     reach = abs(length - width) / 2.0 + OVERHANG * width
     step = max(height, 2.0 * reach / MAX_ALONG)
     out = [0.0]
@@ -97,12 +94,15 @@ def _along(length: float, width: float, height: float) -> list[float]:
         k += 1
     if out[-1] < reach - 1e-9:  # the two ends, so a label reaches a free end of the stretch
         out += [reach, -reach]
+    if ends_first:  # a short mark (a segment id) leaves the middle to the long labels
+        inner = max(0.0, length - width) / 2.0
+        return sorted({math.copysign(min(abs(t), inner), t) for t in out}, key=lambda t: (-abs(t), -t))
     return out
 
 
-def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]) -> np.ndarray:
+def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float], ends_first: bool = False) -> np.ndarray:
     """Boxes along ``s`` on both sides at each gap (drawing units), best first: gap by gap,
-    from the middle outwards, the side above the text first.
+    along as :func:`_along` orders, the side above the text first.
 
     Returns an array of rows ``cx, cy, ux, uy, hw, hh, ax, ay, gap, z`` (:data:`COLUMNS`).
     """
@@ -114,7 +114,7 @@ def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]
     a = math.radians(readable_angle_deg(dx, dy))
     vx, vy = -math.sin(a), math.cos(a)
     mx, my = (s.start[0] + s.end[0]) / 2.0, (s.start[1] + s.end[1]) / 2.0
-    t = np.asarray(_along(n, width, height))
+    t = np.asarray(_along(n, width, height, ends_first))
     g = np.asarray(gaps, dtype=float)
     off = (height / 2.0 + g)[:, None, None] * np.array([1.0, -1.0])[None, None, :]  # (G, 1, 2)
     px = (mx + ux * t)[None, :, None]
@@ -237,7 +237,7 @@ def _record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
 
 def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float,
                    height: float, text_height: float, *,
-                   max_leader_h: float = MAX_LEADER_H) -> RouteSpot:
+                   max_leader_h: float = MAX_LEADER_H, ends_first: bool = False) -> RouteSpot:
     """Place one mark (box ``width`` x ``height``) on ``stretches`` (best first).
 
     Parameters
@@ -252,6 +252,8 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         Text height [drawing units]; gaps and the leader bound are counted in it.
     max_leader_h : float
         Farthest the box edge may go from the route [text heights].
+    ends_first : bool
+        Spots along a stretch from its ends inwards (a short mark: :func:`_along`).
 
     Returns
     -------
@@ -270,7 +272,7 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     beside = [g * h for g in BESIDE_GAPS_H]
     out = [g * h for g in _leader_gaps(max_leader_h)]
     for s in tried:
-        spot = pick(index, stretch_spots(s, width, height, beside), h, leader_lines=None)
+        spot = pick(index, stretch_spots(s, width, height, beside, ends_first), h, leader_lines=None)
         if spot is not None:
             return _record(index, spot, h, leader=False, how="beside")
     rings = ring_spots(_ring_points(tried, h), width, height, out)

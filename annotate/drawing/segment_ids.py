@@ -5,7 +5,8 @@ The ids are those of ``schedule.json`` (``segments[].id``, each circuit's
 the row of any stretch of tray.  A shared segment is named once, however many
 circuits run on it.  Each id is a mark like a cable label: along a straight stretch
 of its segment within one text height of it, else tied to it by a short leader
-(:func:`.label_spots.place_on_route`).
+(:func:`.label_spots.place_on_route`), tried from the segment's ends inwards so that
+the middle of a short drop is left to the cable labels placed before.
 """
 
 from __future__ import annotations
@@ -15,7 +16,7 @@ from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
 from .mark_index import LabelIndex
-from .stretches import rank_stretches, scaled, straight_stretches
+from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .text import clean
 
 __all__ = ["place_segment_ids", "segment_order"]
@@ -32,19 +33,27 @@ def segment_order(segment_id: str) -> tuple[int, str]:
     return (len(segment_id), segment_id)
 
 
-def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
-    """One id per segment with a plan length, on the group-tag layer; the number written."""
+def _id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
+    """Each segment with a plan length and its straight stretches, in id order."""
     k = float(marks.units_per_m)
-    written = 0
+    out = []
     for seg_id in sorted(marks.segments, key=segment_order):
         pts = scaled(getattr(marks.segments[seg_id], "points_m", ()) or (), k)
         stretches = straight_stretches(pts, crowd=len(marks.per_segment.get(seg_id, ())),
                                        key=seg_id) if len(pts) >= 2 else []
-        if not stretches:
-            continue  # a vertical riser: no plan length to write its id along
+        if stretches:  # a vertical riser has no plan length to write its id along
+            out.append((seg_id, stretches))
+    return out
+
+
+def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
+    """One id per segment with a plan length, on the group-tag layer; the number written."""
+    written = 0
+    for seg_id, stretches in _id_stretches(marks):
         text = clean(seg_id)
         bw, bh = w.line_box(text)
-        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, w.height)
+        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, w.height,
+                              ends_first=True)
         place = spot.place
         entity = w.text(text, (place.x, place.y, place.z), Mark("group", "segment-id", seg_id),
                         rotation=place.rotation_deg)
