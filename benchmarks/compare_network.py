@@ -8,7 +8,8 @@ edges with their attributes, every circuit's route and the circuits on every seg
 Exit 0 when everything is identical, 1 with the first differences listed.
 
 Run: ``python benchmarks/compare_network.py --before /tmp/network_before.py DRAWING [SCHEDULE] ...``
-(drawing and schedule as pairs ``plant.dxf:plant_circuits.csv``).
+(drawing and schedule as pairs ``plant.dxf:plant_circuits.csv``; ``chain:N`` is the chained
+lines of ``bench_network.py`` with N pieces, routed from its source to its load).
 """
 
 from __future__ import annotations
@@ -30,6 +31,11 @@ def _load(path: str):
 
 
 def _content(drawing: Path, config):
+    if str(drawing).startswith("chain:"):
+        sys.path.insert(0, str(Path(__file__).resolve().parent))
+        from bench_network import chained_lines
+
+        return chained_lines(int(str(drawing)[len("chain:"):]))
     if drawing.suffix.lower() == ".ifc":
         from cablewright.extract.ifc_reader import read_ifc
 
@@ -76,9 +82,14 @@ def main() -> int:
     config = DrawingConfig()
     bad = 0
     for item in args.drawings:
-        drawing, _, schedule = item.partition(":")
+        drawing, _, schedule = (item, "", "") if item.startswith("chain:") else item.partition(":")
         polylines, equipment = _content(Path(drawing), config)
-        rows = read_schedule(schedule) if schedule else rows_from_equipment(equipment)
+        if drawing.startswith("chain:"):
+            from cablewright.extract.model import ScheduleRow
+
+            rows = [ScheduleRow("chain", 2, "C-1", "SRC", "LOAD")]
+        else:
+            rows = read_schedule(schedule) if schedule else rows_from_equipment(equipment)
         a = _snapshot(before.build_network(polylines, equipment, config), rows, config)
         b = _snapshot(build_network(polylines, equipment, config), rows, config)
         diff = [k for k in a if a[k] != b[k]]

@@ -40,6 +40,10 @@ from .guard import (
     near_miss_reach_m,
 )
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
+from .network_arrays import (
+    cumulative_lengths,
+    flat_vertices,
+)
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
 
@@ -256,7 +260,12 @@ def _clean_input(polylines: Iterable[RoutePolyline | tuple], issues: list[Issue]
 
 @dataclass
 class _Geometry:
-    """The cleaned pieces as arrays: vertices, sub-segments (a-b) and their STRtree."""
+    """The cleaned pieces as arrays: vertices, sub-segments (a-b) and their STRtree.
+
+    ``flat`` holds every vertex, piece i's at rows ``start[i]:start[i + 1]``, and
+    ``cum_flat`` the distance along its piece at each; ``verts``, ``seglen`` and ``cum`` are
+    per-piece views of them.
+    """
 
     polys: list[RoutePolyline]
     verts: list[np.ndarray]
@@ -268,6 +277,9 @@ class _Geometry:
     s_owner: np.ndarray
     s_k: np.ndarray
     seg_tree: STRtree | None
+    flat: np.ndarray
+    start: np.ndarray
+    cum_flat: np.ndarray
 
     def point_at(self, s: int, tt: float) -> tuple[int, float, np.ndarray]:
         """(piece, distance along it [m], xyz) of parameter tt on sub-segment s."""
@@ -277,22 +289,28 @@ class _Geometry:
 
 
 def _geometry(polys: list[RoutePolyline]) -> _Geometry:
-    verts = [np.asarray(p.points_m, dtype=float) for p in polys]
-    seglen = [np.linalg.norm(np.diff(v, axis=0), axis=1) for v in verts]
-    cum = [np.concatenate(([0.0], np.cumsum(sl))) for sl in seglen]
-    total = [float(c[-1]) for c in cum]
-    if polys:
-        sa = np.concatenate([v[:-1] for v in verts])
-        sb = np.concatenate([v[1:] for v in verts])
-        counts = np.fromiter((len(v) - 1 for v in verts), dtype=np.intp, count=len(verts))
-        s_owner = np.repeat(np.arange(len(verts)), counts)
-        s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
-        seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    else:
-        sa = sb = np.zeros((0, 3))
-        s_owner = s_k = np.zeros(0, dtype=int)
-        seg_tree = None
-    return _Geometry(polys, verts, seglen, cum, total, sa, sb, s_owner, s_k, seg_tree)
+    """The pieces' vertices, lengths and sub-segments as whole-drawing arrays (one pass)."""
+    if not polys:
+        empty = np.zeros((0, 3))
+        return _Geometry(polys, [], [], [], [], empty, empty, np.zeros(0, dtype=int), np.zeros(0, dtype=int),
+                         None, empty, np.zeros(1, dtype=np.intp), np.zeros(0))
+    flat, start = flat_vertices([p.points_m for p in polys])
+    seglen_flat, cum_flat = cumulative_lengths(flat, start)
+    cuts_at = start[1:-1]
+    verts = np.split(flat, cuts_at)
+    seglen = np.split(seglen_flat, cuts_at - np.arange(1, len(polys)))
+    cum = np.split(cum_flat, cuts_at)
+    total = cum_flat[start[1:] - 1].tolist()
+    counts = np.diff(start) - 1
+    last = np.zeros(len(flat), dtype=bool)
+    last[start[1:] - 1] = True
+    first = np.zeros(len(flat), dtype=bool)
+    first[start[:-1]] = True
+    sa, sb = flat[~last], flat[~first]
+    s_owner = np.repeat(np.arange(len(polys)), counts)
+    s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
+    seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
+    return _Geometry(polys, verts, seglen, cum, total, sa, sb, s_owner, s_k, seg_tree, flat, start, cum_flat)
 
 
 # --------------------------------------------------------------------------- step 2: cut points
@@ -320,6 +338,14 @@ class _Cuts:
         self.xyz.append((float(xyz[0]), float(xyz[1]), float(xyz[2])))
         return pid
 
+    def add_many(self, poly: list[int], s: list[float], xyz: np.ndarray) -> None:
+        """New cut points in bulk, as :meth:`new` one after the other would add them."""
+        n = len(self.poly)
+        self.uf.parent.extend(range(n, n + len(poly)))
+        self.poly.extend(poly)
+        self.s.extend(s)
+        self.xyz.extend(map(tuple, xyz.tolist()))
+
     def join(self, a: int, b: int, d: float) -> None:
         if d <= COINCIDENT_M:
             self.uf.union(a, b)
@@ -330,10 +356,11 @@ class _Cuts:
 def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
     """Ends of every piece, joined end to end, as tees, at shared vertices (and crossings)."""
     cuts = _Cuts()
-    for i in range(len(geo.polys)):
-        cuts.new(i, 0.0, geo.verts[i][0])  # pid 2i
-        cuts.new(i, geo.total[i], geo.verts[i][-1])  # pid 2i+1
-    ends = np.asarray(cuts.xyz, dtype=float).reshape(-1, 3)
+    ends = np.empty((2 * len(geo.polys), 3))
+    ends[0::2] = geo.flat[geo.start[:-1]]  # pid 2i
+    ends[1::2] = geo.flat[geo.start[1:] - 1]  # pid 2i+1
+    cuts.add_many(np.repeat(np.arange(len(geo.polys)), 2).tolist(),
+                  np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(), ends)
     if geo.polys:
         _join_ends(cuts, ends, tol)
         _join_tees(cuts, geo, ends, tol)
