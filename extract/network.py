@@ -21,7 +21,6 @@ from __future__ import annotations
 
 import logging
 import math
-from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -41,8 +40,11 @@ from .guard import (
 )
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
 from .network_arrays import (
+    count_at_most,
     cumulative_lengths,
     flat_vertices,
+    piece_lengths,
+    roots_of,
 )
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
@@ -622,51 +624,62 @@ class _Pieces:
 
 def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
     """Cut every route piece at its cut points; name the nodes; add the snap gaps."""
-    on_poly: dict[int, list[int]] = defaultdict(list)
-    for pid, i in enumerate(cuts.poly):
-        on_poly[i].append(pid)
-    raw: list[tuple[int, int, list[Point3], int]] = []  # pid_a, pid_b, points, poly
-    for i in range(len(geo.polys)):
-        groups = _cut_groups(cuts, on_poly[i])
-        cum = geo.cum[i]
-        for ga, gb in zip(groups[:-1], groups[1:], strict=False):
-            a, b = ga[0], gb[0]
-            # vertices strictly between the two cuts (cum is increasing)
-            lo = bisect_right(cum, cuts.s[a] + COINCIDENT_M)
-            hi = bisect_left(cum, cuts.s[b] - COINCIDENT_M)
-            inner = [tuple(map(float, geo.verts[i][k])) for k in range(lo, hi)]
-            raw.append((a, b, [cuts.xyz[a], *inner, cuts.xyz[b]], i))  # type: ignore[list-item]
-    # node names, deterministic: by smallest cut-point id of each cluster
-    node_of_root: dict[int, str] = {}
-    node_pos: dict[str, Point3] = {}
-    for pid in range(len(cuts.poly)):
-        r = cuts.uf.find(pid)
-        if r not in node_of_root:
-            node_of_root[r] = f"N{len(node_of_root)}"
-        node_pos.setdefault(node_of_root[r], cuts.xyz[pid])
+    pa, pb = _cut_pairs(cuts)
+    poly = np.asarray(cuts.poly, dtype=np.intp)[pa]
+    s = np.asarray(cuts.s, dtype=float)
+    # vertices strictly between the two cuts (cum is increasing): bisect_right / bisect_left
+    lo = count_at_most(geo.cum_flat, geo.start, poly, s[pa] + COINCIDENT_M, strict=False)
+    hi = count_at_most(geo.cum_flat, geo.start, poly, s[pb] - COINCIDENT_M, strict=True)
+    xyz = cuts.xyz
+    pts_of: list[list[Point3]] = [[xyz[a], xyz[b]] for a, b in zip(pa.tolist(), pb.tolist(), strict=True)]
+    for n in np.flatnonzero(hi > lo).tolist():
+        first = int(geo.start[poly[n]])
+        inner = map(tuple, geo.flat[first + lo[n] : first + hi[n]].tolist())
+        pts_of[n] = [pts_of[n][0], *inner, pts_of[n][1]]  # type: ignore[list-item]  # tuples of 3 floats
+    # node names, deterministic: by smallest cut-point id of each cluster (its root)
+    roots = roots_of(cuts.uf.parent)
+    cuts.uf.parent[:] = roots.tolist()
+    names_root = np.unique(roots)
+    names = [f"N{k}" for k in range(len(names_root))]
+    node_of_root = dict(zip(names_root.tolist(), names, strict=True))
+    node_pos = {nm: xyz[r] for nm, r in zip(names, names_root.tolist(), strict=True)}
+    pid_node = [names[k] for k in np.searchsorted(names_root, roots).tolist()]
     out = _Pieces([], 0, node_of_root, node_pos, cuts.uf)
-    for a, b, pts, i in raw:
-        length = float(np.linalg.norm(np.diff(np.asarray(pts), axis=0), axis=1).sum())
-        if length > COINCIDENT_M:
-            out.pieces.append((out.node(a), out.node(b), pts, length, i))
+    lengths = piece_lengths(pts_of)
+    for n in np.flatnonzero(lengths > COINCIDENT_M).tolist():
+        out.pieces.append((pid_node[pa[n]], pid_node[pb[n]], pts_of[n], float(lengths[n]), int(poly[n])))
     out.gap_start = len(out.pieces)
     for a, b, d in cuts.joins:
-        u, v = out.node(a), out.node(b)
+        u, v = pid_node[a], pid_node[b]
         if u != v:  # the gap takes the layer of the lower-numbered piece it joins
-            out.pieces.append((u, v, [cuts.xyz[a], cuts.xyz[b]], d, min(cuts.poly[a], cuts.poly[b])))
+            out.pieces.append((u, v, [xyz[a], xyz[b]], d, min(cuts.poly[a], cuts.poly[b])))
     return out
 
 
-def _cut_groups(cuts: _Cuts, pids: list[int]) -> list[list[int]]:
-    """The cut points of one piece in order along it, coincident ones grouped (and united)."""
-    groups: list[list[int]] = []
-    for p in sorted(pids, key=lambda q: (cuts.s[q], q)):
-        if groups and cuts.s[p] - cuts.s[groups[-1][0]] <= COINCIDENT_M:
-            cuts.uf.union(groups[-1][0], p)
-            groups[-1].append(p)
+def _cut_pairs(cuts: _Cuts) -> tuple[np.ndarray, np.ndarray]:
+    """(first cut, next cut) of every piece between cut points, by piece and along it.
+
+    The cut points of each piece in order along it (then by id); a cut point within
+    :data:`COINCIDENT_M` of its group's first joins that group (and is united with it).
+    """
+    poly = np.asarray(cuts.poly, dtype=np.intp)
+    s = np.asarray(cuts.s, dtype=float)
+    order = np.lexsort((np.arange(len(poly)), s, poly))
+    po, so = poly[order], s[order]
+    near = np.zeros(len(order), dtype=bool)
+    near[1:] = (po[1:] == po[:-1]) & (so[1:] - so[:-1] <= COINCIDENT_M)
+    start = ~near
+    group_first = order.copy()
+    for n in np.flatnonzero(near).tolist():  # a group's members are near its first, not only the last
+        f = int(group_first[n - 1])
+        if s[order[n]] - s[f] <= COINCIDENT_M:
+            group_first[n] = f
+            cuts.uf.union(f, int(order[n]))
         else:
-            groups.append([p])
-    return groups
+            start[n] = True
+    firsts = np.flatnonzero(start)
+    same = po[firsts[1:]] == po[firsts[:-1]]
+    return order[firsts[:-1][same]], order[firsts[1:][same]]
 
 
 # --------------------------------------------------------------------------- step 5: chains
