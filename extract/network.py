@@ -265,44 +265,35 @@ class _Geometry:
     """The cleaned pieces as arrays: vertices, sub-segments (a-b) and their STRtree.
 
     ``flat`` holds every vertex, piece i's at rows ``start[i]:start[i + 1]``, and
-    ``cum_flat`` the distance along its piece at each; ``verts``, ``seglen`` and ``cum`` are
-    per-piece views of them.
+    ``cum`` the distance along its piece at each; sub-segment ``s`` (piece ``s_owner[s]``,
+    its ``s_k[s]``-th) runs from vertex ``s + s_owner[s]`` to the next, ``seglen[s]`` long.
     """
 
     polys: list[RoutePolyline]
-    verts: list[np.ndarray]
-    seglen: list[np.ndarray]
-    cum: list[np.ndarray]
+    flat: np.ndarray
+    start: np.ndarray
+    cum: np.ndarray
+    seglen: np.ndarray
     total: list[float]
     sa: np.ndarray
     sb: np.ndarray
     s_owner: np.ndarray
     s_k: np.ndarray
     seg_tree: STRtree | None
-    flat: np.ndarray
-    start: np.ndarray
-    cum_flat: np.ndarray
 
     def point_at(self, s: int, tt: float) -> tuple[int, float, np.ndarray]:
         """(piece, distance along it [m], xyz) of parameter tt on sub-segment s."""
         j = int(self.s_owner[s])
-        k = int(self.s_k[s])
-        return j, float(self.cum[j][k] + tt * self.seglen[j][k]), self.sa[s] + tt * (self.sb[s] - self.sa[s])
+        return j, float(self.cum[s + j] + tt * self.seglen[s]), self.sa[s] + tt * (self.sb[s] - self.sa[s])
 
 
 def _geometry(polys: list[RoutePolyline]) -> _Geometry:
     """The pieces' vertices, lengths and sub-segments as whole-drawing arrays (one pass)."""
     if not polys:
-        empty = np.zeros((0, 3))
-        return _Geometry(polys, [], [], [], [], empty, empty, np.zeros(0, dtype=int), np.zeros(0, dtype=int),
-                         None, empty, np.zeros(1, dtype=np.intp), np.zeros(0))
+        e3, e1, ei = np.zeros((0, 3)), np.zeros(0), np.zeros(0, dtype=int)
+        return _Geometry(polys, e3, np.zeros(1, dtype=np.intp), e1, e1, [], e3, e3, ei, ei, None)
     flat, start = flat_vertices([p.points_m for p in polys])
-    seglen_flat, cum_flat = cumulative_lengths(flat, start)
-    cuts_at = start[1:-1]
-    verts = np.split(flat, cuts_at)
-    seglen = np.split(seglen_flat, cuts_at - np.arange(1, len(polys)))
-    cum = np.split(cum_flat, cuts_at)
-    total = cum_flat[start[1:] - 1].tolist()
+    seglen, cum = cumulative_lengths(flat, start)
     counts = np.diff(start) - 1
     last = np.zeros(len(flat), dtype=bool)
     last[start[1:] - 1] = True
@@ -312,7 +303,7 @@ def _geometry(polys: list[RoutePolyline]) -> _Geometry:
     s_owner = np.repeat(np.arange(len(polys)), counts)
     s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
     seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    return _Geometry(polys, verts, seglen, cum, total, sa, sb, s_owner, s_k, seg_tree, flat, start, cum_flat)
+    return _Geometry(polys, flat, start, cum, seglen, cum[start[1:] - 1].tolist(), sa, sb, s_owner, s_k, seg_tree)
 
 
 # --------------------------------------------------------------------------- step 2: cut points
@@ -410,20 +401,22 @@ def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> Non
 
 def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
     """Interior vertices of two different routes within the tolerance."""
-    inner = [(i, k) for i in range(len(geo.polys)) for k in range(1, len(geo.verts[i]) - 1)]
-    if not inner:
+    inner = np.ones(len(geo.flat), dtype=bool)
+    inner[geo.start[:-1]] = inner[geo.start[1:] - 1] = False
+    vid = np.flatnonzero(inner)  # flat index of every interior vertex
+    if not len(vid):
         return
-    iv = np.asarray([geo.verts[i][k] for i, k in inner])
-    iown = np.asarray([i for i, _ in inner])
+    iv = geo.flat[vid]
+    iown = np.repeat(np.arange(len(geo.polys)), np.diff(geo.start))[vid]
     itree = STRtree(shapely.points(iv[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
     qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(iv[qi] - iv[qj], axis=1)
     for a, b, dd in zip(qi[d <= tol], qj[d <= tol], d[d <= tol], strict=False):
-        (i1, k1), (i2, k2) = inner[a], inner[b]
-        p1 = cuts.new(i1, float(geo.cum[i1][k1]), geo.verts[i1][k1])
-        p2 = cuts.new(i2, float(geo.cum[i2][k2]), geo.verts[i2][k2])
+        v1, v2 = int(vid[a]), int(vid[b])
+        p1 = cuts.new(int(iown[a]), float(geo.cum[v1]), geo.flat[v1])
+        p2 = cuts.new(int(iown[b]), float(geo.cum[v2]), geo.flat[v2])
         cuts.join(p1, p2, float(dd))
 
 
@@ -628,8 +621,8 @@ def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
     poly = np.asarray(cuts.poly, dtype=np.intp)[pa]
     s = np.asarray(cuts.s, dtype=float)
     # vertices strictly between the two cuts (cum is increasing): bisect_right / bisect_left
-    lo = count_at_most(geo.cum_flat, geo.start, poly, s[pa] + COINCIDENT_M, strict=False)
-    hi = count_at_most(geo.cum_flat, geo.start, poly, s[pb] - COINCIDENT_M, strict=True)
+    lo = count_at_most(geo.cum, geo.start, poly, s[pa] + COINCIDENT_M, strict=False)
+    hi = count_at_most(geo.cum, geo.start, poly, s[pb] - COINCIDENT_M, strict=True)
     xyz = cuts.xyz
     pts_of: list[list[Point3]] = [[xyz[a], xyz[b]] for a, b in zip(pa.tolist(), pb.tolist(), strict=True)]
     for n in np.flatnonzero(hi > lo).tolist():
