@@ -557,29 +557,42 @@ def _tails(
     if not usable:
         return tail_pid
     pos = np.asarray([eq_map[t].position_m for t in usable], dtype=float)
-    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
-    first: dict[int, list[int]] = defaultdict(list)
-    for e, s in zip(qe, qs, strict=False):
-        first[int(e)].append(int(s))
+    best, t, dist = _nearest_routes(geo, pos, max_tail_m)
     for n, tag in enumerate(usable):
         eq = eq_map[tag]
-        cand = first.get(n)
-        dist = math.inf
-        if cand:
-            c = np.asarray(cand)
-            _, d = _project(np.repeat(pos[n : n + 1], len(c), 0), geo.sa[c], geo.sb[c])
-            # every route nearer in 3D is nearer in plan: search the plan box of r
-            c, t, d = _nearest_3d(geo, pos[n], float(d.min()))
-            m = int(np.argmin(d))
-            dist = float(d[m])
-        if dist > max_tail_m:
+        if not dist[n] <= max_tail_m:
             tag_failures[tag] = _too_far(geo, eq, pos[n], max_tail_m)
             continue
-        j, s_along, xyz = geo.point_at(int(c[m]), float(t[m]))
+        j, s_along, xyz = geo.point_at(int(best[n]), float(t[n]))
         pid = cuts.new(j, s_along, xyz)
-        tail_pid[tag] = (pid, dist, eq.position_m, cuts.xyz[pid])
+        tail_pid[tag] = (pid, float(dist[n]), eq.position_m, cuts.xyz[pid])
     return tail_pid
+
+
+def _nearest_routes(geo: _Geometry, pos: np.ndarray, max_tail_m: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Nearest sub-segment in 3D of every point, its parameter and distance (inf beyond ``max_tail_m``).
+
+    The nearest in plan (STRtree ``query_nearest``) gives a first 3D distance r; every route
+    nearer in 3D is nearer in plan, so the plan boxes of half-side r (+ 1 nm) hold the
+    nearest; of equal distances the lowest sub-segment wins.
+    """
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
+    n = len(pos)
+    best, t_best, dist = np.zeros(n, dtype=np.intp), np.zeros(n), np.full(n, math.inf)
+    qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
+    if not len(qe):
+        return best, t_best, dist
+    _, d = _project(pos[qe], geo.sa[qs], geo.sb[qs])
+    r = np.full(n, math.inf)
+    np.minimum.at(r, qe, d)
+    has = np.flatnonzero(np.isfinite(r))
+    be, bs = _query_boxes(geo.seg_tree, pos[has, :2], r[has] + 1e-9)
+    be = has[be]
+    t, d = _project(pos[be], geo.sa[bs], geo.sb[bs])
+    order = np.lexsort((bs, d, be))  # by point, then distance, then sub-segment
+    first = order[np.flatnonzero(np.r_[True, be[order][1:] != be[order][:-1]])]
+    best[be[first]], t_best[be[first]], dist[be[first]] = bs[first], t[first], d[first]
+    return best, t_best, dist
 
 
 def _too_far(geo: _Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
