@@ -212,13 +212,14 @@ class _Crowded(Exception):
 
 
 def _query_boxes(
-    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
+    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False, boxes: np.ndarray | None = None
 ) -> tuple[np.ndarray, np.ndarray]:
     """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
 
     The same pairs, in the same order, as one ``tree.query(_boxes(xy, r))``, built chunk by
     chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
     :class:`_Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
+    ``boxes``, if given, are those boxes already built (one search of several trees).
     """
     r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
     limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
@@ -226,7 +227,7 @@ def _query_boxes(
     found = 0
     for lo in range(0, len(xy), _QUERY_CHUNK):
         hi = min(lo + _QUERY_CHUNK, len(xy))
-        qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]))
+        qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]) if boxes is None else boxes[lo:hi])
         found += len(qi)
         if bounded and found > limit:
             raise _Crowded(found, len(xy))
@@ -355,18 +356,19 @@ def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tu
     cuts.add_many(np.repeat(np.arange(len(geo.polys)), 2).tolist(),
                   np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(), ends)
     if geo.polys:
-        _join_ends(cuts, ends, tol)
-        _join_tees(cuts, geo, ends, tol)
+        boxes = _boxes(ends[:, :2], tol) if len(ends) <= _QUERY_CHUNK else None  # for both searches
+        _join_ends(cuts, ends, tol, boxes)
+        _join_tees(cuts, geo, ends, tol, boxes)
         _join_shared_vertices(cuts, geo, tol)
         if crossings:
             _join_crossings(cuts, geo, crossings)
     return cuts, ends
 
 
-def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
+def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
     """End - end within the tolerance (3D)."""
     end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True)
+    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
@@ -374,10 +376,10 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
         cuts.join(int(a), int(b), float(dd))
 
 
-def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> None:
+def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
     """An end on another route's interior: a new cut point there, joined to the end."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True)
+    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
@@ -707,16 +709,19 @@ class _Chains:
     segment_ends: dict[str, tuple[str, str]] = field(default_factory=dict)
     source_segments: dict[str, list[str]] = field(default_factory=lambda: defaultdict(list))
     visited: list[bool] = field(default_factory=list)
+    kinds: list[tuple[str, str, str]] = field(default_factory=list)
+    boundary: dict[str, bool] = field(default_factory=dict)
 
     def kind(self, n: int) -> tuple[str, str, str]:
-        p = self.polys[self.pieces.pieces[n][4]]
-        return (p.layer, p.containment, p.method)
+        return self.kinds[n]
 
     def is_boundary(self, nd: str) -> bool:
-        a = self.adj[nd]
-        if len(a) != 2 or nd in self.tail_nodes or a[0] == a[1]:
-            return True
-        return self.kind(a[0]) != self.kind(a[1])
+        b = self.boundary.get(nd)
+        if b is None:
+            a = self.adj[nd]
+            b = len(a) != 2 or nd in self.tail_nodes or a[0] == a[1] or self.kinds[a[0]] != self.kinds[a[1]]
+            self.boundary[nd] = b
+        return b
 
     def walk(self, start: str, first_piece: int) -> None:
         """Follow pieces from ``start`` until a boundary node; record one segment."""
@@ -756,6 +761,8 @@ def _chains(polys: list[RoutePolyline], pieces: _Pieces, tail_nodes: set[str]) -
         ch.adj[u].append(n)
         ch.adj[v].append(n)
     ch.visited = [False] * len(pieces.pieces)
+    kind_of_poly = [(p.layer, p.containment, p.method) for p in polys]
+    ch.kinds = [kind_of_poly[pc[4]] for pc in pieces.pieces]
     nodes_sorted = sorted(ch.adj, key=_node_key)
     for nd in nodes_sorted:
         if ch.is_boundary(nd):
@@ -779,8 +786,8 @@ def _graph(
 ) -> tuple[nx.Graph, dict[str, tuple[str, ...]], dict[str, Tail]]:
     """The routing graph: segment end nodes, one edge per segment (parallel ones halved), tails."""
     g: nx.Graph = nx.Graph()
-    for nd in sorted({nd for ends_ in ch.segment_ends.values() for nd in ends_}, key=_node_key):
-        g.add_node(nd, pos_m=ch.pieces.node_pos[nd])
+    ends_sorted = sorted({nd for ends_ in ch.segment_ends.values() for nd in ends_}, key=_node_key)
+    g.add_nodes_from((nd, {"pos_m": ch.pieces.node_pos[nd]}) for nd in ends_sorted)
     segment_nodes: dict[str, tuple[str, ...]] = {}
     for sid, seg in ch.segments.items():
         u, v = ch.segment_ends[sid]
