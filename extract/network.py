@@ -44,6 +44,7 @@ from .network_arrays import (
     cumulative_lengths,
     flat_vertices,
     piece_lengths,
+    plain_vertices,
     roots_of,
 )
 
@@ -244,9 +245,11 @@ def _query_boxes(
 def _clean_input(polylines: Iterable[RoutePolyline | tuple], issues: list[Issue]) -> list[RoutePolyline]:
     """Route pieces with coincident vertices merged; pieces without length reported and dropped."""
     polys: list[RoutePolyline] = []
-    for item in polylines:
-        pl = item if isinstance(item, RoutePolyline) else RoutePolyline(*item)
-        pts = _clean(pl.points_m)
+    pieces = [item if isinstance(item, RoutePolyline) else RoutePolyline(*item) for item in polylines]
+    plain = plain_vertices([pl.points_m for pl in pieces], COINCIDENT_M)
+    for n, pl in enumerate(pieces):
+        kept = plain[n] if plain is not None else None
+        pts = _clean(pl.points_m) if kept is None else kept
         if len(pts) < 2:
             issues.append(
                 Issue(
@@ -625,9 +628,10 @@ class _Pieces:
     node_of_root: dict[int, str]
     node_pos: dict[str, Point3]
     uf: _UnionFind
+    pid_node: list[str] = field(default_factory=list)
 
     def node(self, pid: int) -> str:
-        return self.node_of_root[self.uf.find(pid)]
+        return self.pid_node[pid]
 
 
 def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
@@ -643,7 +647,7 @@ def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
     for n in np.flatnonzero(hi > lo).tolist():
         first = int(geo.start[poly[n]])
         inner = map(tuple, geo.flat[first + lo[n] : first + hi[n]].tolist())
-        pts_of[n] = [pts_of[n][0], *inner, pts_of[n][1]]  # type: ignore[list-item]  # tuples of 3 floats
+        pts_of[n] = [pts_of[n][0], *inner, pts_of[n][1]]
     # node names, deterministic: by smallest cut-point id of each cluster (its root)
     roots = roots_of(cuts.uf.parent)
     cuts.uf.parent[:] = roots.tolist()
@@ -652,7 +656,7 @@ def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
     node_of_root = dict(zip(names_root.tolist(), names, strict=True))
     node_pos = {nm: xyz[r] for nm, r in zip(names, names_root.tolist(), strict=True)}
     pid_node = [names[k] for k in np.searchsorted(names_root, roots).tolist()]
-    out = _Pieces([], 0, node_of_root, node_pos, cuts.uf)
+    out = _Pieces([], 0, node_of_root, node_pos, cuts.uf, pid_node)
     lengths = piece_lengths(pts_of)
     for n in np.flatnonzero(lengths > COINCIDENT_M).tolist():
         out.pieces.append((pid_node[pa[n]], pid_node[pb[n]], pts_of[n], float(lengths[n]), int(poly[n])))

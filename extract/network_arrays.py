@@ -12,6 +12,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from itertools import chain
+from typing import Literal
 
 import numpy as np
 
@@ -20,6 +21,7 @@ __all__ = [
     "per_count",
     "cumulative_lengths",
     "piece_lengths",
+    "plain_vertices",
     "count_at_most",
     "roots_of",
 ]
@@ -102,7 +104,7 @@ def count_at_most(cum: np.ndarray, start: np.ndarray, poly: np.ndarray, x: np.nd
     """
     out = np.zeros(len(x), dtype=np.intp)
     counts = np.diff(start)[poly]
-    side = "left" if strict else "right"
+    side: Literal["left", "right"] = "left" if strict else "right"
     for k, idx in per_count(counts):
         if k > _TABLE_VERTICES:  # a long polyline: a search in its own cum, per piece
             for i in np.unique(poly[idx]).tolist():
@@ -127,3 +129,34 @@ def roots_of(parent: list[int]) -> np.ndarray:
         if np.array_equal(q, p):
             return p
         p = q
+
+
+def plain_vertices(
+    points: Sequence[Sequence[Sequence[float]]], coincident_m: float
+) -> list[tuple[tuple[float, float, float], ...] | None] | None:
+    """Per piece, its vertices as float triples if it needs no cleaning, else None.
+
+    A piece needs none when every vertex has three coordinates and every step is clearly
+    longer than ``coincident_m`` (by more than a relative 1e-9, far above the last-bit
+    difference between ``np.linalg.norm`` and ``math.dist``): the per-vertex cleaning
+    then keeps every vertex.  The others are left to it.  None for all when a coordinate
+    is not a plain number (the per-vertex cleaning raises as before).
+    """
+    try:
+        n_pts = np.fromiter((len(p) for p in points), dtype=np.intp, count=len(points))
+        n_coord = np.fromiter((sum(len(q) for q in p) for p in points), dtype=np.intp, count=len(points))
+        sel = np.flatnonzero(n_coord == 3 * n_pts).tolist()
+        flat, start = flat_vertices([points[n] for n in sel])
+    except (TypeError, ValueError):
+        return None
+    clear = np.linalg.norm(flat[1:] - flat[:-1], axis=1) > coincident_m * (1 + 1e-9)
+    joint = start[1:-1]
+    clear[joint[(joint > 0) & (joint < len(flat))] - 1] = True  # one piece's last vertex to the next's first
+    ok = np.ones(len(sel), dtype=bool)
+    ok[np.searchsorted(start, np.flatnonzero(~clear), side="right") - 1] = False
+    rows = list(map(tuple, flat.tolist()))
+    out: list[tuple[tuple[float, float, float], ...] | None] = [None] * len(points)
+    bounds = start.tolist()
+    for k in np.flatnonzero(ok).tolist():
+        out[sel[k]] = tuple(rows[bounds[k] : bounds[k + 1]])
+    return out
