@@ -15,6 +15,9 @@ or ends, where a tail attaches and where the layer changes.
 
 Spatial look-ups use shapely's STRtree on the plan (x, y) projection as a coarse
 filter; exact 3D distances are then computed with numpy on the candidates only.
+The cleaning, the pieces as arrays and the searches are in :mod:`.network_geometry`,
+the whole-drawing array steps (lengths, bisection, union-find roots) in
+:mod:`.network_arrays`.
 """
 
 from __future__ import annotations
@@ -39,22 +42,25 @@ from .guard import (
     near_miss_reach_m,
 )
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
-from .network_arrays import (
-    count_at_most,
-    cumulative_lengths,
-    flat_vertices,
-    piece_lengths,
-    plain_vertices,
-    roots_of,
+from .network_arrays import count_at_most, piece_lengths, roots_of
+from .network_geometry import (
+    COINCIDENT_M,
+    MAX_CANDIDATES_PER_POINT,
+    QUERY_CHUNK,
+    Crowded,
+    Geometry,
+    UnionFind,
+    build_geometry,
+    clean_input,
+    plan_boxes,
+    project,
+    query_boxes,
 )
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
 
 logger = logging.getLogger(__name__)
 
-#: Points closer than this are the same point, [m] (1 micrometre: far below
-#: drawing precision, far above float rounding at site coordinates).
-COINCIDENT_M = 1e-6
 
 
 def equipment_node(tag: str) -> str:
@@ -136,178 +142,8 @@ class Network:
     gaps: list[tuple[str, str, float, Point3, str, str]] = field(default_factory=list)
 
 
-class _UnionFind:
-    def __init__(self) -> None:
-        self.parent: list[int] = []
-
-    def add(self) -> int:
-        self.parent.append(len(self.parent))
-        return len(self.parent) - 1
-
-    def find(self, a: int) -> int:
-        p = self.parent
-        root = a
-        while p[root] != root:
-            root = p[root]
-        while p[a] != root:
-            p[a], a = root, p[a]
-        return root
-
-    def union(self, a: int, b: int) -> None:
-        ra, rb = self.find(a), self.find(b)
-        if ra != rb:
-            if ra < rb:
-                self.parent[rb] = ra
-            else:
-                self.parent[ra] = rb
-
-
-def _project(p: np.ndarray, a: np.ndarray, b: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Parameter t in [0, 1] and 3D distance of points p to segments a-b (row-wise)."""
-    ab = b - a
-    l2 = np.einsum("ij,ij->i", ab, ab)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        t = np.where(l2 > 0, np.einsum("ij,ij->i", p - a, ab) / np.where(l2 > 0, l2, 1), 0.0)
-    t = np.clip(t, 0.0, 1.0)
-    q = a + t[:, None] * ab
-    return t, np.linalg.norm(p - q, axis=1)
-
-
-def _boxes(xy: np.ndarray, r: float | np.ndarray) -> np.ndarray:
-    r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
-    return shapely.box(xy[:, 0] - r, xy[:, 1] - r, xy[:, 0] + r, xy[:, 1] + r)
-
-
 def _fmt(p: Sequence[float]) -> str:
     return "(" + ", ".join(f"{v:.3f}" for v in p) + ") m"
-
-
-def _clean(points: Iterable[Sequence[float]]) -> list[Point3]:
-    out: list[Point3] = []
-    for p in points:
-        q = (float(p[0]), float(p[1]), float(p[2]) if len(p) > 2 else 0.0)
-        if not out or math.dist(out[-1], q) > COINCIDENT_M:
-            out.append(q)
-    return out
-
-
-#: Query geometries built per STRtree call; bounds the temporary boxes of a big drawing
-#: (2 million route pieces make 4 million ends) without changing any result.
-_QUERY_CHUNK = 200_000
-
-
-#: Most candidate pairs a proximity search may hold per query point (plus a fixed 10,000).
-#: An end on an ordinary drawing meets a handful of other pieces within the snap tolerance;
-#: hundreds each mean the tolerance covers much of the plan, and the pairs, cut points and
-#: segments would grow with the square of the drawing (issue 16: 2.7 million segments and
-#: 5.8 GB from 1,063 pieces).  The build stops instead, with memory bounded by this cap.
-MAX_CANDIDATES_PER_POINT = 64
-
-
-class _Crowded(Exception):
-    """A proximity search found more candidate pairs than :data:`MAX_CANDIDATES_PER_POINT` allows."""
-
-    def __init__(self, pairs: int, points: int) -> None:
-        super().__init__(pairs, points)
-        self.pairs, self.points = pairs, points
-
-
-def _query_boxes(
-    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False, boxes: np.ndarray | None = None
-) -> tuple[np.ndarray, np.ndarray]:
-    """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
-
-    The same pairs, in the same order, as one ``tree.query(_boxes(xy, r))``, built chunk by
-    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
-    :class:`_Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
-    ``boxes``, if given, are those boxes already built (one search of several trees).
-    """
-    r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
-    limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
-    out_i, out_j = [], []
-    found = 0
-    for lo in range(0, len(xy), _QUERY_CHUNK):
-        hi = min(lo + _QUERY_CHUNK, len(xy))
-        qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]) if boxes is None else boxes[lo:hi])
-        found += len(qi)
-        if bounded and found > limit:
-            raise _Crowded(found, len(xy))
-        out_i.append(qi + lo)
-        out_j.append(qj)
-    if not out_i:
-        return np.zeros(0, dtype=np.intp), np.zeros(0, dtype=np.intp)
-    return np.concatenate(out_i), np.concatenate(out_j)
-
-
-# --------------------------------------------------------------------------- step 1: clean
-
-
-def _clean_input(polylines: Iterable[RoutePolyline | tuple], issues: list[Issue]) -> list[RoutePolyline]:
-    """Route pieces with coincident vertices merged; pieces without length reported and dropped."""
-    polys: list[RoutePolyline] = []
-    pieces = [item if isinstance(item, RoutePolyline) else RoutePolyline(*item) for item in polylines]
-    plain = plain_vertices([pl.points_m for pl in pieces], COINCIDENT_M)
-    for n, pl in enumerate(pieces):
-        kept = plain[n] if plain is not None else None
-        pts = _clean(pl.points_m) if kept is None else kept
-        if len(pts) < 2:
-            issues.append(
-                Issue(
-                    IssueCode.ZERO_LENGTH,
-                    f"route piece {pl.source_id} on layer {pl.layer} has no length; ignored - "
-                    "delete it from the drawing",
-                    pl.source_id,
-                )
-            )
-            continue
-        polys.append(RoutePolyline(tuple(pts), pl.layer, pl.containment, pl.method, pl.source_id))
-    return polys
-
-
-@dataclass
-class _Geometry:
-    """The cleaned pieces as arrays: vertices, sub-segments (a-b) and their STRtree.
-
-    ``flat`` holds every vertex, piece i's at rows ``start[i]:start[i + 1]``, and
-    ``cum`` the distance along its piece at each; sub-segment ``s`` (piece ``s_owner[s]``,
-    its ``s_k[s]``-th) runs from vertex ``s + s_owner[s]`` to the next, ``seglen[s]`` long.
-    """
-
-    polys: list[RoutePolyline]
-    flat: np.ndarray
-    start: np.ndarray
-    cum: np.ndarray
-    seglen: np.ndarray
-    total: list[float]
-    sa: np.ndarray
-    sb: np.ndarray
-    s_owner: np.ndarray
-    s_k: np.ndarray
-    seg_tree: STRtree | None
-
-    def point_at(self, s: int, tt: float) -> tuple[int, float, np.ndarray]:
-        """(piece, distance along it [m], xyz) of parameter tt on sub-segment s."""
-        j = int(self.s_owner[s])
-        return j, float(self.cum[s + j] + tt * self.seglen[s]), self.sa[s] + tt * (self.sb[s] - self.sa[s])
-
-
-def _geometry(polys: list[RoutePolyline]) -> _Geometry:
-    """The pieces' vertices, lengths and sub-segments as whole-drawing arrays (one pass)."""
-    if not polys:
-        e3, e1, ei = np.zeros((0, 3)), np.zeros(0), np.zeros(0, dtype=int)
-        return _Geometry(polys, e3, np.zeros(1, dtype=np.intp), e1, e1, [], e3, e3, ei, ei, None)
-    flat, start = flat_vertices([p.points_m for p in polys])
-    seglen, cum = cumulative_lengths(flat, start)
-    counts = np.diff(start) - 1
-    last = np.zeros(len(flat), dtype=bool)
-    last[start[1:] - 1] = True
-    first = np.zeros(len(flat), dtype=bool)
-    first[start[:-1]] = True
-    sa, sb = flat[~last], flat[~first]
-    s_owner = np.repeat(np.arange(len(polys)), counts)
-    s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
-    seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    return _Geometry(polys, flat, start, cum, seglen, cum[start[1:] - 1].tolist(), sa, sb, s_owner, s_k, seg_tree)
 
 
 # --------------------------------------------------------------------------- step 2: cut points
@@ -322,7 +158,7 @@ class _Cuts:
     Pids ``2i`` and ``2i + 1`` are the two ends of piece i.
     """
 
-    uf: _UnionFind = field(default_factory=_UnionFind)
+    uf: UnionFind = field(default_factory=UnionFind)
     poly: list[int] = field(default_factory=list)
     s: list[float] = field(default_factory=list)
     xyz: list[Point3] = field(default_factory=list)
@@ -350,7 +186,7 @@ class _Cuts:
             self.joins.append((a, b, d))
 
 
-def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
+def _cut_points(geo: Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
     """Ends of every piece, joined end to end, as tees, at shared vertices (and crossings)."""
     cuts = _Cuts()
     ends = np.empty((2 * len(geo.polys), 3))
@@ -359,7 +195,7 @@ def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tu
     cuts.add_many(np.repeat(np.arange(len(geo.polys)), 2).tolist(),
                   np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(), ends)
     if geo.polys:
-        boxes = _boxes(ends[:, :2], tol) if len(ends) <= _QUERY_CHUNK else None  # for both searches
+        boxes = plan_boxes(ends[:, :2], tol) if len(ends) <= QUERY_CHUNK else None  # for both searches
         _join_ends(cuts, ends, tol, boxes)
         _join_tees(cuts, geo, ends, tol, boxes)
         _join_shared_vertices(cuts, geo, tol)
@@ -371,7 +207,7 @@ def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tu
 def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
     """End - end within the tolerance (3D)."""
     end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
+    qi, qj = query_boxes(end_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
@@ -379,14 +215,14 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, boxes: np.ndarray | No
         cuts.join(int(a), int(b), float(dd))
 
 
-def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
+def _join_tees(cuts: _Cuts, geo: Geometry, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
     """An end on another route's interior: a new cut point there, joined to the end."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
+    qe, qs = query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
-    t, d = _project(ends[qe], geo.sa[qs], geo.sb[qs])
+    t, d = project(ends[qe], geo.sa[qs], geo.sb[qs])
     # an end of the target within tolerance is an end-end join, already made
     tj = geo.s_owner[qs]
     near_end = np.minimum(
@@ -404,7 +240,7 @@ def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float, boxes:
         cuts.join(e, cuts.new(j, pos, xyz), dd)
 
 
-def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
+def _join_shared_vertices(cuts: _Cuts, geo: Geometry, tol: float) -> None:
     """Interior vertices of two different routes within the tolerance."""
     inner = np.ones(len(geo.flat), dtype=bool)
     inner[geo.start[:-1]] = inner[geo.start[1:] - 1] = False
@@ -414,7 +250,7 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
     iv = geo.flat[vid]
     iown = np.repeat(np.arange(len(geo.polys)), np.diff(geo.start))[vid]
     itree = STRtree(shapely.points(iv[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
+    qi, qj = query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(iv[qi] - iv[qj], axis=1)
@@ -425,7 +261,7 @@ def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
         cuts.join(p1, p2, float(dd))
 
 
-def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
+def _crossings(geo: Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
     """Sub-segments of different pieces crossing in plan at the same level, away from their ends.
 
     Candidates from one STRtree query of the sub-segments against themselves (predicate
@@ -442,8 +278,8 @@ def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, f
         return []
     lines = geo.seg_tree.geometries
     out_a, out_b = [], []
-    for lo in range(0, len(lines), _QUERY_CHUNK):
-        qa, qb = geo.seg_tree.query(lines[lo : lo + _QUERY_CHUNK], predicate="intersects")
+    for lo in range(0, len(lines), QUERY_CHUNK):
+        qa, qb = geo.seg_tree.query(lines[lo : lo + QUERY_CHUNK], predicate="intersects")
         qa = qa + lo
         keep = (qa < qb) & (geo.s_owner[qa] != geo.s_owner[qb])
         out_a.append(qa[keep])
@@ -472,7 +308,7 @@ def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, f
     return out
 
 
-def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
+def _join_crossings(cuts: _Cuts, geo: Geometry, found: list) -> None:
     """A cut point on each run at the crossing, joined (the height difference as a gap)."""
     for sa_, sb_, _xyz, ta, tb, dz in found:
         ja, pos_a, xyz_a = geo.point_at(sa_, ta)
@@ -484,7 +320,7 @@ def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
 MAX_CROSSINGS_LISTED = 20
 
 
-def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
+def _crossing_issues(geo: Geometry, found: list) -> list[Issue]:
     """One warning per crossing without a joint, or a count and the first few for many."""
     def name(s: int) -> str:
         pl = geo.polys[int(geo.s_owner[s])]
@@ -537,16 +373,16 @@ def _equipment_by_tag(
     return eq_map, tag_failures
 
 
-def _nearest_3d(geo: _Geometry, p: np.ndarray, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _nearest_3d(geo: Geometry, p: np.ndarray, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Sub-segments meeting the plan box of half-side r around p, with t and 3D distance."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    c = np.sort(geo.seg_tree.query(_boxes(p[None, :2], r + 1e-9)[0]))
-    t, d = _project(np.repeat(p[None, :], len(c), 0), geo.sa[c], geo.sb[c])
+    c = np.sort(geo.seg_tree.query(plan_boxes(p[None, :2], r + 1e-9)[0]))
+    t, d = project(np.repeat(p[None, :], len(c), 0), geo.sa[c], geo.sb[c])
     return c, t, d
 
 
 def _tails(
-    geo: _Geometry,
+    geo: Geometry,
     cuts: _Cuts,
     eq_map: dict[str, Equipment],
     tag_failures: dict[str, str],
@@ -574,7 +410,7 @@ def _tails(
     return tail_pid
 
 
-def _nearest_routes(geo: _Geometry, pos: np.ndarray, max_tail_m: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _nearest_routes(geo: Geometry, pos: np.ndarray, max_tail_m: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Nearest sub-segment in 3D of every point, its parameter and distance (inf beyond ``max_tail_m``).
 
     The nearest in plan (STRtree ``query_nearest``) gives a first 3D distance r; every route
@@ -587,24 +423,24 @@ def _nearest_routes(geo: _Geometry, pos: np.ndarray, max_tail_m: float) -> tuple
     qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
     if not len(qe):
         return best, t_best, dist
-    _, d = _project(pos[qe], geo.sa[qs], geo.sb[qs])
+    _, d = project(pos[qe], geo.sa[qs], geo.sb[qs])
     r = np.full(n, math.inf)
     np.minimum.at(r, qe, d)
     has = np.flatnonzero(np.isfinite(r))
-    be, bs = _query_boxes(geo.seg_tree, pos[has, :2], r[has] + 1e-9)
+    be, bs = query_boxes(geo.seg_tree, pos[has, :2], r[has] + 1e-9)
     be = has[be]
-    t, d = _project(pos[be], geo.sa[bs], geo.sb[bs])
+    t, d = project(pos[be], geo.sa[bs], geo.sb[bs])
     order = np.lexsort((bs, d, be))  # by point, then distance, then sub-segment
     first = order[np.flatnonzero(np.r_[True, be[order][1:] != be[order][:-1]])]
     best[be[first]], t_best[be[first]], dist[be[first]] = bs[first], t[first], d[first]
     return best, t_best, dist
 
 
-def _too_far(geo: _Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
+def _too_far(geo: Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
     """The message for an equipment farther than the maximum tail from every route."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     far = int(geo.seg_tree.query_nearest(shapely.points(p[:2]))[0])
-    _, d_far = _project(p[None, :], geo.sa[far : far + 1], geo.sb[far : far + 1])
+    _, d_far = project(p[None, :], geo.sa[far : far + 1], geo.sb[far : far + 1])
     _, _, d = _nearest_3d(geo, p, float(d_far[0]))
     return (
         f"equipment {eq.tag} ({eq.source_id}, block {eq.block_name}) at "
@@ -627,14 +463,14 @@ class _Pieces:
     gap_start: int
     node_of_root: dict[int, str]
     node_pos: dict[str, Point3]
-    uf: _UnionFind
+    uf: UnionFind
     pid_node: list[str] = field(default_factory=list)
 
     def node(self, pid: int) -> str:
         return self.pid_node[pid]
 
 
-def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
+def _pieces(geo: Geometry, cuts: _Cuts) -> _Pieces:
     """Cut every route piece at its cut points; name the nodes; add the snap gaps."""
     pa, pb = _cut_pairs(cuts)
     poly = np.asarray(cuts.poly, dtype=np.intp)[pa]
@@ -883,12 +719,12 @@ def build_network(
     check_snap_tolerance(config.snap_tolerance_m, guarded, source)
     tol = float(config.snap_tolerance_m)
 
-    polys = _clean_input(guarded, issues)
-    geo = _geometry(polys)
+    polys = clean_input(guarded, issues)
+    geo = build_geometry(polys)
     crossings = _crossings(geo, tol)
     try:
         cuts, ends = _cut_points(geo, tol, crossings if config.join_crossings else None)
-    except _Crowded as exc:
+    except Crowded as exc:
         raise ConfigError(_crowded_message(exc, tol, "snap tolerance", source)) from None
     eq_map, tag_failures = _equipment_by_tag(equipment, issues)
     tail_pid = _tails(geo, cuts, eq_map, tag_failures, config.max_tail_m)
@@ -901,7 +737,7 @@ def build_network(
     gaps: list[tuple[int, int, float, np.ndarray]] = []
     try:
         issues.extend(_near_misses(geo, ends, ch, tol, reach, gaps))
-    except _Crowded as exc:
+    except Crowded as exc:
         raise ConfigError(_crowded_message(exc, reach, "near-miss search", source)) from None
     if config.join_crossings:
         logger.info("network: %d crossings at the same level joined (join_crossings)", len(crossings))
@@ -934,7 +770,7 @@ def build_network(
     )
 
 
-def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
+def _run_node(ch: _Chains, geo: Geometry, i: int) -> str:
     """A graph node of the run that piece i belongs to (an end of its first segment), or ""."""
     sids = ch.source_segments.get(geo.polys[i].source_id)
     return ch.segment_ends[sids[0]][0] if sids else ""
@@ -943,7 +779,7 @@ def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
 # --------------------------------------------------------------------------- drawing issues
 
 
-def _crowded_message(exc: _Crowded, reach_m: float, what: str, source: str) -> str:
+def _crowded_message(exc: Crowded, reach_m: float, what: str, source: str) -> str:
     where = f"{source}: " if source else ""
     return (
         f"{where}the {what} of {reach_m:g} m finds {exc.pairs} pairs of nearby routes for "
@@ -976,7 +812,7 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
     breadth-first search over the nodes in order would list them.
     """
     index = {nd: k for k, nd in enumerate(nodes_sorted)}
-    uf = _UnionFind()
+    uf = UnionFind()
     for _ in nodes_sorted:
         uf.add()
     for u, v, _, _, _ in ch.pieces.pieces:
@@ -1005,7 +841,7 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
 
 
 def _near_misses(
-    geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
+    geo: Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
 ) -> list[Issue]:
     """Free route ends that come within ``reach`` (near_miss_factor x tolerance) of another route."""
     out: list[Issue] = []
@@ -1017,11 +853,11 @@ def _near_misses(
         return out
     fe = np.asarray(free)
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
+    qe, qs = query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
     own = fe[qe] // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
-    _, d = _project(ends[fe[qe]], geo.sa[qs], geo.sb[qs])
+    _, d = project(ends[fe[qe]], geo.sa[qs], geo.sb[qs])
     best: dict[int, tuple[float, int]] = {}
     for e, s, dd in zip(qe, qs, d, strict=False):
         if tol < dd <= reach and (e not in best or dd < best[e][0]):
