@@ -171,13 +171,19 @@ class _Cuts:
         self.xyz.append((float(xyz[0]), float(xyz[1]), float(xyz[2])))
         return pid
 
-    def add_many(self, poly: list[int], s: list[float], xyz: np.ndarray) -> None:
+    def add_many(self, poly: list[int], s: list[float], xyz: list[Point3]) -> None:
         """New cut points in bulk, as :meth:`new` one after the other would add them."""
         n = len(self.poly)
         self.uf.parent.extend(range(n, n + len(poly)))
         self.poly.extend(poly)
         self.s.extend(s)
-        self.xyz.extend(map(tuple, xyz.tolist()))
+        self.xyz.extend(xyz)
+
+    def join_many(self, a: np.ndarray, b: np.ndarray, d: np.ndarray) -> None:
+        """:meth:`join` for every pair, in order (the unions in any order: a root is its set's lowest)."""
+        same = d <= COINCIDENT_M
+        self.uf.union_many(a[same].tolist(), b[same].tolist())
+        self.joins.extend(zip(a[~same].tolist(), b[~same].tolist(), d[~same].tolist(), strict=True))
 
     def join(self, a: int, b: int, d: float) -> None:
         if d <= COINCIDENT_M:
@@ -193,7 +199,8 @@ def _cut_points(geo: Geometry, tol: float, crossings: list | None = None) -> tup
     ends[0::2] = geo.flat[geo.start[:-1]]  # pid 2i
     ends[1::2] = geo.flat[geo.start[1:] - 1]  # pid 2i+1
     cuts.add_many(np.repeat(np.arange(len(geo.polys)), 2).tolist(),
-                  np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(), ends)
+                  np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(),
+                  [q for p in geo.polys for q in (p.points_m[0], p.points_m[-1])])  # the rows of ends
     if geo.polys:
         boxes = plan_boxes(ends[:, :2], tol) if len(ends) <= QUERY_CHUNK else None  # for both searches
         _join_ends(cuts, ends, tol, boxes)
@@ -211,8 +218,7 @@ def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, boxes: np.ndarray | No
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
-    for a, b, dd in zip(qi[d <= tol], qj[d <= tol], d[d <= tol], strict=False):
-        cuts.join(int(a), int(b), float(dd))
+    cuts.join_many(qi[d <= tol], qj[d <= tol], d[d <= tol])
 
 
 def _join_tees(cuts: _Cuts, geo: Geometry, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:

@@ -143,9 +143,11 @@ def plain_vertices(
     is not a plain number (the per-vertex cleaning raises as before).
     """
     try:
-        n_pts = np.fromiter((len(p) for p in points), dtype=np.intp, count=len(points))
-        n_coord = np.fromiter((sum(len(q) for q in p) for p in points), dtype=np.intp, count=len(points))
-        sel = np.flatnonzero(n_coord == 3 * n_pts).tolist()
+        n_pts = np.fromiter(map(len, points), dtype=np.intp, count=len(points))
+        dims = np.fromiter(map(len, chain.from_iterable(points)), dtype=np.intp, count=int(n_pts.sum()))
+        odd = np.zeros(len(points) + 1, dtype=np.intp)  # vertices without three coordinates, per piece
+        np.add.at(odd, np.repeat(np.arange(len(points)), n_pts), dims != 3)
+        sel = np.flatnonzero(odd[:-1] == 0).tolist()
         flat, start = flat_vertices([points[n] for n in sel])
     except (TypeError, ValueError):
         return None

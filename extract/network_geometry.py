@@ -59,6 +59,16 @@ class UnionFind:
             p[a], a = root, p[a]
         return root
 
+    def union_many(self, a: list[int], b: list[int]) -> None:
+        """:meth:`union` of every pair (one call: a big drawing joins millions of ends)."""
+        p, find = self.parent, self.find
+        for x, y in zip(a, b, strict=True):
+            ra, rb = find(x), find(y)
+            if ra < rb:
+                p[rb] = ra
+            elif rb < ra:
+                p[ra] = rb
+
     def union(self, a: int, b: int) -> None:
         ra, rb = self.find(a), self.find(b)
         if ra != rb:
