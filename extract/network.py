@@ -55,6 +55,7 @@ from .network_geometry import (
     plan_boxes,
     project,
     query_boxes,
+    query_boxes_many,
 )
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
@@ -202,29 +203,34 @@ def _cut_points(geo: Geometry, tol: float, crossings: list | None = None) -> tup
                   np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(),
                   [q for p in geo.polys for q in (p.points_m[0], p.points_m[-1])])  # the rows of ends
     if geo.polys:
-        boxes = plan_boxes(ends[:, :2], tol) if len(ends) <= QUERY_CHUNK else None  # for both searches
-        _join_ends(cuts, ends, tol, boxes)
-        _join_tees(cuts, geo, ends, tol, boxes)
+        assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
+        end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
+        end_pairs, tee_pairs = query_boxes_many([end_tree, geo.seg_tree], ends[:, :2], tol, bounded=True)
+        _join_ends(cuts, ends, tol, end_pairs)
+        _join_tees(cuts, geo, ends, tol, tee_pairs)
         _join_shared_vertices(cuts, geo, tol)
         if crossings:
             _join_crossings(cuts, geo, crossings)
     return cuts, ends
 
 
-def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
-    """End - end within the tolerance (3D)."""
-    end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = query_boxes(end_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
+def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, pairs: tuple[np.ndarray, np.ndarray]) -> None:
+    """End - end within the tolerance (3D); ``pairs`` from the box search of the ends' tree."""
+    qi, qj = pairs
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
     cuts.join_many(qi[d <= tol], qj[d <= tol], d[d <= tol])
 
 
-def _join_tees(cuts: _Cuts, geo: Geometry, ends: np.ndarray, tol: float, boxes: np.ndarray | None = None) -> None:
-    """An end on another route's interior: a new cut point there, joined to the end."""
-    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True, boxes=boxes)
+def _join_tees(
+    cuts: _Cuts, geo: Geometry, ends: np.ndarray, tol: float, pairs: tuple[np.ndarray, np.ndarray]
+) -> None:
+    """An end on another route's interior: a new cut point there, joined to the end.
+
+    ``pairs`` come from the box search of the sub-segments' tree around the ends.
+    """
+    qe, qs = pairs
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]

@@ -32,6 +32,7 @@ __all__ = [
     "plan_boxes",
     "project",
     "query_boxes",
+    "query_boxes_many",
 ]
 
 #: Points closer than this are the same point, [m] (1 micrometre: far below
@@ -127,30 +128,52 @@ class Crowded(Exception):
 
 
 def query_boxes(
-    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False, boxes: np.ndarray | None = None
+    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
 ) -> tuple[np.ndarray, np.ndarray]:
     """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
 
     The same pairs, in the same order, as one ``tree.query(plan_boxes(xy, r))``, built chunk by
     chunk so that only ``QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
     :class:`Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
-    ``boxes``, if given, are those boxes already built (one search of several trees).
+    """
+    return query_boxes_many([tree], xy, r, bounded)[0]
+
+
+def query_boxes_many(
+    trees: Sequence[STRtree], xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
+) -> list[tuple[np.ndarray, np.ndarray]]:
+    """:func:`query_boxes` of each tree in turn, each chunk's boxes built once for all of them.
+
+    Raises what the searches one after the other would: the first tree whose pairs exceed
+    the cap, with the count at the chunk where it did (a later tree stops being searched
+    once over its cap, and its :class:`Crowded` is raised if no earlier tree's is).
     """
     r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
     limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
-    out_i, out_j = [], []
-    found = 0
+    out: list[tuple[list[np.ndarray], list[np.ndarray]]] = [([], []) for _ in trees]
+    found = [0] * len(trees)
+    crowded: list[Crowded | None] = [None] * len(trees)
     for lo in range(0, len(xy), QUERY_CHUNK):
         hi = min(lo + QUERY_CHUNK, len(xy))
-        qi, qj = tree.query(plan_boxes(xy[lo:hi], r[lo:hi]) if boxes is None else boxes[lo:hi])
-        found += len(qi)
-        if bounded and found > limit:
-            raise Crowded(found, len(xy))
-        out_i.append(qi + lo)
-        out_j.append(qj)
-    if not out_i:
-        return np.zeros(0, dtype=np.intp), np.zeros(0, dtype=np.intp)
-    return np.concatenate(out_i), np.concatenate(out_j)
+        boxes = plan_boxes(xy[lo:hi], r[lo:hi])
+        for k, tree in enumerate(trees):
+            if crowded[k] is not None:
+                continue
+            qi, qj = tree.query(boxes)
+            found[k] += len(qi)
+            if bounded and found[k] > limit:
+                exc = Crowded(found[k], len(xy))
+                if k == 0:  # the first search would have stopped here
+                    raise exc
+                crowded[k] = exc
+                continue
+            out[k][0].append(qi + lo)
+            out[k][1].append(qj)
+    for c in crowded:
+        if c is not None:
+            raise c
+    empty = np.zeros(0, dtype=np.intp)
+    return [(np.concatenate(i), np.concatenate(j)) if i else (empty, empty) for i, j in out]
 
 
 # --------------------------------------------------------------------------- step 1: clean

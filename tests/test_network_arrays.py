@@ -115,3 +115,41 @@ def test_plain_vertices_only_where_cleaning_keeps_all() -> None:
         kinds.add(kept is None)
     assert kinds == {True, False}  # both cases met
     assert plain_vertices([[(1.0, "a", 0.0)]], COINCIDENT_M) is None  # not numbers: all left to the cleaning
+
+
+def test_query_boxes_many_equal_one_query_per_tree(monkeypatch) -> None:
+    # reference: shapely's own STRtree.query of all the boxes at once, per tree; chunks of
+    # 7 points here so that several chunks share their boxes
+    import shapely
+    from cablewright.extract import network_geometry as ng
+
+    monkeypatch.setattr(ng, "QUERY_CHUNK", 7)
+    rng = np.random.default_rng(8)
+    xy = rng.uniform(0, 10, (50, 2))
+    points = shapely.STRtree(shapely.points(rng.uniform(0, 10, (80, 2))))
+    lines = shapely.STRtree(shapely.linestrings(rng.uniform(0, 10, (30, 2, 2))))
+    got = ng.query_boxes_many([points, lines], xy, 0.7)
+    for tree, (qi, qj) in zip([points, lines], got, strict=True):
+        want = tree.query(ng.plan_boxes(xy, 0.7))
+        assert np.array_equal(qi, want[0]) and np.array_equal(qj, want[1])
+
+
+def test_query_boxes_many_raises_as_searches_in_turn(monkeypatch) -> None:
+    # a later tree over its cap raises (after the first finished) with the count where it
+    # went over; the first tree over its cap raises at once with its own (issue 16 cap);
+    # reference: the cap's arithmetic, 64 x 0 per point + 10,000, over at 3 pairs per point
+    import pytest
+    import shapely
+    from cablewright.extract import network_geometry as ng
+
+    monkeypatch.setattr(ng, "QUERY_CHUNK", 5)
+    monkeypatch.setattr(ng, "MAX_CANDIDATES_PER_POINT", 0)
+    xy = np.zeros((20_000, 2))  # 20,000 points at one place: cap 10,000 pairs
+    few = shapely.STRtree(shapely.points(np.array([[50.0, 50.0]])))  # never met
+    many = shapely.STRtree(shapely.points(np.zeros((3, 2))))  # 3 pairs per point
+    with pytest.raises(ng.Crowded) as one:
+        ng.query_boxes_many([few, many], xy, 1.0, bounded=True)
+    assert (one.value.pairs, one.value.points) == (10_005, 20_000)  # 3 per point: over at 3,335 points
+    with pytest.raises(ng.Crowded) as two:
+        ng.query_boxes_many([many, many], xy, 1.0, bounded=True)
+    assert two.value.pairs == 10_005
