@@ -9,7 +9,8 @@ case where a pairwise scan or a per-piece list search grows as n squared.
 Each size runs in a child process (``--child``) so that its peak RSS
 (``resource.getrusage(RUSAGE_SELF).ru_maxrss``) is its own; ``--cap-gib`` sets an
 address-space limit on the child (``RLIMIT_AS``).  ``--network-file`` measures another
-copy of ``extract/network.py`` (the code before a change) in place of the installed one.
+copy of ``extract/network.py`` (the code before a change), or of the ``extract/`` folder
+(``network_copy.py``), in place of the installed one.
 
 Run: ``python benchmarks/bench_network.py --sizes 20000 200000 2000000``.
 """
@@ -17,12 +18,12 @@ Run: ``python benchmarks/bench_network.py --sizes 20000 200000 2000000``.
 from __future__ import annotations
 
 import argparse
-import importlib.util
 import json
 import resource
 import subprocess
 import sys
 import time
+from pathlib import Path
 
 ROW_PIECES = 1000  # pieces per serpentine row
 ROW_STEP_M = 2.0  # distance between rows, [m]
@@ -59,13 +60,10 @@ def _load_network(path: str | None):
         from cablewright.extract import network
 
         return network
-    import cablewright.extract  # noqa: F401  (the package the copy's relative imports use)
+    sys.path.insert(0, str(Path(__file__).resolve().parent))
+    from network_copy import load_network
 
-    spec = importlib.util.spec_from_file_location("cablewright.extract._network_measured", path)
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[spec.name] = module
-    spec.loader.exec_module(module)
-    return module
+    return load_network(path, "_network_measured")
 
 
 def child(n: int, network_file: str | None) -> dict:

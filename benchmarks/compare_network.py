@@ -1,35 +1,38 @@
 """Compare two copies of extract/network.py on the same drawings: routes and grouping identical.
 
 Reads each drawing once, builds the network with the installed code and with another
-copy (``--before``, e.g. ``git show <commit>:extract/network.py > /tmp/network_before.py``),
+copy (``--before``, e.g. ``git show <commit>:extract/network.py > /tmp/network_before.py``, or a
+copy of the whole ``extract/`` folder for a build split over modules: ``network_copy.py``),
 routes every circuit of the schedule and compares: segments (ids, sources, layer,
 lengths, points), segment ends and graph nodes, tails, tag failures, issues, the graph's
 edges with their attributes, every circuit's route and the circuits on every segment.
 Exit 0 when everything is identical, 1 with the first differences listed.
 
 Run: ``python benchmarks/compare_network.py --before /tmp/network_before.py DRAWING [SCHEDULE] ...``
-(drawing and schedule as pairs ``plant.dxf:plant_circuits.csv``).
+(drawing and schedule as pairs ``plant.dxf:plant_circuits.csv``; ``chain:N`` is the chained
+lines of ``bench_network.py`` with N pieces, routed from its source to its load).
 """
 
 from __future__ import annotations
 
 import argparse
-import importlib.util
 import sys
 from pathlib import Path
 
 
 def _load(path: str):
-    import cablewright.extract  # noqa: F401
+    sys.path.insert(0, str(Path(__file__).resolve().parent))
+    from network_copy import load_network
 
-    spec = importlib.util.spec_from_file_location("cablewright.extract._network_before", path)
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[spec.name] = module
-    spec.loader.exec_module(module)
-    return module
+    return load_network(path)
 
 
 def _content(drawing: Path, config):
+    if str(drawing).startswith("chain:"):
+        sys.path.insert(0, str(Path(__file__).resolve().parent))
+        from bench_network import chained_lines
+
+        return chained_lines(int(str(drawing)[len("chain:"):]))
     if drawing.suffix.lower() == ".ifc":
         from cablewright.extract.ifc_reader import read_ifc
 
@@ -65,7 +68,8 @@ def _snapshot(net, rows, config) -> dict:
 
 def main() -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--before", required=True, help="the other copy of extract/network.py")
+    ap.add_argument("--before", required=True,
+                    help="the other copy of extract/network.py, or of the extract/ folder (network_copy.py)")
     ap.add_argument("drawings", nargs="+", help="DRAWING or DRAWING:SCHEDULE")
     args = ap.parse_args()
     from cablewright.extract.model import DrawingConfig
@@ -76,9 +80,14 @@ def main() -> int:
     config = DrawingConfig()
     bad = 0
     for item in args.drawings:
-        drawing, _, schedule = item.partition(":")
+        drawing, _, schedule = (item, "", "") if item.startswith("chain:") else item.partition(":")
         polylines, equipment = _content(Path(drawing), config)
-        rows = read_schedule(schedule) if schedule else rows_from_equipment(equipment)
+        if drawing.startswith("chain:"):
+            from cablewright.extract.model import ScheduleRow
+
+            rows = [ScheduleRow("chain", 2, "C-1", "SRC", "LOAD")]
+        else:
+            rows = read_schedule(schedule) if schedule else rows_from_equipment(equipment)
         a = _snapshot(before.build_network(polylines, equipment, config), rows, config)
         b = _snapshot(build_network(polylines, equipment, config), rows, config)
         diff = [k for k in a if a[k] != b[k]]

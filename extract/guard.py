@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable, Sequence
+from itertools import chain
 
 import numpy as np
 from cablewright.core.errors import ConfigError, Issue, IssueCode
@@ -93,6 +94,26 @@ def _refusal(source: str, what: str, value: float) -> str:
     )
 
 
+def _usable_pieces(pieces: list[RoutePolyline]) -> np.ndarray | None:
+    """Per piece: every coordinate usable (one test of all of them), or None if not plain floats.
+
+    The pieces it marks False (and every piece, on None) are tested one by one with
+    :func:`bad_value`, which names the value; so the result is the per-piece test's.
+    """
+    try:
+        counts = np.fromiter((sum(len(p) for p in pl.points_m) for pl in pieces), dtype=np.intp, count=len(pieces))
+        flat = np.fromiter(
+            chain.from_iterable(chain.from_iterable(pl.points_m) for pl in pieces), dtype=float, count=int(counts.sum())
+        )
+    except (TypeError, ValueError):  # not plain numbers: the per-piece test says which
+        return None
+    with np.errstate(invalid="ignore"):
+        bad = ~np.isfinite(flat) | (np.abs(flat) > MAX_COORDINATE_M)
+    usable = np.ones(len(pieces), dtype=bool)
+    usable[np.repeat(np.arange(len(pieces)), counts)[bad]] = False
+    return usable
+
+
 def check_polylines(
     polylines: Iterable[RoutePolyline], source: str = ""
 ) -> tuple[list[RoutePolyline], list[Issue]]:
@@ -113,7 +134,12 @@ def check_polylines(
     """
     kept: list[RoutePolyline] = []
     issues: list[Issue] = []
-    for pl in polylines:
+    pieces = list(polylines)
+    usable = _usable_pieces(pieces)
+    for n, pl in enumerate(pieces):
+        if usable is not None and usable[n]:
+            kept.append(pl)
+            continue
         value = bad_value([c for p in pl.points_m for c in p]) if pl.points_m else None
         if value is None:
             kept.append(pl)

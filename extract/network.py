@@ -15,13 +15,15 @@ or ends, where a tail attaches and where the layer changes.
 
 Spatial look-ups use shapely's STRtree on the plan (x, y) projection as a coarse
 filter; exact 3D distances are then computed with numpy on the candidates only.
+The cleaning, the pieces as arrays and the searches are in :mod:`.network_geometry`,
+the whole-drawing array steps (lengths, bisection, union-find roots) in
+:mod:`.network_arrays`.
 """
 
 from __future__ import annotations
 
 import logging
 import math
-from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -40,14 +42,26 @@ from .guard import (
     near_miss_reach_m,
 )
 from .model import DrawingConfig, Equipment, Point3, RoutePolyline, RouteSegment
+from .network_arrays import count_at_most, piece_lengths, roots_of
+from .network_geometry import (
+    COINCIDENT_M,
+    MAX_CANDIDATES_PER_POINT,
+    QUERY_CHUNK,
+    Crowded,
+    Geometry,
+    UnionFind,
+    build_geometry,
+    clean_input,
+    plan_boxes,
+    project,
+    query_boxes,
+    query_boxes_many,
+)
 
 __all__ = ["Network", "Tail", "build_network", "equipment_node", "COINCIDENT_M"]
 
 logger = logging.getLogger(__name__)
 
-#: Points closer than this are the same point, [m] (1 micrometre: far below
-#: drawing precision, far above float rounding at site coordinates).
-COINCIDENT_M = 1e-6
 
 
 def equipment_node(tag: str) -> str:
@@ -129,170 +143,8 @@ class Network:
     gaps: list[tuple[str, str, float, Point3, str, str]] = field(default_factory=list)
 
 
-class _UnionFind:
-    def __init__(self) -> None:
-        self.parent: list[int] = []
-
-    def add(self) -> int:
-        self.parent.append(len(self.parent))
-        return len(self.parent) - 1
-
-    def find(self, a: int) -> int:
-        p = self.parent
-        root = a
-        while p[root] != root:
-            root = p[root]
-        while p[a] != root:
-            p[a], a = root, p[a]
-        return root
-
-    def union(self, a: int, b: int) -> None:
-        ra, rb = self.find(a), self.find(b)
-        if ra != rb:
-            if ra < rb:
-                self.parent[rb] = ra
-            else:
-                self.parent[ra] = rb
-
-
-def _project(p: np.ndarray, a: np.ndarray, b: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Parameter t in [0, 1] and 3D distance of points p to segments a-b (row-wise)."""
-    ab = b - a
-    l2 = np.einsum("ij,ij->i", ab, ab)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        t = np.where(l2 > 0, np.einsum("ij,ij->i", p - a, ab) / np.where(l2 > 0, l2, 1), 0.0)
-    t = np.clip(t, 0.0, 1.0)
-    q = a + t[:, None] * ab
-    return t, np.linalg.norm(p - q, axis=1)
-
-
-def _boxes(xy: np.ndarray, r: float | np.ndarray) -> np.ndarray:
-    r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
-    return shapely.box(xy[:, 0] - r, xy[:, 1] - r, xy[:, 0] + r, xy[:, 1] + r)
-
-
 def _fmt(p: Sequence[float]) -> str:
     return "(" + ", ".join(f"{v:.3f}" for v in p) + ") m"
-
-
-def _clean(points: Iterable[Sequence[float]]) -> list[Point3]:
-    out: list[Point3] = []
-    for p in points:
-        q = (float(p[0]), float(p[1]), float(p[2]) if len(p) > 2 else 0.0)
-        if not out or math.dist(out[-1], q) > COINCIDENT_M:
-            out.append(q)
-    return out
-
-
-#: Query geometries built per STRtree call; bounds the temporary boxes of a big drawing
-#: (2 million route pieces make 4 million ends) without changing any result.
-_QUERY_CHUNK = 200_000
-
-
-#: Most candidate pairs a proximity search may hold per query point (plus a fixed 10,000).
-#: An end on an ordinary drawing meets a handful of other pieces within the snap tolerance;
-#: hundreds each mean the tolerance covers much of the plan, and the pairs, cut points and
-#: segments would grow with the square of the drawing (issue 16: 2.7 million segments and
-#: 5.8 GB from 1,063 pieces).  The build stops instead, with memory bounded by this cap.
-MAX_CANDIDATES_PER_POINT = 64
-
-
-class _Crowded(Exception):
-    """A proximity search found more candidate pairs than :data:`MAX_CANDIDATES_PER_POINT` allows."""
-
-    def __init__(self, pairs: int, points: int) -> None:
-        super().__init__(pairs, points)
-        self.pairs, self.points = pairs, points
-
-
-def _query_boxes(
-    tree: STRtree, xy: np.ndarray, r: float | np.ndarray, bounded: bool = False
-) -> tuple[np.ndarray, np.ndarray]:
-    """(input index, tree index) pairs of tree items meeting the box of half-side r around xy.
-
-    The same pairs, in the same order, as one ``tree.query(_boxes(xy, r))``, built chunk by
-    chunk so that only ``_QUERY_CHUNK`` boxes exist at a time.  With ``bounded``, raises
-    :class:`_Crowded` as soon as the pairs exceed ``MAX_CANDIDATES_PER_POINT`` per point.
-    """
-    r = np.broadcast_to(np.asarray(r, dtype=float), (len(xy),))
-    limit = MAX_CANDIDATES_PER_POINT * len(xy) + 10_000
-    out_i, out_j = [], []
-    found = 0
-    for lo in range(0, len(xy), _QUERY_CHUNK):
-        hi = min(lo + _QUERY_CHUNK, len(xy))
-        qi, qj = tree.query(_boxes(xy[lo:hi], r[lo:hi]))
-        found += len(qi)
-        if bounded and found > limit:
-            raise _Crowded(found, len(xy))
-        out_i.append(qi + lo)
-        out_j.append(qj)
-    if not out_i:
-        return np.zeros(0, dtype=np.intp), np.zeros(0, dtype=np.intp)
-    return np.concatenate(out_i), np.concatenate(out_j)
-
-
-# --------------------------------------------------------------------------- step 1: clean
-
-
-def _clean_input(polylines: Iterable[RoutePolyline | tuple], issues: list[Issue]) -> list[RoutePolyline]:
-    """Route pieces with coincident vertices merged; pieces without length reported and dropped."""
-    polys: list[RoutePolyline] = []
-    for item in polylines:
-        pl = item if isinstance(item, RoutePolyline) else RoutePolyline(*item)
-        pts = _clean(pl.points_m)
-        if len(pts) < 2:
-            issues.append(
-                Issue(
-                    IssueCode.ZERO_LENGTH,
-                    f"route piece {pl.source_id} on layer {pl.layer} has no length; ignored - "
-                    "delete it from the drawing",
-                    pl.source_id,
-                )
-            )
-            continue
-        polys.append(RoutePolyline(tuple(pts), pl.layer, pl.containment, pl.method, pl.source_id))
-    return polys
-
-
-@dataclass
-class _Geometry:
-    """The cleaned pieces as arrays: vertices, sub-segments (a-b) and their STRtree."""
-
-    polys: list[RoutePolyline]
-    verts: list[np.ndarray]
-    seglen: list[np.ndarray]
-    cum: list[np.ndarray]
-    total: list[float]
-    sa: np.ndarray
-    sb: np.ndarray
-    s_owner: np.ndarray
-    s_k: np.ndarray
-    seg_tree: STRtree | None
-
-    def point_at(self, s: int, tt: float) -> tuple[int, float, np.ndarray]:
-        """(piece, distance along it [m], xyz) of parameter tt on sub-segment s."""
-        j = int(self.s_owner[s])
-        k = int(self.s_k[s])
-        return j, float(self.cum[j][k] + tt * self.seglen[j][k]), self.sa[s] + tt * (self.sb[s] - self.sa[s])
-
-
-def _geometry(polys: list[RoutePolyline]) -> _Geometry:
-    verts = [np.asarray(p.points_m, dtype=float) for p in polys]
-    seglen = [np.linalg.norm(np.diff(v, axis=0), axis=1) for v in verts]
-    cum = [np.concatenate(([0.0], np.cumsum(sl))) for sl in seglen]
-    total = [float(c[-1]) for c in cum]
-    if polys:
-        sa = np.concatenate([v[:-1] for v in verts])
-        sb = np.concatenate([v[1:] for v in verts])
-        counts = np.fromiter((len(v) - 1 for v in verts), dtype=np.intp, count=len(verts))
-        s_owner = np.repeat(np.arange(len(verts)), counts)
-        s_k = np.arange(len(sa)) - np.repeat(np.cumsum(counts) - counts, counts)
-        seg_tree = STRtree(shapely.linestrings(np.stack([sa[:, :2], sb[:, :2]], axis=1)))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    else:
-        sa = sb = np.zeros((0, 3))
-        s_owner = s_k = np.zeros(0, dtype=int)
-        seg_tree = None
-    return _Geometry(polys, verts, seglen, cum, total, sa, sb, s_owner, s_k, seg_tree)
 
 
 # --------------------------------------------------------------------------- step 2: cut points
@@ -307,7 +159,7 @@ class _Cuts:
     Pids ``2i`` and ``2i + 1`` are the two ends of piece i.
     """
 
-    uf: _UnionFind = field(default_factory=_UnionFind)
+    uf: UnionFind = field(default_factory=UnionFind)
     poly: list[int] = field(default_factory=list)
     s: list[float] = field(default_factory=list)
     xyz: list[Point3] = field(default_factory=list)
@@ -320,6 +172,20 @@ class _Cuts:
         self.xyz.append((float(xyz[0]), float(xyz[1]), float(xyz[2])))
         return pid
 
+    def add_many(self, poly: list[int], s: list[float], xyz: list[Point3]) -> None:
+        """New cut points in bulk, as :meth:`new` one after the other would add them."""
+        n = len(self.poly)
+        self.uf.parent.extend(range(n, n + len(poly)))
+        self.poly.extend(poly)
+        self.s.extend(s)
+        self.xyz.extend(xyz)
+
+    def join_many(self, a: np.ndarray, b: np.ndarray, d: np.ndarray) -> None:
+        """:meth:`join` for every pair, in order (the unions in any order: a root is its set's lowest)."""
+        same = d <= COINCIDENT_M
+        self.uf.union_many(a[same].tolist(), b[same].tolist())
+        self.joins.extend(zip(a[~same].tolist(), b[~same].tolist(), d[~same].tolist(), strict=True))
+
     def join(self, a: int, b: int, d: float) -> None:
         if d <= COINCIDENT_M:
             self.uf.union(a, b)
@@ -327,41 +193,48 @@ class _Cuts:
             self.joins.append((a, b, d))
 
 
-def _cut_points(geo: _Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
+def _cut_points(geo: Geometry, tol: float, crossings: list | None = None) -> tuple[_Cuts, np.ndarray]:
     """Ends of every piece, joined end to end, as tees, at shared vertices (and crossings)."""
     cuts = _Cuts()
-    for i in range(len(geo.polys)):
-        cuts.new(i, 0.0, geo.verts[i][0])  # pid 2i
-        cuts.new(i, geo.total[i], geo.verts[i][-1])  # pid 2i+1
-    ends = np.asarray(cuts.xyz, dtype=float).reshape(-1, 3)
+    ends = np.empty((2 * len(geo.polys), 3))
+    ends[0::2] = geo.flat[geo.start[:-1]]  # pid 2i
+    ends[1::2] = geo.flat[geo.start[1:] - 1]  # pid 2i+1
+    cuts.add_many(np.repeat(np.arange(len(geo.polys)), 2).tolist(),
+                  np.column_stack([np.zeros(len(geo.polys)), geo.total]).ravel().tolist(),
+                  [q for p in geo.polys for q in (p.points_m[0], p.points_m[-1])])  # the rows of ends
     if geo.polys:
-        _join_ends(cuts, ends, tol)
-        _join_tees(cuts, geo, ends, tol)
+        assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
+        end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
+        end_pairs, tee_pairs = query_boxes_many([end_tree, geo.seg_tree], ends[:, :2], tol, bounded=True)
+        _join_ends(cuts, ends, tol, end_pairs)
+        _join_tees(cuts, geo, ends, tol, tee_pairs)
         _join_shared_vertices(cuts, geo, tol)
         if crossings:
             _join_crossings(cuts, geo, crossings)
     return cuts, ends
 
 
-def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float) -> None:
-    """End - end within the tolerance (3D)."""
-    end_tree = STRtree(shapely.points(ends[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = _query_boxes(end_tree, ends[:, :2], tol, bounded=True)
+def _join_ends(cuts: _Cuts, ends: np.ndarray, tol: float, pairs: tuple[np.ndarray, np.ndarray]) -> None:
+    """End - end within the tolerance (3D); ``pairs`` from the box search of the ends' tree."""
+    qi, qj = pairs
     keep = qi < qj
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(ends[qi] - ends[qj], axis=1)
-    for a, b, dd in zip(qi[d <= tol], qj[d <= tol], d[d <= tol], strict=False):
-        cuts.join(int(a), int(b), float(dd))
+    cuts.join_many(qi[d <= tol], qj[d <= tol], d[d <= tol])
 
 
-def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> None:
-    """An end on another route's interior: a new cut point there, joined to the end."""
-    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = _query_boxes(geo.seg_tree, ends[:, :2], tol, bounded=True)
+def _join_tees(
+    cuts: _Cuts, geo: Geometry, ends: np.ndarray, tol: float, pairs: tuple[np.ndarray, np.ndarray]
+) -> None:
+    """An end on another route's interior: a new cut point there, joined to the end.
+
+    ``pairs`` come from the box search of the sub-segments' tree around the ends.
+    """
+    qe, qs = pairs
     own = qe // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
-    t, d = _project(ends[qe], geo.sa[qs], geo.sb[qs])
+    t, d = project(ends[qe], geo.sa[qs], geo.sb[qs])
     # an end of the target within tolerance is an end-end join, already made
     tj = geo.s_owner[qs]
     near_end = np.minimum(
@@ -379,26 +252,28 @@ def _join_tees(cuts: _Cuts, geo: _Geometry, ends: np.ndarray, tol: float) -> Non
         cuts.join(e, cuts.new(j, pos, xyz), dd)
 
 
-def _join_shared_vertices(cuts: _Cuts, geo: _Geometry, tol: float) -> None:
+def _join_shared_vertices(cuts: _Cuts, geo: Geometry, tol: float) -> None:
     """Interior vertices of two different routes within the tolerance."""
-    inner = [(i, k) for i in range(len(geo.polys)) for k in range(1, len(geo.verts[i]) - 1)]
-    if not inner:
+    inner = np.ones(len(geo.flat), dtype=bool)
+    inner[geo.start[:-1]] = inner[geo.start[1:] - 1] = False
+    vid = np.flatnonzero(inner)  # flat index of every interior vertex
+    if not len(vid):
         return
-    iv = np.asarray([geo.verts[i][k] for i, k in inner])
-    iown = np.asarray([i for i, _ in inner])
+    iv = geo.flat[vid]
+    iown = np.repeat(np.arange(len(geo.polys)), np.diff(geo.start))[vid]
     itree = STRtree(shapely.points(iv[:, :2]))  # type: ignore[arg-type]  # types-shapely: an array in, an array out
-    qi, qj = _query_boxes(itree, iv[:, :2], tol, bounded=True)
+    qi, qj = query_boxes(itree, iv[:, :2], tol, bounded=True)
     keep = (qi < qj) & (iown[qi] != iown[qj])
     qi, qj = qi[keep], qj[keep]
     d = np.linalg.norm(iv[qi] - iv[qj], axis=1)
     for a, b, dd in zip(qi[d <= tol], qj[d <= tol], d[d <= tol], strict=False):
-        (i1, k1), (i2, k2) = inner[a], inner[b]
-        p1 = cuts.new(i1, float(geo.cum[i1][k1]), geo.verts[i1][k1])
-        p2 = cuts.new(i2, float(geo.cum[i2][k2]), geo.verts[i2][k2])
+        v1, v2 = int(vid[a]), int(vid[b])
+        p1 = cuts.new(int(iown[a]), float(geo.cum[v1]), geo.flat[v1])
+        p2 = cuts.new(int(iown[b]), float(geo.cum[v2]), geo.flat[v2])
         cuts.join(p1, p2, float(dd))
 
 
-def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
+def _crossings(geo: Geometry, tol: float) -> list[tuple[int, int, np.ndarray, float, float, float]]:
     """Sub-segments of different pieces crossing in plan at the same level, away from their ends.
 
     Candidates from one STRtree query of the sub-segments against themselves (predicate
@@ -415,8 +290,8 @@ def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, f
         return []
     lines = geo.seg_tree.geometries
     out_a, out_b = [], []
-    for lo in range(0, len(lines), _QUERY_CHUNK):
-        qa, qb = geo.seg_tree.query(lines[lo : lo + _QUERY_CHUNK], predicate="intersects")
+    for lo in range(0, len(lines), QUERY_CHUNK):
+        qa, qb = geo.seg_tree.query(lines[lo : lo + QUERY_CHUNK], predicate="intersects")
         qa = qa + lo
         keep = (qa < qb) & (geo.s_owner[qa] != geo.s_owner[qb])
         out_a.append(qa[keep])
@@ -445,7 +320,7 @@ def _crossings(geo: _Geometry, tol: float) -> list[tuple[int, int, np.ndarray, f
     return out
 
 
-def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
+def _join_crossings(cuts: _Cuts, geo: Geometry, found: list) -> None:
     """A cut point on each run at the crossing, joined (the height difference as a gap)."""
     for sa_, sb_, _xyz, ta, tb, dz in found:
         ja, pos_a, xyz_a = geo.point_at(sa_, ta)
@@ -457,7 +332,7 @@ def _join_crossings(cuts: _Cuts, geo: _Geometry, found: list) -> None:
 MAX_CROSSINGS_LISTED = 20
 
 
-def _crossing_issues(geo: _Geometry, found: list) -> list[Issue]:
+def _crossing_issues(geo: Geometry, found: list) -> list[Issue]:
     """One warning per crossing without a joint, or a count and the first few for many."""
     def name(s: int) -> str:
         pl = geo.polys[int(geo.s_owner[s])]
@@ -510,16 +385,16 @@ def _equipment_by_tag(
     return eq_map, tag_failures
 
 
-def _nearest_3d(geo: _Geometry, p: np.ndarray, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _nearest_3d(geo: Geometry, p: np.ndarray, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Sub-segments meeting the plan box of half-side r around p, with t and 3D distance."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    c = np.sort(geo.seg_tree.query(_boxes(p[None, :2], r + 1e-9)[0]))
-    t, d = _project(np.repeat(p[None, :], len(c), 0), geo.sa[c], geo.sb[c])
+    c = np.sort(geo.seg_tree.query(plan_boxes(p[None, :2], r + 1e-9)[0]))
+    t, d = project(np.repeat(p[None, :], len(c), 0), geo.sa[c], geo.sb[c])
     return c, t, d
 
 
 def _tails(
-    geo: _Geometry,
+    geo: Geometry,
     cuts: _Cuts,
     eq_map: dict[str, Equipment],
     tag_failures: dict[str, str],
@@ -535,36 +410,49 @@ def _tails(
     if not usable:
         return tail_pid
     pos = np.asarray([eq_map[t].position_m for t in usable], dtype=float)
-    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
-    first: dict[int, list[int]] = defaultdict(list)
-    for e, s in zip(qe, qs, strict=False):
-        first[int(e)].append(int(s))
+    best, t, dist = _nearest_routes(geo, pos, max_tail_m)
     for n, tag in enumerate(usable):
         eq = eq_map[tag]
-        cand = first.get(n)
-        dist = math.inf
-        if cand:
-            c = np.asarray(cand)
-            _, d = _project(np.repeat(pos[n : n + 1], len(c), 0), geo.sa[c], geo.sb[c])
-            # every route nearer in 3D is nearer in plan: search the plan box of r
-            c, t, d = _nearest_3d(geo, pos[n], float(d.min()))
-            m = int(np.argmin(d))
-            dist = float(d[m])
-        if dist > max_tail_m:
+        if not dist[n] <= max_tail_m:
             tag_failures[tag] = _too_far(geo, eq, pos[n], max_tail_m)
             continue
-        j, s_along, xyz = geo.point_at(int(c[m]), float(t[m]))
+        j, s_along, xyz = geo.point_at(int(best[n]), float(t[n]))
         pid = cuts.new(j, s_along, xyz)
-        tail_pid[tag] = (pid, dist, eq.position_m, cuts.xyz[pid])
+        tail_pid[tag] = (pid, float(dist[n]), eq.position_m, cuts.xyz[pid])
     return tail_pid
 
 
-def _too_far(geo: _Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
+def _nearest_routes(geo: Geometry, pos: np.ndarray, max_tail_m: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Nearest sub-segment in 3D of every point, its parameter and distance (inf beyond ``max_tail_m``).
+
+    The nearest in plan (STRtree ``query_nearest``) gives a first 3D distance r; every route
+    nearer in 3D is nearer in plan, so the plan boxes of half-side r (+ 1 nm) hold the
+    nearest; of equal distances the lowest sub-segment wins.
+    """
+    assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
+    n = len(pos)
+    best, t_best, dist = np.zeros(n, dtype=np.intp), np.zeros(n), np.full(n, math.inf)
+    qe, qs = geo.seg_tree.query_nearest(shapely.points(pos[:, :2]), max_distance=max_tail_m, all_matches=True)
+    if not len(qe):
+        return best, t_best, dist
+    _, d = project(pos[qe], geo.sa[qs], geo.sb[qs])
+    r = np.full(n, math.inf)
+    np.minimum.at(r, qe, d)
+    has = np.flatnonzero(np.isfinite(r))
+    be, bs = query_boxes(geo.seg_tree, pos[has, :2], r[has] + 1e-9)
+    be = has[be]
+    t, d = project(pos[be], geo.sa[bs], geo.sb[bs])
+    order = np.lexsort((bs, d, be))  # by point, then distance, then sub-segment
+    first = order[np.flatnonzero(np.r_[True, be[order][1:] != be[order][:-1]])]
+    best[be[first]], t_best[be[first]], dist[be[first]] = bs[first], t[first], d[first]
+    return best, t_best, dist
+
+
+def _too_far(geo: Geometry, eq: Equipment, p: np.ndarray, max_tail_m: float) -> str:
     """The message for an equipment farther than the maximum tail from every route."""
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
     far = int(geo.seg_tree.query_nearest(shapely.points(p[:2]))[0])
-    _, d_far = _project(p[None, :], geo.sa[far : far + 1], geo.sb[far : far + 1])
+    _, d_far = project(p[None, :], geo.sa[far : far + 1], geo.sb[far : far + 1])
     _, _, d = _nearest_3d(geo, p, float(d_far[0]))
     return (
         f"equipment {eq.tag} ({eq.source_id}, block {eq.block_name}) at "
@@ -587,59 +475,71 @@ class _Pieces:
     gap_start: int
     node_of_root: dict[int, str]
     node_pos: dict[str, Point3]
-    uf: _UnionFind
+    uf: UnionFind
+    pid_node: list[str] = field(default_factory=list)
 
     def node(self, pid: int) -> str:
-        return self.node_of_root[self.uf.find(pid)]
+        return self.pid_node[pid]
 
 
-def _pieces(geo: _Geometry, cuts: _Cuts) -> _Pieces:
+def _pieces(geo: Geometry, cuts: _Cuts) -> _Pieces:
     """Cut every route piece at its cut points; name the nodes; add the snap gaps."""
-    on_poly: dict[int, list[int]] = defaultdict(list)
-    for pid, i in enumerate(cuts.poly):
-        on_poly[i].append(pid)
-    raw: list[tuple[int, int, list[Point3], int]] = []  # pid_a, pid_b, points, poly
-    for i in range(len(geo.polys)):
-        groups = _cut_groups(cuts, on_poly[i])
-        cum = geo.cum[i]
-        for ga, gb in zip(groups[:-1], groups[1:], strict=False):
-            a, b = ga[0], gb[0]
-            # vertices strictly between the two cuts (cum is increasing)
-            lo = bisect_right(cum, cuts.s[a] + COINCIDENT_M)
-            hi = bisect_left(cum, cuts.s[b] - COINCIDENT_M)
-            inner = [tuple(map(float, geo.verts[i][k])) for k in range(lo, hi)]
-            raw.append((a, b, [cuts.xyz[a], *inner, cuts.xyz[b]], i))  # type: ignore[list-item]
-    # node names, deterministic: by smallest cut-point id of each cluster
-    node_of_root: dict[int, str] = {}
-    node_pos: dict[str, Point3] = {}
-    for pid in range(len(cuts.poly)):
-        r = cuts.uf.find(pid)
-        if r not in node_of_root:
-            node_of_root[r] = f"N{len(node_of_root)}"
-        node_pos.setdefault(node_of_root[r], cuts.xyz[pid])
-    out = _Pieces([], 0, node_of_root, node_pos, cuts.uf)
-    for a, b, pts, i in raw:
-        length = float(np.linalg.norm(np.diff(np.asarray(pts), axis=0), axis=1).sum())
-        if length > COINCIDENT_M:
-            out.pieces.append((out.node(a), out.node(b), pts, length, i))
+    pa, pb = _cut_pairs(cuts)
+    poly = np.asarray(cuts.poly, dtype=np.intp)[pa]
+    s = np.asarray(cuts.s, dtype=float)
+    # vertices strictly between the two cuts (cum is increasing): bisect_right / bisect_left
+    lo = count_at_most(geo.cum, geo.start, poly, s[pa] + COINCIDENT_M, strict=False)
+    hi = count_at_most(geo.cum, geo.start, poly, s[pb] - COINCIDENT_M, strict=True)
+    xyz = cuts.xyz
+    pts_of: list[list[Point3]] = [[xyz[a], xyz[b]] for a, b in zip(pa.tolist(), pb.tolist(), strict=True)]
+    for n in np.flatnonzero(hi > lo).tolist():
+        first = int(geo.start[poly[n]])
+        inner = map(tuple, geo.flat[first + lo[n] : first + hi[n]].tolist())
+        pts_of[n] = [pts_of[n][0], *inner, pts_of[n][1]]
+    # node names, deterministic: by smallest cut-point id of each cluster (its root)
+    roots = roots_of(cuts.uf.parent)
+    cuts.uf.parent[:] = roots.tolist()
+    names_root = np.unique(roots)
+    names = [f"N{k}" for k in range(len(names_root))]
+    node_of_root = dict(zip(names_root.tolist(), names, strict=True))
+    node_pos = {nm: xyz[r] for nm, r in zip(names, names_root.tolist(), strict=True)}
+    pid_node = [names[k] for k in np.searchsorted(names_root, roots).tolist()]
+    out = _Pieces([], 0, node_of_root, node_pos, cuts.uf, pid_node)
+    lengths = piece_lengths(pts_of)
+    for n in np.flatnonzero(lengths > COINCIDENT_M).tolist():
+        out.pieces.append((pid_node[pa[n]], pid_node[pb[n]], pts_of[n], float(lengths[n]), int(poly[n])))
     out.gap_start = len(out.pieces)
     for a, b, d in cuts.joins:
-        u, v = out.node(a), out.node(b)
+        u, v = pid_node[a], pid_node[b]
         if u != v:  # the gap takes the layer of the lower-numbered piece it joins
-            out.pieces.append((u, v, [cuts.xyz[a], cuts.xyz[b]], d, min(cuts.poly[a], cuts.poly[b])))
+            out.pieces.append((u, v, [xyz[a], xyz[b]], d, min(cuts.poly[a], cuts.poly[b])))
     return out
 
 
-def _cut_groups(cuts: _Cuts, pids: list[int]) -> list[list[int]]:
-    """The cut points of one piece in order along it, coincident ones grouped (and united)."""
-    groups: list[list[int]] = []
-    for p in sorted(pids, key=lambda q: (cuts.s[q], q)):
-        if groups and cuts.s[p] - cuts.s[groups[-1][0]] <= COINCIDENT_M:
-            cuts.uf.union(groups[-1][0], p)
-            groups[-1].append(p)
+def _cut_pairs(cuts: _Cuts) -> tuple[np.ndarray, np.ndarray]:
+    """(first cut, next cut) of every piece between cut points, by piece and along it.
+
+    The cut points of each piece in order along it (then by id); a cut point within
+    :data:`COINCIDENT_M` of its group's first joins that group (and is united with it).
+    """
+    poly = np.asarray(cuts.poly, dtype=np.intp)
+    s = np.asarray(cuts.s, dtype=float)
+    order = np.lexsort((np.arange(len(poly)), s, poly))
+    po, so = poly[order], s[order]
+    near = np.zeros(len(order), dtype=bool)
+    near[1:] = (po[1:] == po[:-1]) & (so[1:] - so[:-1] <= COINCIDENT_M)
+    start = ~near
+    group_first = order.copy()
+    for n in np.flatnonzero(near).tolist():  # a group's members are near its first, not only the last
+        f = int(group_first[n - 1])
+        if s[order[n]] - s[f] <= COINCIDENT_M:
+            group_first[n] = f
+            cuts.uf.union(f, int(order[n]))
         else:
-            groups.append([p])
-    return groups
+            start[n] = True
+    firsts = np.flatnonzero(start)
+    same = po[firsts[1:]] == po[firsts[:-1]]
+    return order[firsts[:-1][same]], order[firsts[1:][same]]
 
 
 # --------------------------------------------------------------------------- step 5: chains
@@ -661,16 +561,19 @@ class _Chains:
     segment_ends: dict[str, tuple[str, str]] = field(default_factory=dict)
     source_segments: dict[str, list[str]] = field(default_factory=lambda: defaultdict(list))
     visited: list[bool] = field(default_factory=list)
+    kinds: list[tuple[str, str, str]] = field(default_factory=list)
+    boundary: dict[str, bool] = field(default_factory=dict)
 
     def kind(self, n: int) -> tuple[str, str, str]:
-        p = self.polys[self.pieces.pieces[n][4]]
-        return (p.layer, p.containment, p.method)
+        return self.kinds[n]
 
     def is_boundary(self, nd: str) -> bool:
-        a = self.adj[nd]
-        if len(a) != 2 or nd in self.tail_nodes or a[0] == a[1]:
-            return True
-        return self.kind(a[0]) != self.kind(a[1])
+        b = self.boundary.get(nd)
+        if b is None:
+            a = self.adj[nd]
+            b = len(a) != 2 or nd in self.tail_nodes or a[0] == a[1] or self.kinds[a[0]] != self.kinds[a[1]]
+            self.boundary[nd] = b
+        return b
 
     def walk(self, start: str, first_piece: int) -> None:
         """Follow pieces from ``start`` until a boundary node; record one segment."""
@@ -710,6 +613,8 @@ def _chains(polys: list[RoutePolyline], pieces: _Pieces, tail_nodes: set[str]) -
         ch.adj[u].append(n)
         ch.adj[v].append(n)
     ch.visited = [False] * len(pieces.pieces)
+    kind_of_poly = [(p.layer, p.containment, p.method) for p in polys]
+    ch.kinds = [kind_of_poly[pc[4]] for pc in pieces.pieces]
     nodes_sorted = sorted(ch.adj, key=_node_key)
     for nd in nodes_sorted:
         if ch.is_boundary(nd):
@@ -733,8 +638,8 @@ def _graph(
 ) -> tuple[nx.Graph, dict[str, tuple[str, ...]], dict[str, Tail]]:
     """The routing graph: segment end nodes, one edge per segment (parallel ones halved), tails."""
     g: nx.Graph = nx.Graph()
-    for nd in sorted({nd for ends_ in ch.segment_ends.values() for nd in ends_}, key=_node_key):
-        g.add_node(nd, pos_m=ch.pieces.node_pos[nd])
+    ends_sorted = sorted({nd for ends_ in ch.segment_ends.values() for nd in ends_}, key=_node_key)
+    g.add_nodes_from((nd, {"pos_m": ch.pieces.node_pos[nd]}) for nd in ends_sorted)
     segment_nodes: dict[str, tuple[str, ...]] = {}
     for sid, seg in ch.segments.items():
         u, v = ch.segment_ends[sid]
@@ -826,12 +731,12 @@ def build_network(
     check_snap_tolerance(config.snap_tolerance_m, guarded, source)
     tol = float(config.snap_tolerance_m)
 
-    polys = _clean_input(guarded, issues)
-    geo = _geometry(polys)
+    polys = clean_input(guarded, issues)
+    geo = build_geometry(polys)
     crossings = _crossings(geo, tol)
     try:
         cuts, ends = _cut_points(geo, tol, crossings if config.join_crossings else None)
-    except _Crowded as exc:
+    except Crowded as exc:
         raise ConfigError(_crowded_message(exc, tol, "snap tolerance", source)) from None
     eq_map, tag_failures = _equipment_by_tag(equipment, issues)
     tail_pid = _tails(geo, cuts, eq_map, tag_failures, config.max_tail_m)
@@ -844,7 +749,7 @@ def build_network(
     gaps: list[tuple[int, int, float, np.ndarray]] = []
     try:
         issues.extend(_near_misses(geo, ends, ch, tol, reach, gaps))
-    except _Crowded as exc:
+    except Crowded as exc:
         raise ConfigError(_crowded_message(exc, reach, "near-miss search", source)) from None
     if config.join_crossings:
         logger.info("network: %d crossings at the same level joined (join_crossings)", len(crossings))
@@ -877,7 +782,7 @@ def build_network(
     )
 
 
-def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
+def _run_node(ch: _Chains, geo: Geometry, i: int) -> str:
     """A graph node of the run that piece i belongs to (an end of its first segment), or ""."""
     sids = ch.source_segments.get(geo.polys[i].source_id)
     return ch.segment_ends[sids[0]][0] if sids else ""
@@ -886,7 +791,7 @@ def _run_node(ch: _Chains, geo: _Geometry, i: int) -> str:
 # --------------------------------------------------------------------------- drawing issues
 
 
-def _crowded_message(exc: _Crowded, reach_m: float, what: str, source: str) -> str:
+def _crowded_message(exc: Crowded, reach_m: float, what: str, source: str) -> str:
     where = f"{source}: " if source else ""
     return (
         f"{where}the {what} of {reach_m:g} m finds {exc.pairs} pairs of nearby routes for "
@@ -919,7 +824,7 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
     breadth-first search over the nodes in order would list them.
     """
     index = {nd: k for k, nd in enumerate(nodes_sorted)}
-    uf = _UnionFind()
+    uf = UnionFind()
     for _ in nodes_sorted:
         uf.add()
     for u, v, _, _, _ in ch.pieces.pieces:
@@ -948,7 +853,7 @@ def _isolated(ch: _Chains, nodes_sorted: list[str]) -> list[Issue]:
 
 
 def _near_misses(
-    geo: _Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
+    geo: Geometry, ends: np.ndarray, ch: _Chains, tol: float, reach: float, gaps: list | None = None
 ) -> list[Issue]:
     """Free route ends that come within ``reach`` (near_miss_factor x tolerance) of another route."""
     out: list[Issue] = []
@@ -960,11 +865,11 @@ def _near_misses(
         return out
     fe = np.asarray(free)
     assert geo.seg_tree is not None  # the drawing has routes here (the tree is None only without)
-    qe, qs = _query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
+    qe, qs = query_boxes(geo.seg_tree, ends[fe, :2], reach, bounded=True)
     own = fe[qe] // 2
     keep = geo.s_owner[qs] != own
     qe, qs = qe[keep], qs[keep]
-    _, d = _project(ends[fe[qe]], geo.sa[qs], geo.sb[qs])
+    _, d = project(ends[fe[qe]], geo.sa[qs], geo.sb[qs])
     best: dict[int, tuple[float, int]] = {}
     for e, s, dd in zip(qe, qs, d, strict=False):
         if tol < dd <= reach and (e not in best or dd < best[e][0]):
