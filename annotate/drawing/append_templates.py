@@ -65,6 +65,8 @@ _KNOWN = {
     "LWPOLYLINE": _BASE | {"flags", "elevation"},
 }
 TEMPLATED_TYPES = frozenset(_KNOWN)
+#: The same with ezdxf's back-link of a namespace to its entity (not a DXF attribute).
+_KNOWN_NS = {kind: names | {"_entity"} for kind, names in _KNOWN.items()}
 #: ezdxf's defaults of the optional attributes (written only when different).
 _DEFAULT_LINETYPE = "BYLAYER"
 _DEFAULT_COLOR = 256  # BYLAYER
@@ -189,8 +191,7 @@ def _plain(entity: Any, kind: str) -> bool:
         return False
     if kind == "LWPOLYLINE" and len(entity.lwpoints) == 0:  # ezdxf writes nothing for it
         return False
-    known = _KNOWN[kind]
-    return all(k in known for k in entity.dxf.__dict__ if k != "_entity")
+    return _KNOWN_NS[kind].issuperset(entity.dxf.__dict__)
 
 
 def entity_text(entity: Any, owner: str, dxfversion: str) -> str | None:
