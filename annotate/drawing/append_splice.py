@@ -9,7 +9,8 @@ The original file is copied as it is, except:
 * in the ENTITIES section, the marks of an earlier run (our XDATA application
   id, or on a layer of ours) cut out with their ATTRIB/VERTEX/SEQEND sub-entities,
   and our new entities appended before ``ENDSEC``, owned by the model-space
-  BLOCK_RECORD.
+  BLOCK_RECORD: written from templates (:mod:`.append_templates`), the types
+  without one exported by ezdxf.
 
 The tag structure is found with regular expressions anchored on whole lines: a
 group code line is a number, so a line ``0`` followed by a line that is a name
@@ -41,6 +42,7 @@ from ezdxf.lldxf.types import DXFTag
 from ezdxf.tools.codepage import toencoding
 
 from .append_scan import TABLE_NAMES, ScratchDrawing
+from .append_templates import entity_text
 
 __all__ = ["AppendDeclined", "splice_marks"]
 
@@ -111,6 +113,14 @@ def _export(entity: Any, version: str) -> list[DXFTag]:
     collector = TagCollector(dxfversion=version, optional=False)  # as ezdxf's own save writes
     entity.export_dxf(collector)
     return collector.tags
+
+
+def _mark_text(entity: Any, owner: str, first_handle: int, version: str) -> str:
+    """One of our entities as DXF text: from its template, else exported by ezdxf."""
+    text = entity_text(entity, owner, version)
+    if text is not None:
+        return text
+    return _tag_text(_export(entity, version), owner, first_handle)
 
 
 def _table_edits(data: bytes, span: tuple[int, int], scratch: ScratchDrawing,
@@ -214,7 +224,7 @@ def splice_marks(data: bytes, scratch: ScratchDrawing, obstacles: Any,
     doc = scratch.doc
     msp = doc.modelspace()
     ours = [e for e in msp if scratch.ours(e)]
-    marks_text = "".join(_tag_text(_export(e, doc.dxfversion), obstacles.msp_owner, scratch.first_handle)
+    marks_text = "".join(_mark_text(e, obstacles.msp_owner, scratch.first_handle, doc.dxfversion)
                          for e in ours)
     edits = _table_edits(data, sections[b"TABLES"], scratch, encode)
     removed = 0
