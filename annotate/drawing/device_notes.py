@@ -8,8 +8,8 @@ from collections.abc import Mapping
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
-from .label_spots import place_near
 from .leaders import draw_leader
+from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .text import rating_text
 
@@ -56,8 +56,9 @@ def _notes_at_equipment(
         if eq is None:
             continue
         x, y, z = scaled([eq.position_m], k)[0]
-        bw, bh = w.block_box(lines)
-        spot = place_near(index, (x, y, z), bw, bh, w.height)
+        variants = note_variants(lines)
+        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
+        lines = variants[i]
         place = spot.place
         overlaps += place.overlaps
         written = w.block(lines, place, Mark(role, f"{kind}-note", tag))

@@ -33,7 +33,7 @@ from .placement import Placement, readable_angle_deg
 from .stretches import Point2, Stretch
 
 __all__ = ["MAX_LEADER_H", "BESIDE_GAPS_H", "LEADER_GAPS_H", "RouteSpot", "Spot",
-           "place_on_route", "place_near", "stretch_spots", "ring_spots", "pick"]
+           "place_on_route", "stretch_spots", "ring_spots", "pick", "record"]
 
 log = logging.getLogger(__name__)
 
@@ -205,7 +205,7 @@ def _placement(spot: Spot, overlaps: bool = False) -> Placement:
                      2.0 * b.hh, _polygon(b), overlaps, spot.anchor)
 
 
-def _record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
+def record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
             how: str) -> RouteSpot:
     """Record the spot in the index (box, leader) and in the counts; the result."""
     index.add(spot.box)
@@ -274,16 +274,16 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     for s in tried:
         spot = pick(index, stretch_spots(s, width, height, beside, ends_first), h, leader_lines=None)
         if spot is not None:
-            return _record(index, spot, h, leader=False, how="beside")
+            return record(index, spot, h, leader=False, how="beside")
     rings = ring_spots(_ring_points(tried, h), width, height, out)
     loose: Spot | None = None  # the first spot whose leader crosses a line of the drawing
     for spots in [*(stretch_spots(s, width, height, out) for s in tried), rings]:
         spot, over_line = _pick_leader(index, spots, h)
         if spot is not None:
-            return _record(index, spot, h, leader=True, how="leader")
+            return record(index, spot, h, leader=True, how="leader")
         loose = loose or over_line
     if loose is not None:
-        return _record(index, loose, h, leader=True, how="leader")
+        return record(index, loose, h, leader=True, how="leader")
     return _last_resort(index, tried, rings, width, height, h)
 
 
@@ -348,53 +348,14 @@ def _last_resort(index: LabelIndex, tried: Sequence[Stretch], rings: np.ndarray,
         spot = pick(index, stretch_spots(s, width, height, gaps), h, lines=False,
                     leader_lines=False)
         if spot is not None:
-            return _record(index, spot, h, leader=spot.gap > BESIDE_GAPS_H[-1] * h,
+            return record(index, spot, h, leader=spot.gap > BESIDE_GAPS_H[-1] * h,
                            how="crossing")
     spot = pick(index, rings, h, lines=False, leader_lines=False)
     if spot is not None:
-        return _record(index, spot, h, leader=True, how="crossing")
+        return record(index, spot, h, leader=True, how="crossing")
     far = ring_spots(_ring_points(tried, h), width, height, [g * h for g in FAR_GAPS_H])
     spot = pick(index, far, h, leader_lines=False)
     if spot is not None:
-        return _record(index, spot, h, leader=True, how="far")
+        return record(index, spot, h, leader=True, how="far")
     spot = _spot(stretch_spots(tried[0], width, height, [BESIDE_GAPS_H[0] * h]), 0)
-    return _record(index, spot, h, leader=False, how="overlapping")
-
-
-#: Gaps from an equipment point to the nearest edge of its note [text heights]: the
-#: symbol round the point is kept clear anyway, so the first rings only fit beside a
-#: small symbol; further rings a step of about one note height apart, to 16 heights (a
-#: note is tied to its symbol by its leader, drawn in a linetype no route uses).
-NOTE_GAPS_H = (0.75, 1.25, 1.75, 2.5, 3.25, 4.0, 5.0, 6.0, 7.5, 9.0, 10.5, 12.0, 14.0, 16.0)
-#: Directions tried round an equipment point (every 15 degrees).
-NOTE_DIRECTIONS = 24
-
-
-def place_near(index: LabelIndex, at: Sequence[float], width: float, height: float,
-               text_height: float) -> RouteSpot:
-    """Place a horizontal note near the point ``at`` (x, y, z), with a leader from it.
-
-    Rings of :data:`NOTE_GAPS_H` round the point, 16 directions each; the note clear of
-    every line, text, symbol and mark, its leader clear of texts and marks (it starts
-    inside the equipment's symbol).  Last resorts as for :func:`place_on_route`, counted.
-
-    Returns
-    -------
-    RouteSpot
-        ``leader`` from the point to the note's box.
-    """
-    h = text_height
-    point = [(float(at[0]), float(at[1]), float(at[2]) if len(at) > 2 else 0.0)]
-    gaps = [g * h for g in NOTE_GAPS_H]
-    spots = ring_spots(point, width, height, gaps, NOTE_DIRECTIONS)
-    spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
-    if spot is not None:
-        return _record(index, spot, h, leader=True, how="leader")
-    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True)
-    if spot is not None:
-        return _record(index, spot, h, leader=True, how="crossing")
-    # overlapping the drawing's own text or symbols rather than another mark of ours, its
-    # leader crossing none of our marks
-    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True,
-                fixed=False)
-    return _record(index, spot or _spot(spots, 0), h, leader=True, how="overlapping")
+    return record(index, spot, h, leader=False, how="overlapping")

@@ -15,8 +15,8 @@ from ..revision import GAP_HEIGHTS, HALF_DIAGONAL_HEIGHTS, revision_mark
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
-from .label_spots import place_near
 from .leaders import draw_leader
+from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .style import LABEL_MARGIN_H
 
@@ -57,8 +57,9 @@ def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput)
     for fill in marks.fill_marks:
         x, y, z = scaled([fill.at_m], k)[0]
         lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
-        bw, bh = w.block_box(lines)
-        place = place_near(index, (x, y, z), bw, bh, w.height).place
+        variants = note_variants(lines)
+        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
+        lines, place = variants[i], spot.place
         entities = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
         draw_leader(w, place, entities, Mark("fill", "fill-leader", fill.segment_id))
         written += 1
