@@ -75,15 +75,20 @@ _DEFAULT_STYLE = "Standard"
 _DEFAULT_SPACING = 1
 
 
+def _optional(d: dict[str, Any], key: str, code: int, default: Any, cast: Callable[[Any], Any]) -> str:
+    """One optional tag, written (``cast`` of its value) only when set and not ezdxf's default."""
+    value = d.get(key)
+    if value is None or value == default:
+        return ""
+    text = repr(float(value)) if cast is float else str(cast(value))  # reals as ezdxf: repr
+    return f"{code:3d}\n{text}\n"
+
+
 def _head(kind: str, d: dict[str, Any], owner: str) -> str:
     """Handle, owner and AcDbEntity (layer, linetype, colour) of one entity."""
     out = f"  0\n{kind}\n  5\n{d['handle']}\n330\n{owner}\n100\nAcDbEntity\n  8\n{d.get('layer', '0')}\n"
-    linetype = d.get("linetype")
-    if linetype is not None and linetype != _DEFAULT_LINETYPE:
-        out += f"  6\n{linetype}\n"
-    color = d.get("color")
-    if color is not None and color != _DEFAULT_COLOR:
-        out += f" 62\n{int(color)}\n"
+    out += _optional(d, "linetype", 6, _DEFAULT_LINETYPE, str)
+    out += _optional(d, "color", 62, _DEFAULT_COLOR, int)
     return out
 
 
@@ -95,22 +100,14 @@ def _point(code: int, p: Any) -> str:
 def _text(entity: Any, d: dict[str, Any], owner: str) -> str:
     out = _head("TEXT", d, owner) + "100\nAcDbText\n" + _point(10, d.get("insert", (0.0, 0.0, 0.0)))
     out += f" 40\n{float(d.get('height', 2.5))!r}\n  1\n{d.get('text', '')}\n"
-    rotation = d.get("rotation")
-    if rotation is not None and rotation != 0:
-        out += f" 50\n{float(rotation)!r}\n"
-    style = d.get("style")
-    if style is not None and style != _DEFAULT_STYLE:
-        out += f"  7\n{style}\n"
-    halign = d.get("halign")
-    if halign is not None and halign != 0:
-        out += f" 72\n{int(halign)}\n"
+    out += _optional(d, "rotation", 50, 0, float)
+    out += _optional(d, "style", 7, _DEFAULT_STYLE, str)
+    out += _optional(d, "halign", 72, 0, int)
     align = d.get("align_point")
     if align is not None:
         out += _point(11, align)
     out += "100\nAcDbText\n"
-    valign = d.get("valign")
-    if valign is not None and valign != 0:
-        out += f" 73\n{int(valign)}\n"
+    out += _optional(d, "valign", 73, 0, int)
     return out
 
 
@@ -123,18 +120,10 @@ def _mtext(entity: Any, d: dict[str, Any], owner: str) -> str:
     out += f" 71\n{int(d.get('attachment_point', 1))}\n"
     chunks = split_mtext_string(escape_dxf_line_endings(entity.text), size=_MTEXT_CHUNK) or [""]
     out += "".join(f"  3\n{chunk}\n" for chunk in chunks[:-1]) + f"  1\n{chunks[-1]}\n"
-    style = d.get("style")
-    if style is not None and style != _DEFAULT_STYLE:
-        out += f"  7\n{style}\n"
-    rotation = d.get("rotation")
-    if rotation is not None and rotation != 0:
-        out += f" 50\n{float(rotation)!r}\n"
-    spacing_style = d.get("line_spacing_style")
-    if spacing_style is not None and spacing_style != _DEFAULT_SPACING:
-        out += f" 73\n{int(spacing_style)}\n"
-    factor = d.get("line_spacing_factor")
-    if factor is not None and factor != _DEFAULT_SPACING:
-        out += f" 44\n{float(factor)!r}\n"
+    out += _optional(d, "style", 7, _DEFAULT_STYLE, str)
+    out += _optional(d, "rotation", 50, 0, float)
+    out += _optional(d, "line_spacing_style", 73, _DEFAULT_SPACING, int)
+    out += _optional(d, "line_spacing_factor", 44, _DEFAULT_SPACING, float)
     return out
 
 
@@ -148,9 +137,7 @@ def _lwpolyline(entity: Any, d: dict[str, Any], owner: str) -> str:
     points = entity.lwpoints
     out = _head("LWPOLYLINE", d, owner) + "100\nAcDbPolyline\n"
     out += f" 90\n{len(points)}\n 70\n{int(d.get('flags', 0))}\n"
-    elevation = d.get("elevation")
-    if elevation is not None and elevation != 0:
-        out += f" 38\n{float(elevation)!r}\n"
+    out += _optional(d, "elevation", 38, 0, float)
     parts = [out]
     for x, y, start_width, end_width, bulge in points:
         parts.append(f" 10\n{float(x)!r}\n 20\n{float(y)!r}\n")

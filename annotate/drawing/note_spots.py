@@ -19,7 +19,7 @@ from .label_spots import COLUMNS, RouteSpot, pick, record, ring_spots
 from .label_spots import _spot as spot_at
 from .mark_index import LabelIndex
 
-__all__ = ["NEAR_GAPS_H", "FAR_GAPS_H", "NOTE_DIRECTIONS", "note_variants", "place_near",
+__all__ = ["NEAR_GAPS_H", "FAR_GAPS_H", "NOTE_DIRECTIONS", "note_variants",
            "place_note", "two_lines"]
 
 #: Gaps from an equipment point to the nearest edge of its note, tried first [text
@@ -95,27 +95,19 @@ def place_note(index: LabelIndex, at: Sequence[float], sizes: Sequence[tuple[flo
     """
     h = text_height
     point = (float(at[0]), float(at[1]), float(at[2]) if len(at) > 2 else 0.0)
-    near = [g * h for g in NEAR_GAPS_H]
-    far = [g * h for g in FAR_GAPS_H]
-    for gaps in (near, far):
+    tiers: list[list[np.ndarray]] = [[], []]  # per variant: the near spots, the far ones
+    for tier, gaps in zip(tiers, (NEAR_GAPS_H, FAR_GAPS_H), strict=True):
         for i, (width, height) in enumerate(sizes):
-            spots = note_spots(point, width, height, gaps)
-            spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
+            tier.append(note_spots(point, width, height, [g * h for g in gaps]))
+            spot = pick(index, tier[i], h, leader_lines=False, leader_from_symbol=True)
             if spot is not None:
                 return record(index, spot, h, leader=True, how="leader"), i
-    for i, (width, height) in enumerate(sizes):
-        spots = note_spots(point, width, height, near + far)
+    # the last resorts over all gaps (near before far, as one array per variant)
+    every = [np.concatenate(pair) for pair in zip(*tiers, strict=True)]
+    for i, spots in enumerate(every):
         spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True)
         if spot is not None:
             return record(index, spot, h, leader=True, how="crossing"), i
-    width, height = sizes[0]
-    spots = note_spots(point, width, height, near + far)
-    spot = pick(index, spots, h, lines=False, leader_lines=False, leader_from_symbol=True,
+    spot = pick(index, every[0], h, lines=False, leader_lines=False, leader_from_symbol=True,
                 fixed=False)
-    return record(index, spot or spot_at(spots, 0), h, leader=True, how="overlapping"), 0
-
-
-def place_near(index: LabelIndex, at: Sequence[float], width: float, height: float,
-               text_height: float) -> RouteSpot:
-    """:func:`place_note` with one variant: a note of box ``width`` x ``height``."""
-    return place_note(index, at, [(width, height)], text_height)[0]
+    return record(index, spot or spot_at(every[0], 0), h, leader=True, how="overlapping"), 0
