@@ -30,10 +30,12 @@ NEAR_GAPS_H = (0.75, 1.25, 1.75, 2.5, 3.25, 4.0, 5.0, 6.0, 7.0, 8.0, 9.0)
 #: Further rings, tried only when no variant of the note fits within :data:`NEAR_GAPS_H`
 #: (a long leader, in a linetype no route uses, rather than a note over another text).
 FAR_GAPS_H = (10.5, 12.0, 14.0, 16.0)
-#: Directions tried round the point (every 10 degrees).
+#: Directions tried round the point (every 10 degrees; our own choice, measured on the demo
+#: and the benchmark plants, benchmarks/RESULTS.md).
 NOTE_DIRECTIONS = 36
 #: Shifts of a note straight above or below the point, in note widths: its end or a
-#: quarter over the point, so a long note fits between two lines the ring would cross.
+#: quarter over the point, so a long note fits between two lines the ring would cross (our
+#: own choice).
 SIDE_SHIFTS = (-0.5, 0.5, -0.25, 0.25)
 
 
