@@ -24,6 +24,8 @@ from dataclasses import dataclass
 from cablewright.core.errors import NoCableLargeEnoughError, UnknownKeyError
 
 __all__ = [
+    "DEVICE_WORDS",
+    "device_words",
     "STANDARD_RATINGS_A",
     "DEVICE_MARGIN",
     "DEVICE_KINDS",
@@ -45,6 +47,17 @@ STANDARD_RATINGS_A: tuple[float, ...] = (
 DEVICE_MARGIN = 1.0
 
 DEVICE_KINDS = ("breaker", "fuse", "motor_breaker", "overload_relay")
+#: The device kinds in words, as the drawing's notes write them for the installer (the
+#: config tokens above stay in the schedules; the words are the trade's usual names).
+DEVICE_WORDS = {"breaker": "breaker", "fuse": "gG fuse", "motor_breaker": "motor breaker",
+                "overload_relay": "overload relay"}
+
+
+def device_words(kind: str) -> str:
+    """A device kind in words (``"motor_breaker"`` -> ``"motor breaker"``); an unknown
+    token with its underscores as spaces."""
+    token = (kind or "").strip()
+    return DEVICE_WORDS.get(token, token.replace("_", " "))
 
 
 @dataclass(frozen=True)

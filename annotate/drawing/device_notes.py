@@ -5,10 +5,13 @@ from __future__ import annotations
 from collections import defaultdict
 from collections.abc import Mapping
 
+from cablewright.sizing.device import device_words
+
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .leaders import draw_leader
+from .mark_rounds import MarkRound
 from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .text import rating_text
@@ -31,7 +34,7 @@ def equipment_notes(
         s = o.sizing
         if o.status != "error" and s is not None and s.device_rating_a is not None:
             assumed = ", Ze assumed" if getattr(s, "ze_assumed", False) else ""  # no Ze nor fault level given
-            kind = (s.device_kind or "").strip() if "device" in fields else ""
+            kind = device_words(s.device_kind or "") if "device" in fields else ""
             device = f"{kind} {rating_text(s.device_rating_a)} A".strip()
             notes_by_load[o.to_tag].append(f"{o.circuit_id}: {device}{assumed}")
         elif o.status == "error":
@@ -46,18 +49,23 @@ def _notes_at_equipment(
     marks: AnnotationInput,
     by_tag: Mapping[str, list[str]],
     role: str,
+    select: MarkRound | None = None,
 ) -> tuple[int, int]:
     """Place one note with a leader at each equipment; (notes placed, overlaps)."""
     kind = "device" if role == "device" else "error"
     k = float(marks.units_per_m)
     placed = overlaps = 0
+    sel = select
     for tag, lines in by_tag.items():
         eq = marks.equipment.get(tag)
-        if eq is None:
+        if eq is None or (sel is not None and not sel.wants(f"{kind}-note", tag)):
             continue
         x, y, z = scaled([eq.position_m], k)[0]
         variants = note_variants(lines)
+        before = sel.begin(index) if sel is not None else 0
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
+        if sel is not None:
+            sel.done(index, f"{kind}-note", tag, before)
         lines = variants[i]
         place = spot.place
         overlaps += place.overlaps
@@ -68,15 +76,16 @@ def _notes_at_equipment(
 
 
 def place_equipment_notes(
-    w: EntityWriter, index: LabelIndex, marks: AnnotationInput
+    w: EntityWriter, index: LabelIndex, marks: AnnotationInput, select: MarkRound | None = None
 ) -> tuple[int, int, int]:
-    """Device notes, then error notes, as the config asks; (device, error, overlapping)."""
+    """Device notes, then error notes, as the config asks; (device, error, overlapping);
+    ``select`` as in :func:`.labels.place_cable_labels`."""
     notes_by_load, errors_by_tag = equipment_notes(marks, tuple(w.config.device_fields))
     device_notes = error_notes = overlapping = 0
     if w.config.device_notes:
-        device_notes, extra = _notes_at_equipment(w, index, marks, notes_by_load, "device")
+        device_notes, extra = _notes_at_equipment(w, index, marks, notes_by_load, "device", select)
         overlapping += extra
     if w.config.error_notes:
-        error_notes, extra = _notes_at_equipment(w, index, marks, errors_by_tag, "notes")
+        error_notes, extra = _notes_at_equipment(w, index, marks, errors_by_tag, "notes", select)
         overlapping += extra
     return device_notes, error_notes, overlapping

@@ -12,6 +12,7 @@ from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
+from .mark_rounds import MarkRound
 from .stretches import rank_stretches, scaled, straight_stretches
 from .text import clean
 
@@ -188,15 +189,21 @@ def segment_cables(
 
 
 def place_group_tags(
-    w: EntityWriter, index: LabelIndex, marks: AnnotationInput
+    w: EntityWriter, index: LabelIndex, marks: AnnotationInput, select: MarkRound | None = None
 ) -> tuple[int, int]:
-    """One tag per run of shared segments (see :func:`group_runs`); (tags, overlapping)."""
+    """One tag per run of shared segments (see :func:`group_runs`); (tags, overlapping);
+    ``select`` as in :func:`.labels.place_cable_labels`."""
     k = float(marks.units_per_m)
     segments, per_segment = marks.segments, marks.per_segment
     h = w.height
     group_tags = overlapping = 0
     cables = segment_cables(marks.outcomes, per_segment)
-    for run in group_runs(segments, per_segment, min_circuits=2):
+    runs = group_runs(segments, per_segment, min_circuits=2)
+    sel = select
+    for run in runs:
+        ref = ",".join(run)
+        if sel is not None and not sel.wants("group-tag", ref):
+            continue
         by_count: dict[tuple[int, int], list[str]] = defaultdict(list)
         for seg_id in run:
             n_circuits = len(set(per_segment[seg_id]))
@@ -224,11 +231,14 @@ def place_group_tags(
         if not stretches:
             continue
         bw, bh = w.block_box(lines)
+        before = sel.begin(index) if sel is not None else 0
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
                               max_leader_h=GROUP_MAX_LEADER_H)
+        if sel is not None:
+            sel.done(index, "group-tag", ref, before)
         place = spot.place
         overlapping += place.overlaps
-        written = w.block(lines, place, Mark("group", "group-tag", ",".join(run)))
+        written = w.block(lines, place, Mark("group", "group-tag", ref))
         if spot.leader is not None:
             draw_leader(w, place, written, Mark("group", "group-leader", run[0]))
         group_tags += 1

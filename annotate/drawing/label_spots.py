@@ -54,13 +54,18 @@ LEADER_GAPS_H = (0.9, 1.4, 1.9, 2.4, 2.9, 3.4, 3.9, 4.5)
 MAX_STRETCHES = 24
 #: Positions along one stretch at most, spread evenly from its middle outwards.
 MAX_ALONG = 24
-#: Share of a box's width that may hang over a stretch's end (a third: two thirds of the
-#: label still run beside the line it belongs to).
+#: Share of a box's width that may hang over a stretch's end, or for a box longer than
+#: its stretch, share of the stretch it may leave uncovered (0.3: at least 70 % of the
+#: label, or of the stretch, run beside each other; our own choice).
 OVERHANG = 0.3
 #: Columns of a candidate array: box (centre, unit x axis, half sizes), anchor, gap, z.
 COLUMNS = ("cx", "cy", "ux", "uy", "hw", "hh", "ax", "ay", "gap", "z")
 #: A leader starts this far off the route (it leaves the route line there) [text heights].
 LEADER_START_H = 0.05
+#: How far a leader may run into the box of a text or symbol of the drawing [text heights]:
+#: the boxes carry a margin of about 0.35 h round the letters (ezdxf's text box), so a
+#: leader along a tag's edge touches no letter (our own choice).
+LEADER_GRAZE_H = 0.1
 
 
 @dataclass(frozen=True)
@@ -85,7 +90,9 @@ def _along(length: float, width: float, height: float, ends_first: bool = False)
     """Centre positions from the stretch middle outwards, hanging over its ends by up to
     :data:`OVERHANG` of the width (a free route end, a label longer than the stretch);
     ``ends_first``: from the two ends inwards, the box kept within the stretch."""
-    reach = abs(length - width) / 2.0 + OVERHANG * width
+    # a box longer than its stretch keeps 1 - OVERHANG of the stretch beside it (a label
+    # hanging far over a short stretch's end reads as belonging to the next line)
+    reach = abs(length - width) / 2.0 + OVERHANG * min(width, length)
     step = max(height, 2.0 * reach / MAX_ALONG)
     out = [0.0]
     k = 1
@@ -119,6 +126,11 @@ def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]
     off = (height / 2.0 + g)[:, None, None] * np.array([1.0, -1.0])[None, None, :]  # (G, 1, 2)
     px = (mx + ux * t)[None, :, None]
     py = (my + uy * t)[None, :, None]
+    # the anchor (where a leader leaves the route) on the stretch itself, also for a box
+    # hanging over the stretch's end
+    ta = np.clip(t, -n / 2.0, n / 2.0)
+    qx = np.broadcast_to((mx + ux * ta)[None, :, None], (len(g), len(t), 2))
+    qy = np.broadcast_to((my + uy * ta)[None, :, None], (len(g), len(t), 2))
     shape = (len(g), len(t), 2)
     rows = np.empty(shape + (len(COLUMNS),))
     rows[..., 0] = px + vx * off
@@ -127,8 +139,8 @@ def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]
     rows[..., 3] = math.sin(a)
     rows[..., 4] = width / 2.0
     rows[..., 5] = height / 2.0
-    rows[..., 6] = np.broadcast_to(px, shape)
-    rows[..., 7] = np.broadcast_to(py, shape)
+    rows[..., 6] = qx
+    rows[..., 7] = qy
     rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
     rows[..., 9] = s.z
     return rows.reshape(-1, len(COLUMNS))
@@ -178,6 +190,7 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
     accept: Callable[[int], bool] | None = None
     if leader_lines is not None:
         start = LEADER_START_H * text_height
+        graze = LEADER_GRAZE_H * text_height
 
         def accept(i: int) -> bool:
             sp = _spot(spots, i)
@@ -185,7 +198,7 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
                 return True
             near = _nearest_on_box(sp.box, sp.anchor)
             return index.leader_free(sp.anchor, near, shorten_a=start, lines=leader_lines,
-                                     from_symbol=leader_from_symbol)
+                                     from_symbol=leader_from_symbol, graze=graze)
 
     i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept)
     return None if i is None else _spot(spots, i)
@@ -278,7 +291,7 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     rings = ring_spots(_ring_points(tried, h), width, height, out)
     loose: Spot | None = None  # the first spot whose leader crosses a line of the drawing
     for spots in [*(stretch_spots(s, width, height, out) for s in tried), rings]:
-        spot, over_line = _pick_leader(index, spots, h)
+        spot, over_line = _pick_leader(index, spots, h, max_leader_h * h)
         if spot is not None:
             return record(index, spot, h, leader=True, how="leader")
         loose = loose or over_line
@@ -287,15 +300,19 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     return _last_resort(index, tried, rings, width, height, h)
 
 
-def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float) -> tuple[Spot | None, Spot | None]:
-    """The first spot clear of everything whose leader crosses nothing, and (when there is
-    none) the first whose leader crosses a line of the drawing but no text or mark."""
+def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float,
+                 longest: float) -> tuple[Spot | None, Spot | None]:
+    """The first spot clear of everything whose leader (at most ``longest``) crosses
+    nothing, and (when there is none) the first whose leader crosses a line of the drawing
+    but no text or mark."""
     loose: list[Spot] = []
     start = LEADER_START_H * h
 
     def accept(i: int) -> bool:
         sp = _spot(spots, i)
         near = _nearest_on_box(sp.box, sp.anchor)
+        if math.dist(sp.anchor, near) > longest:  # a box hanging over its stretch's end
+            return False
         if index.leader_free(sp.anchor, near, shorten_a=start, lines=True):
             return True
         if not loose and index.leader_free(sp.anchor, near, shorten_a=start, lines=False):

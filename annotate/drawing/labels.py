@@ -9,6 +9,7 @@ from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
 from cablewright.sizing.cable_text import cable_text, parallel_text, pe_text
+from cablewright.sizing.device import device_words
 
 from ..model import CircuitOutcome
 from ..rows import length_unit
@@ -17,6 +18,7 @@ from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
+from .mark_rounds import MarkRound
 from .revision_marks import draw_revision_mark, revision_room
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .style import FAIL_COLOR
@@ -37,7 +39,7 @@ def label_fields(outcome: CircuitOutcome, override: str = "") -> dict[str, str]:
     route = outcome.route
     length = getattr(route, "design_length_m", None) if route is not None else None
     rating = getattr(sizing, "device_rating_a", None)
-    kind = getattr(sizing, "device_kind", "") or ""
+    kind = device_words(getattr(sizing, "device_kind", "") or "")
     unit = length_unit(sizing.standard, override)
     return {  # cable and PE texts: cablewright.sizing.cable_text, as the schedules write them
         "circuit": outcome.circuit_id,
@@ -95,26 +97,16 @@ def route_stretches(
     pts = scaled(getattr(route, "points_m", ()) or (), k)
     if not stretches and len(pts) >= 2:
         return straight_stretches(pts, crowd=1, key="route")
-    if len(pts) >= 2:
-        # tails: a source tail is shared by every circuit from that source
-        if (getattr(route, "source_tail_m", 0.0) or 0.0) > 0.0:
-            stretches += straight_stretches(
-                pts[:2], crowd=max(1, from_count.get(outcome.from_tag, 1)), key="source-tail"
-            )
-        if (getattr(route, "load_tail_m", 0.0) or 0.0) > 0.0:
-            stretches += straight_stretches(
-                pts[-2:], crowd=max(1, to_count.get(outcome.to_tag, 1)), key="load-tail"
-            )
+    # a route with a drawn stretch keeps its label on the drawn lines (with a leader where
+    # need be): its straight tails to the equipment are no line the reader can see
+    return stretches
     return stretches
 
 
-def place_cable_labels(
-    w: EntityWriter,
-    index: LabelIndex,
-    marks: AnnotationInput,
-    progress: Callable[[int], None] | None = None,
-) -> tuple[int, int, list[str]]:
-    """One label per sized circuit along its route; (labels, overlapping, unlabelled)."""
+def _label_todo(marks: AnnotationInput, select: MarkRound | None
+                ) -> tuple[list[tuple[float, CircuitOutcome, list[Stretch]]], list[str]]:
+    """The sized circuits with their stretches, the shortest routes first (they have the
+    fewest spots to choose from), and those with no route geometry (named)."""
     k = float(marks.units_per_m)
     from_count: dict[str, int] = defaultdict(int)
     to_count: dict[str, int] = defaultdict(int)
@@ -122,8 +114,6 @@ def place_cable_labels(
         if o.route is not None:
             from_count[o.from_tag] += 1
             to_count[o.to_tag] += 1
-
-    labels = overlapping = 0
     unlabelled: list[str] = []
     cut_cache: dict[str, list[Stretch]] = {}
     todo = []
@@ -134,16 +124,38 @@ def place_cable_labels(
             o, marks.segments, marks.per_segment, k, from_count, to_count, cut_cache
         )
         if not stretches:
-            unlabelled.append(f"{o.circuit_id}: no route geometry to put a label on")
-            log.warning(
-                "circuit %s: sized but has no route geometry; no label on the drawing", o.circuit_id
-            )
+            if select is None or not select.early:
+                unlabelled.append(f"{o.circuit_id}: no route geometry to put a label on")
+            if select is None or select.reports:
+                log.warning("circuit %s: sized but has no route geometry; no label on the drawing",
+                            o.circuit_id)
             continue
         todo.append((sum(s.length for s in stretches), o, stretches))
-    # the shortest routes first: they have the fewest spots to choose from
     todo.sort(key=lambda item: item[0])
+    return todo, unlabelled
+
+
+def place_cable_labels(
+    w: EntityWriter,
+    index: LabelIndex,
+    marks: AnnotationInput,
+    progress: Callable[[int], None] | None = None,
+    select: MarkRound | None = None,
+) -> tuple[int, int, list[str]]:
+    """One label per sized circuit along its route; (labels, overlapping, unlabelled).
+
+    ``select`` (the repair rounds, :mod:`.mark_rounds`): the listed labels first, and
+    the labels that needed a last resort listed."""
+    todo, unlabelled = _label_todo(marks, select)
+    labels = overlapping = 0
+    sel = select
     for _, o, stretches in todo:
+        if sel is not None and not sel.wants("cable-label", o.circuit_id):
+            continue
+        before = sel.begin(index) if sel is not None else 0
         overlapping += _place_label(w, index, marks, o, stretches)
+        if sel is not None:
+            sel.done(index, "cable-label", o.circuit_id, before)
         labels += 1
         if progress is not None:
             progress(1)

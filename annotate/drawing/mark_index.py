@@ -301,10 +301,11 @@ class LabelIndex:
         return ok
 
     def leader_free(self, a: Sequence[float], b: Sequence[float], *, shorten_a: float,
-                    lines: bool = True, from_symbol: bool = False) -> bool:
+                    lines: bool = True, from_symbol: bool = False, graze: float = 0.0) -> bool:
         """True when a leader from ``a`` to ``b`` (its first ``shorten_a`` left out, where it
         leaves the route) crosses no text, symbol or mark of ours and, with ``lines``, none
-        of the drawing's lines; ``from_symbol`` lets it leave the symbol box holding ``a``."""
+        of the drawing's lines; ``from_symbol`` lets it leave the symbol box holding ``a``;
+        ``graze``: how far it may run into a text or symbol box of the drawing (its margin)."""
         thin = thin_box(a, b, shorten_a)
         if thin is None:
             return True
@@ -320,7 +321,7 @@ class LabelIndex:
             j = int(j)
             if from_symbol and self._fixed_polys[j].covers(start):
                 continue
-            if boxes_overlap(thin, self._fixed[j], self._eps):
+            if boxes_overlap(thin, self._fixed[j], max(self._eps, graze)):
                 return False
         return True
 

@@ -23,6 +23,7 @@ from .group_tags import place_group_tags
 from .inputs import AnnotationInput
 from .labels import place_cable_labels
 from .linework import drawing_linework
+from .mark_rounds import MarkRound, place_in_rounds
 from .obstacles import DrawingScan, extents, keep_clear_boxes
 from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
@@ -76,15 +77,17 @@ def _sketch(w: _RecordingWriter) -> Sketch:
 
 
 def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
-                 config: AnnotateConfig, progress: ProgressHook | None) -> tuple[Any, ...]:
+                 config: AnnotateConfig, progress: ProgressHook | None,
+                 select: MarkRound | None = None) -> tuple[Any, ...]:
     """Every mark but the schedule, the least free first: cable labels (strict rule), group
     tags (big blocks), segment ids (bound to their segment), fill notes, device and error
-    notes (free to go further out with their leader)."""
-    labels, _, unlabelled = place_cable_labels(w, index, marks, progress)
-    group_tags = place_group_tags(w, index, marks)[0] if config.group_tags else 0
-    segment_ids = place_segment_ids(w, index, marks) if config.segment_ids else 0
-    fill_notes = place_fill_marks(w, index, marks)
-    device_notes, error_notes, _ = place_equipment_notes(w, index, marks)
+    notes (free to go further out with their leader); ``select``: a repair round's marks
+    first, kind by kind (:mod:`.mark_rounds`)."""
+    labels, _, unlabelled = place_cable_labels(w, index, marks, progress, select)
+    group_tags = place_group_tags(w, index, marks, select)[0] if config.group_tags else 0
+    segment_ids = place_segment_ids(w, index, marks, select) if config.segment_ids else 0
+    fill_notes = place_fill_marks(w, index, marks, select)
+    device_notes, error_notes, _ = place_equipment_notes(w, index, marks, select)
     return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
 
 
@@ -130,17 +133,18 @@ def add_marks(
     w = _RecordingWriter(doc, config, h, route_layers)
     blocked = keep_clear_boxes(scan, config, h)
     routes = route_obstacles(scaled(s.points_m, k) for s in marks.segments.values())
-    index = LabelIndex(
-        cell=INDEX_CELL_H * h,
-        blocked=blocked,
-        # the drawing's own linework (walls, routes, symbol lines) as obstacles
-        lines=drawing_linework(doc, config.appid, h, chain(routes, lines))
-        if config.avoid_linework else None,
-    )
+    # the drawing's own linework (walls, routes, symbol lines) as obstacles, one tree
+    linework = drawing_linework(doc, config.appid, h, chain(routes, lines)) if config.avoid_linework else None
     log.debug("%s: %d text and symbol boxes kept clear", source, len(blocked))
 
-    labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = (
-        _place_marks(w, index, marks, config, progress))
+    def make_index() -> LabelIndex:
+        return LabelIndex(cell=INDEX_CELL_H * h, blocked=blocked, lines=linework)
+
+    def place_all(index: LabelIndex, select: MarkRound, first_round: bool) -> tuple[Any, ...]:
+        return _place_marks(w, index, marks, config, progress if first_round else None, select)
+
+    placed_marks, index = place_in_rounds(w, make_index, place_all)
+    labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = placed_marks
     stats = index.stats  # the last resorts are logged by the writer, naming its output
 
     # everything placed so far widens the extents the schedule sits beside

@@ -28,7 +28,7 @@ def _text_box(entity: Any, measure: Callable[[str], float]) -> Box | None:
 
     The width is the font's advance width of the plain text (``measure`` at
     height 1) times height and width factor; the box spans descender (0.2 h)
-    to cap height.  Mirrored text and extrusions are ignored (plan drawings).
+    to cap height, whatever the vertical alignment.  Mirrored text and extrusions are ignored (plan drawings).
     """
     text = entity.plain_text()
     if not text.strip():
@@ -56,7 +56,9 @@ def _text_box(entity: Any, measure: Callable[[str], float]) -> Box | None:
     if halign == 4:
         y0, y1 = -0.5 * h, 0.5 * h
     else:
-        y0, y1 = {0: (-0.2 * h, h), 1: (0.0, 1.2 * h), 2: (-0.5 * h, 0.5 * h), 3: (-h, 0.0)}.get(
+        # descender (0.2 h) to cap height in every alignment: DXF's middle and top
+        # place the cap height's middle or top at the point, the descender hangs below
+        y0, y1 = {0: (-0.2 * h, h), 1: (0.0, 1.2 * h), 2: (-0.7 * h, 0.5 * h), 3: (-1.2 * h, 0.0)}.get(
             valign, (-0.2 * h, h)
         )
     a = math.radians(rot)

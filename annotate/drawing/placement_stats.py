@@ -27,6 +27,9 @@ class PlacementStats:
         Last resort 3: not even that; placed beside the route, overlapping.
     longest_leader_h : float
         Longest leader drawn [text heights].
+    last_leader_h : float
+        The latest leader's length [text heights] (reset per mark by the repair rounds,
+        :mod:`.mark_rounds`).
     """
 
     beside: int = 0
@@ -35,12 +38,14 @@ class PlacementStats:
     beyond_reach: int = 0
     overlapping: int = 0
     longest_leader_h: float = 0.0
+    last_leader_h: float = 0.0
     kinds: dict[str, int] = field(default_factory=dict)
 
     def leader(self, length: float, text_height: float) -> None:
         """Record a leader of ``length`` [drawing units]."""
         if text_height > 0.0:
-            self.longest_leader_h = max(self.longest_leader_h, length / text_height)
+            self.last_leader_h = length / text_height
+            self.longest_leader_h = max(self.longest_leader_h, self.last_leader_h)
 
     @property
     def fallbacks(self) -> int:

@@ -16,6 +16,7 @@ from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .leaders import draw_leader
+from .mark_rounds import MarkRound
 from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .style import LABEL_MARGIN_H
@@ -50,15 +51,23 @@ def draw_revision_mark(w: EntityWriter, circuit_id: str, text_at: Sequence[float
            rotation=rotation_deg, height=mark.text_height)
 
 
-def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
-    """One note with a leader at each over-full segment's mid-point; the number written."""
+def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
+                     select: MarkRound | None = None) -> int:
+    """One note with a leader at each over-full segment's mid-point; the number written;
+    ``select`` as in :func:`.labels.place_cable_labels`."""
     k = float(marks.units_per_m)
     written = 0
+    sel = select
     for fill in marks.fill_marks:
+        if sel is not None and not sel.wants("fill-mark", fill.segment_id):
+            continue
         x, y, z = scaled([fill.at_m], k)[0]
         lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
         variants = note_variants(lines)
+        before = sel.begin(index) if sel is not None else 0
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
+        if sel is not None:
+            sel.done(index, "fill-mark", fill.segment_id, before)
         lines, place = variants[i], spot.place
         entities = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
         draw_leader(w, place, entities, Mark("fill", "fill-leader", fill.segment_id))

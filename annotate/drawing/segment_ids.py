@@ -16,6 +16,7 @@ from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
 from .mark_index import LabelIndex
+from .mark_rounds import MarkRound
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .text import clean
 
@@ -46,14 +47,23 @@ def _id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
     return out
 
 
-def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput) -> int:
-    """One id per segment with a plan length, on the group-tag layer; the number written."""
+def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
+                      select: MarkRound | None = None) -> int:
+    """One id per segment with a plan length, on the group-tag layer; the number written;
+    ``select`` as in :func:`.labels.place_cable_labels`."""
     written = 0
-    for seg_id, stretches in _id_stretches(marks):
+    todo = _id_stretches(marks)
+    sel = select
+    for seg_id, stretches in todo:
+        if sel is not None and not sel.wants("segment-id", seg_id):
+            continue
         text = clean(seg_id)
         bw, bh = w.line_box(text)
+        before = sel.begin(index) if sel is not None else 0
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, w.height,
                               ends_first=True)
+        if sel is not None:
+            sel.done(index, "segment-id", seg_id, before)
         place = spot.place
         entity = w.text(text, (place.x, place.y, place.z), Mark("group", "segment-id", seg_id),
                         rotation=place.rotation_deg)
