@@ -82,6 +82,8 @@ class Audit:
     labels: int = 0
     crossing_linework: list[str] = field(default_factory=list)
     overlapping_text: list[str] = field(default_factory=list)
+    #: every overlap as (our text, what it overlaps: another of ours, or "drawing text")
+    overlap_pairs: list[tuple[str, str]] = field(default_factory=list)
     labels_off_route: list[tuple[str, float]] = field(default_factory=list)
     leaders: list[tuple[str, float]] = field(default_factory=list)
     text_height: float = 0.0
@@ -156,11 +158,13 @@ def audit(path, routes: Mapping[str, object], *, segments: Mapping[str, object] 
             crossing = crossing or any(g.intersects(inner) for _, g in mark_lines)
         if crossing:
             out.crossing_linework.append(name)
-        hit = len(text_tree.query(inner, predicate="intersects")) > 0
-        hit = hit or any(j != i and polys[j].intersection(poly).area > touch * touch
-                         for j in ours_tree.query(inner, predicate="intersects"))
-        if hit:
+        pairs = [(name, "drawing text")] * int(len(text_tree.query(inner, predicate="intersects")) > 0)
+        pairs += [(name, f"{ours_text[j][0]} {ours_text[j][1]}")
+                  for j in ours_tree.query(inner, predicate="intersects")
+                  if j != i and polys[j].intersection(poly).area > touch * touch]
+        if pairs:
             out.overlapping_text.append(name)
+            out.overlap_pairs += pairs
         if kind == "cable-label":
             out.labels += 1
             if not _on_route(ref, poly, routes.get(ref), leaders, "label-leader", h, touch):

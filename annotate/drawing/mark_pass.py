@@ -54,7 +54,7 @@ class MarkCounts:
     unlabelled: tuple[str, ...]
     fill_marks: int
     segment_ids: int = 0
-    placement: Mapping[str, float] = field(default_factory=dict)
+    placement: Mapping[str, Any] = field(default_factory=dict)
     sketch: Sketch | None = field(default=None, repr=False, compare=False)
 
 

@@ -69,6 +69,8 @@ class MarkRound:
     def done(self, index: LabelIndex, kind: str, ref: str, before: int) -> None:
         """After one mark: list it when it needed a last resort or a long leader."""
         stats = index.stats
+        if stats.fallbacks > before:
+            stats.last_resort_marks.append(f"{kind} {ref}")
         if stats.fallbacks > before or stats.last_leader_h > LONG_LEADER_H:
             self.failed.append((kind, ref))
 

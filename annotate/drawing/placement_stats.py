@@ -30,6 +30,9 @@ class PlacementStats:
     last_leader_h : float
         The latest leader's length [text heights] (reset per mark by the repair rounds,
         :mod:`.mark_rounds`).
+    last_resort_marks : list of str
+        The marks placed by a last resort, as ``"kind ref"`` (``"fill-mark S5"``), so the
+        reader knows which to look at on the drawing.
     """
 
     beside: int = 0
@@ -39,6 +42,7 @@ class PlacementStats:
     overlapping: int = 0
     longest_leader_h: float = 0.0
     last_leader_h: float = 0.0
+    last_resort_marks: list[str] = field(default_factory=list)
     kinds: dict[str, int] = field(default_factory=dict)
 
     def leader(self, length: float, text_height: float) -> None:
@@ -52,8 +56,8 @@ class PlacementStats:
         """Marks placed by a last resort (crossing a line, beyond reach, overlapping)."""
         return self.crossing_linework + self.beyond_reach + self.overlapping
 
-    def as_dict(self) -> dict[str, float | int]:
-        """The counts as plain numbers (JSON)."""
+    def as_dict(self) -> dict[str, float | int | list[str]]:
+        """The counts as plain numbers, and the last-resort marks by name (JSON)."""
         return {
             "beside": self.beside,
             "with_leader": self.with_leader,
@@ -61,4 +65,5 @@ class PlacementStats:
             "fallback_beyond_reach": self.beyond_reach,
             "fallback_overlapping": self.overlapping,
             "longest_leader_h": round(self.longest_leader_h, 2),
+            "last_resort_marks": sorted(self.last_resort_marks),
         }

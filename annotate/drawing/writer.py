@@ -80,7 +80,7 @@ class AnnotationSummary:
     revision_marks: int = 0
     fill_marks: int = 0
     segment_ids: int = 0
-    placement: Mapping[str, float] = field(default_factory=dict)
+    placement: Mapping[str, Any] = field(default_factory=dict)
     sketch: Sketch | None = field(default=None, repr=False, compare=False)
     document: Any = field(default=None, repr=False, compare=False)
     appended: bool = False
@@ -180,6 +180,10 @@ def write_annotated_dxf(
     return _summary(dst, marks, counts, removed, doc)
 
 
+#: Last-resort marks named in the warning (the rest are in schedule.json).
+LAST_RESORTS_NAMED = 5
+
+
 def _summary(dst: Path, marks: AnnotationInput, counts: MarkCounts, removed: int,
              doc: Any, *, appended: bool = False) -> AnnotationSummary:
     """The summary of what either writer wrote, and its log lines."""
@@ -187,11 +191,14 @@ def _summary(dst: Path, marks: AnnotationInput, counts: MarkCounts, removed: int
     fallbacks = sum(int(stats.get(k, 0)) for k in
                     ("fallback_crossing_linework", "fallback_beyond_reach", "fallback_overlapping"))
     if fallbacks:
+        names = list(stats.get("last_resort_marks", ()))
+        shown = ", ".join(names[:LAST_RESORTS_NAMED]) + (", ..." if len(names) > LAST_RESORTS_NAMED else "")
         log.warning(
             "%s: %d marks found no spot clear of everything within reach: %d cross a line of "
-            "the drawing, %d sit further out, %d overlap another text (last resort)", dst.name,
-            fallbacks, stats["fallback_crossing_linework"], stats["fallback_beyond_reach"],
-            stats["fallback_overlapping"],
+            "the drawing, %d sit further out, %d overlap another text (last resort: %s; every "
+            "one in schedule.json drawing_marks.last_resort_marks; check them on the drawing)",
+            dst.name, fallbacks, stats["fallback_crossing_linework"],
+            stats["fallback_beyond_reach"], stats["fallback_overlapping"], shown,
         )
     log.info("%s: %d cable labels, %d group tags, %d device notes", dst, counts.labels,
              counts.group_tags, counts.device_notes)
