@@ -55,17 +55,16 @@ def _notes_at_equipment(
     kind = "device" if role == "device" else "error"
     k = float(marks.units_per_m)
     placed = overlaps = 0
-    sel = select
+    sel = select or MarkRound()
     for tag, lines in by_tag.items():
         eq = marks.equipment.get(tag)
-        if eq is None or (sel is not None and not sel.wants(f"{kind}-note", tag)):
+        if eq is None or not sel.wants(f"{kind}-note", tag):
             continue
         x, y, z = scaled([eq.position_m], k)[0]
         variants = note_variants(lines)
-        before = sel.begin(index) if sel is not None else 0
+        before = sel.begin(index)
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
-        if sel is not None:
-            sel.done(index, f"{kind}-note", tag, before)
+        sel.done(index, f"{kind}-note", tag, before)
         lines = variants[i]
         place = spot.place
         overlaps += place.overlaps

@@ -199,10 +199,10 @@ def place_group_tags(
     group_tags = overlapping = 0
     cables = segment_cables(marks.outcomes, per_segment)
     runs = group_runs(segments, per_segment, min_circuits=2)
-    sel = select
+    sel = select or MarkRound()
     for run in runs:
         ref = ",".join(run)
-        if sel is not None and not sel.wants("group-tag", ref):
+        if not sel.wants("group-tag", ref):
             continue
         by_count: dict[tuple[int, int], list[str]] = defaultdict(list)
         for seg_id in run:
@@ -231,11 +231,10 @@ def place_group_tags(
         if not stretches:
             continue
         bw, bh = w.block_box(lines)
-        before = sel.begin(index) if sel is not None else 0
+        before = sel.begin(index)
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
                               max_leader_h=GROUP_MAX_LEADER_H)
-        if sel is not None:
-            sel.done(index, "group-tag", ref, before)
+        sel.done(index, "group-tag", ref, before)
         place = spot.place
         overlapping += place.overlaps
         written = w.block(lines, place, Mark("group", "group-tag", ref))

@@ -148,14 +148,13 @@ def place_cable_labels(
     the labels that needed a last resort listed."""
     todo, unlabelled = _label_todo(marks, select)
     labels = overlapping = 0
-    sel = select
+    sel = select or MarkRound()
     for _, o, stretches in todo:
-        if sel is not None and not sel.wants("cable-label", o.circuit_id):
+        if not sel.wants("cable-label", o.circuit_id):
             continue
-        before = sel.begin(index) if sel is not None else 0
+        before = sel.begin(index)
         overlapping += _place_label(w, index, marks, o, stretches)
-        if sel is not None:
-            sel.done(index, "cable-label", o.circuit_id, before)
+        sel.done(index, "cable-label", o.circuit_id, before)
         labels += 1
         if progress is not None:
             progress(1)

@@ -57,17 +57,16 @@ def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
     ``select`` as in :func:`.labels.place_cable_labels`."""
     k = float(marks.units_per_m)
     written = 0
-    sel = select
+    sel = select or MarkRound()
     for fill in marks.fill_marks:
-        if sel is not None and not sel.wants("fill-mark", fill.segment_id):
+        if not sel.wants("fill-mark", fill.segment_id):
             continue
         x, y, z = scaled([fill.at_m], k)[0]
         lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
         variants = note_variants(lines)
-        before = sel.begin(index) if sel is not None else 0
+        before = sel.begin(index)
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
-        if sel is not None:
-            sel.done(index, "fill-mark", fill.segment_id, before)
+        sel.done(index, "fill-mark", fill.segment_id, before)
         lines, place = variants[i], spot.place
         entities = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
         draw_leader(w, place, entities, Mark("fill", "fill-leader", fill.segment_id))

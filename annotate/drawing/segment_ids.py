@@ -53,17 +53,16 @@ def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput
     ``select`` as in :func:`.labels.place_cable_labels`."""
     written = 0
     todo = _id_stretches(marks)
-    sel = select
+    sel = select or MarkRound()
     for seg_id, stretches in todo:
-        if sel is not None and not sel.wants("segment-id", seg_id):
+        if not sel.wants("segment-id", seg_id):
             continue
         text = clean(seg_id)
         bw, bh = w.line_box(text)
-        before = sel.begin(index) if sel is not None else 0
+        before = sel.begin(index)
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, w.height,
                               ends_first=True)
-        if sel is not None:
-            sel.done(index, "segment-id", seg_id, before)
+        sel.done(index, "segment-id", seg_id, before)
         place = spot.place
         entity = w.text(text, (place.x, place.y, place.z), Mark("group", "segment-id", seg_id),
                         rotation=place.rotation_deg)
