@@ -24,13 +24,16 @@ APPID = "CABLEWRIGHT"
 TEXT_TYPES = {"TEXT", "MTEXT", "ATTRIB"}
 #: an overlap or crossing shorter or smaller than this share of a text height is a touch
 TOUCH_H = 0.02
+#: kinds placed as part of another mark's block, named as that mark (a group tag's fill
+#: lines are written under it on the fill layer, one placed box: annotate/drawing/group_fill.py)
+PLACED_WITH = {"group-fill": "group-tag"}
 
 
 def _ours(entity) -> tuple[str, str] | None:
     if not entity.has_xdata(APPID):
         return None
     tags = [v for _, v in entity.get_xdata(APPID)]
-    return (tags[0], tags[1] if len(tags) > 1 else "")
+    return (PLACED_WITH.get(tags[0], tags[0]), tags[1] if len(tags) > 1 else "")
 
 
 def _mtext_polygon(entity):

@@ -110,3 +110,23 @@ def test_a_drawing_text_box_spans_descender_to_cap_height_in_every_alignment(val
     # stand-in font), so both edges agree to a tenth of the height
     assert ours.ymin == pytest.approx(theirs.extmin.y, abs=0.1 * 600.0)
     assert ours.ymax == pytest.approx(theirs.extmax.y, abs=0.1 * 600.0)
+
+
+def test_fill_lines_go_under_their_tag_until_a_round_writes_the_tag_apart():
+    """A shared run's over-full segment is written under the run's group tag; once that tag
+    needed a last resort (listed for the next round) its fill gets a note of its own."""
+    from types import SimpleNamespace as NS
+
+    from cablewright.annotate.drawing.group_tags import fills_under_tags
+
+    segments = {"S1": NS(points_m=((0.0, 0.0, 0.0), (5.0, 0.0, 0.0))),
+                "S2": NS(points_m=((5.0, 0.0, 0.0), (9.0, 0.0, 0.0))),
+                "S3": NS(points_m=((9.0, 5.0, 0.0), (9.0, 9.0, 0.0)))}
+    marks = NS(segments=segments, per_segment={"S1": ("A", "B"), "S2": ("A", "B"), "S3": ("A",)},
+               units_per_m=1000.0,
+               fill_marks=(NS(segment_id="S2", text="TRAY FILL 106 %", result="fail"),
+                           NS(segment_id="S3", text="TRAY FILL 90 %", result="warning")))
+    assert fills_under_tags(marks, True, MarkRound()) == {"S2"}  # S3 carries one circuit: no tag
+    assert fills_under_tags(marks, False, MarkRound()) == frozenset()
+    listed = MarkRound(first=frozenset({("group-tag", "S1,S2")}), early=False)
+    assert fills_under_tags(marks, True, listed) == frozenset()

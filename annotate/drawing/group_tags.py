@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import dataclasses
+import math
 from collections import defaultdict
 from collections.abc import Mapping, Sequence
 from typing import Any
@@ -9,10 +11,12 @@ from typing import Any
 from ..model import CircuitOutcome
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
+from .group_fill import fill_lines, fill_segment_ids, fills_by_run
 from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
 from .mark_rounds import MarkRound
+from .placement import Placement
 from .stretches import rank_stretches, scaled, straight_stretches
 from .text import clean
 
@@ -21,7 +25,8 @@ from .text import clean
 #: still near enough to read as the run's (our own choice).
 GROUP_MAX_LEADER_H = 10.0
 
-__all__ = ["GROUP_MAX_LEADER_H", "group_runs", "group_tag_lines", "segment_cables", "place_group_tags"]
+__all__ = ["GROUP_MAX_LEADER_H", "group_runs", "group_tag_lines", "segment_cables", "tagged_runs",
+           "fills_under_tags", "place_group_tags"]
 
 
 def group_runs(
@@ -188,17 +193,67 @@ def segment_cables(
     return cables
 
 
+def _run_stretches(run: Sequence[str], marks: AnnotationInput) -> list[Any]:
+    """The straight stretches of a run's segments, in drawing units."""
+    k = float(marks.units_per_m)
+    return [
+        st
+        for seg_id in run
+        for st in straight_stretches(
+            scaled(marks.segments[seg_id].points_m, k),
+            crowd=len(marks.per_segment[seg_id]),
+            key=seg_id,
+        )
+    ]
+
+
+def tagged_runs(marks: AnnotationInput) -> list[tuple[str, ...]]:
+    """The runs that get a group tag: shared (:func:`group_runs`) and with a stretch to sit by."""
+    runs = group_runs(marks.segments, marks.per_segment, min_circuits=2)
+    return [tuple(run) for run in runs if _run_stretches(run, marks)]
+
+
+def fills_under_tags(marks: AnnotationInput, group_tags: bool, select: MarkRound) -> frozenset[str]:
+    """Segments whose fill line goes under their run's group tag: none without group tags,
+    none under a tag a repair round writes apart (:meth:`.mark_rounds.MarkRound.split`)."""
+    if not group_tags or not marks.fill_marks:
+        return frozenset()
+    runs = [run for run in tagged_runs(marks) if not select.split("group-tag", ",".join(run))]
+    return fill_segment_ids(fills_by_run(runs, marks.fill_marks))
+
+
+def _write_tag(w: EntityWriter, lines: Sequence[str], fills: Sequence[str], place: Placement,
+               ref: str) -> list[Any]:
+    """The tag's lines on the group layer and its fill lines under them on the fill layer,
+    stacked in the one placed box (the fill block one line pitch below the tag's)."""
+    if not fills:
+        return w.block(lines, place, Mark("group", "group-tag", ref))
+    pitch = w.block_box(["X", "X"])[1] - w.block_box(["X"])[1]
+    a = math.radians(place.rotation_deg)
+    ux, uy = -math.sin(a), math.cos(a)  # the text's up direction
+
+    def part(shift: float, n: int) -> Placement:
+        return dataclasses.replace(place, x=place.x + ux * shift, y=place.y + uy * shift,
+                                   height=place.height - (len(lines) + len(fills) - n) * pitch)
+
+    top = part(len(fills) * pitch / 2.0, len(lines))
+    bottom = part(-len(lines) * pitch / 2.0, len(fills))
+    return (w.block(lines, top, Mark("group", "group-tag", ref))
+            + w.block(fills, bottom, Mark("fill", "group-fill", ref)))
+
+
 def place_group_tags(
     w: EntityWriter, index: LabelIndex, marks: AnnotationInput, select: MarkRound | None = None
-) -> tuple[int, int]:
-    """One tag per run of shared segments (see :func:`group_runs`); (tags, overlapping);
-    ``select`` as in :func:`.labels.place_cable_labels`."""
-    k = float(marks.units_per_m)
-    segments, per_segment = marks.segments, marks.per_segment
+) -> tuple[int, int, int]:
+    """One tag per run of shared segments (see :func:`group_runs`), the fill of its over-full
+    segments under it (:mod:`.group_fill`); (tags, overlapping, segments whose fill was
+    written under a tag); ``select`` as in :func:`.labels.place_cable_labels`."""
+    per_segment = marks.per_segment
     h = w.height
-    group_tags = overlapping = 0
+    group_tags = overlapping = fills_written = 0
     cables = segment_cables(marks.outcomes, per_segment)
-    runs = group_runs(segments, per_segment, min_circuits=2)
+    runs = tagged_runs(marks)
+    fills = fills_by_run(runs, marks.fill_marks)
     sel = select or MarkRound()
     for run in runs:
         ref = ",".join(run)
@@ -219,26 +274,18 @@ def place_group_tags(
             max_ids=w.config.group_tag_max_ids,
             counts=counts,
         )
-        stretches = [
-            st
-            for seg_id in run
-            for st in straight_stretches(
-                scaled(segments[seg_id].points_m, k),
-                crowd=len(per_segment[seg_id]),
-                key=seg_id,
-            )
-        ]
-        if not stretches:
-            continue
-        bw, bh = w.block_box(lines)
+        mine = () if sel.split("group-tag", ref) else fills.get(run, ())
+        under = fill_lines(mine, ids_per_line=w.config.ids_per_line)
+        bw, bh = w.block_box(lines + under)
         before = sel.begin(index)
-        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
+        spot = place_on_route(index, rank_stretches(_run_stretches(run, marks), bw), bw, bh, h,
                               max_leader_h=GROUP_MAX_LEADER_H)
         sel.done(index, "group-tag", ref, before)
         place = spot.place
         overlapping += place.overlaps
-        written = w.block(lines, place, Mark("group", "group-tag", ref))
+        written = _write_tag(w, lines, under, place, ref)
         if spot.leader is not None:
             draw_leader(w, place, written, Mark("group", "group-leader", run[0]))
         group_tags += 1
-    return group_tags, overlapping
+        fills_written += len(mine)
+    return group_tags, overlapping, fills_written

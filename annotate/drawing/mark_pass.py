@@ -84,9 +84,10 @@ def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
     notes (free to go further out with their leader); ``select``: a repair round's marks
     first, kind by kind (:mod:`.mark_rounds`)."""
     labels, _, unlabelled = place_cable_labels(w, index, marks, progress, select)
-    group_tags = place_group_tags(w, index, marks, select)[0] if config.group_tags else 0
+    group_tags, _, fills_under_tags = (place_group_tags(w, index, marks, select)
+                                       if config.group_tags else (0, 0, 0))
     segment_ids = place_segment_ids(w, index, marks, select) if config.segment_ids else 0
-    fill_notes = place_fill_marks(w, index, marks, select)
+    fill_notes = place_fill_marks(w, index, marks, select) + fills_under_tags
     device_notes, error_notes, _ = place_equipment_notes(w, index, marks, select)
     return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
 

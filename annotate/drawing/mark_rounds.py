@@ -6,7 +6,9 @@ had other places to go (issue 12: the switchroom tray's ids under a feeder's lab
 After a round, every mark placed by a last resort (crossing a line, beyond reach,
 overlapping) or with a leader longer than :data:`LONG_LEADER_H` is put on a list; a new
 round on a fresh index places the listed marks first, each kind in the usual order, then
-every other mark as before.  The round with the fewest such marks is kept (the earlier
+every other mark as before; a group tag listed so is written without the fill lines it
+carried (:mod:`.group_fill`), which get notes of their own.  The round with the fewest
+cable labels left to a last resort, then the fewest such marks, is kept (the earlier
 one on a tie) and the other round's entities are deleted, so a round never makes the
 drawing worse.  Our own rule (no standard covers where a drawing's notes go).
 """
@@ -36,6 +38,10 @@ REPAIR_ROUNDS = 4
 REPAIR_MAX_MARKS = 40
 REPAIR_MAX_PLACED = 1000
 
+#: The marks under the strict rule (issue 12): a round that leaves one of them to a last
+#: resort is never kept over one that does not.
+LABEL_KIND = "cable-label"
+
 MarkKey = tuple[str, str]  # (kind, ref), as the marks' XDATA: ("segment-id", "S29")
 
 
@@ -61,6 +67,11 @@ class MarkRound:
         """True when the mark ``(kind, ref)`` is placed by this call."""
         return ((kind, ref) in self.first) == self.early
 
+    def split(self, kind: str, ref: str) -> bool:
+        """True when a mark that carries others' lines (a group tag and its fill lines) needed
+        a last resort in an earlier round: this round writes those lines apart."""
+        return (kind, ref) in self.first
+
     def begin(self, index: LabelIndex) -> int:
         """Before one mark: the count of last resorts so far (for :meth:`done`)."""
         index.stats.last_leader_h = 0.0
@@ -77,7 +88,7 @@ class MarkRound:
 
 @dataclass
 class _Round:
-    score: tuple[int, int]
+    score: tuple[int, int, int]
     result: Any
     index: LabelIndex
     added: list[Any]
@@ -104,8 +115,7 @@ def place_in_rounds(w: Any, make_index: Callable[[], LabelIndex], place_all: Pla
             select = MarkRound(first, early, failed, n)
             part = place_all(index, select, n == 0)
             result = part if result is None else tuple(a + b for a, b in zip(result, part, strict=True))
-        fallbacks = index.stats.fallbacks
-        this = _Round((fallbacks, len(failed) - fallbacks), result, index, w.added)
+        this = _Round(_score(index, failed), result, index, w.added)
         if best is None or this.score < best.score:
             if best is not None:
                 _delete(w, best.added)
@@ -120,6 +130,14 @@ def place_in_rounds(w: Any, make_index: Callable[[], LabelIndex], place_all: Pla
     assert best is not None
     w.added = best.added
     return best.result, best.index
+
+
+def _score(index: LabelIndex, failed: Sequence[MarkKey]) -> tuple[int, int, int]:
+    """A round's score, lower is better: cable labels left to a last resort (the strict rule
+    of issue 12 comes first), then all last resorts, then long leaders."""
+    stats = index.stats
+    labels = sum(1 for name in stats.last_resort_marks if name.startswith(LABEL_KIND + " "))
+    return (labels, stats.fallbacks, len(failed) - stats.fallbacks)
 
 
 def _delete(w: Any, entities: Sequence[Any]) -> None:
