@@ -109,7 +109,7 @@ class RowCells:
             if quote:
                 proto.quotePrefix = True
             # the cell's style array, as openpyxl's own WorksheetCopy copies styles
-            style = self._styles[key] = proto._style
+            style = self._styles[key] = proto._style  # type: ignore[attr-defined]
         return style
 
     def cells(self, values: Sequence[Any], status: str | None, every_cell: bool = False) -> list[Any]:
