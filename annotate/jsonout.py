@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import json
 from collections.abc import Iterable, Mapping
-from dataclasses import asdict
+from dataclasses import fields
 from typing import Any
 
 from .model import CircuitOutcome
@@ -46,11 +46,27 @@ def _grouping_dict(row: ScheduleRow) -> dict[str, Any] | None:
     }
 
 
+#: Field names per dataclass type, in declaration order (looked up once per type).
+_FIELD_NAMES: dict[type, tuple[str, ...]] = {}
+
+
+def _fields_dict(obj: Any) -> dict[str, Any]:
+    """A dataclass of plain values as a dict, as ``dataclasses.asdict`` gives it.
+
+    ``asdict`` copies every value recursively (``copy.deepcopy`` for a leaf); a
+    cable selection holds only numbers and texts, which need no copy.
+    """
+    names = _FIELD_NAMES.get(type(obj))
+    if names is None:
+        names = _FIELD_NAMES[type(obj)] = tuple(f.name for f in fields(obj))
+    return {name: getattr(obj, name) for name in names}
+
+
 def _cable_dict(row: ScheduleRow) -> dict[str, Any] | None:
     cells = row.cable
     if cells is None:
         return None
-    cable = asdict(cells.selection)
+    cable = _fields_dict(cells.selection)
     cable["csa_mm2"] = cells.csa_mm2
     cable["size_label"] = cells.selection.label  # contract.md Extensions: "95 mm²", "6 AWG"
     cable["capacity_a"] = cells.capacity_a

@@ -16,6 +16,7 @@ from __future__ import annotations
 import base64
 import html
 import os
+import re
 from collections import Counter
 from collections.abc import Iterable, Sequence
 from pathlib import Path
@@ -62,8 +63,20 @@ table.trace{width:100%}table.trace caption{text-align:left;font-weight:600;paddi
 """
 
 
+#: Finds a character ``html.escape`` would replace (``& < > " '``); most texts have none.
+_NEEDS_ESCAPE = re.compile("[&<>\"']").search
+
+
 def _e(value: Any) -> str:
-    return html.escape("" if value is None else str(value), quote=True)
+    """``value`` as HTML text: ``html.escape(str(value), quote=True)``, "" for ``None``.
+
+    A text with nothing to replace is returned as it is (what ``html.escape``
+    returns for it), without its five replacements.
+    """
+    if value is None:
+        return ""
+    text = value if type(value) is str else str(value)
+    return html.escape(text, quote=True) if _NEEDS_ESCAPE(text) else text
 
 
 def _num(value: float | None, digits: int = 2, unit: str = "") -> str:
@@ -102,15 +115,17 @@ def _trace_table(t: TraceTable) -> str:
     out = [f"<table class='trace'><caption>{_e(t.caption)}</caption><thead><tr>"]
     out += [f"<th>{_e(h)}</th>" for h in t.headers]
     out.append("</tr></thead><tbody>")
+    results = t.results
     for i, row in enumerate(t.rows):
-        result = t.results[i] if i < len(t.results) else ""
-        out.append(f"<tr class='{_e(result)}'>" if result else "<tr>")
-        for j, cell in enumerate(row):
-            if result and j == 1:
-                out.append(f"<td><span class='res {_e(result)}'>{_e(cell)}</span></td>")
-            else:
-                out.append(f"<td>{_e(cell)}</td>")
-        out.append("</tr>")
+        result = results[i] if i < len(results) else ""
+        cells = [f"<td>{_e(cell)}</td>" for cell in row]
+        if result:
+            res = _e(result)
+            if len(cells) > 1:  # the result word marked by its outcome
+                cells[1] = f"<td><span class='res {res}'>{_e(row[1])}</span></td>"
+            out.append(f"<tr class='{res}'>" + "".join(cells) + "</tr>")
+        else:
+            out.append("<tr>" + "".join(cells) + "</tr>")
     out.append("</tbody></table>")
     return "".join(out)
 

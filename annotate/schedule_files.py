@@ -41,7 +41,7 @@ from .jsonout import dumps
 from .model import CircuitOutcome
 from .rows import METRE, LengthUnit, ScheduleRow, rows
 from .rows import length_unit as length_unit_of
-from .xlsx_style import setup_print, styled_row
+from .xlsx_style import RowCells, setup_print
 
 __all__ = [
     "COLUMNS",
@@ -115,10 +115,18 @@ HEADERS: tuple[str, ...] = tuple(name for name, _ in COLUMNS)
 def schedule_table(outcomes: Iterable[CircuitOutcome], unit: LengthUnit | None = None,
                    length_unit: str = "") -> tuple[tuple[str, ...], list[dict[str, Any]]]:
     """The headers and one dict per circuit keyed by them (see :func:`schedule_rows`)."""
+    headers, values = _value_rows(outcomes, unit, length_unit)
+    return headers, [dict(zip(headers, row, strict=True)) for row in values]
+
+
+def _value_rows(outcomes: Iterable[CircuitOutcome], unit: LengthUnit | None = None,
+                length_unit: str = "") -> tuple[tuple[str, ...], list[list[Any]]]:
+    """The headers and one list of cell values per circuit, in the headers' order."""
     table = rows(outcomes, unit, length_unit)
     cols = columns(table[0].unit if table else (unit or length_unit_of("iec", length_unit)))
     headers = tuple(name for name, _ in cols)
-    return headers, [{name: cell(row) for name, cell in cols} for row in table]
+    cells = [cell for _, cell in cols]
+    return headers, [[cell(row) for cell in cells] for row in table]
 
 
 def schedule_rows(outcomes: Iterable[CircuitOutcome], unit: LengthUnit | None = None,
@@ -203,10 +211,10 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     # cell objects kept); sheet settings go in before the first row
     wb = Workbook(write_only=True)
     ws = wb.create_sheet("schedule")
-    headers, rows = schedule_table(outcomes, unit)
-    for i, header in enumerate(headers, start=1):
-        longest = max([len(header)] + [len(_csv_cell(r[header])) for r in rows])
-        ws.column_dimensions[get_column_letter(i)].width = min(60, max(8, longest + 2))
+    headers, rows = _value_rows(outcomes, unit)
+    for i, header in enumerate(headers):
+        longest = max([len(header)] + [len(_csv_cell(r[i])) for r in rows])
+        ws.column_dimensions[get_column_letter(i + 1)].width = min(60, max(8, longest + 2))
     ws.freeze_panes = "B2"
     setup_print(ws)  # landscape, fit to width, header row repeated (annotate/xlsx_style.py)
     ws.auto_filter.ref = f"A1:{get_column_letter(len(headers))}{len(rows) + 1}"
@@ -219,31 +227,25 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
         cell.alignment = middle
         head.append(cell)
     ws.append(head)
-    for row in rows:  # unit number formats, failed rows filled (annotate/xlsx_style.py)
-        ws.append(_text_safe(styled_row(ws, headers, [row[h] for h in headers], row["status"])))
+    # unit number formats, failed rows filled, formula-like text kept as text
+    # (annotate/xlsx_style.py RowCells: each style built once, plain values where none is needed)
+    row_cells = RowCells(ws, headers, as_text=is_formula_like)
+    status = headers.index("status")
+    for row in rows:
+        ws.append(row_cells.cells(row, row[status]))
     for title, sheet_headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
         setup_print(extra)
-        extra.append([WriteOnlyCell(extra, value=h) for h in sheet_headers])
+        extra.append(list(sheet_headers))  # plain values: written as unstyled cells
         for sheet_row in sheet_rows:
             extra.append([_xlsx_cell(extra, v) for v in sheet_row])
     try:
         with atomic_path(path) as tmp:
-            wb.save(tmp)
-            tmp.write_bytes(_reproducible_zip(tmp.read_bytes()))
+            tmp.write_bytes(_reproducible_zip(_saved_uncompressed(wb)))
     finally:
         if not ws.closed:  # saving failed early: end the sheet's row stream and temp file
             ws.close()
     return Path(path)
-
-
-def _text_safe(cells: list[Any]) -> list[Any]:
-    """Styled cells whose formula-like text is stored as text (see :func:`_xlsx_cell`)."""
-    for cell in cells:
-        if isinstance(cell.value, str) and is_formula_like(cell.value):
-            cell.data_type = "s"
-            cell.quotePrefix = True
-    return cells
 
 
 def _xlsx_cell(ws: Any, value: Any) -> Any:
@@ -261,6 +263,22 @@ def _xlsx_cell(ws: Any, value: Any) -> Any:
     cell.data_type = "s"
     cell.quotePrefix = True
     return cell
+
+
+def _saved_uncompressed(wb: Any) -> bytes:
+    """The workbook as openpyxl saves it, its zip entries stored, not deflated.
+
+    :func:`_reproducible_zip` rewrites every entry anyway (fixed dates) and
+    deflates it then; openpyxl's own ``Workbook.save`` would deflate each entry a
+    first time for nothing.  Same parts, same XML as ``Workbook.save`` writes
+    (its ``ExcelWriter``); the save time it stamps is dropped either way.
+    """
+    from openpyxl.writer.excel import ExcelWriter
+
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w", zipfile.ZIP_STORED, allowZip64=True) as archive:
+        ExcelWriter(wb, archive).save()
+    return buf.getvalue()
 
 
 #: Date of every entry of the XLSX zip: the earliest a zip can hold (APPNOTE 4.4.6),

@@ -20,10 +20,10 @@ References
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
-__all__ = ["number_format", "STATUS_FILLS", "styled_row", "setup_print"]
+__all__ = ["number_format", "STATUS_FILLS", "styled_row", "RowCells", "setup_print"]
 
 #: Number format per unit in a column header "[...]" (ECMA-376 numFmt codes).
 UNIT_FORMATS = {
@@ -53,22 +53,85 @@ def number_format(header: str) -> str | None:
 
 
 def styled_row(ws: Any, headers: Sequence[str], values: Sequence[Any], status: str | None) -> list[Any]:
-    """One row as write-only cells: unit formats on numbers, the row filled by its status."""
-    from openpyxl.cell import WriteOnlyCell
-    from openpyxl.styles import PatternFill
+    """One row as write-only cells: unit formats on numbers, the row filled by its status.
 
-    colour = STATUS_FILLS.get(status or "")
-    fill = PatternFill("solid", start_color=colour, end_color=colour) if colour else None
-    cells = []
-    for header, value in zip(headers, values, strict=True):
-        cell = WriteOnlyCell(ws, value=value)
-        fmt = number_format(header)
-        if fmt and isinstance(value, (int, float)) and not isinstance(value, bool):
-            cell.number_format = fmt
-        if fill is not None:
-            cell.fill = fill
-        cells.append(cell)
-    return cells
+    Every cell is a styled cell object; the schedule writer uses :class:`RowCells`,
+    which gives the same cells, style by style, built once per sheet.
+    """
+    return RowCells(ws, headers).cells(values, status, every_cell=True)
+
+
+#: The style of one cell: (number format or ``None``, fill colour or ``None``, quote prefix).
+StyleKey = tuple[str | None, str | None, bool]
+
+
+class RowCells:
+    """The rows of one write-only sheet as openpyxl takes them, each distinct style built once.
+
+    A cell that needs no style (a blank or text of a row not filled, a number of a
+    column with no unit format) is handed over as its plain value, which write-only
+    mode writes exactly as an unstyled cell [2]_; every other cell is made with the
+    style array of a prototype cell, one per (number format, fill, quote prefix),
+    instead of setting its format and fill one by one (each of those looks the
+    style up in the workbook's lists).  The prototypes are made when a cell first
+    needs them, format before fill as one cell was styled, so the workbook's number
+    formats, fills and cell styles are numbered as before.
+
+    Parameters
+    ----------
+    ws : openpyxl write-only worksheet
+    headers : sequence of str
+        Column headers (:func:`number_format` reads their units).
+    as_text : callable, optional
+        True for a text that must be stored as text with a quote prefix (text that
+        would read as a formula, :func:`.schedule_files.is_formula_like`).
+    """
+
+    def __init__(self, ws: Any, headers: Sequence[str], as_text: Callable[[str], bool] | None = None) -> None:
+        self._ws = ws
+        self._formats = tuple(number_format(h) for h in headers)
+        self._as_text = as_text
+        self._styles: dict[StyleKey, Any] = {}
+
+    def _style(self, key: StyleKey) -> Any:
+        """The style array of ``key``, its prototype made on first use."""
+        style = self._styles.get(key)
+        if style is None:
+            from openpyxl.cell import WriteOnlyCell
+            from openpyxl.styles import PatternFill
+
+            fmt, colour, quote = key
+            proto = WriteOnlyCell(self._ws)
+            if fmt is not None:
+                proto.number_format = fmt
+            if colour is not None:
+                proto.fill = PatternFill("solid", start_color=colour, end_color=colour)
+            if quote:
+                proto.quotePrefix = True
+            # the cell's style array, as openpyxl's own WorksheetCopy copies styles
+            style = self._styles[key] = proto._style  # type: ignore[attr-defined]
+        return style
+
+    def cells(self, values: Sequence[Any], status: str | None, every_cell: bool = False) -> list[Any]:
+        """One row: plain values where no style is needed (``every_cell``: cells throughout)."""
+        from openpyxl.cell import Cell
+
+        colour = STATUS_FILLS.get(status or "")
+        as_text = self._as_text
+        out: list[Any] = []
+        for fmt, value in zip(self._formats, values, strict=True):
+            if fmt is not None and (isinstance(value, bool) or not isinstance(value, (int, float))):
+                fmt = None
+            quote = as_text is not None and isinstance(value, str) and as_text(value)
+            if fmt is None and colour is None and not quote and not every_cell:
+                out.append(value)
+                continue
+            style = self._style((fmt, colour, quote)) if fmt or colour or quote else None
+            cell = Cell(self._ws, row=1, column=1, value=value, style_array=style)
+            if quote:
+                cell.data_type = "s"  # a string cell, not a formula (ECMA-376 18.8.45 quotePrefix)
+            out.append(cell)
+        return out
 
 
 def setup_print(ws: Any) -> None:

@@ -112,14 +112,15 @@ def test_xlsx_layout(tmp_path):
 
 
 def test_schedule_write_is_atomic(tmp_path, monkeypatch):
-    import openpyxl.workbook.workbook as wbmod
+    import openpyxl.writer.excel as excel
 
-    def broken(self, filename):
-        with open(filename, "wb") as fh:
-            fh.write(b"PK\x03\x04 half")
+    # openpyxl's ExcelWriter writes the parts (Workbook.save and our uncompressed save both
+    # go through it): half a workbook written, then the disk is full
+    def broken(self):
+        self._archive.writestr("[Content_Types].xml", b"half")
         raise OSError("disk full")
 
-    monkeypatch.setattr(wbmod.Workbook, "save", broken)
+    monkeypatch.setattr(excel.ExcelWriter, "write_data", broken)
     with pytest.raises(OSError):
         write_schedule_xlsx(tmp_path / "s.xlsx", outcomes())
     assert list(tmp_path.iterdir()) == []
