@@ -1,0 +1,200 @@
+"""report.pdf's table cells, text lines and page numbers written straight into the page.
+
+fpdf2's ``FPDF.text``, ``rect`` and ``cell`` each check and coerce their arguments,
+encode the text character by character and append one line to the page; a
+2,000-circuit report calls them a third of a million times.  :class:`Ink` writes
+the same content-stream lines fpdf2 writes for our few cases (a left-aligned
+line of text, a rectangle, a colour change) from cached strings, and hands a
+whole table row to the page in one append.  fpdf2's own state (colours, font,
+"font set on this page") is kept as fpdf2 keeps it, so what fpdf2 draws after
+(headers, page breaks) is unchanged; the pages' content is byte for byte what
+fpdf2's calls give (``benchmarks/bench_report_pdf.py`` compares the text of
+every page read back).
+
+References
+----------
+.. [1] fpdf2 2.8 ``FPDF.text``, ``FPDF.rect``, ``FPDF._render_styled_text_line``
+   (the strings written), ``TTFFont.encode_text`` (a character's code in the subset).
+.. [2] ISO 32000-1:2008, 8.4.2 (``q``/``Q``), 9.4 (``BT``, ``Td``, ``Tj``), 8.5.2 (``re``).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+__all__ = ["Ink", "number_pages"]
+
+
+class _Codes(dict):
+    """A font's escaped two-byte code of each character (``str.translate`` table).
+
+    A character not seen yet is encoded by the font itself (which adds its glyph
+    to the subset, as drawing it with fpdf2 would).
+    """
+
+    def __init__(self, font) -> None:
+        super().__init__()
+        self.font = font
+
+    def __missing__(self, code: int) -> str:
+        got = self[code] = self.font.encode_text(chr(code))[1:-len(") Tj")]
+        return got
+
+
+class Ink:
+    """Text lines, rectangles and colours of one document, collected and written per row.
+
+    Call :meth:`flush` before any fpdf2 call that writes to the page (``add_page``,
+    ``cell``, ``line``): the collected lines must come first.
+    """
+
+    def __init__(self, pdf) -> None:
+        from fpdf.drawing_primitives import convert_to_device_color
+
+        self.pdf = pdf
+        self._convert = convert_to_device_color
+        self._colors: dict[tuple[int, int, int], tuple[object, str, str]] = {}
+        self._codes: dict[int, _Codes] = {}
+        self._text_ops: dict[object, str] = {}
+        self._out: list[str] = []
+
+    def _color(self, rgb: tuple[int, int, int]) -> tuple[object, str, str]:
+        got = self._colors.get(rgb)
+        if got is None:
+            device = self._convert(*rgb)
+            got = self._colors[rgb] = (device, device.serialize().upper(), device.serialize().lower())
+        return got
+
+    def draw_color(self, rgb: tuple[int, int, int]) -> None:
+        """``FPDF.set_draw_color``: the stroke colour, written when it changes."""
+        device, stroke, _ = self._color(rgb)
+        if device != self.pdf.draw_color:
+            self.pdf.draw_color = device
+            self._out.append(stroke)
+
+    def fill_color(self, rgb: tuple[int, int, int]) -> None:
+        """``FPDF.set_fill_color``: the fill colour, written when it changes."""
+        device, _, fill = self._color(rgb)
+        if device != self.pdf.fill_color:
+            self.pdf.fill_color = device
+            self._out.append(fill)
+
+    def text_color(self, rgb: tuple[int, int, int]) -> None:
+        """``FPDF.set_text_color`` (written with each text, as fpdf2 does)."""
+        self.pdf.text_color = self._color(rgb)[0]
+
+    def font(self, family: str, style: str, pt: float) -> None:
+        """``FPDF.set_font``, called only when the font changes (it writes nothing)."""
+        pdf = self.pdf
+        # fpdf2 keeps the family in lower case; style "" or "B" as given
+        if pdf.font_style != style or pdf.font_size_pt != pt or pdf.font_family != family.lower():
+            pdf.set_font(family, style, pt)
+
+    def rect(self, x: float, y: float, w: float, h: float, op: str) -> None:
+        """``FPDF.rect``: ``op`` "S" (drawn) or "B" (drawn and filled)."""
+        k = self.pdf.k
+        self._out.append(f"{x * k:.2f} {(self.pdf.h - y) * k:.2f} {w * k:.2f} {-h * k:.2f} re {op}")
+
+    def _encoded(self, text: str) -> str:
+        font = self.pdf.current_font
+        codes = self._codes.get(font.i)
+        if codes is None:
+            codes = self._codes[font.i] = _Codes(font)
+        return f"({text.translate(codes)}) Tj"
+
+    def _font_on_page(self) -> None:
+        pdf = self.pdf
+        if not pdf.current_font_is_set_on_page:
+            self._out.append(pdf._set_font_for_page(pdf.current_font, pdf.font_size_pt))
+
+    def _color_text(self) -> str:
+        """The text colour's operator (fpdf2 writes it with each text unless it is the fill's)."""
+        color = self.pdf.text_color
+        got = self._text_ops.get(color)
+        if got is None:
+            got = self._text_ops[color] = color.serialize().lower()
+        return got
+
+    def lines(self, x: float, top: float, step: float, drop: float, lines: Sequence[str]) -> None:
+        """``FPDF.text(x, top + i * step + drop, line)`` for each line but the empty ones [mm].
+
+        The baseline is computed in that order, as our callers computed it for ``FPDF.text``.
+        """
+        pdf = self.pdf
+        self._font_on_page()
+        k, page_h = pdf.k, pdf.h
+        before, after = "BT ", " ET"
+        if pdf.fill_color != pdf.text_color:
+            before, after = f"q {self._color_text()} BT ", " ET Q"
+        xk = f"{x * k:.2f}"
+        out = self._out.append
+        for i, line in enumerate(lines):
+            if line:
+                out(f"{before}{xk} {(page_h - (top + i * step + drop)) * k:.2f} Td {self._encoded(line)}{after}")
+
+    def text(self, x: float, y: float, text: str) -> None:
+        """``FPDF.text``: ``text`` with its baseline starting at (x, y) [mm]."""
+        self.lines(x, y, 0.0, 0.0, (text,))
+
+    def cell_line(self, h: float, text: str) -> None:
+        """``FPDF.cell(0, h, text, new_x="LMARGIN", new_y="NEXT")`` for a line that fits.
+
+        The text starts ``c_margin`` in, its baseline at top + h/2 + 0.3 x font
+        size; no page break is made here (the caller has made room).
+        """
+        pdf = self.pdf
+        if text:
+            self._font_on_page()
+            k = pdf.k
+            line = (f"BT {(pdf.x + pdf.c_margin) * k:.2f} "
+                    f"{(pdf.h - pdf.y - 0.5 * h - 0.3 * pdf.font_size) * k:.2f} Td")
+            if pdf.text_color != pdf.fill_color:
+                line = f"q {line} {self._color_text()} {self._encoded(text)} ET Q"
+            else:
+                line = f"{line} {self._encoded(text)} ET"
+            self._out.append(line)
+        pdf.set_xy(pdf.l_margin, pdf.y + h)
+
+    def flush(self) -> None:
+        """Write what was collected to the current page, in one append."""
+        if self._out:
+            self.pdf._out("\n".join(self._out))
+            self._out.clear()
+
+
+def number_pages(pdf, family: str, pt: float, bottom_mm: float, h: float, template: str) -> None:
+    """Write ``template.format(n=page, total=pages)`` at the foot of every page, right-aligned.
+
+    Run once all pages exist, so the total is known and each footer is aligned on
+    its own width (fpdf2's ``{nb}`` alias reserves the width of three digits and
+    runs past the margin from page 1,000 on).  Each footer is placed as
+    ``set_y(-bottom_mm); cell(0, h, text, align="R")`` places it, at the end of its
+    page's content, with its own font and black text inside ``q``/``Q`` (the page's
+    last colour and font are unknown here).
+
+    Parameters
+    ----------
+    pdf : fpdf.FPDF
+        The document, every page added.
+    family, pt : str, float
+        Font family and size [pt].
+    bottom_mm : float
+        Distance of the footer cell's top from the page foot [mm].
+    h : float
+        Footer cell height [mm].
+    template : str
+        The footer text, with ``{n}`` and ``{total}``.
+    """
+    last = pdf.page
+    pdf.set_font(family, "", pt)
+    k, font = pdf.k, pdf.current_font
+    codes = _Codes(font)
+    for n in range(1, last + 1):
+        pdf.page = n
+        text = template.format(n=n, total=last)
+        tf = pdf._set_font_for_page(font, pdf.font_size_pt, wrap_in_text_object=False)
+        y = pdf.h - bottom_mm
+        x = pdf.w - pdf.r_margin - pdf.c_margin - pdf.get_string_width(text)
+        pdf._out(f"q 0 g BT {tf} {x * k:.2f} {(pdf.h - y - 0.5 * h - 0.3 * pdf.font_size) * k:.2f} Td "
+                 f"({text.translate(codes)}) Tj ET Q")
+    pdf.page = last
