@@ -21,8 +21,22 @@ References
 from __future__ import annotations
 
 from collections.abc import Sequence
+from typing import NamedTuple
 
-__all__ = ["Ink", "number_pages"]
+__all__ = ["Ink", "InkCell", "number_pages"]
+
+
+class InkCell(NamedTuple):
+    """One cell of a table row: width [mm], its lines, font style, fill and text colour (RGB).
+
+    ``fill`` None: the cell is only outlined; ``text`` None: the current text colour.
+    """
+
+    width: float
+    lines: Sequence[str]
+    style: str = ""
+    fill: tuple[int, int, int] | None = None
+    text: tuple[int, int, int] | None = None
 
 
 class _Codes(dict):
@@ -48,10 +62,11 @@ class Ink:
     ``cell``, ``line``): the collected lines must come first.
     """
 
-    def __init__(self, pdf) -> None:
+    def __init__(self, pdf, family: str, line_mm: float, pad_mm: float) -> None:
         from fpdf.drawing_primitives import convert_to_device_color
 
         self.pdf = pdf
+        self.family, self.line_mm, self.pad_mm = family, line_mm, pad_mm
         self._convert = convert_to_device_color
         self._colors: dict[tuple[int, int, int], tuple[object, str, str]] = {}
         self._codes: dict[int, _Codes] = {}
@@ -95,12 +110,48 @@ class Ink:
         k = self.pdf.k
         self._out.append(f"{x * k:.2f} {(self.pdf.h - y) * k:.2f} {w * k:.2f} {-h * k:.2f} re {op}")
 
-    def _encoded(self, text: str) -> str:
+    def row(self, x: float, y: float, height: float, pt: float, cells: Sequence[InkCell]) -> None:
+        """A table row from (x, y) [mm], ``height`` high: each cell outlined (and filled), its lines.
+
+        As ``rect(x, y, w, height, "DF" or "D")``, ``set_font`` and ``text`` for each
+        line, ``line_mm`` apart, ``pad_mm`` in from the cell's top left (the text as
+        ``multi_cell(padding=pad_mm)`` places it: baseline at top + line/2 + 0.3 x
+        font size).
+        """
+        pdf = self.pdf
+        k, pad, step = pdf.k, self.pad_mm, self.line_mm
+        at_y = f" {(pdf.h - y) * k:.2f} "
+        high = f" {-height * k:.2f} re "
+        out = self._out.append
+        for cell in cells:
+            if cell.fill is None:
+                op = "S"
+            else:
+                self.fill_color(cell.fill)
+                op = "B"
+            if cell.text is not None:
+                before, pdf.text_color = pdf.text_color, self._color(cell.text)[0]
+            out(f"{x * k:.2f}{at_y}{cell.width * k:.2f}{high}{op}")
+            self.font(self.family, cell.style, pt)
+            self.lines(x + pad, y + pad, step, 0.5 * step + 0.3 * pdf.font_size, cell.lines)
+            if cell.text is not None:
+                pdf.text_color = before
+            x += cell.width
+
+    def line(self, x1: float, y1: float, x2: float, y2: float) -> None:
+        """``FPDF.line``: a straight line from (x1, y1) to (x2, y2) [mm]."""
+        k, page_h = self.pdf.k, self.pdf.h
+        self._out.append(f"{x1 * k:.2f} {(page_h - y1) * k:.2f} m {x2 * k:.2f} {(page_h - y2) * k:.2f} l S")
+
+    def _font_codes(self) -> _Codes:
         font = self.pdf.current_font
         codes = self._codes.get(font.i)
         if codes is None:
             codes = self._codes[font.i] = _Codes(font)
-        return f"({text.translate(codes)}) Tj"
+        return codes
+
+    def _encoded(self, text: str) -> str:
+        return f"({text.translate(self._font_codes())}) Tj"
 
     def _font_on_page(self) -> None:
         pdf = self.pdf
@@ -119,18 +170,22 @@ class Ink:
         """``FPDF.text(x, top + i * step + drop, line)`` for each line but the empty ones [mm].
 
         The baseline is computed in that order, as our callers computed it for ``FPDF.text``.
+        The font is selected on the page (``Tf``) before the first line drawn, as ``text`` does.
         """
+        if not any(lines):
+            return
         pdf = self.pdf
         self._font_on_page()
         k, page_h = pdf.k, pdf.h
         before, after = "BT ", " ET"
-        if pdf.fill_color != pdf.text_color:
+        if pdf.fill_color != pdf.text_color:  # the same for every line of the call
             before, after = f"q {self._color_text()} BT ", " ET Q"
         xk = f"{x * k:.2f}"
+        codes = self._font_codes()
         out = self._out.append
         for i, line in enumerate(lines):
             if line:
-                out(f"{before}{xk} {(page_h - (top + i * step + drop)) * k:.2f} Td {self._encoded(line)}{after}")
+                out(f"{before}{xk} {(page_h - (top + i * step + drop)) * k:.2f} Td ({line.translate(codes)}) Tj{after}")
 
     def text(self, x: float, y: float, text: str) -> None:
         """``FPDF.text``: ``text`` with its baseline starting at (x, y) [mm]."""

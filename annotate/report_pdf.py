@@ -28,7 +28,7 @@ from typing import NamedTuple
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
-from .pdf_ink import Ink, number_pages
+from .pdf_ink import Ink, InkCell, number_pages
 from .pdf_lines import CellLines
 from .report_trace import (
     CircuitTrace,
@@ -55,6 +55,8 @@ RESULT_FILL = {"pass": (227, 241, 228), "fail": (198, 40, 40), "not_checked": (2
                "not_applicable": (235, 235, 235)}
 #: Grid, header-row fill and text colours of the tables (RGB).
 GRID_RGB, HEAD_FILL_RGB, BLACK, WHITE = (170, 170, 170), (238, 241, 245), (0, 0, 0), (255, 255, 255)
+#: The page header: size [pt], cell height [mm], text and rule colours (RGB).
+HEADER_PT, HEADER_MM, HEADER_RGB, HEADER_RULE_RGB = 7, 4, (80, 80, 80), (180, 180, 180)
 #: The footer: its text, size [pt], its cell's top above the page foot and its height [mm].
 FOOTER, FOOTER_PT, FOOTER_FROM_FOOT_MM, FOOTER_MM = "page {n} of {total}", 7, 11, 4
 #: Column widths as shares of the text width, by the number of columns.
@@ -86,16 +88,18 @@ def _make_pdf(header: str):
 
     class _Report(FPDF):
         def header(self) -> None:  # noqa: D401 - fpdf2 hook
-            self.set_font(FONT_FAMILY, "", 7)
-            self.set_text_color(80, 80, 80)
-            self.cell(0, 4, header, new_x="LMARGIN", new_y="NEXT")
-            self.set_draw_color(180, 180, 180)
-            self.line(self.l_margin, self.get_y(), self.w - self.r_margin, self.get_y())
+            ink = _ink(self)
+            ink.font(FONT_FAMILY, "", HEADER_PT)
+            ink.text_color(HEADER_RGB)
+            ink.cell_line(HEADER_MM, header)
+            ink.draw_color(HEADER_RULE_RGB)
+            ink.line(self.l_margin, self.get_y(), self.w - self.r_margin, self.get_y())
+            ink.flush()
             self.ln(2)
-            self.set_text_color(0, 0, 0)
+            ink.text_color(BLACK)
 
     pdf = _Report(orientation="P", unit="mm", format="A4")
-    pdf.alias_nb_pages(None)  # "page n of N" is written once N is known (_number_pages)
+    pdf.alias_nb_pages("")  # no alias: "page n of N" is written once N is known (_number_pages)
     regular, bold = _font_paths()
     pdf.add_font(FONT_FAMILY, "", regular)
     pdf.add_font(FONT_FAMILY, "B", bold)
@@ -134,94 +138,96 @@ def _ink(pdf) -> Ink:
     """The content writer of ``pdf`` (one per document, made on first use)."""
     ink = getattr(pdf, "_cablewright_ink", None)
     if ink is None:
-        ink = pdf._cablewright_ink = Ink(pdf)
+        ink = pdf._cablewright_ink = Ink(pdf, FONT_FAMILY, LINE_MM, PAD_MM)
     return ink
 
 
-def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False) -> float:
+class _Row(NamedTuple):
+    """A table row's height [mm] and each cell's lines as drawn."""
+
+    height: float
+    lines: list[tuple[str, ...]]
+
+
+def _row(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False, result: str = "") -> _Row:
+    """The row measured in its style; a failed check's result cell (the second) is drawn bold
+    in that height (its lines broken again in bold)."""
     style = "B" if bold else ""
     split = _lines(pdf)
-    lines = max([1] + [len(split(text, w, style, BODY_PT)) for w, text in zip(widths, cells, strict=False)])
-    return lines * LINE_MM + 2 * PAD_MM
+    lines = [split(text, w, style, BODY_PT) for w, text in zip(widths, cells, strict=False)]
+    height = max([1] + [len(c) for c in lines]) * LINE_MM + 2 * PAD_MM
+    if result == "fail" and len(lines) > 1:
+        lines[1] = split(cells[1], widths[1], "B", BODY_PT)
+    return _Row(height, lines)
 
 
 class _TableLayout(NamedTuple):
-    """A table's column widths [mm], header-row height and row heights [mm], measured once."""
+    """A table's column widths [mm], header row and rows, measured once."""
 
     widths: list[float]
-    head: float
-    rows: list[float]
+    head: _Row
+    rows: list[_Row]
 
     @property
     def height(self) -> float:
         """Caption, header row and every row [mm]."""
-        return LINE_MM + 1 + self.head + sum(self.rows)
+        return LINE_MM + 1 + self.head.height + sum(r.height for r in self.rows)
+
+
+def _result(t: TraceTable, i: int) -> str:
+    return t.results[i] if i < len(t.results) else ""
 
 
 def _table_layout(pdf, t: TraceTable) -> _TableLayout:
     widths = _widths(pdf, len(t.headers), t.headers)
-    return _TableLayout(widths, _row_height(pdf, widths, t.headers, True),
-                        [_row_height(pdf, widths, r) for r in t.rows])
+    return _TableLayout(widths, _row(pdf, widths, t.headers, True),
+                        [_row(pdf, widths, r, result=_result(t, i)) for i, r in enumerate(t.rows)])
 
 
 def _room(pdf) -> float:
     return pdf.page_break_trigger - pdf.get_y()
 
 
-def _cell_text(ink: Ink, x: float, y: float, lines: Sequence[str]) -> None:
-    """The lines of one cell, placed where ``multi_cell(padding=PAD_MM, align="L")`` puts them.
+def _draw_row(pdf, widths, row: _Row, bold=False, result="") -> None:
+    """One table row (measured by :func:`_row`), on a new page if it does not fit.
 
-    fpdf2 sets each line's baseline at top + h/2 + 0.3 x font size
-    (``FPDF._render_styled_text_line``), the text ``PAD_MM`` in from the left.
+    A header row (``bold``) is filled; a check's result cell (the second) is
+    filled in its outcome's colour, a failure's in bold white.
     """
-    drop = 0.5 * LINE_MM + 0.3 * ink.pdf.font_size
-    ink.lines(x + PAD_MM, y + PAD_MM, LINE_MM, drop, lines)
-
-
-def _draw_row(pdf, widths, cells, height: float, bold=False, result="") -> None:
-    """One table row ``height`` mm high (:func:`_row_height`), on a new page if it does not fit."""
-    if height > _room(pdf):  # a row is never cut across pages
+    if row.height > _room(pdf):  # a row is never cut across pages
         pdf.add_page()
-    split, ink = _lines(pdf), _ink(pdf)
-    x0, y0 = pdf.l_margin, pdf.get_y()
-    x = x0
-    ink.draw_color(GRID_RGB)
-    for i, (w, text) in enumerate(zip(widths, cells, strict=False)):
-        fill = False
+    ink = _ink(pdf)
+    drawn = []
+    for i, (w, lines) in enumerate(zip(widths, row.lines, strict=False)):
         if bold:
-            ink.fill_color(HEAD_FILL_RGB)
-            fill = True
+            drawn.append(InkCell(w, lines, "B", HEAD_FILL_RGB))
         elif result and i == 1:
-            ink.fill_color(RESULT_FILL.get(result, WHITE))
-            fill = True
-            if result == "fail":
-                ink.text_color(WHITE)
-        ink.rect(x, y0, w, height, "B" if fill else "S")
-        style = "B" if bold or (result == "fail" and i == 1) else ""
-        lines = split(text, w, style, BODY_PT)
-        ink.font(FONT_FAMILY, style, BODY_PT)
-        _cell_text(ink, x, y0, lines)
-        if fill and result == "fail":
-            ink.text_color(BLACK)
-        x += w
+            fail = result == "fail"
+            drawn.append(InkCell(w, lines, "B" if fail else "", RESULT_FILL.get(result, WHITE),
+                                 WHITE if fail else None))
+        else:
+            drawn.append(InkCell(w, lines))
+    x0, y0 = pdf.l_margin, pdf.get_y()
+    ink.draw_color(GRID_RGB)
+    ink.row(x0, y0, row.height, BODY_PT, drawn)
     ink.flush()
-    pdf.set_xy(x0, y0 + height)
+    pdf.set_xy(x0, y0 + row.height)
 
 
 def _draw_table(pdf, t: TraceTable, layout: _TableLayout | None = None) -> None:
     layout = layout or _table_layout(pdf, t)
     widths = layout.widths
-    head = LINE_MM + 1 + layout.head
-    first = layout.rows[0] if t.rows else 0.0
+    head = LINE_MM + 1 + layout.head.height
+    first = layout.rows[0].height if t.rows else 0.0
     if head + first > _room(pdf):  # keep the caption and header with the first row
         pdf.add_page()
     ink = _ink(pdf)
     ink.font(FONT_FAMILY, "B", BODY_PT)
     ink.cell_line(LINE_MM + 1, t.caption)  # fits: room was made above
     ink.flush()
-    _draw_row(pdf, widths, t.headers, layout.head, bold=True)
-    for i, row in enumerate(t.rows):
-        _draw_row(pdf, widths, row, layout.rows[i], result=t.results[i] if i < len(t.results) else "")
+    _draw_row(pdf, widths, layout.head, bold=True)
+    for i, row in enumerate(layout.rows):
+        _draw_row(pdf, widths, row, result=_result(t, i))
     pdf.ln(1.5)
 
 
