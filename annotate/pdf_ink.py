@@ -116,26 +116,43 @@ class Ink:
         As ``rect(x, y, w, height, "DF" or "D")``, ``set_font`` and ``text`` for each
         line, ``line_mm`` apart, ``pad_mm`` in from the cell's top left (the text as
         ``multi_cell(padding=pad_mm)`` places it: baseline at top + line/2 + 0.3 x
-        font size).
+        font size).  fpdf2's colours and font are read once and followed here (this
+        is the loop of the whole report).
         """
         pdf = self.pdf
-        k, pad, step = pdf.k, self.pad_mm, self.line_mm
-        at_y = f" {(pdf.h - y) * k:.2f} "
+        k, page_h, pad, step = pdf.k, pdf.h, self.pad_mm, self.line_mm
+        at_y = f" {(page_h - y) * k:.2f} "
         high = f" {-height * k:.2f} re "
+        top = y + pad
         out = self._out.append
+        fill, text_color = pdf.fill_color, pdf.text_color
+        style = None  # the font is checked against fpdf2's at the first cell
         for cell in cells:
             if cell.fill is None:
                 op = "S"
             else:
-                self.fill_color(cell.fill)
+                device, _, fill_op = self._color(cell.fill)
+                if device != fill:
+                    fill = pdf.fill_color = device
+                    out(fill_op)
                 op = "B"
-            if cell.text is not None:
-                before, pdf.text_color = pdf.text_color, self._color(cell.text)[0]
             out(f"{x * k:.2f}{at_y}{cell.width * k:.2f}{high}{op}")
-            self.font(self.family, cell.style, pt)
-            self.lines(x + pad, y + pad, step, 0.5 * step + 0.3 * pdf.font_size, cell.lines)
-            if cell.text is not None:
-                pdf.text_color = before
+            if cell.style != style:
+                self.font(self.family, cell.style, pt)
+                style, codes = cell.style, self._font_codes()
+                drop = 0.5 * step + 0.3 * pdf.font_size
+            if any(cell.lines):
+                if not pdf.current_font_is_set_on_page:
+                    out(pdf._set_font_for_page(pdf.current_font, pdf.font_size_pt))
+                color = text_color if cell.text is None else self._color(cell.text)[0]
+                before, after = "BT ", " ET"
+                if fill != color:
+                    before, after = f"q {self._text_op(color)} BT ", " ET Q"
+                xk = f"{(x + pad) * k:.2f}"
+                for i, line in enumerate(cell.lines):
+                    if line:
+                        out(f"{before}{xk} {(page_h - (top + i * step + drop)) * k:.2f} Td "
+                            f"({line.translate(codes)}) Tj{after}")
             x += cell.width
 
     def line(self, x1: float, y1: float, x2: float, y2: float) -> None:
@@ -158,13 +175,15 @@ class Ink:
         if not pdf.current_font_is_set_on_page:
             self._out.append(pdf._set_font_for_page(pdf.current_font, pdf.font_size_pt))
 
-    def _color_text(self) -> str:
-        """The text colour's operator (fpdf2 writes it with each text unless it is the fill's)."""
-        color = self.pdf.text_color
+    def _text_op(self, color) -> str:
+        """A text colour's operator (fpdf2 writes it with each text unless it is the fill's)."""
         got = self._text_ops.get(color)
         if got is None:
             got = self._text_ops[color] = color.serialize().lower()
         return got
+
+    def _color_text(self) -> str:
+        return self._text_op(self.pdf.text_color)
 
     def lines(self, x: float, top: float, step: float, drop: float, lines: Sequence[str]) -> None:
         """``FPDF.text(x, top + i * step + drop, line)`` for each line but the empty ones [mm].
