@@ -87,13 +87,6 @@ class Ink:
             self.pdf.draw_color = device
             self._out.append(stroke)
 
-    def fill_color(self, rgb: tuple[int, int, int]) -> None:
-        """``FPDF.set_fill_color``: the fill colour, written when it changes."""
-        device, _, fill = self._color(rgb)
-        if device != self.pdf.fill_color:
-            self.pdf.fill_color = device
-            self._out.append(fill)
-
     def text_color(self, rgb: tuple[int, int, int]) -> None:
         """``FPDF.set_text_color`` (written with each text, as fpdf2 does)."""
         self.pdf.text_color = self._color(rgb)[0]
@@ -104,11 +97,6 @@ class Ink:
         # fpdf2 keeps the family in lower case; style "" or "B" as given
         if pdf.font_style != style or pdf.font_size_pt != pt or pdf.font_family != family.lower():
             pdf.set_font(family, style, pt)
-
-    def rect(self, x: float, y: float, w: float, h: float, op: str) -> None:
-        """``FPDF.rect``: ``op`` "S" (drawn) or "B" (drawn and filled)."""
-        k = self.pdf.k
-        self._out.append(f"{x * k:.2f} {(self.pdf.h - y) * k:.2f} {w * k:.2f} {-h * k:.2f} re {op}")
 
     def row(self, x: float, y: float, height: float, pt: float, cells: Sequence[InkCell]) -> None:
         """A table row from (x, y) [mm], ``height`` high: each cell outlined (and filled), its lines.
@@ -185,30 +173,15 @@ class Ink:
     def _color_text(self) -> str:
         return self._text_op(self.pdf.text_color)
 
-    def lines(self, x: float, top: float, step: float, drop: float, lines: Sequence[str]) -> None:
-        """``FPDF.text(x, top + i * step + drop, line)`` for each line but the empty ones [mm].
-
-        The baseline is computed in that order, as our callers computed it for ``FPDF.text``.
-        The font is selected on the page (``Tf``) before the first line drawn, as ``text`` does.
-        """
-        if not any(lines):
-            return
-        pdf = self.pdf
-        self._font_on_page()
-        k, page_h = pdf.k, pdf.h
-        before, after = "BT ", " ET"
-        if pdf.fill_color != pdf.text_color:  # the same for every line of the call
-            before, after = f"q {self._color_text()} BT ", " ET Q"
-        xk = f"{x * k:.2f}"
-        codes = self._font_codes()
-        out = self._out.append
-        for i, line in enumerate(lines):
-            if line:
-                out(f"{before}{xk} {(page_h - (top + i * step + drop)) * k:.2f} Td ({line.translate(codes)}) Tj{after}")
-
     def text(self, x: float, y: float, text: str) -> None:
         """``FPDF.text``: ``text`` with its baseline starting at (x, y) [mm]."""
-        self.lines(x, y, 0.0, 0.0, (text,))
+        pdf = self.pdf
+        self._font_on_page()
+        k = pdf.k
+        line = f"BT {x * k:.2f} {(pdf.h - y) * k:.2f} Td {self._encoded(text)} ET"
+        if pdf.fill_color != pdf.text_color:
+            line = f"q {self._color_text()} {line} Q"
+        self._out.append(line)
 
     def cell_line(self, h: float, text: str) -> None:
         """``FPDF.cell(0, h, text, new_x="LMARGIN", new_y="NEXT")`` for a line that fits.
