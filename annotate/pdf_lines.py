@@ -16,6 +16,10 @@ _SPECIAL_CHARS = frozenset("\u200b\u2000\u2001\u2002\u2003\u2004\u2005\u2006\u20
                            "\u200a\u205f\u3000\u00a0\u00ad\u000c\r")
 #: The tolerance of fpdf2's width comparison (``fpdf.util.FloatTolerance``).
 _WIDTH_TOLERANCE = 1e-9
+#: A text whose whole width is this far inside the cell [mm] is one line without the walk
+#: character by character: far above the rounding of the sums (about 1e-12 mm on a page), so
+#: fpdf2's test at each character, on a part of that width, cannot pass.
+_CLEARLY_INSIDE_MM = 1e-6
 
 
 class CellLines:
@@ -64,6 +68,10 @@ class CellLines:
             return self._fpdf(text, width_mm, padded)
         max_w = width_mm - 2 * self.pad_mm if padded else width_mm - 2 * pdf.c_margin
         fits = _Fits(pdf.current_font.cw, pt * 0.001, pdf.k, max_w)
+        if "\n" not in text:
+            units = sum(map(fits.cw.__getitem__, map(ord, text)))
+            if units and units * fits.scale / fits.k - max_w < -_CLEARLY_INSIDE_MM:
+                return (text,)
         lines: list[str] = []
         i = 0
         while i < len(text):

@@ -24,9 +24,11 @@ from collections import Counter
 from collections.abc import Sequence
 from datetime import datetime, timezone
 from pathlib import Path
+from typing import NamedTuple
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
+from .pdf_ink import Ink, InkCell, number_pages
 from .pdf_lines import CellLines
 from .report_trace import (
     CircuitTrace,
@@ -51,6 +53,12 @@ PAD_MM = 0.5
 #: Fill colours of check outcomes (RGB).
 RESULT_FILL = {"pass": (227, 241, 228), "fail": (198, 40, 40), "not_checked": (255, 243, 205),
                "not_applicable": (235, 235, 235)}
+#: Grid, header-row fill and text colours of the tables (RGB).
+GRID_RGB, HEAD_FILL_RGB, BLACK, WHITE = (170, 170, 170), (238, 241, 245), (0, 0, 0), (255, 255, 255)
+#: The page header: size [pt], cell height [mm], text and rule colours (RGB).
+HEADER_PT, HEADER_MM, HEADER_RGB, HEADER_RULE_RGB = 7, 4, (80, 80, 80), (180, 180, 180)
+#: The footer: its text, size [pt], its cell's top above the page foot and its height [mm].
+FOOTER, FOOTER_PT, FOOTER_FROM_FOOT_MM, FOOTER_MM = "page {n} of {total}", 7, 11, 4
 #: Column widths as shares of the text width, by the number of columns.
 COLUMN_SHARES = {
     3: (0.26, 0.20, 0.54),
@@ -80,20 +88,18 @@ def _make_pdf(header: str):
 
     class _Report(FPDF):
         def header(self) -> None:  # noqa: D401 - fpdf2 hook
-            self.set_font(FONT_FAMILY, "", 7)
-            self.set_text_color(80, 80, 80)
-            self.cell(0, 4, header, new_x="LMARGIN", new_y="NEXT")
-            self.set_draw_color(180, 180, 180)
-            self.line(self.l_margin, self.get_y(), self.w - self.r_margin, self.get_y())
+            ink = _ink(self)
+            ink.font(FONT_FAMILY, "", HEADER_PT)
+            ink.text_color(HEADER_RGB)
+            ink.cell_line(HEADER_MM, header)
+            ink.draw_color(HEADER_RULE_RGB)
+            ink.line(self.l_margin, self.get_y(), self.w - self.r_margin, self.get_y())
+            ink.flush()
             self.ln(2)
-            self.set_text_color(0, 0, 0)
-
-        def footer(self) -> None:  # noqa: D401 - fpdf2 hook
-            self.set_y(-11)
-            self.set_font(FONT_FAMILY, "", 7)
-            self.cell(0, 4, f"page {self.page_no()} of {{nb}}", align="R")
+            ink.text_color(BLACK)
 
     pdf = _Report(orientation="P", unit="mm", format="A4")
+    pdf.alias_nb_pages("")  # no alias: "page n of N" is written once N is known (_number_pages)
     regular, bold = _font_paths()
     pdf.add_font(FONT_FAMILY, "", regular)
     pdf.add_font(FONT_FAMILY, "B", bold)
@@ -107,6 +113,11 @@ def _make_pdf(header: str):
 
 #: Column shares of the "load as given" table (6 or 7 columns: no cos φ, η for kVA and A).
 LOAD_SHARES = {7: (0.12, 0.13, 0.17, 0.1, 0.16, 0.16, 0.16), 5: (0.2, 0.2, 0.2, 0.2, 0.2)}
+
+
+def _number_pages(pdf) -> None:
+    """"page n of N" at the foot of every page, right-aligned (:func:`.pdf_ink.number_pages`)."""
+    number_pages(pdf, FONT_FAMILY, FOOTER_PT, FOOTER_FROM_FOOT_MM, FOOTER_MM, FOOTER)
 
 
 def _widths(pdf, columns: int, headers: Sequence[str] = ()) -> list[float]:
@@ -123,75 +134,100 @@ def _lines(pdf) -> CellLines:
     return lines
 
 
-def _row_height(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False) -> float:
+def _ink(pdf) -> Ink:
+    """The content writer of ``pdf`` (one per document, made on first use)."""
+    ink = getattr(pdf, "_cablewright_ink", None)
+    if ink is None:
+        ink = pdf._cablewright_ink = Ink(pdf, FONT_FAMILY, LINE_MM, PAD_MM)
+    return ink
+
+
+class _Row(NamedTuple):
+    """A table row's height [mm] and each cell's lines as drawn."""
+
+    height: float
+    lines: list[tuple[str, ...]]
+
+
+def _row(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False, result: str = "") -> _Row:
+    """The row measured in its style; a failed check's result cell (the second) is drawn bold
+    in that height (its lines broken again in bold)."""
     style = "B" if bold else ""
     split = _lines(pdf)
-    lines = max([1] + [len(split(text, w, style, BODY_PT)) for w, text in zip(widths, cells, strict=False)])
-    return lines * LINE_MM + 2 * PAD_MM
+    lines = [split(text, w, style, BODY_PT) for w, text in zip(widths, cells, strict=False)]
+    height = max([1] + [len(c) for c in lines]) * LINE_MM + 2 * PAD_MM
+    if result == "fail" and len(lines) > 1:
+        lines[1] = split(cells[1], widths[1], "B", BODY_PT)
+    return _Row(height, lines)
 
 
-def _table_height(pdf, t: TraceTable) -> float:
+class _TableLayout(NamedTuple):
+    """A table's column widths [mm], header row and rows, measured once."""
+
+    widths: list[float]
+    head: _Row
+    rows: list[_Row]
+
+    @property
+    def height(self) -> float:
+        """Caption, header row and every row [mm]."""
+        return LINE_MM + 1 + self.head.height + sum(r.height for r in self.rows)
+
+
+def _result(t: TraceTable, i: int) -> str:
+    return t.results[i] if i < len(t.results) else ""
+
+
+def _table_layout(pdf, t: TraceTable) -> _TableLayout:
     widths = _widths(pdf, len(t.headers), t.headers)
-    height = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
-    return height + sum(_row_height(pdf, widths, r) for r in t.rows)
+    return _TableLayout(widths, _row(pdf, widths, t.headers, True),
+                        [_row(pdf, widths, r, result=_result(t, i)) for i, r in enumerate(t.rows)])
 
 
 def _room(pdf) -> float:
     return pdf.page_break_trigger - pdf.get_y()
 
 
-def _cell_text(pdf, x: float, y: float, lines: Sequence[str]) -> None:
-    """The lines of one cell, placed where ``multi_cell(padding=PAD_MM, align="L")`` puts them.
+def _draw_row(pdf, widths, row: _Row, bold=False, result="") -> None:
+    """One table row (measured by :func:`_row`), on a new page if it does not fit.
 
-    fpdf2 sets each line's baseline at top + h/2 + 0.3 x font size
-    (``FPDF._render_styled_text_line``), the text ``PAD_MM`` in from the left.
+    A header row (``bold``) is filled; a check's result cell (the second) is
+    filled in its outcome's colour, a failure's in bold white.
     """
-    drop = 0.5 * LINE_MM + 0.3 * pdf.font_size
-    for i, line in enumerate(lines):
-        if line:
-            pdf.text(x + PAD_MM, y + PAD_MM + i * LINE_MM + drop, line)
-
-
-def _draw_row(pdf, widths, cells, bold=False, result="") -> None:
-    height = _row_height(pdf, widths, cells, bold)
-    if height > _room(pdf):  # a row is never cut across pages
+    if row.height > _room(pdf):  # a row is never cut across pages
         pdf.add_page()
-    split = _lines(pdf)
-    x0, y0 = pdf.l_margin, pdf.get_y()
-    x = x0
-    pdf.set_draw_color(170, 170, 170)
-    for i, (w, text) in enumerate(zip(widths, cells, strict=False)):
-        fill = False
+    ink = _ink(pdf)
+    drawn = []
+    for i, (w, lines) in enumerate(zip(widths, row.lines, strict=False)):
         if bold:
-            pdf.set_fill_color(238, 241, 245)
-            fill = True
+            drawn.append(InkCell(w, lines, "B", HEAD_FILL_RGB))
         elif result and i == 1:
-            pdf.set_fill_color(*RESULT_FILL.get(result, (255, 255, 255)))
-            fill = True
-            if result == "fail":
-                pdf.set_text_color(255, 255, 255)
-        pdf.rect(x, y0, w, height, style="DF" if fill else "D")
-        style = "B" if bold or (result == "fail" and i == 1) else ""
-        lines = split(text, w, style, BODY_PT)
-        pdf.set_font(FONT_FAMILY, style, BODY_PT)
-        _cell_text(pdf, x, y0, lines)
-        if fill and result == "fail":
-            pdf.set_text_color(0, 0, 0)
-        x += w
-    pdf.set_xy(x0, y0 + height)
+            fail = result == "fail"
+            drawn.append(InkCell(w, lines, "B" if fail else "", RESULT_FILL.get(result, WHITE),
+                                 WHITE if fail else None))
+        else:
+            drawn.append(InkCell(w, lines))
+    x0, y0 = pdf.l_margin, pdf.get_y()
+    ink.draw_color(GRID_RGB)
+    ink.row(x0, y0, row.height, BODY_PT, drawn)
+    ink.flush()
+    pdf.set_xy(x0, y0 + row.height)
 
 
-def _draw_table(pdf, t: TraceTable) -> None:
-    widths = _widths(pdf, len(t.headers), t.headers)
-    head = LINE_MM + 1 + _row_height(pdf, widths, t.headers, True)
-    first = _row_height(pdf, widths, t.rows[0]) if t.rows else 0.0
+def _draw_table(pdf, t: TraceTable, layout: _TableLayout | None = None) -> None:
+    layout = layout or _table_layout(pdf, t)
+    widths = layout.widths
+    head = LINE_MM + 1 + layout.head.height
+    first = layout.rows[0].height if t.rows else 0.0
     if head + first > _room(pdf):  # keep the caption and header with the first row
         pdf.add_page()
-    pdf.set_font(FONT_FAMILY, "B", BODY_PT)
-    pdf.cell(0, LINE_MM + 1, t.caption, new_x="LMARGIN", new_y="NEXT")
-    _draw_row(pdf, widths, t.headers, bold=True)
-    for i, row in enumerate(t.rows):
-        _draw_row(pdf, widths, row, result=t.results[i] if i < len(t.results) else "")
+    ink = _ink(pdf)
+    ink.font(FONT_FAMILY, "B", BODY_PT)
+    ink.cell_line(LINE_MM + 1, t.caption)  # fits: room was made above
+    ink.flush()
+    _draw_row(pdf, widths, layout.head, bold=True)
+    for i, row in enumerate(layout.rows):
+        _draw_row(pdf, widths, row, result=_result(t, i))
     pdf.ln(1.5)
 
 
@@ -199,7 +235,7 @@ def _paragraph_height(pdf, text: str, pt: float = BODY_PT, bold: bool = False) -
     return len(_lines(pdf)(text, pdf.epw, "B" if bold else "", pt, padded=False)) * LINE_MM + 0.8
 
 
-def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0, 0, 0)) -> None:
+def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=BLACK) -> None:
     """A paragraph over the text width, placed as ``multi_cell(epw, LINE_MM, text)`` places it.
 
     Each line goes to a new page when it would pass the page-break line (fpdf2's
@@ -208,16 +244,20 @@ def _paragraph(pdf, text: str, pt: float = BODY_PT, bold: bool = False, color=(0
     """
     style = "B" if bold else ""
     lines = _lines(pdf)(text, pdf.epw, style, pt, padded=False)
-    pdf.set_font(FONT_FAMILY, style, pt)
-    pdf.set_text_color(*color)
+    ink = _ink(pdf)
+    ink.font(FONT_FAMILY, style, pt)
+    ink.text_color(color)
+    x = pdf.l_margin + pdf.c_margin
     for line in lines:
         if pdf.get_y() + LINE_MM > pdf.page_break_trigger:
+            ink.flush()
             pdf.add_page()
         y = pdf.get_y()
         if line:
-            pdf.text(pdf.l_margin + pdf.c_margin, y + 0.5 * LINE_MM + 0.3 * pdf.font_size, line)
+            ink.text(x, y + 0.5 * LINE_MM + 0.3 * pdf.font_size, line)
         pdf.set_xy(pdf.l_margin, y + LINE_MM)
-    pdf.set_text_color(0, 0, 0)
+    ink.flush()
+    ink.text_color(BLACK)
     pdf.ln(0.8)
 
 
@@ -226,15 +266,16 @@ def _title(t: CircuitTrace) -> str:
     return f"{t.title}   [{t.status}{extra}]"
 
 
-def _block_height(pdf, t: CircuitTrace) -> float:
+def _block_height(pdf, t: CircuitTrace, layouts: Sequence[_TableLayout]) -> float:
     height = _paragraph_height(pdf, _title(t), 10, True) + 2
     height += sum(_paragraph_height(pdf, "- " + m) for m in t.messages)
     height += sum(_paragraph_height(pdf, line) for line in t.lines)
-    return height + sum(_table_height(pdf, table) + 1.5 for table in t.tables) + 4
+    return height + sum(layout.height + 1.5 for layout in layouts) + 4
 
 
 def _circuit_block(pdf, t: CircuitTrace) -> None:
-    height = _block_height(pdf, t)
+    layouts = [_table_layout(pdf, table) for table in t.tables]
+    height = _block_height(pdf, t, layouts)
     usable = pdf.page_break_trigger - pdf.t_margin - 8  # below the page header
     if height > _room(pdf) and height <= usable:
         pdf.add_page()  # the whole block on the next page
@@ -246,8 +287,8 @@ def _circuit_block(pdf, t: CircuitTrace) -> None:
         _paragraph(pdf, "- " + m, color=(138, 75, 0))
     for line in t.lines:
         _paragraph(pdf, line)
-    for table in t.tables:
-        _draw_table(pdf, table)
+    for table, layout in zip(t.tables, layouts, strict=True):
+        _draw_table(pdf, table, layout)
     pdf.ln(2)
 
 
@@ -302,6 +343,7 @@ def render_report_pdf(
     for o in outcomes:
         _circuit_block(pdf, circuit_trace(o, unit))
     _paragraph(pdf, cautions, BODY_PT, True, (176, 0, 32))
+    _number_pages(pdf)
     return bytes(pdf.output())
 
 
