@@ -26,6 +26,7 @@ from __future__ import annotations
 import hashlib
 import math
 from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -50,6 +51,18 @@ def row_box(rows: np.ndarray, i: int) -> Box:
 #: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
 REBUILD_AFTER = 200
 POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resorts reuse some)
+#: Boxes of a candidate array tested in bulk at first, doubled chunk by chunk: the first
+#: free box is mostly among the first few dozen of a few hundred (measured on the
+#: benchmark plant, benchmarks/RESULTS.md), so the rest is never built or queried.
+FIRST_CHUNK = 32
+
+
+@dataclass
+class _Tested:
+    """A candidate array's bulk result against the fixed obstacles, boxes ``0:done``."""
+
+    ok: np.ndarray
+    done: int = 0
 
 
 def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
@@ -128,9 +141,9 @@ class LabelIndex:
         self._mark_tree: shapely.STRtree | None = None
         self._in_tree = (0, 0)  # boxes, lines in the tree
         # polygons of the last few candidate arrays, held with the array (identity is safe)
-        self._poly_memo: list[tuple[np.ndarray, np.ndarray]] = []
+        self._poly_memo: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = []
         # the fixed obstacles never change: a candidate array's bulk result, by its boxes
-        self._static_memo: dict[tuple[bool, bool, bytes], np.ndarray] = {}
+        self._static_memo: dict[tuple[bool, bool, bytes], _Tested] = {}
 
     # -- what is there -------------------------------------------------------------
     @property
@@ -265,24 +278,40 @@ class LabelIndex:
         """The boxes as polygons (:func:`box_polygons`), kept for the last few arrays."""
         if not isinstance(boxes, np.ndarray):
             return box_polygons(boxes)
-        for arr, polys in self._poly_memo:
-            if arr is boxes:
-                return polys
-        polys = box_polygons(boxes)
-        self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], (boxes, polys)]
-        return polys
+        return self._polys_at(boxes, np.arange(len(boxes)))
 
-    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool, fixed: bool) -> np.ndarray:
-        """:meth:`static_free`, remembered per array of boxes (its first six columns)."""
+    def _polys_at(self, boxes: np.ndarray, idx: np.ndarray) -> np.ndarray:
+        """Polygons of the rows ``idx`` of ``boxes``, each built once while the array is
+        among the last :data:`POLY_MEMO` (row by row the same as :func:`box_polygons`)."""
+        entry = next((e for e in self._poly_memo if e[0] is boxes), None)
+        if entry is None:
+            entry = (boxes, np.empty(len(boxes), dtype=object), np.zeros(len(boxes), dtype=bool))
+            self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], entry]
+        _, polys, made = entry
+        missing = idx[~made[idx]]
+        if len(missing):
+            polys[missing] = box_polygons(boxes[missing])
+            made[missing] = True
+        return polys[idx]
+
+    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, start: int, stop: int, *,
+                   lines: bool, fixed: bool) -> np.ndarray:
+        """:meth:`static_free` of the boxes ``start:stop``, remembered per array of boxes
+        (its first six columns) for the boxes tested so far."""
         if not isinstance(boxes, np.ndarray):
-            return self._static_free(boxes, box_polygons(boxes), lines=lines, fixed=fixed)
+            part = boxes[start:stop]
+            return self._static_free(part, box_polygons(part), lines=lines, fixed=fixed)
         digest = hashlib.blake2b(np.ascontiguousarray(boxes[:, :6]).tobytes(), digest_size=20)
         key = (lines, fixed, digest.digest())
-        ok = self._static_memo.get(key)
-        if ok is None:
-            ok = self._static_free(boxes, self._polys_of(boxes), lines=lines, fixed=fixed)
-            self._static_memo[key] = ok
-        return ok
+        memo = self._static_memo.get(key)
+        if memo is None:
+            memo = self._static_memo[key] = _Tested(np.ones(len(boxes), dtype=bool))
+        if memo.done < stop:
+            idx = np.arange(memo.done, stop)
+            memo.ok[idx] = self._static_free(boxes[idx], self._polys_at(boxes, idx),
+                                             lines=lines, fixed=fixed)
+            memo.done = stop
+        return memo.ok[start:stop]
 
     def _static_free(self, boxes: Sequence[Box] | np.ndarray, polys: np.ndarray, *,
                      lines: bool, fixed: bool) -> np.ndarray:
@@ -329,27 +358,37 @@ class LabelIndex:
                    accept=None) -> int | None:
         """Index of the first box (in the given order of preference) clear of everything.
 
-        The fixed obstacles are tested in bulk; our marks only for the boxes left, in
-        order; ``accept(i)`` (optional) is a last test, e.g. of the leader.
+        The fixed obstacles and the tree of our marks are tested in bulk, a chunk of
+        boxes at a time (:data:`FIRST_CHUNK`, doubled chunk by chunk; the first free box
+        is the same as with every box tested at once); our marks added since the tree
+        only for the boxes left, in order; ``accept(i)`` (optional) is a last test, e.g.
+        of the leader.
         """
-        if len(boxes) == 0:
-            return None
-        rest = np.flatnonzero(self._static_ok(boxes, lines=lines, fixed=fixed))
-        if len(rest) == 0:
-            return None
-        tree = self._marks_tree()
-        if tree is not None:
-            hit = tree.query(self._polys_of(boxes)[rest], predicate="intersects")
-            keep = np.ones(len(rest), dtype=bool)
-            keep[hit[0]] = False
-            rest = rest[keep]
         as_rows = isinstance(boxes, np.ndarray)
-        for j in rest:
-            i = int(j)
-            box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
-            if (self.free_of_marks(box, since_tree=True)
-                    and (accept is None or accept(i))):
-                return i
+        tree: shapely.STRtree | None = None
+        tree_taken = False
+        start, size = 0, FIRST_CHUNK
+        while start < len(boxes):
+            stop = min(len(boxes), start + size)
+            rest = start + np.flatnonzero(self._static_ok(boxes, start, stop, lines=lines, fixed=fixed))
+            start, size = stop, 2 * size
+            if len(rest) == 0:
+                continue
+            if not tree_taken:  # taken (maybe rebuilt) once per call, as the first box is
+                tree, tree_taken = self._marks_tree(), True
+            if tree is not None:
+                polys = (self._polys_at(boxes, rest) if as_rows  # type: ignore[arg-type]
+                         else box_polygons([boxes[int(j)] for j in rest]))
+                hit = tree.query(polys, predicate="intersects")
+                keep = np.ones(len(rest), dtype=bool)
+                keep[hit[0]] = False
+                rest = rest[keep]
+            for j in rest:
+                i = int(j)
+                box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
+                if (self.free_of_marks(box, since_tree=True)
+                        and (accept is None or accept(i))):
+                    return i
         return None
 
     def _marks_tree(self) -> shapely.STRtree | None:
