@@ -72,14 +72,26 @@ def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
         return np.empty(0, dtype=object)
     a = boxes if isinstance(boxes, np.ndarray) else np.asarray([b[:6] for b in boxes], dtype=float)
     cx, cy, ux, uy, hw, hh = a[:, :6].T
-    vx, vy = -uy, ux
-    sx = np.stack([-1.0, 1.0, 1.0, -1.0])[:, None]
-    sy = np.stack([-1.0, -1.0, 1.0, 1.0])[:, None]
-    xs = cx + sx * ux * hw + sy * vx * hh
-    ys = cy + sx * uy * hw + sy * vy * hh
-    coords = np.stack([xs.T, ys.T], axis=-1)  # (n, 4, 2)
-    # an (n, 4, 2) input gives an array (shapely's stubs type the scalar case too)
-    return shapely.polygons(coords)  # type: ignore[return-value]
+    # corners centre -/+ the half axes (ux, uy) hw and (-uy, ux) hh, counter-clockwise from
+    # the lower left; each product formed once (a sign flip is exact, so the corners are
+    # the same floats as centre + s * u * hw + t * v * hh with s, t = +-1)
+    uxw, uyw, uxh, uyh = ux * hw, uy * hw, ux * hh, uy * hh
+    n = len(a)
+    coords = np.empty((n, 5, 2))
+    coords[:, 0, 0] = cx - uxw + uyh
+    coords[:, 0, 1] = cy - uyw - uxh
+    coords[:, 1, 0] = cx + uxw + uyh
+    coords[:, 1, 1] = cy + uyw - uxh
+    coords[:, 2, 0] = cx + uxw - uyh
+    coords[:, 2, 1] = cy + uyw + uxh
+    coords[:, 3, 0] = cx - uxw - uyh
+    coords[:, 3, 1] = cy - uyw + uxh
+    coords[:, 4] = coords[:, 0]  # each ring closed, as shapely.polygons closes it
+    # one ring of five points per polygon, built from flat arrays (cheaper than
+    # shapely.polygons of (n, 4, 2) corners; the same coordinates)
+    ring = np.arange(n + 1)
+    return shapely.from_ragged_array(  # type: ignore[return-value]
+        shapely.GeometryType.POLYGON, coords.reshape(-1, 2), (5 * ring, ring))
 
 
 def thin_box(a: Sequence[float], b: Sequence[float], shorten_a: float = 0.0) -> Box | None:
@@ -278,9 +290,9 @@ class LabelIndex:
         """The boxes as polygons (:func:`box_polygons`), kept for the last few arrays."""
         if not isinstance(boxes, np.ndarray):
             return box_polygons(boxes)
-        return self._polys_at(boxes, np.arange(len(boxes)))
+        return self._polys_at(boxes, slice(0, len(boxes)))
 
-    def _polys_at(self, boxes: np.ndarray, idx: np.ndarray) -> np.ndarray:
+    def _polys_at(self, boxes: np.ndarray, idx: np.ndarray | slice) -> np.ndarray:
         """Polygons of the rows ``idx`` of ``boxes``, each built once while the array is
         among the last :data:`POLY_MEMO` (row by row the same as :func:`box_polygons`)."""
         entry = next((e for e in self._poly_memo if e[0] is boxes), None)
@@ -288,27 +300,36 @@ class LabelIndex:
             entry = (boxes, np.empty(len(boxes), dtype=object), np.zeros(len(boxes), dtype=bool))
             self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], entry]
         _, polys, made = entry
-        missing = idx[~made[idx]]
+        if isinstance(idx, slice) and not made[idx].any():
+            polys[idx] = box_polygons(boxes[idx])
+            made[idx] = True
+            return polys[idx]
+        rows = np.arange(len(boxes))[idx]
+        missing = rows[~made[rows]]
         if len(missing):
             polys[missing] = box_polygons(boxes[missing])
             made[missing] = True
-        return polys[idx]
+        return polys[rows]
 
-    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, start: int, stop: int, *,
-                   lines: bool, fixed: bool) -> np.ndarray:
-        """:meth:`static_free` of the boxes ``start:stop``, remembered per array of boxes
-        (its first six columns) for the boxes tested so far."""
-        if not isinstance(boxes, np.ndarray):
-            part = boxes[start:stop]
-            return self._static_free(part, box_polygons(part), lines=lines, fixed=fixed)
+    def _tested(self, boxes: np.ndarray, lines: bool, fixed: bool) -> _Tested:
+        """The remembered bulk result of a candidate array (by its first six columns)."""
         digest = hashlib.blake2b(np.ascontiguousarray(boxes[:, :6]).tobytes(), digest_size=20)
         key = (lines, fixed, digest.digest())
         memo = self._static_memo.get(key)
         if memo is None:
             memo = self._static_memo[key] = _Tested(np.ones(len(boxes), dtype=bool))
+        return memo
+
+    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, memo: _Tested | None, start: int,
+                   stop: int, *, lines: bool, fixed: bool) -> np.ndarray:
+        """:meth:`static_free` of the boxes ``start:stop``, remembered in ``memo`` (an array
+        of boxes' :meth:`_tested`; None for a sequence) for the boxes tested so far."""
+        if memo is None:
+            part = boxes[start:stop]
+            return self._static_free(part, box_polygons(part), lines=lines, fixed=fixed)
         if memo.done < stop:
-            idx = np.arange(memo.done, stop)
-            memo.ok[idx] = self._static_free(boxes[idx], self._polys_at(boxes, idx),
+            new = slice(memo.done, stop)
+            memo.ok[new] = self._static_free(boxes[new], self._polys_at(boxes, new),  # type: ignore[arg-type]
                                              lines=lines, fixed=fixed)
             memo.done = stop
         return memo.ok[start:stop]
@@ -367,10 +388,11 @@ class LabelIndex:
         as_rows = isinstance(boxes, np.ndarray)
         tree: shapely.STRtree | None = None
         tree_taken = False
+        memo = self._tested(boxes, lines, fixed) if as_rows and len(boxes) else None  # type: ignore[arg-type]
         start, size = 0, FIRST_CHUNK
         while start < len(boxes):
             stop = min(len(boxes), start + size)
-            rest = start + np.flatnonzero(self._static_ok(boxes, start, stop, lines=lines, fixed=fixed))
+            rest = start + np.flatnonzero(self._static_ok(boxes, memo, start, stop, lines=lines, fixed=fixed))
             start, size = stop, 2 * size
             if len(rest) == 0:
                 continue
