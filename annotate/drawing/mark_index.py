@@ -34,6 +34,7 @@ import shapely
 from shapely.geometry import Point, Polygon
 
 from .boxes import Box, _box, _polygon, boxes_overlap
+from .leader_screen import leader_rows, surely_through
 from .placement_stats import PlacementStats
 
 __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
@@ -55,6 +56,9 @@ POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resor
 #: free box is mostly among the first few dozen of a few hundred (measured on the
 #: benchmark plant, benchmarks/RESULTS.md), so the rest is never built or queried.
 FIRST_CHUNK = 32
+#: Spots left for the exact tests from which their leaders are screened in bulk first
+#: (:meth:`LabelIndex.leaders_crossing_marks`; below it the screen costs more than it saves).
+SCREEN_FROM = 4
 
 
 @dataclass
@@ -90,7 +94,7 @@ def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
     # one ring of five points per polygon, built from flat arrays (cheaper than
     # shapely.polygons of (n, 4, 2) corners; the same coordinates)
     ring = np.arange(n + 1)
-    return shapely.from_ragged_array(  # type: ignore[return-value]
+    return shapely.from_ragged_array(
         shapely.GeometryType.POLYGON, coords.reshape(-1, 2), (5 * ring, ring))
 
 
@@ -152,6 +156,12 @@ class LabelIndex:
         self._mark_geoms: list[Any] = []
         self._mark_tree: shapely.STRtree | None = None
         self._in_tree = (0, 0)  # boxes, lines in the tree
+        # for the leader screen: the placed boxes as rows, each mark geometry's box number
+        # (-1 for a line), the tree's numbers and a small tree of the boxes added since
+        self._box_rows = np.empty((64, 6))
+        self._geom_box: list[int] = []
+        self._tree_geom_box = np.empty(0, dtype=np.int64)
+        self._since: tuple[int, int, shapely.STRtree | None] = (0, 0, None)
         # polygons of the last few candidate arrays, held with the array (identity is safe)
         self._poly_memo: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = []
         # the fixed obstacles never change: a candidate array's bulk result, by its boxes
@@ -195,6 +205,10 @@ class LabelIndex:
         idx = len(self._boxes)
         self._boxes.append(box)
         self._mark_geoms.append(_polygon(box))
+        self._geom_box.append(idx)
+        if idx == len(self._box_rows):
+            self._box_rows = np.concatenate([self._box_rows, np.empty_like(self._box_rows)])
+        self._box_rows[idx] = box[:6]
         for key in self._cells(box.xmin, box.ymin, box.xmax, box.ymax):
             self._grid.setdefault(key, []).append(idx)
 
@@ -203,6 +217,7 @@ class LabelIndex:
         idx = len(self._own_lines)
         self._own_lines.append(line)
         self._mark_geoms.append(line)
+        self._geom_box.append(-1)
         for key in self._cells(*line.bounds):
             self._line_grid.setdefault(key, []).append(idx)
 
@@ -376,14 +391,15 @@ class LabelIndex:
         return True
 
     def first_free(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool = True, fixed: bool = True,
-                   accept=None) -> int | None:
+                   accept=None, refused=None) -> int | None:
         """Index of the first box (in the given order of preference) clear of everything.
 
         The fixed obstacles and the tree of our marks are tested in bulk, a chunk of
         boxes at a time (:data:`FIRST_CHUNK`, doubled chunk by chunk; the first free box
         is the same as with every box tested at once); our marks added since the tree
         only for the boxes left, in order; ``accept(i)`` (optional) is a last test, e.g.
-        of the leader.
+        of the leader; ``refused(rows)`` (optional, with ``accept``) names in bulk the rows
+        whose ``accept`` is surely False (and without side effects): they are skipped.
         """
         as_rows = isinstance(boxes, np.ndarray)
         tree: shapely.STRtree | None = None
@@ -405,6 +421,8 @@ class LabelIndex:
                 keep = np.ones(len(rest), dtype=bool)
                 keep[hit[0]] = False
                 rest = rest[keep]
+            if refused is not None and accept is not None and len(rest) >= SCREEN_FROM:
+                rest = rest[~refused(rest)]
             for j in rest:
                 i = int(j)
                 box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
@@ -413,10 +431,52 @@ class LabelIndex:
                     return i
         return None
 
+    def leaders_crossing_marks(self, a: np.ndarray, b: np.ndarray, shorten_a: float) -> np.ndarray:
+        """Per leader from ``a[i]`` to ``b[i]`` (as :meth:`leader_free` draws it): True when it
+        surely crosses one of our placed boxes, so that :meth:`leader_free` is False whatever
+        its options (:mod:`.leader_screen`); False: not sure, test it exactly."""
+        out = np.zeros(len(a), dtype=bool)
+        if not self._boxes or len(a) == 0:
+            return out
+        rows = leader_rows(a, b, shorten_a, self._eps)
+        which = np.flatnonzero(rows.ok)
+        if len(which) == 0:
+            return out
+        p0, p1, margin = rows.p0[which], rows.p1[which], rows.margin[which]
+        segs = shapely.linestrings(np.stack([p0, p1], axis=1))
+        # candidate boxes: the tree of our marks (its boxes), and those added since
+        parts_l, parts_b = [], []
+        first = self._in_tree[0]
+        if self._mark_tree is not None:
+            li, gi = self._mark_tree.query(segs)
+            bi = self._tree_geom_box[gi]
+            parts_l.append(li[bi >= 0])
+            parts_b.append(bi[bi >= 0])
+        since = self._since_tree(first)
+        if since is not None:
+            li, bj = since.query(segs)
+            parts_l.append(li)
+            parts_b.append(bj + first)
+        if not parts_l:
+            return out
+        li, bi = np.concatenate(parts_l), np.concatenate(parts_b)
+        hit = surely_through(p0[li], p1[li], margin[li], self._box_rows[bi])
+        out[which[li[hit]]] = True
+        return out
+
+    def _since_tree(self, first: int) -> shapely.STRtree | None:
+        """A tree of the boxes placed since the marks' tree (number ``first`` on)."""
+        n = len(self._boxes)
+        if self._since[:2] != (first, n):
+            polys = box_polygons(self._box_rows[first:n])
+            self._since = (first, n, shapely.STRtree(polys) if len(polys) else None)
+        return self._since[2]
+
     def _marks_tree(self) -> shapely.STRtree | None:
         """The tree of our marks, rebuilt when :data:`REBUILD_AFTER` were added since."""
         n_box, n_line = self._in_tree
         if len(self._boxes) + len(self._own_lines) - n_box - n_line >= REBUILD_AFTER:
             self._mark_tree = shapely.STRtree(self._mark_geoms) if self._mark_geoms else None
+            self._tree_geom_box = np.asarray(self._geom_box, dtype=np.int64)
             self._in_tree = (len(self._boxes), len(self._own_lines))
         return self._mark_tree
