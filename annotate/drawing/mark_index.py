@@ -12,13 +12,19 @@ obstacles, a parsed document or a streamed one, can hand them in):
   (:func:`.boxes.boxes_overlap`), only for the spots the bulk query left free, in the
   order of preference, up to the first free one.
 
+The spots of a candidate array are taken a chunk at a time (:data:`FIRST_CHUNK`, then
+:data:`CHUNK_GROWTH` times as many), so the spots after the first free one are never
+built or queried; a spot's leader is screened in bulk against our boxes
+(:mod:`.leader_screen`) before the exact leader test.  Neither changes which spot is
+chosen.
+
 :class:`PlacementStats` counts how each mark was placed; the last-resort placements are
 counted there and reported (``AnnotationSummary.placement``), never silent.
 
 References
 ----------
 .. [1] shapely 2 manual, ``STRtree.query(geometry_array, predicate="intersects")`` and
-   ``shapely.polygons`` (vectorised constructors).
+   ``shapely.from_ragged_array`` (vectorised constructors).
 """
 
 from __future__ import annotations
@@ -52,10 +58,12 @@ def row_box(rows: np.ndarray, i: int) -> Box:
 #: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
 REBUILD_AFTER = 200
 POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resorts reuse some)
-#: Boxes of a candidate array tested in bulk at first, doubled chunk by chunk: the first
-#: free box is mostly among the first few dozen of a few hundred (measured on the
-#: benchmark plant, benchmarks/RESULTS.md), so the rest is never built or queried.
+#: Boxes of a candidate array tested in bulk at first, the next chunk :data:`CHUNK_GROWTH`
+#: times as many: half the first free boxes are among the first 6-12 of a few hundred,
+#: but a crowded drawing's arrays are mostly tested to their end, where each chunk costs
+#: a few shapely calls (measured on the benchmark plants, benchmarks/RESULTS.md).
 FIRST_CHUNK = 32
+CHUNK_GROWTH = 8
 #: Spots left for the exact tests from which their leaders are screened in bulk first
 #: (:meth:`LabelIndex.leaders_crossing_marks`; below it the screen costs more than it saves).
 SCREEN_FROM = 4
@@ -395,8 +403,8 @@ class LabelIndex:
         """Index of the first box (in the given order of preference) clear of everything.
 
         The fixed obstacles and the tree of our marks are tested in bulk, a chunk of
-        boxes at a time (:data:`FIRST_CHUNK`, doubled chunk by chunk; the first free box
-        is the same as with every box tested at once); our marks added since the tree
+        boxes at a time (:data:`FIRST_CHUNK`, growing by :data:`CHUNK_GROWTH`; the first
+        free box is the same as with every box tested at once); our marks added since the tree
         only for the boxes left, in order; ``accept(i)`` (optional) is a last test, e.g.
         of the leader; ``refused(rows)`` (optional, with ``accept``) names in bulk the rows
         whose ``accept`` is surely False (and without side effects): they are skipped.
@@ -409,7 +417,7 @@ class LabelIndex:
         while start < len(boxes):
             stop = min(len(boxes), start + size)
             rest = start + np.flatnonzero(self._static_ok(boxes, memo, start, stop, lines=lines, fixed=fixed))
-            start, size = stop, 2 * size
+            start, size = stop, CHUNK_GROWTH * size
             if len(rest) == 0:
                 continue
             if not tree_taken:  # taken (maybe rebuilt) once per call, as the first box is
