@@ -188,6 +188,7 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
     if len(spots) == 0:
         return None
     accept: Callable[[int], bool] | None = None
+    refused: Callable[[np.ndarray], np.ndarray] | None = None
     if leader_lines is not None:
         start = LEADER_START_H * text_height
         graze = LEADER_GRAZE_H * text_height
@@ -200,8 +201,27 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
             return index.leader_free(sp.anchor, near, shorten_a=start, lines=leader_lines,
                                      from_symbol=leader_from_symbol, graze=graze)
 
-    i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept)
+        def refused(rows: np.ndarray) -> np.ndarray:  # beside the route needs no leader
+            return _leaders_crossing(index, spots[rows], start) & (spots[rows, 8] > 0.0)
+
+    i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept, refused=refused)
     return None if i is None else _spot(spots, i)
+
+
+def _leaders_crossing(index: LabelIndex, rows: np.ndarray, start: float) -> np.ndarray:
+    """Per spot row: True when its leader surely crosses one of our boxes (so its exact
+    leader test fails; :meth:`.mark_index.LabelIndex.leaders_crossing_marks`)."""
+    anchors = rows[:, 6:8]
+    return index.leaders_crossing_marks(anchors, _nearest_rows(rows, anchors), start)
+
+
+def _nearest_rows(rows: np.ndarray, p: np.ndarray) -> np.ndarray:
+    """:func:`_nearest_on_box` for every row (box columns as :data:`COLUMNS`)."""
+    cx, cy, ux, uy, hw, hh = rows[:, :6].T
+    dx, dy = p[:, 0] - cx, p[:, 1] - cy
+    lx = np.maximum(-hw, np.minimum(hw, dx * ux + dy * uy))
+    ly = np.maximum(-hh, np.minimum(hh, -dx * uy + dy * ux))
+    return np.stack([cx + lx * ux - ly * uy, cy + lx * uy + ly * ux], axis=1)
 
 
 def _nearest_on_box(box: Box, p: Point2) -> Point2:
@@ -319,7 +339,10 @@ def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float,
             loose.append(sp)
         return False
 
-    i = index.first_free(spots, accept=accept)
+    def refused(rows: np.ndarray) -> np.ndarray:  # its leader fails with lines or without
+        return _leaders_crossing(index, spots[rows], start)
+
+    i = index.first_free(spots, accept=accept, refused=refused)
     return (None if i is None else _spot(spots, i)), (loose[0] if loose else None)
 
 

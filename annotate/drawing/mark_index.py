@@ -12,13 +12,19 @@ obstacles, a parsed document or a streamed one, can hand them in):
   (:func:`.boxes.boxes_overlap`), only for the spots the bulk query left free, in the
   order of preference, up to the first free one.
 
+The spots of a candidate array are taken a chunk at a time (:data:`FIRST_CHUNK`, then
+:data:`CHUNK_GROWTH` times as many), so the spots after the first free one are never
+built or queried; a spot's leader is screened in bulk against our boxes
+(:mod:`.leader_screen`) before the exact leader test.  Neither changes which spot is
+chosen.
+
 :class:`PlacementStats` counts how each mark was placed; the last-resort placements are
 counted there and reported (``AnnotationSummary.placement``), never silent.
 
 References
 ----------
 .. [1] shapely 2 manual, ``STRtree.query(geometry_array, predicate="intersects")`` and
-   ``shapely.polygons`` (vectorised constructors).
+   ``shapely.from_ragged_array`` (vectorised constructors).
 """
 
 from __future__ import annotations
@@ -26,6 +32,7 @@ from __future__ import annotations
 import hashlib
 import math
 from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -33,6 +40,7 @@ import shapely
 from shapely.geometry import Point, Polygon
 
 from .boxes import Box, _box, _polygon, boxes_overlap
+from .leader_screen import leader_rows, surely_through
 from .placement_stats import PlacementStats
 
 __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
@@ -50,6 +58,23 @@ def row_box(rows: np.ndarray, i: int) -> Box:
 #: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
 REBUILD_AFTER = 200
 POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resorts reuse some)
+#: Boxes of a candidate array tested in bulk at first, the next chunk :data:`CHUNK_GROWTH`
+#: times as many: half the first free boxes are among the first 6-12 of a few hundred,
+#: but a crowded drawing's arrays are mostly tested to their end, where each chunk costs
+#: a few shapely calls (measured on the benchmark plants, benchmarks/RESULTS.md).
+FIRST_CHUNK = 32
+CHUNK_GROWTH = 8
+#: Spots left for the exact tests from which their leaders are screened in bulk first
+#: (:meth:`LabelIndex.leaders_crossing_marks`; below it the screen costs more than it saves).
+SCREEN_FROM = 4
+
+
+@dataclass
+class _Tested:
+    """A candidate array's bulk result against the fixed obstacles, boxes ``0:done``."""
+
+    ok: np.ndarray
+    done: int = 0
 
 
 def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
@@ -59,14 +84,26 @@ def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
         return np.empty(0, dtype=object)
     a = boxes if isinstance(boxes, np.ndarray) else np.asarray([b[:6] for b in boxes], dtype=float)
     cx, cy, ux, uy, hw, hh = a[:, :6].T
-    vx, vy = -uy, ux
-    sx = np.stack([-1.0, 1.0, 1.0, -1.0])[:, None]
-    sy = np.stack([-1.0, -1.0, 1.0, 1.0])[:, None]
-    xs = cx + sx * ux * hw + sy * vx * hh
-    ys = cy + sx * uy * hw + sy * vy * hh
-    coords = np.stack([xs.T, ys.T], axis=-1)  # (n, 4, 2)
-    # an (n, 4, 2) input gives an array (shapely's stubs type the scalar case too)
-    return shapely.polygons(coords)  # type: ignore[return-value]
+    # corners centre -/+ the half axes (ux, uy) hw and (-uy, ux) hh, counter-clockwise from
+    # the lower left; each product formed once (a sign flip is exact, so the corners are
+    # the same floats as centre + s * u * hw + t * v * hh with s, t = +-1)
+    uxw, uyw, uxh, uyh = ux * hw, uy * hw, ux * hh, uy * hh
+    n = len(a)
+    coords = np.empty((n, 5, 2))
+    coords[:, 0, 0] = cx - uxw + uyh
+    coords[:, 0, 1] = cy - uyw - uxh
+    coords[:, 1, 0] = cx + uxw + uyh
+    coords[:, 1, 1] = cy + uyw - uxh
+    coords[:, 2, 0] = cx + uxw - uyh
+    coords[:, 2, 1] = cy + uyw + uxh
+    coords[:, 3, 0] = cx - uxw - uyh
+    coords[:, 3, 1] = cy - uyw + uxh
+    coords[:, 4] = coords[:, 0]  # each ring closed, as shapely.polygons closes it
+    # one ring of five points per polygon, built from flat arrays (cheaper than
+    # shapely.polygons of (n, 4, 2) corners; the same coordinates)
+    ring = np.arange(n + 1)
+    return shapely.from_ragged_array(
+        shapely.GeometryType.POLYGON, coords.reshape(-1, 2), (5 * ring, ring))
 
 
 def thin_box(a: Sequence[float], b: Sequence[float], shorten_a: float = 0.0) -> Box | None:
@@ -127,10 +164,16 @@ class LabelIndex:
         self._mark_geoms: list[Any] = []
         self._mark_tree: shapely.STRtree | None = None
         self._in_tree = (0, 0)  # boxes, lines in the tree
+        # for the leader screen: the placed boxes as rows, each mark geometry's box number
+        # (-1 for a line), the tree's numbers and a small tree of the boxes added since
+        self._box_rows = np.empty((64, 6))
+        self._geom_box: list[int] = []
+        self._tree_geom_box = np.empty(0, dtype=np.int64)
+        self._since: tuple[int, int, shapely.STRtree | None] = (0, 0, None)
         # polygons of the last few candidate arrays, held with the array (identity is safe)
-        self._poly_memo: list[tuple[np.ndarray, np.ndarray]] = []
+        self._poly_memo: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = []
         # the fixed obstacles never change: a candidate array's bulk result, by its boxes
-        self._static_memo: dict[tuple[bool, bool, bytes], np.ndarray] = {}
+        self._static_memo: dict[tuple[bool, bool, bytes], _Tested] = {}
 
     # -- what is there -------------------------------------------------------------
     @property
@@ -170,6 +213,10 @@ class LabelIndex:
         idx = len(self._boxes)
         self._boxes.append(box)
         self._mark_geoms.append(_polygon(box))
+        self._geom_box.append(idx)
+        if idx == len(self._box_rows):
+            self._box_rows = np.concatenate([self._box_rows, np.empty_like(self._box_rows)])
+        self._box_rows[idx] = box[:6]
         for key in self._cells(box.xmin, box.ymin, box.xmax, box.ymax):
             self._grid.setdefault(key, []).append(idx)
 
@@ -178,6 +225,7 @@ class LabelIndex:
         idx = len(self._own_lines)
         self._own_lines.append(line)
         self._mark_geoms.append(line)
+        self._geom_box.append(-1)
         for key in self._cells(*line.bounds):
             self._line_grid.setdefault(key, []).append(idx)
 
@@ -265,24 +313,49 @@ class LabelIndex:
         """The boxes as polygons (:func:`box_polygons`), kept for the last few arrays."""
         if not isinstance(boxes, np.ndarray):
             return box_polygons(boxes)
-        for arr, polys in self._poly_memo:
-            if arr is boxes:
-                return polys
-        polys = box_polygons(boxes)
-        self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], (boxes, polys)]
-        return polys
+        return self._polys_at(boxes, slice(0, len(boxes)))
 
-    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool, fixed: bool) -> np.ndarray:
-        """:meth:`static_free`, remembered per array of boxes (its first six columns)."""
-        if not isinstance(boxes, np.ndarray):
-            return self._static_free(boxes, box_polygons(boxes), lines=lines, fixed=fixed)
+    def _polys_at(self, boxes: np.ndarray, idx: np.ndarray | slice) -> np.ndarray:
+        """Polygons of the rows ``idx`` of ``boxes``, each built once while the array is
+        among the last :data:`POLY_MEMO` (row by row the same as :func:`box_polygons`)."""
+        entry = next((e for e in self._poly_memo if e[0] is boxes), None)
+        if entry is None:
+            entry = (boxes, np.empty(len(boxes), dtype=object), np.zeros(len(boxes), dtype=bool))
+            self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], entry]
+        _, polys, made = entry
+        if isinstance(idx, slice) and not made[idx].any():
+            polys[idx] = box_polygons(boxes[idx])
+            made[idx] = True
+            return polys[idx]
+        rows = np.arange(len(boxes))[idx]
+        missing = rows[~made[rows]]
+        if len(missing):
+            polys[missing] = box_polygons(boxes[missing])
+            made[missing] = True
+        return polys[rows]
+
+    def _tested(self, boxes: np.ndarray, lines: bool, fixed: bool) -> _Tested:
+        """The remembered bulk result of a candidate array (by its first six columns)."""
         digest = hashlib.blake2b(np.ascontiguousarray(boxes[:, :6]).tobytes(), digest_size=20)
         key = (lines, fixed, digest.digest())
-        ok = self._static_memo.get(key)
-        if ok is None:
-            ok = self._static_free(boxes, self._polys_of(boxes), lines=lines, fixed=fixed)
-            self._static_memo[key] = ok
-        return ok
+        memo = self._static_memo.get(key)
+        if memo is None:
+            memo = self._static_memo[key] = _Tested(np.ones(len(boxes), dtype=bool))
+        return memo
+
+    def _static_ok(self, boxes: Sequence[Box] | np.ndarray, memo: _Tested | None, start: int,
+                   stop: int, *, lines: bool, fixed: bool) -> np.ndarray:
+        """:meth:`static_free` of the boxes ``start:stop``, remembered in ``memo`` (an array
+        of boxes' :meth:`_tested`; None for a sequence) for the boxes tested so far."""
+        if memo is None:
+            part = boxes[start:stop]
+            return self._static_free(part, box_polygons(part), lines=lines, fixed=fixed)
+        if memo.done < stop:
+            new = slice(memo.done, stop)
+            memo.ok[new] = self._static_free(boxes[new], self._polys_at(boxes, new),  # type: ignore[arg-type]
+                                             lines=lines, fixed=fixed)
+            memo.done = stop
+        return memo.ok[start:stop]
 
     def _static_free(self, boxes: Sequence[Box] | np.ndarray, polys: np.ndarray, *,
                      lines: bool, fixed: bool) -> np.ndarray:
@@ -326,36 +399,92 @@ class LabelIndex:
         return True
 
     def first_free(self, boxes: Sequence[Box] | np.ndarray, *, lines: bool = True, fixed: bool = True,
-                   accept=None) -> int | None:
+                   accept=None, refused=None) -> int | None:
         """Index of the first box (in the given order of preference) clear of everything.
 
-        The fixed obstacles are tested in bulk; our marks only for the boxes left, in
-        order; ``accept(i)`` (optional) is a last test, e.g. of the leader.
+        The fixed obstacles and the tree of our marks are tested in bulk, a chunk of
+        boxes at a time (:data:`FIRST_CHUNK`, growing by :data:`CHUNK_GROWTH`; the first
+        free box is the same as with every box tested at once); our marks added since the tree
+        only for the boxes left, in order; ``accept(i)`` (optional) is a last test, e.g.
+        of the leader; ``refused(rows)`` (optional, with ``accept``) names in bulk the rows
+        whose ``accept`` is surely False (and without side effects): they are skipped.
         """
-        if len(boxes) == 0:
-            return None
-        rest = np.flatnonzero(self._static_ok(boxes, lines=lines, fixed=fixed))
-        if len(rest) == 0:
-            return None
-        tree = self._marks_tree()
-        if tree is not None:
-            hit = tree.query(self._polys_of(boxes)[rest], predicate="intersects")
-            keep = np.ones(len(rest), dtype=bool)
-            keep[hit[0]] = False
-            rest = rest[keep]
         as_rows = isinstance(boxes, np.ndarray)
-        for j in rest:
-            i = int(j)
-            box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
-            if (self.free_of_marks(box, since_tree=True)
-                    and (accept is None or accept(i))):
-                return i
+        tree: shapely.STRtree | None = None
+        tree_taken = False
+        memo = self._tested(boxes, lines, fixed) if as_rows and len(boxes) else None  # type: ignore[arg-type]
+        start, size = 0, FIRST_CHUNK
+        while start < len(boxes):
+            stop = min(len(boxes), start + size)
+            rest = start + np.flatnonzero(self._static_ok(boxes, memo, start, stop, lines=lines, fixed=fixed))
+            start, size = stop, CHUNK_GROWTH * size
+            if len(rest) == 0:
+                continue
+            if not tree_taken:  # taken (maybe rebuilt) once per call, as the first box is
+                tree, tree_taken = self._marks_tree(), True
+            if tree is not None:
+                polys = (self._polys_at(boxes, rest) if as_rows  # type: ignore[arg-type]
+                         else box_polygons([boxes[int(j)] for j in rest]))
+                hit = tree.query(polys, predicate="intersects")
+                keep = np.ones(len(rest), dtype=bool)
+                keep[hit[0]] = False
+                rest = rest[keep]
+            if refused is not None and accept is not None and len(rest) >= SCREEN_FROM:
+                rest = rest[~refused(rest)]
+            for j in rest:
+                i = int(j)
+                box = row_box(boxes, i) if as_rows else boxes[i]  # type: ignore[arg-type]
+                if (self.free_of_marks(box, since_tree=True)
+                        and (accept is None or accept(i))):
+                    return i
         return None
+
+    def leaders_crossing_marks(self, a: np.ndarray, b: np.ndarray, shorten_a: float) -> np.ndarray:
+        """Per leader from ``a[i]`` to ``b[i]`` (as :meth:`leader_free` draws it): True when it
+        surely crosses one of our placed boxes, so that :meth:`leader_free` is False whatever
+        its options (:mod:`.leader_screen`); False: not sure, test it exactly."""
+        out = np.zeros(len(a), dtype=bool)
+        if not self._boxes or len(a) == 0:
+            return out
+        rows = leader_rows(a, b, shorten_a, self._eps)
+        which = np.flatnonzero(rows.ok)
+        if len(which) == 0:
+            return out
+        p0, p1, margin = rows.p0[which], rows.p1[which], rows.margin[which]
+        segs = shapely.linestrings(np.stack([p0, p1], axis=1))
+        # candidate boxes: the tree of our marks (its boxes), and those added since
+        parts_l, parts_b = [], []
+        first = self._in_tree[0]
+        if self._mark_tree is not None:
+            li, gi = self._mark_tree.query(segs)
+            bi = self._tree_geom_box[gi]
+            parts_l.append(li[bi >= 0])
+            parts_b.append(bi[bi >= 0])
+        since = self._since_tree(first)
+        if since is not None:
+            li, bj = since.query(segs)
+            parts_l.append(li)
+            parts_b.append(bj + first)
+        if not parts_l:
+            return out
+        li, bi = np.concatenate(parts_l), np.concatenate(parts_b)
+        hit = surely_through(p0[li], p1[li], margin[li], self._box_rows[bi])
+        out[which[li[hit]]] = True
+        return out
+
+    def _since_tree(self, first: int) -> shapely.STRtree | None:
+        """A tree of the boxes placed since the marks' tree (number ``first`` on)."""
+        n = len(self._boxes)
+        if self._since[:2] != (first, n):
+            polys = box_polygons(self._box_rows[first:n])
+            self._since = (first, n, shapely.STRtree(polys) if len(polys) else None)
+        return self._since[2]
 
     def _marks_tree(self) -> shapely.STRtree | None:
         """The tree of our marks, rebuilt when :data:`REBUILD_AFTER` were added since."""
         n_box, n_line = self._in_tree
         if len(self._boxes) + len(self._own_lines) - n_box - n_line >= REBUILD_AFTER:
             self._mark_tree = shapely.STRtree(self._mark_geoms) if self._mark_geoms else None
+            self._tree_geom_box = np.asarray(self._geom_box, dtype=np.int64)
             self._in_tree = (len(self._boxes), len(self._own_lines))
         return self._mark_tree
