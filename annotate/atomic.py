@@ -14,7 +14,7 @@ from __future__ import annotations
 import logging
 import os
 import tempfile
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from pathlib import Path
 
@@ -88,12 +88,18 @@ def write_bytes_atomic(path: str | os.PathLike[str], data: bytes) -> Path:
 
 
 def write_text_atomic(
-    path: str | os.PathLike[str], text: str, *, encoding: str = "utf-8", newline: str | None = None
+    path: str | os.PathLike[str], text: str | Iterable[str], *, encoding: str = "utf-8",
+    newline: str | None = None
 ) -> Path:
-    """Write ``text`` to ``path`` all or nothing; returns the path."""
+    """Write ``text`` (a string, or pieces of one written as they come, so a big document
+    is never held whole) to ``path`` all or nothing; returns the path."""
     with atomic_path(path) as tmp:
         with open(tmp, "w", encoding=encoding, newline=newline) as fh:
-            fh.write(text)
+            if isinstance(text, str):
+                fh.write(text)
+            else:
+                for piece in text:
+                    fh.write(piece)
             fh.flush()
             os.fsync(fh.fileno())
     return Path(path)

@@ -7,7 +7,7 @@ writers share); lengths stay in metres, as the keys say (``_m``).
 from __future__ import annotations
 
 import json
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Iterator, Mapping
 from dataclasses import fields
 from typing import Any
 
@@ -166,16 +166,32 @@ def dumps(outcomes: Iterable[CircuitOutcome], kind: str = "size",
       ]
     }
     """
+    return "".join(dump_pieces(outcomes, kind, extra))
+
+
+def dump_pieces(outcomes: Iterable[CircuitOutcome], kind: str = "size",
+                extra: Mapping[str, Any] | None = None) -> Iterator[str]:
+    r"""The text of :func:`dumps` in pieces (a circuit's line, a key), made as they are
+    written: a file writer never holds the whole document (15 MB at 2,000 circuits).
+
+    Examples
+    --------
+    >>> "".join(dump_pieces([], extra={"drawing": {"units": "mm"}, "devices": [1, 2]}))
+    '{\n  "circuits": [\n  ],\n  "drawing": {"units": "mm"},\n  "devices": [\n    1,\n    2\n  ]\n}'
+    """
     # allow_nan=False: NaN and infinity are not JSON (RFC 8259, section 6); a value that
     # slipped through raises here instead of writing a document no reader accepts
     encode = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "), allow_nan=False).encode
-    lines = [encode(row_to_dict(r, kind)) for r in rows(outcomes, METRE)]  # JSON keeps metres
-    body = ",\n".join("    " + line for line in lines)
-    text = '{\n  "circuits": [\n' + (body + "\n" if body else "") + "  ]"
+    yield '{\n  "circuits": [\n'
+    sep = "    "
+    for r in rows(outcomes, METRE):  # JSON keeps metres
+        yield sep + encode(row_to_dict(r, kind))
+        sep = ",\n    "
+    yield "  ]" if sep == "    " else "\n  ]"
     for key, value in (extra or {}).items():
         if isinstance(value, list):
             items = ",\n".join("    " + encode(v) for v in value)
-            text += f',\n  {encode(key)}: [\n' + (items + "\n" if items else "") + "  ]"
+            yield f',\n  {encode(key)}: [\n' + (items + "\n" if items else "") + "  ]"
         else:
-            text += f",\n  {encode(key)}: {encode(value)}"
-    return text + "\n}"
+            yield f",\n  {encode(key)}: {encode(value)}"
+    yield "\n}"

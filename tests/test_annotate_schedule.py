@@ -124,3 +124,21 @@ def test_schedule_write_is_atomic(tmp_path, monkeypatch):
     with pytest.raises(OSError):
         write_schedule_xlsx(tmp_path / "s.xlsx", outcomes())
     assert list(tmp_path.iterdir()) == []
+
+
+def test_schedule_json_written_in_pieces_is_the_document_and_all_or_nothing(tmp_path):
+    """schedule.json is written piece by piece (never held whole): the same bytes as the
+    document made at once, read back by the json module; a value JSON cannot hold (NaN,
+    RFC 8259 section 6) stops the write before a file appears."""
+    from cablewright.annotate.jsonout import dumps
+
+    extra = {"drawing": {"units": "mm"}, "devices": [{"kind": "breaker", "count": 2}]}
+    path = write_schedule_json(tmp_path / "s.json", outcomes(), extra)
+    text = path.read_text(encoding="utf-8")
+    assert text == dumps(outcomes(), "size", extra) + "\n"
+    doc = json.loads(text)
+    assert [c["id"] for c in doc["circuits"]] == [o.circuit_id for o in outcomes()]
+    assert doc["devices"] == extra["devices"]
+    with pytest.raises(ValueError):
+        write_schedule_json(tmp_path / "bad.json", outcomes(), {"drawing": {"scale": float("nan")}})
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["s.json"]
