@@ -6,11 +6,10 @@ import random
 
 import ezdxf
 import pytest
-from ezdxf.tools import text_size
-
 from cablewright.annotate.drawing.leaders import _mtext_size, text_outline
 from cablewright.annotate.drawing.note_spots import note_variants
 from cablewright.annotate.drawing.text import mtext_escape
+from ezdxf.tools import text_size
 
 WORDS = ("P-101:", "breaker", "fuse", "160", "A", "C-00017:", "NOT", "SIZED,", "see", "report",
          "S6:", "TRAY", "FILL", "106", "%", "(FAIL)", "Ze", "assumed", "MCB", "WWW", "iii")
