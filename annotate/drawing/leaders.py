@@ -48,9 +48,9 @@ def _mtext_size(entity: Any, heights: dict[tuple, float] | None) -> tuple[float,
     height high, so its height does not depend on its words; its width is the column's."""
     content = entity.text
     dxf = entity.dxf
-    plain = (heights is not None and content and not _CODES.search(content)
-             and dxf.get("width", 0.0) < 1e-6 and not entity.has_columns)
-    if not plain:
+    plain = (content and not _CODES.search(content) and dxf.get("width", 0.0) < 1e-6
+             and not entity.has_columns)
+    if heights is None or not plain:
         size = text_size.mtext_size(entity)
         return size.total_width, size.total_height
     key = (dxf.get_default("style"), dxf.get_default("char_height"),
