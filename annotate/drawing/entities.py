@@ -89,6 +89,8 @@ class EntityWriter:
         if not doc.styles.has_entry(config.text_style):
             doc.styles.new(config.text_style, dxfattribs={"font": font})
         self.font = fonts.make_font(font, height)
+        #: plain notes' heights measured by ezdxf's layout (:func:`.leaders.text_outline`)
+        self.mtext_heights: dict[tuple, float] = {}
         colors = dict(DEFAULT_CONFIG.colors)
         colors.update(config.colors)
         # no layer of ours in a colour a route layer uses (a leader would read as a run)
