@@ -37,7 +37,7 @@ from ezdxf.entities import factory
 from ezdxf.lldxf.extendedtags import ExtendedTags
 from ezdxf.lldxf.tagger import tag_compiler
 from ezdxf.lldxf.tags import Tags
-from ezdxf.lldxf.types import DXFTag
+from ezdxf.lldxf.types import BINARY_DATA, POINT_CODES, TYPE_TABLE, DXFTag, DXFVertex
 
 from .obstacles import DrawingScan, scan_modelspace
 from .style import AnnotateConfig
@@ -74,9 +74,9 @@ class ScratchDrawing:
         return handle is not None and int(handle, 16) >= self.first_handle
 
 
-def _clean(kind: str, tags: list[tuple[int, str]]) -> list[DXFTag]:
-    """Tags to rebuild from: no handle, owner, application groups or extended data."""
-    out = [DXFTag(0, kind)]
+def _kept(tags: list[tuple[int, str]]) -> list[tuple[int, str]]:
+    """The tags :func:`_clean` keeps, as they are."""
+    kept = []
     group = subclass = False
     for c, v in tags:
         if c == 102:
@@ -88,8 +88,13 @@ def _clean(kind: str, tags: list[tuple[int, str]]) -> list[DXFTag]:
             subclass = True
         elif c == 330 and not subclass:  # the owner; a hatch's boundary objects follow later
             continue
-        out.append(DXFTag(c, v))
-    return out
+        kept.append((c, v))
+    return kept
+
+
+def _clean(kind: str, tags: list[tuple[int, str]]) -> list[DXFTag]:
+    """Tags to rebuild from: no handle, owner, application groups or extended data."""
+    return [DXFTag(0, kind), *(DXFTag(c, v) for c, v in _kept(tags))]
 
 
 #: Ends the tags given to ``tag_compiler``: it reads one tag past a 2D point (for a z
@@ -97,9 +102,47 @@ def _clean(kind: str, tags: list[tuple[int, str]]) -> list[DXFTag]:
 _END = DXFTag(0, "EOF")
 
 
+def _compiled(kind: str, tags: list[tuple[int, str]]) -> list[DXFTag] | None:
+    """:func:`_clean` and ``tag_compiler`` in one pass over plain tuples, or None.
+
+    The same tags as ``tag_compiler`` gives (points as ``DXFVertex`` of x, y[, z],
+    values typed by ``TYPE_TABLE``), built without a ``DXFTag`` per raw tag and
+    without the generator; None for anything it would treat otherwise (binary
+    data, a point without its y, a value that does not convert), which is then
+    compiled by ``tag_compiler`` itself.
+    """
+    kept = _kept(tags)
+    out = [DXFTag(0, kind.strip())]
+    append = out.append
+    typed = TYPE_TABLE.get
+    i, n = 0, len(kept)
+    try:
+        while i < n:
+            c, v = kept[i]
+            if c in POINT_CODES:
+                if i + 1 >= n or kept[i + 1][0] != c + 10:
+                    return None
+                if i + 2 < n and kept[i + 2][0] == c + 20:
+                    append(DXFVertex(c, (float(v), float(kept[i + 1][1]), float(kept[i + 2][1]))))
+                    i += 3
+                else:
+                    append(DXFVertex(c, (float(v), float(kept[i + 1][1]))))
+                    i += 2
+            elif c in BINARY_DATA:
+                return None
+            else:
+                append(DXFTag(c, typed(c, str)(v)))
+                i += 1
+    except ValueError:
+        return None
+    return out
+
+
 def _load(doc: Any, kind: str, tags: list[tuple[int, str]], bind: bool) -> Any:
-    compiled = list(tag_compiler(iter([*_clean(kind, tags), _END])))
-    entity = factory.load(ExtendedTags(Tags(compiled[:-1])), doc)
+    compiled = _compiled(kind, tags)
+    if compiled is None:
+        compiled = list(tag_compiler(iter([*_clean(kind, tags), _END])))[:-1]
+    entity = factory.load(ExtendedTags(Tags(compiled)), doc)
     if bind:
         factory.bind(entity, doc)
     return entity
