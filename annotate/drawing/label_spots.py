@@ -28,6 +28,7 @@ import numpy as np
 from shapely.geometry import LineString
 
 from .boxes import Box, _polygon
+from .leader_screen import spots_crossing_marks
 from .mark_index import LabelIndex, row_box
 from .placement import Placement, readable_angle_deg
 from .stretches import Point2, Stretch
@@ -202,26 +203,10 @@ def pick(index: LabelIndex, spots: np.ndarray, text_height: float, *, lines: boo
                                      from_symbol=leader_from_symbol, graze=graze)
 
         def refused(rows: np.ndarray) -> np.ndarray:  # beside the route needs no leader
-            return _leaders_crossing(index, spots[rows], start) & (spots[rows, 8] > 0.0)
+            return spots_crossing_marks(index, spots[rows], start) & (spots[rows, 8] > 0.0)
 
     i = index.first_free(spots, lines=lines, fixed=fixed, accept=accept, refused=refused)
     return None if i is None else _spot(spots, i)
-
-
-def _leaders_crossing(index: LabelIndex, rows: np.ndarray, start: float) -> np.ndarray:
-    """Per spot row: True when its leader surely crosses one of our boxes (so its exact
-    leader test fails; :meth:`.mark_index.LabelIndex.leaders_crossing_marks`)."""
-    anchors = rows[:, 6:8]
-    return index.leaders_crossing_marks(anchors, _nearest_rows(rows, anchors), start)
-
-
-def _nearest_rows(rows: np.ndarray, p: np.ndarray) -> np.ndarray:
-    """:func:`_nearest_on_box` for every row (box columns as :data:`COLUMNS`)."""
-    cx, cy, ux, uy, hw, hh = rows[:, :6].T
-    dx, dy = p[:, 0] - cx, p[:, 1] - cy
-    lx = np.maximum(-hw, np.minimum(hw, dx * ux + dy * uy))
-    ly = np.maximum(-hh, np.minimum(hh, -dx * uy + dy * ux))
-    return np.stack([cx + lx * ux - ly * uy, cy + lx * uy + ly * ux], axis=1)
 
 
 def _nearest_on_box(box: Box, p: Point2) -> Point2:
@@ -340,7 +325,7 @@ def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float,
         return False
 
     def refused(rows: np.ndarray) -> np.ndarray:  # its leader fails with lines or without
-        return _leaders_crossing(index, spots[rows], start)
+        return spots_crossing_marks(index, spots[rows], start)
 
     i = index.first_free(spots, accept=accept, refused=refused)
     return (None if i is None else _spot(spots, i)), (loose[0] if loose else None)

@@ -21,10 +21,12 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
+import shapely
 
-__all__ = ["LeaderRows", "leader_rows", "screen_margin", "surely_through"]
+__all__ = ["LeaderRows", "crossing_marks", "spots_crossing_marks", "leader_rows", "screen_margin", "surely_through"]
 
 #: Relative rounding allowance of the screen: the exact leader and the screened one differ
 #: by a few units in the last place of the coordinates (about 1e-16 of them); 1e-7 of the
@@ -94,3 +96,54 @@ def surely_through(p0: np.ndarray, p1: np.ndarray, margin: np.ndarray,
             leave = np.where(flat, leave, np.minimum(leave, np.maximum(t_a, t_b)))
     seg = np.hypot(p1[:, 0] - p0[:, 0], p1[:, 1] - p0[:, 1])
     return inside & (leave > enter) & ((leave - enter) * seg > 2.0 * margin)
+
+
+def crossing_marks(index: Any, a: np.ndarray, b: np.ndarray, shorten_a: float) -> np.ndarray:
+    """Per leader from ``a[i]`` to ``b[i]`` (as ``index.leader_free`` draws it): True when it
+    surely crosses one of the boxes placed in ``index`` (a :class:`.mark_index.LabelIndex`),
+    so that ``leader_free`` is False whatever its options; False: not sure, test it exactly."""
+    out = np.zeros(len(a), dtype=bool)
+    if not index._boxes or len(a) == 0:
+        return out
+    rows = leader_rows(a, b, shorten_a, index._eps)
+    which = np.flatnonzero(rows.ok)
+    if len(which) == 0:
+        return out
+    p0, p1, margin = rows.p0[which], rows.p1[which], rows.margin[which]
+    segs = shapely.linestrings(np.stack([p0, p1], axis=1))
+    # candidate boxes: the tree of our marks (its boxes), and those added since
+    parts_l, parts_b = [], []
+    first = index._in_tree[0]
+    if index._mark_tree is not None:
+        li, gi = index._mark_tree.query(segs)
+        bi = index._tree_geom_box[gi]
+        parts_l.append(li[bi >= 0])
+        parts_b.append(bi[bi >= 0])
+    since = index._since_tree(first)
+    if since is not None:
+        li, bj = since.query(segs)
+        parts_l.append(li)
+        parts_b.append(bj + first)
+    if not parts_l:
+        return out
+    li, bi = np.concatenate(parts_l), np.concatenate(parts_b)
+    hit = surely_through(p0[li], p1[li], margin[li], index._box_rows[bi])
+    out[which[li[hit]]] = True
+    return out
+
+
+def spots_crossing_marks(index: Any, rows: np.ndarray, start: float) -> np.ndarray:
+    """Per candidate spot row (columns as :data:`.label_spots.COLUMNS`: box, anchor): True
+    when its leader, anchor to the nearest point of the box, surely crosses one of our
+    boxes (so its exact leader test fails; :func:`crossing_marks`)."""
+    anchors = rows[:, 6:8]
+    return crossing_marks(index, anchors, _nearest_rows(rows, anchors), start)
+
+
+def _nearest_rows(rows: np.ndarray, p: np.ndarray) -> np.ndarray:
+    """:func:`.label_spots._nearest_on_box` for every row (box columns as :data:`COLUMNS`)."""
+    cx, cy, ux, uy, hw, hh = rows[:, :6].T
+    dx, dy = p[:, 0] - cx, p[:, 1] - cy
+    lx = np.maximum(-hw, np.minimum(hw, dx * ux + dy * uy))
+    ly = np.maximum(-hh, np.minimum(hh, -dx * uy + dy * ux))
+    return np.stack([cx + lx * ux - ly * uy, cy + lx * uy + ly * ux], axis=1)

@@ -12,19 +12,13 @@ obstacles, a parsed document or a streamed one, can hand them in):
   (:func:`.boxes.boxes_overlap`), only for the spots the bulk query left free, in the
   order of preference, up to the first free one.
 
-The spots of a candidate array are taken a chunk at a time (:data:`FIRST_CHUNK`, then
-:data:`CHUNK_GROWTH` times as many), so the spots after the first free one are never
-built or queried; a spot's leader is screened in bulk against our boxes
-(:mod:`.leader_screen`) before the exact leader test.  Neither changes which spot is
-chosen.
+A candidate array is taken a chunk at a time (:data:`FIRST_CHUNK`, growing), so spots
+after the first free one are never built; leaders are screened in bulk against our boxes
+(:mod:`.leader_screen`) before the exact test.  Neither changes which spot is chosen.
 
-:class:`PlacementStats` counts how each mark was placed; the last-resort placements are
-counted there and reported (``AnnotationSummary.placement``), never silent.
+:class:`PlacementStats` counts each placement; last resorts are reported, never silent.
 
-References
-----------
-.. [1] shapely 2 manual, ``STRtree.query(geometry_array, predicate="intersects")`` and
-   ``shapely.from_ragged_array`` (vectorised constructors).
+References: shapely 2 manual, ``STRtree.query(geometry_array, predicate="intersects")``.
 """
 
 from __future__ import annotations
@@ -39,19 +33,12 @@ import numpy as np
 import shapely
 from shapely.geometry import Point, Polygon
 
-from .boxes import Box, _box, _polygon, boxes_overlap
-from .leader_screen import leader_rows, surely_through
+from .box_arrays import box_polygons, row_box, thin_box, tree_of
+from .boxes import Box, _polygon, boxes_overlap
+from .leader_screen import crossing_marks
 from .placement_stats import PlacementStats
 
 __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
-
-
-def row_box(rows: np.ndarray, i: int) -> Box:
-    """Row ``i`` of an array of boxes (columns cx, cy, ux, uy, hw, hh, ...) as a :class:`Box`."""
-    cx, cy, ux, uy, hw, hh = (float(v) for v in rows[i, :6])
-    ex = hw * abs(ux) + hh * abs(uy)
-    ey = hw * abs(uy) + hh * abs(ux)
-    return Box(cx, cy, ux, uy, hw, hh, cx - ex, cy - ey, cx + ex, cy + ey)
 
 
 #: Marks added before the tree of our marks is rebuilt: a rebuild costs about as much as
@@ -64,8 +51,7 @@ POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resor
 #: a few shapely calls (measured on the benchmark plants, benchmarks/RESULTS.md).
 FIRST_CHUNK = 32
 CHUNK_GROWTH = 8
-#: Spots left for the exact tests from which their leaders are screened in bulk first
-#: (:meth:`LabelIndex.leaders_crossing_marks`; below it the screen costs more than it saves).
+#: Spots left from which leaders are screened in bulk first (fewer: the screen costs more).
 SCREEN_FROM = 4
 
 
@@ -75,54 +61,6 @@ class _Tested:
 
     ok: np.ndarray
     done: int = 0
-
-
-def box_polygons(boxes: Sequence[Box] | np.ndarray) -> np.ndarray:
-    """The boxes (a sequence of :class:`Box`, or an array whose first six columns are
-    cx, cy, ux, uy, hw, hh) as shapely polygons, in one vectorised construction."""
-    if len(boxes) == 0:
-        return np.empty(0, dtype=object)
-    a = boxes if isinstance(boxes, np.ndarray) else np.asarray([b[:6] for b in boxes], dtype=float)
-    cx, cy, ux, uy, hw, hh = a[:, :6].T
-    # corners centre -/+ the half axes (ux, uy) hw and (-uy, ux) hh, counter-clockwise from
-    # the lower left; each product formed once (a sign flip is exact, so the corners are
-    # the same floats as centre + s * u * hw + t * v * hh with s, t = +-1)
-    uxw, uyw, uxh, uyh = ux * hw, uy * hw, ux * hh, uy * hh
-    n = len(a)
-    coords = np.empty((n, 5, 2))
-    coords[:, 0, 0] = cx - uxw + uyh
-    coords[:, 0, 1] = cy - uyw - uxh
-    coords[:, 1, 0] = cx + uxw + uyh
-    coords[:, 1, 1] = cy + uyw - uxh
-    coords[:, 2, 0] = cx + uxw - uyh
-    coords[:, 2, 1] = cy + uyw + uxh
-    coords[:, 3, 0] = cx - uxw - uyh
-    coords[:, 3, 1] = cy - uyw + uxh
-    coords[:, 4] = coords[:, 0]  # each ring closed, as shapely.polygons closes it
-    # one ring of five points per polygon, built from flat arrays (cheaper than
-    # shapely.polygons of (n, 4, 2) corners; the same coordinates)
-    ring = np.arange(n + 1)
-    return shapely.from_ragged_array(
-        shapely.GeometryType.POLYGON, coords.reshape(-1, 2), (5 * ring, ring))
-
-
-def thin_box(a: Sequence[float], b: Sequence[float], shorten_a: float = 0.0) -> Box | None:
-    """A leader from ``a`` to ``b`` as a hair-thin box, ``shorten_a`` cut off at ``a`` and a
-    hair cut off at ``b`` (it touches the box it leads to); None when nothing is left."""
-    dx, dy = b[0] - a[0], b[1] - a[1]
-    length = math.hypot(dx, dy)
-    keep = length - shorten_a - 1e-3 * length
-    if keep <= 0.0:
-        return None
-    ux, uy = dx / length, dy / length
-    s0 = shorten_a
-    mx, my = a[0] + ux * (s0 + keep / 2.0), a[1] + uy * (s0 + keep / 2.0)
-    return _box(mx, my, keep, 1e-6 * length, math.degrees(math.atan2(dy, dx)))
-
-
-def _tree(geoms: Iterable[Any]) -> shapely.STRtree | None:
-    items = [g for g in geoms if g is not None and not g.is_empty]
-    return shapely.STRtree(items) if items else None
 
 
 class LabelIndex:
@@ -153,11 +91,11 @@ class LabelIndex:
         self._boxes: list[Box] = []
         self._line_grid: dict[tuple[int, int], list[int]] = {}
         self._own_lines: list[Any] = []
-        self._obstacles = _tree(obstacles)
+        self._obstacles = tree_of(obstacles)
         self._fixed = list(blocked)
         self._fixed_polys = box_polygons(self._fixed)
         self._fixed_tree = shapely.STRtree(self._fixed_polys) if len(self._fixed) else None
-        self._lines = lines if isinstance(lines, shapely.STRtree) or lines is None else _tree(lines)
+        self._lines = lines if isinstance(lines, shapely.STRtree) or lines is None else tree_of(lines)
         self.stats = PlacementStats()
         # our marks so far in a tree (boxes and leaders), rebuilt every REBUILD_AFTER marks;
         # those added since are tested through the grid
@@ -440,37 +378,9 @@ class LabelIndex:
         return None
 
     def leaders_crossing_marks(self, a: np.ndarray, b: np.ndarray, shorten_a: float) -> np.ndarray:
-        """Per leader from ``a[i]`` to ``b[i]`` (as :meth:`leader_free` draws it): True when it
-        surely crosses one of our placed boxes, so that :meth:`leader_free` is False whatever
-        its options (:mod:`.leader_screen`); False: not sure, test it exactly."""
-        out = np.zeros(len(a), dtype=bool)
-        if not self._boxes or len(a) == 0:
-            return out
-        rows = leader_rows(a, b, shorten_a, self._eps)
-        which = np.flatnonzero(rows.ok)
-        if len(which) == 0:
-            return out
-        p0, p1, margin = rows.p0[which], rows.p1[which], rows.margin[which]
-        segs = shapely.linestrings(np.stack([p0, p1], axis=1))
-        # candidate boxes: the tree of our marks (its boxes), and those added since
-        parts_l, parts_b = [], []
-        first = self._in_tree[0]
-        if self._mark_tree is not None:
-            li, gi = self._mark_tree.query(segs)
-            bi = self._tree_geom_box[gi]
-            parts_l.append(li[bi >= 0])
-            parts_b.append(bi[bi >= 0])
-        since = self._since_tree(first)
-        if since is not None:
-            li, bj = since.query(segs)
-            parts_l.append(li)
-            parts_b.append(bj + first)
-        if not parts_l:
-            return out
-        li, bi = np.concatenate(parts_l), np.concatenate(parts_b)
-        hit = surely_through(p0[li], p1[li], margin[li], self._box_rows[bi])
-        out[which[li[hit]]] = True
-        return out
+        """Per leader from ``a[i]`` to ``b[i]``: True when it surely crosses one of our placed
+        boxes (:func:`.leader_screen.crossing_marks`); False: not sure, test it exactly."""
+        return crossing_marks(self, a, b, shorten_a)
 
     def _since_tree(self, first: int) -> shapely.STRtree | None:
         """A tree of the boxes placed since the marks' tree (number ``first`` on)."""
