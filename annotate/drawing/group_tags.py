@@ -25,7 +25,7 @@ from .text import clean
 #: still near enough to read as the run's (our own choice).
 GROUP_MAX_LEADER_H = 10.0
 
-__all__ = ["GROUP_MAX_LEADER_H", "group_runs", "group_tag_lines", "segment_cables", "tagged_runs",
+__all__ = ["GROUP_MAX_LEADER_H", "TaggedRun", "group_runs", "group_tag_lines", "segment_cables", "tagged_runs",
            "fills_under_tags", "place_group_tags"]
 
 
@@ -207,19 +207,28 @@ def _run_stretches(run: Sequence[str], marks: AnnotationInput) -> list[Any]:
     ]
 
 
-def tagged_runs(marks: AnnotationInput) -> list[tuple[str, ...]]:
-    """The runs that get a group tag: shared (:func:`group_runs`) and with a stretch to sit by."""
+#: A run that gets a group tag and the stretches its tag may sit by.
+TaggedRun = tuple[tuple[str, ...], list[Any]]
+
+
+def tagged_runs(marks: AnnotationInput) -> list[TaggedRun]:
+    """The runs that get a group tag: shared (:func:`group_runs`) and with a stretch to sit
+    by, each with its stretches; worked out once per drawing (:func:`.mark_pass.add_marks`)."""
     runs = group_runs(marks.segments, marks.per_segment, min_circuits=2)
-    return [tuple(run) for run in runs if _run_stretches(run, marks)]
+    with_stretches = ((tuple(run), _run_stretches(run, marks)) for run in runs)
+    return [(run, stretches) for run, stretches in with_stretches if stretches]
 
 
-def fills_under_tags(marks: AnnotationInput, group_tags: bool, select: MarkRound) -> frozenset[str]:
+def fills_under_tags(marks: AnnotationInput, group_tags: bool, select: MarkRound,
+                     runs: Sequence[TaggedRun] | None = None) -> frozenset[str]:
     """Segments whose fill line goes under their run's group tag: none without group tags,
-    none under a tag a repair round writes apart (:meth:`.mark_rounds.MarkRound.split`)."""
+    none under a tag a repair round writes apart (:meth:`.mark_rounds.MarkRound.split`);
+    ``runs`` from :func:`tagged_runs` (worked out here when not given)."""
     if not group_tags or not marks.fill_marks:
         return frozenset()
-    runs = [run for run in tagged_runs(marks) if not select.split("group-tag", ",".join(run))]
-    return fill_segment_ids(fills_by_run(runs, marks.fill_marks))
+    runs = tagged_runs(marks) if runs is None else runs
+    kept = [run for run, _ in runs if not select.split("group-tag", ",".join(run))]
+    return fill_segment_ids(fills_by_run(kept, marks.fill_marks))
 
 
 def _write_tag(w: EntityWriter, lines: Sequence[str], fills: Sequence[str], place: Placement,
@@ -243,19 +252,21 @@ def _write_tag(w: EntityWriter, lines: Sequence[str], fills: Sequence[str], plac
 
 
 def place_group_tags(
-    w: EntityWriter, index: LabelIndex, marks: AnnotationInput, select: MarkRound | None = None
+    w: EntityWriter, index: LabelIndex, marks: AnnotationInput, select: MarkRound | None = None,
+    runs: Sequence[TaggedRun] | None = None,
 ) -> tuple[int, int, int]:
     """One tag per run of shared segments (see :func:`group_runs`), the fill of its over-full
     segments under it (:mod:`.group_fill`); (tags, overlapping, segments whose fill was
-    written under a tag); ``select`` as in :func:`.labels.place_cable_labels`."""
+    written under a tag); ``select`` as in :func:`.labels.place_cable_labels`; ``runs``
+    from :func:`tagged_runs` (worked out here when not given)."""
     per_segment = marks.per_segment
     h = w.height
     group_tags = overlapping = fills_written = 0
     cables = segment_cables(marks.outcomes, per_segment)
-    runs = tagged_runs(marks)
-    fills = fills_by_run(runs, marks.fill_marks)
+    runs = tagged_runs(marks) if runs is None else runs
+    fills = fills_by_run((run for run, _ in runs), marks.fill_marks)
     sel = select or MarkRound()
-    for run in runs:
+    for run, stretches in runs:
         ref = ",".join(run)
         if not sel.wants("group-tag", ref):
             continue
@@ -278,7 +289,7 @@ def place_group_tags(
         under = fill_lines(mine, ids_per_line=w.config.ids_per_line)
         bw, bh = w.block_box(lines + under)
         before = sel.begin(index)
-        spot = place_on_route(index, rank_stretches(_run_stretches(run, marks), bw), bw, bh, h,
+        spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
                               max_leader_h=GROUP_MAX_LEADER_H)
         sel.done(index, "group-tag", ref, before)
         place = spot.place

@@ -10,7 +10,7 @@ is and where it goes.
 from __future__ import annotations
 
 import logging
-from collections.abc import Callable, Iterable, Mapping
+from collections.abc import Callable, Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 from itertools import chain
 from typing import Any
@@ -19,7 +19,7 @@ from ..sketch import Sketch, layer_colors, sketch_entities
 from .boxes import LabelIndex
 from .device_notes import place_equipment_notes
 from .entities import EntityWriter
-from .group_tags import place_group_tags
+from .group_tags import TaggedRun, place_group_tags, tagged_runs
 from .inputs import AnnotationInput
 from .labels import place_cable_labels
 from .linework import drawing_linework
@@ -78,16 +78,17 @@ def _sketch(w: _RecordingWriter) -> Sketch:
 
 def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
                  config: AnnotateConfig, progress: ProgressHook | None,
-                 select: MarkRound | None = None) -> tuple[Any, ...]:
+                 select: MarkRound | None, runs: Sequence[TaggedRun]) -> tuple[Any, ...]:
     """Every mark but the schedule, the least free first: cable labels (strict rule), group
     tags (big blocks), segment ids (bound to their segment), fill notes, device and error
     notes (free to go further out with their leader); ``select``: a repair round's marks
-    first, kind by kind (:mod:`.mark_rounds`)."""
+    first, kind by kind (:mod:`.mark_rounds`); ``runs``: the runs that get group tags
+    (:func:`.group_tags.tagged_runs`), their fills written under them."""
     labels, _, unlabelled = place_cable_labels(w, index, marks, progress, select)
-    group_tags, _, fills_under_tags = (place_group_tags(w, index, marks, select)
+    group_tags, _, fills_under_tags = (place_group_tags(w, index, marks, select, runs)
                                        if config.group_tags else (0, 0, 0))
     segment_ids = place_segment_ids(w, index, marks, select) if config.segment_ids else 0
-    fill_notes = place_fill_marks(w, index, marks, select) + fills_under_tags
+    fill_notes = place_fill_marks(w, index, marks, select, runs) + fills_under_tags
     device_notes, error_notes, _ = place_equipment_notes(w, index, marks, select)
     return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes
 
@@ -141,8 +142,11 @@ def add_marks(
     def make_index() -> LabelIndex:
         return LabelIndex(cell=INDEX_CELL_H * h, blocked=blocked, lines=linework)
 
+    runs = tagged_runs(marks) if config.group_tags else []  # one decision for tags and fills
+
     def place_all(index: LabelIndex, select: MarkRound, first_round: bool) -> tuple[Any, ...]:
-        return _place_marks(w, index, marks, config, progress if first_round else None, select)
+        return _place_marks(w, index, marks, config, progress if first_round else None, select,
+                            runs)
 
     placed_marks, index = place_in_rounds(w, make_index, place_all)
     labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes = placed_marks

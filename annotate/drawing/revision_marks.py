@@ -14,7 +14,7 @@ from collections.abc import Sequence
 from ..revision import GAP_HEIGHTS, HALF_DIAGONAL_HEIGHTS, revision_mark
 from .boxes import LabelIndex
 from .entities import EntityWriter, Mark
-from .group_tags import fills_under_tags
+from .group_tags import TaggedRun, fills_under_tags
 from .inputs import AnnotationInput
 from .leaders import draw_leader
 from .mark_rounds import MarkRound
@@ -53,14 +53,16 @@ def draw_revision_mark(w: EntityWriter, circuit_id: str, text_at: Sequence[float
 
 
 def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
-                     select: MarkRound | None = None) -> int:
+                     select: MarkRound | None = None,
+                     runs: Sequence[TaggedRun] | None = None) -> int:
     """One note with a leader at each over-full segment's mid-point, but for those written
-    under their run's group tag (:func:`.group_tags.fills_under_tags`); the number
-    written; ``select`` as in :func:`.labels.place_cable_labels`."""
+    under their run's group tag (:func:`.group_tags.fills_under_tags`; ``runs`` the tagged
+    runs, worked out here when not given); the number written; ``select`` as in
+    :func:`.labels.place_cable_labels`."""
     k = float(marks.units_per_m)
     written = 0
     sel = select or MarkRound()
-    under_tags = fills_under_tags(marks, w.config.group_tags, sel)
+    under_tags = fills_under_tags(marks, w.config.group_tags, sel, runs)
     for fill in marks.fill_marks:
         if fill.segment_id in under_tags or not sel.wants("fill-mark", fill.segment_id):
             continue
