@@ -91,12 +91,15 @@ def revision_mark(circuit_id: str, label_end: tuple[float, float], text_height: 
 
 @dataclass(frozen=True)
 class FillMark:
-    """A fill note to write at ``at_m`` (x, y, z in metres; the writer converts to drawing units)."""
+    """A fill note to write at ``at_m`` (x, y, z in metres; the writer converts to drawing units);
+    ``text`` is ``"<CONTAINMENT> FILL <percent> %"`` from ``containment`` and ``percent``."""
 
     segment_id: str
     at_m: tuple[float, float, float]
     result: str
     text: str
+    percent: float = 0.0
+    containment: str = ""
 
 
 def _halfway(points: Iterable[Sequence[float]]) -> tuple[float, float, float]:
@@ -132,6 +135,7 @@ def fill_marks(rows: Iterable) -> tuple[FillMark, ...]:
     for row in rows:
         fill = row.fill
         if fill.result in ("warning", "fail") and fill.percent is not None:
+            kind = row.segment.containment.upper()
             out.append(FillMark(row.segment.segment_id, _halfway(row.segment.points_m), fill.result,
-                                f"{row.segment.containment.upper()} FILL {fill.percent:.0f} %"))
+                                f"{kind} FILL {fill.percent:.0f} %", fill.percent, kind))
     return tuple(out)

@@ -42,7 +42,8 @@ def fill_lines(fills: Sequence[Any], *, ids_per_line: int = 3, max_lines: int = 
     Parameters
     ----------
     fills : sequence of FillMark
-        ``segment_id``, ``text`` ("TRAY FILL 106 %") and ``result`` ("fail", "warning").
+        ``segment_id``, ``text`` ("TRAY FILL 106 %"), ``result`` ("fail", "warning"),
+        ``percent`` and ``containment`` ("TRAY").
     ids_per_line : int
         Segment ids per line are twice this (as on the tag's head lines).
     max_lines : int
@@ -51,35 +52,31 @@ def fill_lines(fills: Sequence[Any], *, ids_per_line: int = 3, max_lines: int = 
     Examples
     --------
     >>> from types import SimpleNamespace as F
-    >>> fill_lines([F(segment_id="S6", text="TRAY FILL 106 %", result="fail"),
-    ...             F(segment_id="S9", text="TRAY FILL 89 %", result="warning"),
-    ...             F(segment_id="S3", text="TRAY FILL 106 %", result="fail")])
+    >>> def fm(sid, pct, result):
+    ...     return F(segment_id=sid, text=f"TRAY FILL {pct} %", result=result, percent=pct,
+    ...              containment="TRAY")
+    >>> fill_lines([fm("S6", 106, "fail"), fm("S9", 89, "warning"), fm("S3", 106, "fail")])
     ['S6, S3: TRAY FILL 106 % (FAIL)', 'S9: TRAY FILL 89 % (WARNING)']
-    >>> fill_lines([F(segment_id=f"S{i}", text=f"TRAY FILL {100 + i} %", result="fail")
-    ...             for i in range(5)], max_lines=2)
+    >>> fill_lines([fm(f"S{i}", 100 + i, "fail") for i in range(5)], max_lines=2)
     ['S4: TRAY FILL 104 % (FAIL)', '+4 segments: TRAY FILL 100-103 % (FAIL)']
     """
-    groups: dict[tuple[str, str], list[str]] = defaultdict(list)
+    groups: dict[tuple[str, str], list[Any]] = defaultdict(list)
     for f in fills:
-        groups[(f.text, f.result)].append(f.segment_id)
-
-    def percent(text: str) -> float:
-        digits = "".join(c for c in text if c.isdigit() or c == ".")
-        return float(digits) if digits else 0.0
-
-    order = sorted(groups.items(), key=lambda kv: (_RESULT_ORDER.get(kv[0][1], 2), -percent(kv[0][0])))
+        groups[(f.text, f.result)].append(f)
+    order = sorted(groups.values(), key=lambda g: (_RESULT_ORDER.get(g[0].result, 2), -g[0].percent))
     per = 2 * max(1, ids_per_line)
     lines: list[str] = []
-    for n, ((text, result), sids) in enumerate(order):
+    for n, group in enumerate(order):
         if len(lines) + 1 >= max_lines and n < len(order) - 1:
-            rest = [(t, r, s) for (t, r), s in order[n:]]
-            low = min(percent(t) for t, _, _ in rest)
-            high = max(percent(t) for t, _, _ in rest)
-            kind = text.rsplit(" FILL", 1)[0]
-            worst = min((r for _, r, _ in rest), key=lambda r: _RESULT_ORDER.get(r, 2))
-            count = sum(len(s) for _, _, s in rest)
-            lines.append(f"+{count} segments: {kind} FILL {low:.0f}-{high:.0f} % ({worst.upper()})")
+            rest = [f for g in order[n:] for f in g]
+            low = min(f.percent for f in rest)
+            high = max(f.percent for f in rest)
+            worst = min((f.result for f in rest), key=lambda r: _RESULT_ORDER.get(r, 2))
+            lines.append(f"+{len(rest)} segments: {group[0].containment} FILL {low:.0f}-{high:.0f} % "
+                         f"({worst.upper()})")
             break
+        sids = [f.segment_id for f in group]
+        text, result = group[0].text, group[0].result
         chunks = [", ".join(sids[i : i + per]) for i in range(0, len(sids), per)]
         chunks[-1] += f": {text} ({result.upper()})"
         lines += chunks
