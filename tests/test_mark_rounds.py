@@ -13,10 +13,10 @@ from __future__ import annotations
 import ezdxf
 import numpy as np
 import pytest
-from cablewright.annotate.drawing.label_spots import OVERHANG, stretch_spots
 from cablewright.annotate.drawing.mark_index import LabelIndex
 from cablewright.annotate.drawing.mark_rounds import MarkRound, place_in_rounds
 from cablewright.annotate.drawing.obstacles import _text_box
+from cablewright.annotate.drawing.spot_arrays import OVERHANG, stretch_spots
 from cablewright.annotate.drawing.stretches import Stretch
 from ezdxf import bbox
 from ezdxf.fonts import fonts

@@ -47,3 +47,37 @@ def test_variants():
     assert two_lines("P-101: breaker 160 A") == ["P-101:", "breaker 160 A"]
     assert note_variants(["S6"]) == [["S6"]]
     assert note_variants(["A: b c", "D: e"]) == [["A: b c", "D: e"], ["A:", "b c", "D:", "e"]]
+
+
+def _grid_of_walls(pitch: float, reach: float) -> list[LineString]:
+    """Walls every ``pitch`` both ways out to ``reach``, the point in the middle of a cell."""
+    n = int(reach / pitch)
+    ks = [(k + 0.5) * pitch for k in range(-n, n)]
+    return ([LineString([(x, -reach), (x, reach)]) for x in ks]
+            + [LineString([(-reach, y), (reach, y)]) for y in ks])
+
+
+def test_key_taken_where_no_variant_of_the_note_fits():
+    """Walls every 3 h both ways round the point (a room full of small cells, out beyond
+    the far rings): neither the 7-wide note nor its 3.5-wide wrapped variant fits in a cell,
+    its 2-wide key does; it is the variant after the note's own (note_keys.py), placed
+    clear of every wall, and counted as placed with a leader, not as a last resort."""
+    h = 1.0
+    walls = _grid_of_walls(3.0, 40.0)
+    index = LabelIndex(cell=4.0, lines=walls)
+    sizes = [(7.0, 1.5), (3.5, 2.8)]
+    spot, variant = place_note(index, (0.0, 0.0, 0.0), sizes, h, key_size=(2.0, 1.5))
+    assert variant == len(sizes)
+    assert not any(spot.place.polygon.intersects(w) for w in walls)
+    assert spot.place.width == 2.0
+    assert index.stats.fallbacks == 0 and index.stats.with_leader == 1
+
+
+def test_without_a_key_the_same_note_is_a_last_resort():
+    """The same room without a key: the note crosses a wall, counted as a last resort."""
+    walls = _grid_of_walls(3.0, 40.0)
+    index = LabelIndex(cell=4.0, lines=walls)
+    spot, variant = place_note(index, (0.0, 0.0, 0.0), [(7.0, 1.5), (3.5, 2.8)], 1.0)
+    assert variant in (0, 1)
+    assert any(spot.place.polygon.intersects(w) for w in walls)
+    assert index.stats.crossing_linework == 1

@@ -2,7 +2,7 @@
 middle of a short drop to the long cable labels placed before it; the box stays on the
 stretch (no overhang past its ends)."""
 
-from cablewright.annotate.drawing.label_spots import _along
+from cablewright.annotate.drawing.spot_arrays import _along
 
 
 def test_ends_first_starts_at_the_ends_and_keeps_the_box_on_the_stretch():

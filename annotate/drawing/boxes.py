@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import math
-from typing import NamedTuple
+from typing import TYPE_CHECKING, NamedTuple
 
 from shapely.geometry import Polygon
 
@@ -136,5 +136,15 @@ def _polygon(box: Box) -> Polygon:
 
 
 
-# the index of placed marks lives in :mod:`.mark_index` (it needs the boxes above)
-from .mark_index import LabelIndex  # noqa: E402
+if TYPE_CHECKING:
+    from .mark_index import LabelIndex
+
+
+def __getattr__(name: str) -> object:
+    """``LabelIndex``, the index of placed marks, lives in :mod:`.mark_index` (it needs the
+    boxes above); taken from there when asked for, so either module may be imported first."""
+    if name == "LabelIndex":
+        from .mark_index import LabelIndex
+
+        return LabelIndex
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -12,6 +12,7 @@ from .entities import EntityWriter, Mark
 from .inputs import AnnotationInput
 from .leaders import draw_leader
 from .mark_rounds import MarkRound
+from .note_keys import key_box, write_key
 from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .text import rating_text
@@ -63,12 +64,16 @@ def _notes_at_equipment(
         x, y, z = scaled([eq.position_m], k)[0]
         variants = note_variants(lines)
         before = sel.begin(index)
-        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
-        sel.done(index, f"{kind}-note", tag, before)
-        lines = variants[i]
+        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height,
+                             key_size=key_box(w, index))
         place = spot.place
+        mark = Mark(role, f"{kind}-note", tag)
+        if i == len(variants):  # only its key fitted: the note goes to the keyed notes list
+            written = write_key(w, index, place, [(mark, lines)])
+        else:
+            written = w.block(variants[i], place, mark)
+        sel.done(index, f"{kind}-note", tag, before)
         overlaps += place.overlaps
-        written = w.block(lines, place, Mark(role, f"{kind}-note", tag))
         draw_leader(w, place, written, Mark(role, f"{kind}-leader", tag))
         placed += 1
     return placed, overlaps

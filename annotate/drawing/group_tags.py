@@ -16,6 +16,7 @@ from .inputs import AnnotationInput
 from .label_spots import place_on_route
 from .leaders import draw_leader
 from .mark_rounds import MarkRound
+from .note_keys import key_box, write_key
 from .placement import Placement
 from .stretches import rank_stretches, scaled, straight_stretches
 from .text import clean
@@ -290,11 +291,15 @@ def place_group_tags(
         bw, bh = w.block_box(lines + under)
         before = sel.begin(index)
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
-                              max_leader_h=GROUP_MAX_LEADER_H)
-        sel.done(index, "group-tag", ref, before)
+                              max_leader_h=GROUP_MAX_LEADER_H, key_size=key_box(w, index))
         place = spot.place
         overlapping += place.overlaps
-        written = _write_tag(w, lines, under, place, ref)
+        if spot.keyed:  # only its key fitted: the tag goes to the keyed notes list
+            written = write_key(w, index, place, [(Mark("group", "group-tag", ref), lines),
+                                                  (Mark("fill", "group-fill", ref), under)])
+        else:
+            written = _write_tag(w, lines, under, place, ref)
+        sel.done(index, "group-tag", ref, before)
         if spot.leader is not None:
             draw_leader(w, place, written, Mark("group", "group-leader", run[0]))
         group_tags += 1

@@ -19,6 +19,7 @@ tested against the drawing's fixed obstacles in one bulk query (:mod:`.mark_inde
 
 from __future__ import annotations
 
+import dataclasses
 import logging
 import math
 from collections.abc import Callable, Sequence
@@ -30,7 +31,8 @@ from shapely.geometry import LineString
 from .boxes import Box, _polygon
 from .leader_screen import spots_crossing_marks
 from .mark_index import LabelIndex, row_box
-from .placement import Placement, readable_angle_deg
+from .placement import Placement
+from .spot_arrays import ring_spots, stretch_spots
 from .stretches import Point2, Stretch
 
 __all__ = ["MAX_LEADER_H", "BESIDE_GAPS_H", "LEADER_GAPS_H", "RouteSpot", "Spot",
@@ -53,14 +55,6 @@ BESIDE_GAPS_H = (0.25, 0.05, 0.55)
 LEADER_GAPS_H = (0.9, 1.4, 1.9, 2.4, 2.9, 3.4, 3.9, 4.5)
 #: Stretches of the own route tried (a route of more has its best ones tried).
 MAX_STRETCHES = 24
-#: Positions along one stretch at most, spread evenly from its middle outwards.
-MAX_ALONG = 24
-#: Share of a box's width that may hang over a stretch's end, or for a box longer than
-#: its stretch, share of the stretch it may leave uncovered (0.3: at least 70 % of the
-#: label, or of the stretch, run beside each other; our own choice).
-OVERHANG = 0.3
-#: Columns of a candidate array: box (centre, unit x axis, half sizes), anchor, gap, z.
-COLUMNS = ("cx", "cy", "ux", "uy", "hw", "hh", "ax", "ay", "gap", "z")
 #: A leader starts this far off the route (it leaves the route line there) [text heights].
 LEADER_START_H = 0.05
 #: How far a leader may run into the box of a text or symbol of the drawing [text heights]:
@@ -85,95 +79,7 @@ class RouteSpot:
 
     place: Placement
     leader: LineString | None
-
-
-def _along(length: float, width: float, height: float, ends_first: bool = False) -> list[float]:
-    """Centre positions from the stretch middle outwards, hanging over its ends by up to
-    :data:`OVERHANG` of the width (a free route end, a label longer than the stretch);
-    ``ends_first``: from the two ends inwards, the box kept within the stretch."""
-    # a box longer than its stretch keeps 1 - OVERHANG of the stretch beside it (a label
-    # hanging far over a short stretch's end reads as belonging to the next line)
-    reach = abs(length - width) / 2.0 + OVERHANG * min(width, length)
-    step = max(height, 2.0 * reach / MAX_ALONG)
-    out = [0.0]
-    k = 1
-    while k * step <= reach + 1e-9:
-        out += [k * step, -k * step]
-        k += 1
-    if out[-1] < reach - 1e-9:  # the two ends, so a label reaches a free end of the stretch
-        out += [reach, -reach]
-    if ends_first:  # a short mark (a segment id) leaves the middle to the long labels
-        inner = max(0.0, length - width) / 2.0
-        return sorted({math.copysign(min(abs(t), inner), t) for t in out}, key=lambda t: (-abs(t), -t))
-    return out
-
-
-def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float], ends_first: bool = False) -> np.ndarray:
-    """Boxes along ``s`` on both sides at each gap (drawing units), best first: gap by gap,
-    along as :func:`_along` orders, the side above the text first.
-
-    Returns an array of rows ``cx, cy, ux, uy, hw, hh, ax, ay, gap, z`` (:data:`COLUMNS`).
-    """
-    dx, dy = s.end[0] - s.start[0], s.end[1] - s.start[1]
-    n = math.hypot(dx, dy)
-    if n <= 0.0 or not gaps:
-        return np.empty((0, len(COLUMNS)))
-    ux, uy = dx / n, dy / n
-    a = math.radians(readable_angle_deg(dx, dy))
-    vx, vy = -math.sin(a), math.cos(a)
-    mx, my = (s.start[0] + s.end[0]) / 2.0, (s.start[1] + s.end[1]) / 2.0
-    t = np.asarray(_along(n, width, height, ends_first))
-    g = np.asarray(gaps, dtype=float)
-    off = (height / 2.0 + g)[:, None, None] * np.array([1.0, -1.0])[None, None, :]  # (G, 1, 2)
-    px = (mx + ux * t)[None, :, None]
-    py = (my + uy * t)[None, :, None]
-    # the anchor (where a leader leaves the route) on the stretch itself, also for a box
-    # hanging over the stretch's end
-    ta = np.clip(t, -n / 2.0, n / 2.0)
-    qx = np.broadcast_to((mx + ux * ta)[None, :, None], (len(g), len(t), 2))
-    qy = np.broadcast_to((my + uy * ta)[None, :, None], (len(g), len(t), 2))
-    shape = (len(g), len(t), 2)
-    rows = np.empty(shape + (len(COLUMNS),))
-    rows[..., 0] = px + vx * off
-    rows[..., 1] = py + vy * off
-    rows[..., 2] = math.cos(a)
-    rows[..., 3] = math.sin(a)
-    rows[..., 4] = width / 2.0
-    rows[..., 5] = height / 2.0
-    rows[..., 6] = qx
-    rows[..., 7] = qy
-    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
-    rows[..., 9] = s.z
-    return rows.reshape(-1, len(COLUMNS))
-
-
-def ring_spots(points: Sequence[tuple[float, float, float]], width: float, height: float,
-               gaps: Sequence[float], directions: int = 16) -> np.ndarray:
-    """Horizontal boxes round each point, the nearest box edge ``gap`` from it, ring by ring
-    (rows as :func:`stretch_spots`)."""
-    if not points or not gaps:
-        return np.empty((0, len(COLUMNS)))
-    ang = 2.0 * np.pi * np.arange(directions) / directions
-    c, sn = np.cos(ang), np.sin(ang)
-    with np.errstate(divide="ignore"):
-        reach = np.minimum(np.where(np.abs(c) > 1e-9, width / 2.0 / np.abs(c), np.inf),
-                           np.where(np.abs(sn) > 1e-9, height / 2.0 / np.abs(sn), np.inf))
-    pts = np.asarray(points, dtype=float)  # (P, 3)
-    g = np.asarray(gaps, dtype=float)
-    d = g[:, None, None] + reach[None, None, :]  # (G, 1, D)
-    shape = (len(g), len(pts), directions)
-    rows = np.empty(shape + (len(COLUMNS),))
-    rows[..., 0] = pts[None, :, 0, None] + c * d
-    rows[..., 1] = pts[None, :, 1, None] + sn * d
-    rows[..., 2] = 1.0
-    rows[..., 3] = 0.0
-    rows[..., 4] = width / 2.0
-    rows[..., 5] = height / 2.0
-    rows[..., 6] = np.broadcast_to(pts[None, :, 0, None], shape)
-    rows[..., 7] = np.broadcast_to(pts[None, :, 1, None], shape)
-    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
-    rows[..., 9] = np.broadcast_to(pts[None, :, 2, None], shape)
-    return rows.reshape(-1, len(COLUMNS))
+    keyed: bool = False
 
 
 def _spot(rows: np.ndarray, i: int) -> Spot:
@@ -255,7 +161,8 @@ def record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
 
 def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float,
                    height: float, text_height: float, *,
-                   max_leader_h: float = MAX_LEADER_H, ends_first: bool = False) -> RouteSpot:
+                   max_leader_h: float = MAX_LEADER_H, ends_first: bool = False,
+                   key_size: tuple[float, float] | None = None) -> RouteSpot:
     """Place one mark (box ``width`` x ``height``) on ``stretches`` (best first).
 
     Parameters
@@ -271,12 +178,16 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     max_leader_h : float
         Farthest the box edge may go from the route [text heights].
     ends_first : bool
-        Spots along a stretch from its ends inwards (a short mark: :func:`_along`).
+        Spots along a stretch from its ends inwards (a short mark: :func:`.spot_arrays._along`).
+    key_size : (float, float), optional
+        The box of the mark's key (:mod:`.note_keys`), tried the same way before the
+        last resorts.
 
     Returns
     -------
     RouteSpot
-        ``leader`` is the line from the route to the box, or None beside the route.
+        ``leader`` is the line from the route to the box, or None beside the route;
+        ``keyed`` True when the key was placed.
 
     Raises
     ------
@@ -287,6 +198,20 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         raise ValueError("no stretch to place a label on")
     h = text_height
     tried = list(stretches[:MAX_STRETCHES])
+    out = [g * h for g in _leader_gaps(max_leader_h)]
+    found = _clear_on_route(index, tried, width, height, h, max_leader_h, ends_first)
+    if found is None and key_size is not None:
+        found = _clear_on_route(index, tried, *key_size, h, max_leader_h, ends_first)
+        found = None if found is None else dataclasses.replace(found, keyed=True)
+    if found is not None:
+        return found
+    rings = ring_spots(_ring_points(tried, h), width, height, out)
+    return _last_resort(index, tried, rings, width, height, h)
+
+
+def _clear_on_route(index: LabelIndex, tried: Sequence[Stretch], width: float, height: float,
+                    h: float, max_leader_h: float, ends_first: bool) -> RouteSpot | None:
+    """Tiers 1-3 of :func:`place_on_route` (module docstring); None when none is free."""
     beside = [g * h for g in BESIDE_GAPS_H]
     out = [g * h for g in _leader_gaps(max_leader_h)]
     for s in tried:
@@ -302,7 +227,7 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         loose = loose or over_line
     if loose is not None:
         return record(index, loose, h, leader=True, how="leader")
-    return _last_resort(index, tried, rings, width, height, h)
+    return None
 
 
 def _pick_leader(index: LabelIndex, spots: np.ndarray, h: float,

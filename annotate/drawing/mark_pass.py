@@ -24,12 +24,13 @@ from .inputs import AnnotationInput
 from .labels import place_cable_labels
 from .linework import drawing_linework
 from .mark_rounds import MarkRound, place_in_rounds
+from .note_keys import keyed_notes_list
 from .obstacles import DrawingScan, extents, keep_clear_boxes
 from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
 from .segment_ids import place_segment_ids
 from .stretches import route_obstacles, scaled
-from .style import INDEX_CELL_H, SCHEDULE_GAP_H, AnnotateConfig
+from .style import INDEX_CELL_H, SCHEDULE_GAP_H, TITLE_TO_TABLE_H, AnnotateConfig
 from .text_height import choose_text_height_m
 
 __all__ = ["MarkCounts", "add_marks"]
@@ -157,9 +158,13 @@ def add_marks(
     if placed is not None:
         _, _, placed_xmax, placed_ymax = placed
         xmax, ymax = max(xmax, placed_xmax), max(ymax, placed_ymax)
+    x0 = xmax + SCHEDULE_GAP_H * h
+    y_top = ymax  # the keyed notes (:mod:`.note_keys`) first, then the schedule under them
+    if stats.keyed_notes:
+        y_top = keyed_notes_list(w, stats.keyed_notes, x0, ymax, 0.0) - TITLE_TO_TABLE_H * h
     schedule_rows = 0
     if config.schedule:
-        schedule_rows = schedule_table(w, marks.outcomes, xmax + SCHEDULE_GAP_H * h, ymax, 0.0)
+        schedule_rows = schedule_table(w, marks.outcomes, x0, y_top, 0.0)
     return MarkCounts(labels, group_tags, device_notes, error_notes, schedule_rows,
                       stats.overlapping, h, dict(w.layers), tuple(unlabelled), fill_notes,
                       segment_ids=segment_ids, placement=stats.as_dict(), sketch=_sketch(w))

@@ -4,11 +4,12 @@ Placement is greedy: each mark takes the best spot left by the marks before it, 
 segment id or a note placed late can find every spot near it taken by a cable label that
 had other places to go (issue 12: the switchroom tray's ids under a feeder's label).
 After a round, every mark placed by a last resort (crossing a line, beyond reach,
-overlapping) or with a leader longer than :data:`LONG_LEADER_H` is put on a list; a new
+overlapping), written as its key (:mod:`.note_keys`) or with a leader longer than
+:data:`LONG_LEADER_H` is put on a list; a new
 round on a fresh index places the listed marks first, each kind in the usual order, then
 every other mark as before; a group tag listed so is written without the fill lines it
 carried (:mod:`.group_fill`), which get notes of their own.  The round with the fewest
-cable labels left to a last resort, then the fewest such marks, is kept (the earlier
+cable labels left to a last resort, then the fewest such marks, then keys, is kept (the earlier
 one on a tie) and the other round's entities are deleted, so a round never makes the
 drawing worse.  Our own rule (no standard covers where a drawing's notes go).
 """
@@ -72,23 +73,27 @@ class MarkRound:
         a last resort in an earlier round: this round writes those lines apart."""
         return (kind, ref) in self.first
 
-    def begin(self, index: LabelIndex) -> int:
-        """Before one mark: the count of last resorts so far (for :meth:`done`)."""
+    def begin(self, index: LabelIndex) -> tuple[int, int]:
+        """Before one mark: the counts of last resorts and keyed notes so far (for
+        :meth:`done`)."""
         index.stats.last_leader_h = 0.0
-        return index.stats.fallbacks
+        return index.stats.fallbacks, len(index.stats.keyed_notes)
 
-    def done(self, index: LabelIndex, kind: str, ref: str, before: int) -> None:
-        """After one mark: list it when it needed a last resort or a long leader."""
+    def done(self, index: LabelIndex, kind: str, ref: str, before: tuple[int, int]) -> None:
+        """After one mark: list it when it needed a last resort, its key (:mod:`.note_keys`)
+        or a long leader."""
         stats = index.stats
-        if stats.fallbacks > before:
+        last_resort = stats.fallbacks > before[0]
+        if last_resort:
             stats.last_resort_marks.append(f"{kind} {ref}")
-        if stats.fallbacks > before or stats.last_leader_h > LONG_LEADER_H:
+        if (last_resort or len(stats.keyed_notes) > before[1]
+                or stats.last_leader_h > LONG_LEADER_H):
             self.failed.append((kind, ref))
 
 
 @dataclass
 class _Round:
-    score: tuple[int, int, int]
+    score: tuple[int, int, int, int]
     result: Any
     index: LabelIndex
     added: list[Any]
@@ -132,12 +137,14 @@ def place_in_rounds(w: Any, make_index: Callable[[], LabelIndex], place_all: Pla
     return best.result, best.index
 
 
-def _score(index: LabelIndex, failed: Sequence[MarkKey]) -> tuple[int, int, int]:
+def _score(index: LabelIndex, failed: Sequence[MarkKey]) -> tuple[int, int, int, int]:
     """A round's score, lower is better: cable labels left to a last resort (the strict rule
-    of issue 12 comes first), then all last resorts, then long leaders."""
+    of issue 12 comes first), then all last resorts, then notes written as keys, then long
+    leaders."""
     stats = index.stats
     labels = sum(1 for name in stats.last_resort_marks if name.startswith(LABEL_KIND + " "))
-    return (labels, stats.fallbacks, len(failed) - stats.fallbacks)
+    keyed = len(stats.keyed_notes)
+    return (labels, stats.fallbacks, keyed, len(failed) - stats.fallbacks - keyed)
 
 
 def _delete(w: Any, entities: Sequence[Any]) -> None:

@@ -15,9 +15,10 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from .label_spots import COLUMNS, RouteSpot, pick, record, ring_spots
+from .label_spots import RouteSpot, pick, record
 from .label_spots import _spot as spot_at
 from .mark_index import LabelIndex
+from .spot_arrays import COLUMNS, ring_spots
 
 __all__ = ["NEAR_GAPS_H", "FAR_GAPS_H", "NOTE_DIRECTIONS", "note_variants",
            "place_note", "two_lines"]
@@ -86,14 +87,16 @@ def note_spots(point: tuple[float, float, float], width: float, height: float,
 
 
 def place_note(index: LabelIndex, at: Sequence[float], sizes: Sequence[tuple[float, float]],
-               text_height: float) -> tuple[RouteSpot, int]:
+               text_height: float, key_size: tuple[float, float] | None = None
+               ) -> tuple[RouteSpot, int]:
     """Place the first fitting of several variants of a note (box sizes ``sizes``, best
     first) near the point ``at`` (x, y, z); (where it went, which variant).
 
     Tiers: every variant clear of everything within :data:`NEAR_GAPS_H`, then within
-    :data:`FAR_GAPS_H`; then the first variant crossing a line of the drawing but no text
-    or mark; then overlapping the drawing's own text or symbols rather than a mark of
-    ours; both last resorts counted.
+    :data:`FAR_GAPS_H`; then, with ``key_size``, the note's key (:mod:`.note_keys`) the
+    same way (variant ``len(sizes)``); then the first variant crossing a line of the
+    drawing but no text or mark; then overlapping the drawing's own text or symbols
+    rather than a mark of ours; both last resorts counted.
     """
     h = text_height
     point = (float(at[0]), float(at[1]), float(at[2]) if len(at) > 2 else 0.0)
@@ -104,6 +107,12 @@ def place_note(index: LabelIndex, at: Sequence[float], sizes: Sequence[tuple[flo
             spot = pick(index, tier[i], h, leader_lines=False, leader_from_symbol=True)
             if spot is not None:
                 return record(index, spot, h, leader=True, how="leader"), i
+    if key_size is not None:
+        for gaps in (NEAR_GAPS_H, FAR_GAPS_H):
+            spots = note_spots(point, key_size[0], key_size[1], [g * h for g in gaps])
+            spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
+            if spot is not None:
+                return record(index, spot, h, leader=True, how="leader"), len(sizes)
     # the last resorts over all gaps (near before far, as one array per variant)
     every = [np.concatenate(pair) for pair in zip(*tiers, strict=True)]
     for i, spots in enumerate(every):

@@ -3,6 +3,10 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from .note_keys import KeyedNote
 
 __all__ = ["PlacementStats"]
 
@@ -33,6 +37,9 @@ class PlacementStats:
     last_resort_marks : list of str
         The marks placed by a last resort, as ``"kind ref"`` (``"fill-mark S5"``), so the
         reader knows which to look at on the drawing.
+    keyed_notes : list of KeyedNote
+        Notes written as a key on the drawing and in full in the keyed notes list
+        (:mod:`.note_keys`), numbered in the order they were placed.
     """
 
     beside: int = 0
@@ -44,6 +51,7 @@ class PlacementStats:
     last_leader_h: float = 0.0
     last_resort_marks: list[str] = field(default_factory=list)
     kinds: dict[str, int] = field(default_factory=dict)
+    keyed_notes: list[KeyedNote] = field(default_factory=list)
 
     def leader(self, length: float, text_height: float) -> None:
         """Record a leader of ``length`` [drawing units]."""
@@ -66,4 +74,6 @@ class PlacementStats:
             "fallback_overlapping": self.overlapping,
             "longest_leader_h": round(self.longest_leader_h, 2),
             "last_resort_marks": sorted(self.last_resort_marks),
+            "keyed_notes": len(self.keyed_notes),
+            "keyed_marks": [n.name for n in self.keyed_notes],
         }

@@ -18,6 +18,7 @@ from .group_tags import TaggedRun, fills_under_tags
 from .inputs import AnnotationInput
 from .leaders import draw_leader
 from .mark_rounds import MarkRound
+from .note_keys import key_box, write_key
 from .note_spots import note_variants, place_note
 from .stretches import scaled
 from .style import LABEL_MARGIN_H
@@ -70,10 +71,14 @@ def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
         lines = [f"{fill.segment_id}: {fill.text} ({fill.result.upper()})"]
         variants = note_variants(lines)
         before = sel.begin(index)
-        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height)
+        spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height,
+                             key_size=key_box(w, index))
+        place, mark = spot.place, Mark("fill", "fill-mark", fill.segment_id)
+        if i == len(variants):  # only its key fitted: the note goes to the keyed notes list
+            entities = write_key(w, index, place, [(mark, lines)])
+        else:
+            entities = w.block(variants[i], place, mark)
         sel.done(index, "fill-mark", fill.segment_id, before)
-        lines, place = variants[i], spot.place
-        entities = w.block(lines, place, Mark("fill", "fill-mark", fill.segment_id))
         draw_leader(w, place, entities, Mark("fill", "fill-leader", fill.segment_id))
         written += 1
     return written
