@@ -42,6 +42,7 @@ from .jsonout import dump_pieces
 from .model import CircuitOutcome
 from .rows import METRE, LengthUnit, ScheduleRow, rows
 from .rows import length_unit as length_unit_of
+from .xlsx_rows import SheetRows, splice_rows
 from .xlsx_style import RowCells, setup_print
 
 __all__ = [
@@ -208,8 +209,9 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     from openpyxl.styles import Alignment, Font
     from openpyxl.utils import get_column_letter
 
-    # write-only mode streams the rows (time and memory linear in the rows, no
-    # cell objects kept); sheet settings go in before the first row
+    # openpyxl makes the workbook (styles, sheet settings, print setup), saved with
+    # empty sheets; the rows are written as XML text (annotate/xlsx_rows.py, the
+    # text openpyxl writes) and put into the sheets as the zip is written
     wb = Workbook(write_only=True)
     ws = wb.create_sheet("schedule")
     headers, rows = _value_rows(outcomes, unit)
@@ -219,51 +221,49 @@ def write_schedule_xlsx(path: str | os.PathLike[str], outcomes: Sequence[Circuit
     ws.freeze_panes = "B2"
     setup_print(ws)  # landscape, fit to width, header row repeated (annotate/xlsx_style.py)
     ws.auto_filter.ref = f"A1:{get_column_letter(len(headers))}{len(rows) + 1}"
-    bold = Font(bold=True)
-    middle = Alignment(wrap_text=False, vertical="center")
-    head = []
-    for header in headers:
-        cell = WriteOnlyCell(ws, value=header)
-        cell.font = bold
-        cell.alignment = middle
-        head.append(cell)
-    ws.append(head)
+    head = WriteOnlyCell(ws)
+    head.font = Font(bold=True)
+    head.alignment = Alignment(wrap_text=False, vertical="center")
+    sheets = [SheetRows(ws)]
+    sheets[0].append(headers, [head._style] * len(headers))  # type: ignore[attr-defined]
     # unit number formats, failed rows filled, formula-like text kept as text
-    # (annotate/xlsx_style.py RowCells: each style built once, plain values where none is needed)
+    # (annotate/xlsx_style.py RowCells: each style built once, none where none is needed)
     row_cells = RowCells(ws, headers, as_text=is_formula_like)
     status = headers.index("status")
     for row in rows:
-        ws.append(row_cells.cells(row, row[status]))
+        sheets[0].append(row, row_cells.styles(row, row[status]))
+    quote: list[Any] = []  # the style of formula-like text on the other sheets, made on first use
     for title, sheet_headers, sheet_rows in extra_sheets:  # e.g. BOQ, segments (annotate/takeoff.py xlsx_sheets)
         extra = wb.create_sheet(title)
         setup_print(extra)
-        extra.append(list(sheet_headers))  # plain values: written as unstyled cells
+        sheets.append(SheetRows(extra))
+        sheets[-1].append(list(sheet_headers))  # plain values: written as unstyled cells
         for sheet_row in sheet_rows:
-            extra.append([_xlsx_cell(extra, v) for v in sheet_row])
-    try:
-        with atomic_path(path) as tmp:
-            tmp.write_bytes(_reproducible_zip(_saved_uncompressed(wb)))
-    finally:
-        if not ws.closed:  # saving failed early: end the sheet's row stream and temp file
-            ws.close()
+            sheets[-1].append(sheet_row, _text_styles(extra, sheet_row, quote))
+    data = _saved_uncompressed(wb)  # the sheets' parts are named (numbered) as they are saved
+    sheet_rows_xml = {sheet.part: sheet.xml() for sheet in sheets}
+    with atomic_path(path) as tmp:
+        tmp.write_bytes(_reproducible_zip(data, sheet_rows_xml))
     return Path(path)
 
 
-def _xlsx_cell(ws: Any, value: Any) -> Any:
-    """A value for the write-only sheet: text that reads as a formula becomes a string cell.
+def _text_styles(ws: Any, values: Sequence[Any], quote: list[Any]) -> list[Any] | None:
+    """The styles of a row of plain values: text that reads as a formula kept as text.
 
     openpyxl stores a ``str`` beginning with ``=`` as a formula; such text (and
     text beginning with any of :data:`FORMULA_LEADS`) is written as a string
     cell with ``quotePrefix`` set, so the spreadsheet keeps it as text [4]_.
+    ``quote`` holds that style once made (``None`` returned: no cell needs a style).
     """
-    if not isinstance(value, str) or not is_formula_like(value):
-        return value
-    from openpyxl.cell import WriteOnlyCell
+    if not any(isinstance(v, str) and is_formula_like(v) for v in values):
+        return None
+    if not quote:
+        from openpyxl.cell import WriteOnlyCell
 
-    cell = WriteOnlyCell(ws, value=value)
-    cell.data_type = "s"
-    cell.quotePrefix = True
-    return cell
+        proto = WriteOnlyCell(ws)
+        proto.quotePrefix = True
+        quote.append(proto._style)  # type: ignore[attr-defined]
+    return [quote[0] if isinstance(v, str) and is_formula_like(v) else None for v in values]
 
 
 def _saved_uncompressed(wb: Any) -> bytes:
@@ -287,24 +287,31 @@ def _saved_uncompressed(wb: Any) -> bytes:
 _ZIP_DATE = (1980, 1, 1, 0, 0, 0)
 
 
-def _reproducible_zip(data: bytes) -> bytes:
+def _reproducible_zip(data: bytes, sheet_rows: dict[str, bytes] | None = None) -> bytes:
     """The workbook with fixed zip entry dates and no created/modified time.
 
     openpyxl stamps the save time into ``docProps/core.xml`` and on every zip
     entry; both are replaced so the file depends on its contents only [5]_.
+    ``sheet_rows``: a sheet's part name -> its rows, put into the sheet saved
+    without them (:func:`.xlsx_rows.splice_rows`).
     """
     import re
 
+    rows_left = dict(sheet_rows or {})
     out = io.BytesIO()
     with zipfile.ZipFile(io.BytesIO(data)) as src, zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as dst:
         for info in src.infolist():
             content = src.read(info.filename)
             if info.filename == "docProps/core.xml":
                 content = re.sub(rb"<dcterms:(created|modified)[^>]*>[^<]*</dcterms:\1>", b"", content)
+            elif info.filename in rows_left:
+                content = splice_rows(content, rows_left.pop(info.filename))
             entry = zipfile.ZipInfo(info.filename, date_time=_ZIP_DATE)
             entry.compress_type = zipfile.ZIP_DEFLATED
             entry.external_attr = 0o644 << 16
             dst.writestr(entry, content)
+    if rows_left:
+        raise ValueError(f"rows for sheets the workbook does not have: {sorted(rows_left)}")
     return out.getvalue()
 
 

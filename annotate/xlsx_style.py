@@ -66,7 +66,7 @@ StyleKey = tuple[str | None, str | None, bool]
 
 
 class RowCells:
-    """The rows of one write-only sheet as openpyxl takes them, each distinct style built once.
+    """The styles of the rows of one write-only sheet, each distinct style built once.
 
     A cell that needs no style (a blank or text of a row not filled, a number of a
     column with no unit format) is handed over as its plain value, which write-only
@@ -112,10 +112,9 @@ class RowCells:
             style = self._styles[key] = proto._style  # type: ignore[attr-defined]
         return style
 
-    def cells(self, values: Sequence[Any], status: str | None, every_cell: bool = False) -> list[Any]:
-        """One row: plain values where no style is needed (``every_cell``: cells throughout)."""
-        from openpyxl.cell import Cell
-
+    def styles(self, values: Sequence[Any], status: str | None) -> list[Any]:
+        """One row's style arrays, ``None`` where a cell needs no style (as :meth:`cells`),
+        for :class:`.xlsx_rows.SheetRows`."""
         colour = STATUS_FILLS.get(status or "")
         as_text = self._as_text
         out: list[Any] = []
@@ -123,12 +122,20 @@ class RowCells:
             if fmt is not None and (isinstance(value, bool) or not isinstance(value, (int, float))):
                 fmt = None
             quote = as_text is not None and isinstance(value, str) and as_text(value)
-            if fmt is None and colour is None and not quote and not every_cell:
+            out.append(self._style((fmt, colour, quote)) if fmt or colour or quote else None)
+        return out
+
+    def cells(self, values: Sequence[Any], status: str | None, every_cell: bool = False) -> list[Any]:
+        """One row: plain values where no style is needed (``every_cell``: cells throughout)."""
+        from openpyxl.cell import Cell
+
+        out: list[Any] = []
+        for value, style in zip(values, self.styles(values, status), strict=True):
+            if style is None and not every_cell:
                 out.append(value)
                 continue
-            style = self._style((fmt, colour, quote)) if fmt or colour or quote else None
             cell = Cell(self._ws, row=1, column=1, value=value, style_array=style)
-            if quote:
+            if style is not None and style.quotePrefix:
                 cell.data_type = "s"  # a string cell, not a formula (ECMA-376 18.8.45 quotePrefix)
             out.append(cell)
         return out

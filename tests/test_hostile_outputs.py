@@ -27,7 +27,7 @@ from pathlib import Path
 import ezdxf
 import openpyxl
 import pytest
-from cablewright.annotate.schedule_files import FORMULA_LEADS, _csv_cell, _xlsx_cell
+from cablewright.annotate.schedule_files import FORMULA_LEADS, _csv_cell, _text_styles
 from cablewright.annotate.text_limits import ELLIPSIS, encoded_size
 
 from cablewright.cli import main
@@ -118,7 +118,7 @@ def test_csv_formula_like_cells_begin_with_a_quote(injected_run):
 @pytest.mark.parametrize("text", ["\tcmd", "\rcmd", "=1", "+1", "-x", "@x"])
 def test_every_formula_lead_is_quoted(text):
     assert _csv_cell(text) == "'" + text
-    assert _xlsx_cell(None, -5.0) == -5.0 and _csv_cell(-5.0) == "-5.0"  # numbers stay numbers
+    assert _text_styles(None, [-5.0, "P-101"], []) is None and _csv_cell(-5.0) == "-5.0"  # numbers stay numbers
     assert _csv_cell("P-101") == "P-101"
 
 
