@@ -202,6 +202,9 @@ def _summary(dst: Path, marks: AnnotationInput, counts: MarkCounts, removed: int
         )
     log.info("%s: %d cable labels, %d group tags, %d device notes", dst, counts.labels,
              counts.group_tags, counts.device_notes)
+    if stats.get("keyed_notes"):
+        log.info("%s: %d notes did not fit in full: written as a key [n] there and in full in "
+                 "the KEYED NOTES list above the schedule", dst.name, stats["keyed_notes"])
     unlabelled = counts.unlabelled
     return AnnotationSummary(
         output_path=dst,
