@@ -37,6 +37,8 @@ import time
 import warnings
 from pathlib import Path
 
+from cablewright.collector import RUN_THRESHOLDS, tuned_collector
+
 ROOT = Path(__file__).resolve().parents[1]
 DXF = ROOT / "sample_drawings" / "pumping_station.dxf"
 CSV = ROOT / "sample_drawings" / "pumping_station_circuits.csv"
@@ -145,6 +147,9 @@ def main() -> None:
     parser.add_argument("--plant", type=int, help="circuits of a generated plant (default: the sample)")
     parser.add_argument("--work", type=Path, help="folder for the generated plant (kept; default: temporary)")
     parser.add_argument("--repeats", type=int, default=5)
+    parser.add_argument("--run-collector", action="store_true",
+                        help="time inside cablewright.collector.tuned_collector, as `size` runs "
+                             "(default: CPython's collector thresholds)")
     args = parser.parse_args()
 
     import logging
@@ -166,13 +171,15 @@ def main() -> None:
         warned: dict[str, int] = {}
         for render in variants.values():  # imports and first-use caches out of the timing
             _cpu(render, job.outcomes[:2], drawing.name)
-        for _ in range(args.repeats):
-            for name, render in variants.items():
-                cpu, last[name], warned[name] = _cpu(render, job.outcomes, drawing.name)
-                times[name].append(cpu)
+        with tuned_collector(None if not args.run_collector else RUN_THRESHOLDS):
+            for _ in range(args.repeats):
+                for name, render in variants.items():
+                    cpu, last[name], warned[name] = _cpu(render, job.outcomes, drawing.name)
+                    times[name].append(cpu)
     load = os.getloadavg()
+    collector = "run collector (as size)" if args.run_collector else "default collector"
     print(f"{drawing.name}: {len(job.outcomes)} circuits; load average {load[0]:.2f} {load[1]:.2f} "
-          f"{load[2]:.2f}; {args.repeats} repeats; CPU s min / median / max")
+          f"{load[2]:.2f}; {args.repeats} repeats; {collector}; CPU s min / median / max")
     pages = {name: _pages(data) for name, data in last.items()}
     for name, values in times.items():
         print(f"{name:9s} {min(values):.3f} / {statistics.median(values):.3f} / {max(values):.3f}"
