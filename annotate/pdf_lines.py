@@ -7,6 +7,9 @@ References
 
 from __future__ import annotations
 
+from bisect import bisect_right
+from itertools import accumulate
+
 __all__ = ["CellLines"]
 
 #: Characters our line breaking leaves to fpdf2 (other breaking spaces, no-break and soft
@@ -63,19 +66,22 @@ class CellLines:
     def _break(self, text: str, width_mm: float, style: str, pt: float, padded: bool
                ) -> tuple[str, ...]:
         pdf = self.pdf
-        pdf.set_font(self.family, style, pt)
-        if _SPECIAL_CHARS.intersection(text):
+        if pdf.font_style != style or pdf.font_size_pt != pt or pdf.font_family != self.family.lower():
+            pdf.set_font(self.family, style, pt)  # only on a change, as drawing does (no output)
+        if not _SPECIAL_CHARS.isdisjoint(text):
             return self._fpdf(text, width_mm, padded)
         max_w = width_mm - 2 * self.pad_mm if padded else width_mm - 2 * pdf.c_margin
         fits = _Fits(pdf.current_font.cw, pt * 0.001, pdf.k, max_w)
+        glyphs = list(map(fits.cw.__getitem__, map(ord, text)))
         if "\n" not in text:
-            units = sum(map(fits.cw.__getitem__, map(ord, text)))
+            units = sum(glyphs)
             if units and units * fits.scale / fits.k - max_w < -_CLEARLY_INSIDE_MM:
                 return (text,)
+        run = [0, *accumulate(glyphs)]  # run[j]: units of text[:j]
         lines: list[str] = []
         i = 0
         while i < len(text):
-            line, i = _next_line(text, i, fits)
+            line, i = _next_line(text, i, glyphs, run, fits)
             if line is _NO_ROOM:  # not even one character fits: fpdf2 says so
                 return self._fpdf(text, width_mm, padded)
             if line is not None:
@@ -99,39 +105,49 @@ _NO_ROOM = object()
 class _Fits:
     """Whether a run of glyph width units plus one glyph passes the width (fpdf2's test)."""
 
-    __slots__ = ("cw", "scale", "k", "max_w")
+    __slots__ = ("cw", "scale", "k", "max_w", "surely_inside")
 
     def __init__(self, cw, scale: float, k: float, max_w: float) -> None:
         self.cw, self.scale, self.k, self.max_w = cw, scale, k, max_w
+        #: units at or below which fpdf2's test cannot pass: :data:`_CLEARLY_INSIDE_MM` inside
+        #: the width plus its tolerance (the test's rounding is about 1e-12 mm)
+        self.surely_inside = (max_w + _WIDTH_TOLERANCE - _CLEARLY_INSIDE_MM) * k / scale
 
     def passes(self, units: int, glyph: int) -> bool:
         # the expression of fpdf2: run width + character width, each sum(cw) x pt x 0.001 / k
         return (units * self.scale / self.k + glyph * self.scale / self.k) - self.max_w > _WIDTH_TOLERANCE
 
 
-def _next_line(text: str, i: int, fits: _Fits):
+def _next_line(text: str, i: int, glyphs: list[int], run: list[int], fits: _Fits):
     """The line starting at ``text[i]`` and where the next begins.
+
+    ``glyphs`` are the characters' width units, ``run[j]`` their sum over ``text[:j]``.
+    fpdf2 walks the line character by character until one passes the width; the
+    characters whose run is surely inside (:attr:`_Fits.surely_inside`) are skipped
+    by a bisection of ``run`` and fpdf2's own test made from there on.  The last
+    space before the break is ``rfind``'s.
 
     Returns ``(line, next_i)``; ``line`` is None when only zero-width text was
     left, :data:`_NO_ROOM` when the first character alone passes the width.
     """
-    start, units, space_at = i, 0, -1
-    cw = fits.cw
-    while i < len(text):
-        ch = text[i]
-        if ch == "\n":
-            return text[start:i], i + 1
-        glyph = cw[ord(ch)]
-        if fits.passes(units, glyph):
-            if ch == " ":  # the space at the break is dropped
+    start = i
+    end = text.find("\n", start)
+    if end < 0:
+        end = len(text)
+    base = run[start]
+    # the first character whose run (with it) may pass: run[j] > base + surely_inside at j = i + 1
+    i = max(start, bisect_right(run, base + fits.surely_inside, start + 1, end + 1) - 1)
+    while i < end:
+        if fits.passes(run[i] - base, glyphs[i]):
+            if text[i] == " ":  # the space at the break is dropped
                 return text[start:i], i + 1
+            space_at = text.rfind(" ", start, i)
             if space_at >= 0:  # back to the last space
                 return text[start:space_at], space_at + 1
             if i > start:  # a word longer than the cell: cut inside it
                 return text[start:i], i
             return _NO_ROOM, len(text)
-        if ch == " ":
-            space_at = i
-        units += glyph
         i += 1
-    return (text[start:i] if units else None), i
+    if end < len(text):  # a newline ends the line
+        return text[start:end], end + 1
+    return (text[start:end] if run[end] - base else None), end

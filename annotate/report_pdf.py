@@ -23,12 +23,13 @@ import os
 from collections import Counter
 from collections.abc import Sequence
 from datetime import datetime, timezone
+from functools import lru_cache
 from pathlib import Path
 from typing import NamedTuple
 
 from .atomic import atomic_path
 from .model import CircuitOutcome
-from .pdf_ink import Ink, InkCell, number_pages
+from .pdf_ink import Ink, InkLook, InkRow, number_pages
 from .pdf_lines import CellLines
 from .report_trace import (
     CircuitTrace,
@@ -142,31 +143,51 @@ def _ink(pdf) -> Ink:
     return ink
 
 
-class _Row(NamedTuple):
-    """A table row's height [mm] and each cell's lines as drawn."""
+@lru_cache(maxsize=64)
+def _looks(bold: bool, result: str, cells: int) -> tuple[InkLook, ...]:
+    """The cells' looks: a header row (``bold``) filled; a check's result cell (the second) in
+    its outcome's colour, a failure's in bold white."""
+    if bold:
+        return (InkLook("B", HEAD_FILL_RGB),) * cells
+    fail = result == "fail"
+    second = InkLook("B" if fail else "", RESULT_FILL.get(result, WHITE), WHITE if fail else None)
+    return tuple(second if result and i == 1 else InkLook() for i in range(cells))
 
-    height: float
-    lines: list[tuple[str, ...]]
+
+def _row(pdf, widths: tuple[float, ...], cells: Sequence[str], bold: bool = False,
+         result: str = "") -> InkRow:
+    """The row measured in its style, once per document (equal rows, one :class:`InkRow`); a
+    failed check's result cell (the second) is drawn bold in that height (its lines broken
+    again in bold)."""
+    rows_made = _rows_made(pdf)
+    key = (widths, tuple(cells), bold, result)
+    got = rows_made.get(key)
+    if got is None:
+        style = "B" if bold else ""
+        split = _lines(pdf)
+        lines = [split(text, w, style, BODY_PT) for w, text in zip(widths, cells, strict=False)]
+        height = max([1] + [len(c) for c in lines]) * LINE_MM + 2 * PAD_MM
+        if result == "fail" and len(lines) > 1:
+            lines[1] = split(cells[1], widths[1], "B", BODY_PT)
+        looks = _looks(bold, result, len(lines))
+        got = rows_made[key] = InkRow(len(rows_made), height, widths, tuple(lines), looks)
+    return got
 
 
-def _row(pdf, widths: Sequence[float], cells: Sequence[str], bold: bool = False, result: str = "") -> _Row:
-    """The row measured in its style; a failed check's result cell (the second) is drawn bold
-    in that height (its lines broken again in bold)."""
-    style = "B" if bold else ""
-    split = _lines(pdf)
-    lines = [split(text, w, style, BODY_PT) for w, text in zip(widths, cells, strict=False)]
-    height = max([1] + [len(c) for c in lines]) * LINE_MM + 2 * PAD_MM
-    if result == "fail" and len(lines) > 1:
-        lines[1] = split(cells[1], widths[1], "B", BODY_PT)
-    return _Row(height, lines)
+def _rows_made(pdf) -> dict:
+    """The rows of ``pdf`` measured so far (:func:`_row`)."""
+    made = getattr(pdf, "_cablewright_rows", None)
+    if made is None:
+        made = pdf._cablewright_rows = {}
+    return made
 
 
 class _TableLayout(NamedTuple):
     """A table's column widths [mm], header row and rows, measured once."""
 
-    widths: list[float]
-    head: _Row
-    rows: list[_Row]
+    widths: tuple[float, ...]
+    head: InkRow
+    rows: list[InkRow]
 
     @property
     def height(self) -> float:
@@ -179,7 +200,7 @@ def _result(t: TraceTable, i: int) -> str:
 
 
 def _table_layout(pdf, t: TraceTable) -> _TableLayout:
-    widths = _widths(pdf, len(t.headers), t.headers)
+    widths = tuple(_widths(pdf, len(t.headers), t.headers))
     return _TableLayout(widths, _row(pdf, widths, t.headers, True),
                         [_row(pdf, widths, r, result=_result(t, i)) for i, r in enumerate(t.rows)])
 
@@ -188,35 +209,26 @@ def _room(pdf) -> float:
     return pdf.page_break_trigger - pdf.get_y()
 
 
-def _draw_row(pdf, widths, row: _Row, bold=False, result="") -> None:
-    """One table row (measured by :func:`_row`), on a new page if it does not fit.
-
-    A header row (``bold``) is filled; a check's result cell (the second) is
-    filled in its outcome's colour, a failure's in bold white.
-    """
-    if row.height > _room(pdf):  # a row is never cut across pages
-        pdf.add_page()
+def _draw_rows(pdf, rows: Sequence[InkRow]) -> None:
+    """Table rows (measured by :func:`_row`) from the current position down; a row that does
+    not fit in what is left of the page starts a new one (a row is never cut across pages)."""
     ink = _ink(pdf)
-    drawn = []
-    for i, (w, lines) in enumerate(zip(widths, row.lines, strict=False)):
-        if bold:
-            drawn.append(InkCell(w, lines, "B", HEAD_FILL_RGB))
-        elif result and i == 1:
-            fail = result == "fail"
-            drawn.append(InkCell(w, lines, "B" if fail else "", RESULT_FILL.get(result, WHITE),
-                                 WHITE if fail else None))
-        else:
-            drawn.append(InkCell(w, lines))
-    x0, y0 = pdf.l_margin, pdf.get_y()
-    ink.draw_color(GRID_RGB)
-    ink.row(x0, y0, row.height, BODY_PT, drawn)
+    x0, y = pdf.l_margin, pdf.get_y()
+    trigger = pdf.page_break_trigger
+    for row in rows:
+        if row.height > trigger - y:
+            ink.flush()
+            pdf.add_page()
+            x0, y, trigger = pdf.l_margin, pdf.get_y(), pdf.page_break_trigger
+        ink.draw_color(GRID_RGB)
+        ink.row(x0, y, BODY_PT, row)
+        y += row.height
     ink.flush()
-    pdf.set_xy(x0, y0 + row.height)
+    pdf.set_xy(x0, y)
 
 
 def _draw_table(pdf, t: TraceTable, layout: _TableLayout | None = None) -> None:
     layout = layout or _table_layout(pdf, t)
-    widths = layout.widths
     head = LINE_MM + 1 + layout.head.height
     first = layout.rows[0].height if t.rows else 0.0
     if head + first > _room(pdf):  # keep the caption and header with the first row
@@ -224,10 +236,7 @@ def _draw_table(pdf, t: TraceTable, layout: _TableLayout | None = None) -> None:
     ink = _ink(pdf)
     ink.font(FONT_FAMILY, "B", BODY_PT)
     ink.cell_line(LINE_MM + 1, t.caption)  # fits: room was made above
-    ink.flush()
-    _draw_row(pdf, widths, layout.head, bold=True)
-    for i, row in enumerate(layout.rows):
-        _draw_row(pdf, widths, row, result=_result(t, i))
+    _draw_rows(pdf, [layout.head, *layout.rows])
     pdf.ln(1.5)
 
 

@@ -10,9 +10,10 @@ the page count and the text of every page are compared, and each page's content
 stream is compared apart from its last lines (the footer, "page n of N").
 
 The baseline is a copy of ``annotate/report_pdf.py``, a folder holding
-``report_pdf.py`` and optionally ``pdf_lines.py``, or a git revision (both files
-taken from it with ``git show``).  Its ``pdf_lines`` (when given) is the one its
-``report_pdf`` imports; its other imports are the current modules.
+``report_pdf.py`` and optionally ``pdf_lines.py`` and ``pdf_ink.py``, or a git
+revision (those files taken from it with ``git show``, where it has them).  Its
+``pdf_lines`` and ``pdf_ink`` (when given) are the ones its ``report_pdf``
+imports; its other imports are the current modules.
 
 Usage::
 
@@ -36,11 +37,13 @@ import time
 import warnings
 from pathlib import Path
 
+from cablewright.collector import RUN_THRESHOLDS, tuned_collector
+
 ROOT = Path(__file__).resolve().parents[1]
 DXF = ROOT / "sample_drawings" / "pumping_station.dxf"
 CSV = ROOT / "sample_drawings" / "pumping_station_circuits.csv"
-#: The modules of ``annotate/`` a baseline may bring, in import order.
-BASELINE_FILES = ("pdf_lines.py", "report_pdf.py")
+#: The modules of ``annotate/`` a baseline may bring, in import order (``report_pdf`` last).
+BASELINE_FILES = ("pdf_lines.py", "pdf_ink.py", "report_pdf.py")
 #: Footer lines at the end of a page's content stream (fpdf2's {nb} footer took up to two).
 FOOTER_LINES = 3
 
@@ -67,7 +70,8 @@ def _baseline_dir(spec: str, scratch: Path) -> Path:
 def _load_baseline(folder: Path):
     """The baseline ``report_pdf``, imported inside ``cablewright.annotate`` (relative imports work).
 
-    While it is imported, ``.pdf_lines`` is the baseline's when the folder has one.
+    While it is imported, ``.pdf_lines`` and ``.pdf_ink`` are the baseline's when the
+    folder has them.
     """
     def load(name: str, path: Path):
         spec = importlib.util.spec_from_file_location(f"cablewright.annotate._baseline_{name}", path)
@@ -75,15 +79,20 @@ def _load_baseline(folder: Path):
         spec.loader.exec_module(module)
         return module
 
-    lines_key = "cablewright.annotate.pdf_lines"
-    current_lines = sys.modules.get(lines_key)
-    if (folder / "pdf_lines.py").is_file():
-        sys.modules[lines_key] = load("pdf_lines", folder / "pdf_lines.py")
+    current = {}
     try:
+        for name in BASELINE_FILES[:-1]:
+            if (folder / name).is_file():
+                key = f"cablewright.annotate.{name[:-3]}"
+                current[key] = sys.modules.get(key)
+                sys.modules[key] = load(name[:-3], folder / name)
         return load("report_pdf", folder / "report_pdf.py")
     finally:
-        if current_lines is not None:
-            sys.modules[lines_key] = current_lines
+        for key, module in current.items():
+            if module is not None:
+                sys.modules[key] = module
+            else:
+                sys.modules.pop(key, None)
 
 
 def _job(plant: int | None, work: Path):
@@ -138,6 +147,9 @@ def main() -> None:
     parser.add_argument("--plant", type=int, help="circuits of a generated plant (default: the sample)")
     parser.add_argument("--work", type=Path, help="folder for the generated plant (kept; default: temporary)")
     parser.add_argument("--repeats", type=int, default=5)
+    parser.add_argument("--run-collector", action="store_true",
+                        help="time inside cablewright.collector.tuned_collector, as `size` runs "
+                             "(default: CPython's collector thresholds)")
     args = parser.parse_args()
 
     import logging
@@ -159,13 +171,15 @@ def main() -> None:
         warned: dict[str, int] = {}
         for render in variants.values():  # imports and first-use caches out of the timing
             _cpu(render, job.outcomes[:2], drawing.name)
-        for _ in range(args.repeats):
-            for name, render in variants.items():
-                cpu, last[name], warned[name] = _cpu(render, job.outcomes, drawing.name)
-                times[name].append(cpu)
+        with tuned_collector(None if not args.run_collector else RUN_THRESHOLDS):
+            for _ in range(args.repeats):
+                for name, render in variants.items():
+                    cpu, last[name], warned[name] = _cpu(render, job.outcomes, drawing.name)
+                    times[name].append(cpu)
     load = os.getloadavg()
+    collector = "run collector (as size)" if args.run_collector else "default collector"
     print(f"{drawing.name}: {len(job.outcomes)} circuits; load average {load[0]:.2f} {load[1]:.2f} "
-          f"{load[2]:.2f}; {args.repeats} repeats; CPU s min / median / max")
+          f"{load[2]:.2f}; {args.repeats} repeats; {collector}; CPU s min / median / max")
     pages = {name: _pages(data) for name, data in last.items()}
     for name, values in times.items():
         print(f"{name:9s} {min(values):.3f} / {statistics.median(values):.3f} / {max(values):.3f}"
@@ -177,7 +191,8 @@ def main() -> None:
         (text_a, body_a), (text_b, body_b) = pages["baseline"], pages["current"]
         print(f"same page count: {len(text_a) == len(text_b)}; same text on every page: {text_a == text_b}")
         same = sum(_same_body(a, b) for a, b in zip(body_a, body_b, strict=False))
-        print(f"content streams equal apart from the footer: {same} of {len(body_b)} pages")
+        print(f"content streams equal apart from the footer: {same} of {len(body_b)} pages; "
+              f"files byte for byte equal: {last['baseline'] == last['current']}")
 
 
 if __name__ == "__main__":

@@ -15,6 +15,7 @@ from pathlib import Path
 import pytest
 from cablewright.annotate import report_pdf
 from cablewright.annotate.report_trace import circuit_trace
+from fpdf.errors import FPDFException
 
 from cablewright import pipeline
 from cablewright.config import load_settings
@@ -84,3 +85,36 @@ def test_special_characters_are_left_to_fpdf(pdf):
     ours = report_pdf._lines(pdf)
     for text in ("16\u00a0A no-break space " * 6, "soft\u00adhyphen " * 9, "thin\u2009space " * 9):
         assert ours(text, 30.0, "", report_pdf.BODY_PT) == _fpdf_lines(pdf, text, 30.0, "", report_pdf.BODY_PT, True)
+
+
+def test_widths_on_a_glyph_boundary_break_as_fpdf_breaks_them(pdf):
+    """Cells exactly as wide as a prefix of the text (and a hair either side of fpdf2's
+    tolerance): the skip to the first character that may pass (a bisection of the run's
+    width) must land where fpdf2's walk breaks."""
+    rng = random.Random(20261204)
+    ours = report_pdf._lines(pdf)
+    pad = report_pdf.PAD_MM
+    cases = 0
+    for _ in range(300):
+        words = [rng.choice(WORDS) for _ in range(rng.randint(1, 30))]
+        text = " ".join(words)
+        style = rng.choice(("", "B"))
+        pdf.set_font(report_pdf.FONT_FAMILY, style, report_pdf.BODY_PT)
+        cut = rng.randint(1, len(text))
+        prefix = text[:cut].split("\n")[-1] or text[:1]
+        units = sum(pdf.current_font.cw[ord(c)] for c in prefix)
+        exact = units * report_pdf.BODY_PT * 0.001 / pdf.k
+        for delta in (0.0, 1e-10, -1e-10, 1e-9, -1e-9, 2e-9, -2e-9, 1e-7, -1e-7, 2e-6, -2e-6):
+            width = exact + 2 * pad + delta
+            assert _or_error(ours, text, width, style, report_pdf.BODY_PT) == _or_error(
+                _fpdf_lines, pdf, text, width, style, report_pdf.BODY_PT, True), (text, width, style)
+            cases += 1
+    assert cases == 3300
+
+
+def _or_error(split, *args):
+    """The lines, or the error's type (fpdf2 refuses a cell narrower than one character)."""
+    try:
+        return split(*args)
+    except FPDFException as exc:
+        return type(exc)
