@@ -65,7 +65,7 @@ def _notes_at_equipment(
         variants = note_variants(lines)
         before = sel.begin(index)
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height,
-                             key_size=key_box(w, index))
+                             key_size=lambda: key_box(w, index))
         place = spot.place
         mark = Mark(role, f"{kind}-note", tag)
         if i == len(variants):  # only its key fitted: the note goes to the keyed notes list

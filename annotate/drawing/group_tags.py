@@ -291,7 +291,7 @@ def place_group_tags(
         bw, bh = w.block_box(lines + under)
         before = sel.begin(index)
         spot = place_on_route(index, rank_stretches(stretches, bw), bw, bh, h,
-                              max_leader_h=GROUP_MAX_LEADER_H, key_size=key_box(w, index))
+                              max_leader_h=GROUP_MAX_LEADER_H, key_size=lambda: key_box(w, index))
         place = spot.place
         overlapping += place.overlaps
         if spot.keyed:  # only its key fitted: the tag goes to the keyed notes list

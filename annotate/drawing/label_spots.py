@@ -73,6 +73,10 @@ class Spot:
     z: float
 
 
+#: A key's box (width, height), or a function giving it when it is needed.
+KeySize = tuple[float, float] | Callable[[], tuple[float, float]]
+
+
 @dataclass(frozen=True)
 class RouteSpot:
     """Where the mark went and whether it needs a leader (from ``anchor`` to the box)."""
@@ -162,7 +166,7 @@ def record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
 def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float,
                    height: float, text_height: float, *,
                    max_leader_h: float = MAX_LEADER_H, ends_first: bool = False,
-                   key_size: tuple[float, float] | None = None) -> RouteSpot:
+                   key_size: KeySize | None = None) -> RouteSpot:
     """Place one mark (box ``width`` x ``height``) on ``stretches`` (best first).
 
     Parameters
@@ -179,9 +183,9 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         Farthest the box edge may go from the route [text heights].
     ends_first : bool
         Spots along a stretch from its ends inwards (a short mark: :func:`.spot_arrays._along`).
-    key_size : (float, float), optional
+    key_size : (float, float) or a function giving it, optional
         The box of the mark's key (:mod:`.note_keys`), tried the same way before the
-        last resorts.
+        last resorts (the function called only then).
 
     Returns
     -------
@@ -201,7 +205,8 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
     out = [g * h for g in _leader_gaps(max_leader_h)]
     found = _clear_on_route(index, tried, width, height, h, max_leader_h, ends_first)
     if found is None and key_size is not None:
-        found = _clear_on_route(index, tried, *key_size, h, max_leader_h, ends_first)
+        key_w, key_h = key_size() if callable(key_size) else key_size
+        found = _clear_on_route(index, tried, key_w, key_h, h, max_leader_h, ends_first)
         found = None if found is None else dataclasses.replace(found, keyed=True)
     if found is not None:
         return found

@@ -15,7 +15,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from .label_spots import RouteSpot, pick, record
+from .label_spots import KeySize, RouteSpot, pick, record
 from .label_spots import _spot as spot_at
 from .mark_index import LabelIndex
 from .spot_arrays import COLUMNS, ring_spots
@@ -87,14 +87,15 @@ def note_spots(point: tuple[float, float, float], width: float, height: float,
 
 
 def place_note(index: LabelIndex, at: Sequence[float], sizes: Sequence[tuple[float, float]],
-               text_height: float, key_size: tuple[float, float] | None = None
+               text_height: float, key_size: KeySize | None = None
                ) -> tuple[RouteSpot, int]:
     """Place the first fitting of several variants of a note (box sizes ``sizes``, best
     first) near the point ``at`` (x, y, z); (where it went, which variant).
 
     Tiers: every variant clear of everything within :data:`NEAR_GAPS_H`, then within
     :data:`FAR_GAPS_H`; then, with ``key_size``, the note's key (:mod:`.note_keys`) the
-    same way (variant ``len(sizes)``); then the first variant crossing a line of the
+    same way (variant ``len(sizes)``; ``key_size`` a box or a function giving it, called
+    only then); then the first variant crossing a line of the
     drawing but no text or mark; then overlapping the drawing's own text or symbols
     rather than a mark of ours; both last resorts counted.
     """
@@ -108,8 +109,9 @@ def place_note(index: LabelIndex, at: Sequence[float], sizes: Sequence[tuple[flo
             if spot is not None:
                 return record(index, spot, h, leader=True, how="leader"), i
     if key_size is not None:
+        key_w, key_h = key_size() if callable(key_size) else key_size
         for gaps in (NEAR_GAPS_H, FAR_GAPS_H):
-            spots = note_spots(point, key_size[0], key_size[1], [g * h for g in gaps])
+            spots = note_spots(point, key_w, key_h, [g * h for g in gaps])
             spot = pick(index, spots, h, leader_lines=False, leader_from_symbol=True)
             if spot is not None:
                 return record(index, spot, h, leader=True, how="leader"), len(sizes)

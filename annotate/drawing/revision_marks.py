@@ -72,7 +72,7 @@ def place_fill_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
         variants = note_variants(lines)
         before = sel.begin(index)
         spot, i = place_note(index, (x, y, z), [w.block_box(v) for v in variants], w.height,
-                             key_size=key_box(w, index))
+                             key_size=lambda: key_box(w, index))
         place, mark = spot.place, Mark("fill", "fill-mark", fill.segment_id)
         if i == len(variants):  # only its key fitted: the note goes to the keyed notes list
             entities = write_key(w, index, place, [(mark, lines)])
