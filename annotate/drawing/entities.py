@@ -244,11 +244,15 @@ class EntityWriter:
         mark: Mark,
         *,
         color: int | None = None,
+        end: tuple[float, float] | None = None,
     ) -> LineString:
-        """A straight leader from the anchor point to the nearest edge of the note,
-        in our leader linetype; returns it in plan (for the index of placed marks)."""
-        anchor = Point(place.anchor)
-        _, near = nearest_points(anchor, place.polygon.exterior)
+        """A straight leader from the anchor point to ``end``, by default the nearest edge
+        of the note, in our leader linetype; returns it in plan (for the index of placed
+        marks)."""
+        if end is None:
+            _, near = nearest_points(Point(place.anchor), place.polygon.exterior)
+        else:
+            near = Point(end)
         self.line(
             (place.anchor[0], place.anchor[1], z),
             (near.x, near.y, z),

@@ -18,7 +18,6 @@ References
 
 from __future__ import annotations
 
-import dataclasses
 import math
 import re
 from collections.abc import Sequence
@@ -27,10 +26,21 @@ from typing import Any
 from ezdxf import disassemble
 from ezdxf.tools import text_size
 from ezdxf.tools.text import estimate_mtext_extents
-from shapely.geometry import LineString, MultiPoint, Polygon
+from shapely.geometry import LineString, MultiPoint, Point, Polygon
+from shapely.ops import nearest_points
 
 from .entities import EntityWriter, Mark
 from .placement import Placement
+
+#: How far a drawn leader may part from the tested one where it meets the mark's box [text
+#: heights]: the margin our boxes keep above and below a note (0.35 h,
+#: :data:`.style.NOTE_MARGIN_H`), as a leader to a text's corner parts from one to its box's
+#: corner; a group tag's cut hull parts by metres (our own choice).
+LEADER_PLAY_H = 0.35
+#: How far the tested line may be carried on into the mark's box to meet its text [text
+#: heights]: through a corner's margins at a slant (our own choice; further, and the
+#: leader ends at the box, short of the text).
+LEADER_INSIDE_H = 2.0
 
 __all__ = ["text_outline", "draw_leader"]
 
@@ -98,8 +108,46 @@ def text_outline(entities: Sequence[Any], heights: dict[tuple, float] | None = N
     return hull if isinstance(hull, Polygon) and hull.area > 0.0 else None
 
 
+def leader_end(place: Placement, outline: Polygon | None, tolerance: float,
+               inside: float) -> tuple[float, float]:
+    """Where a leader from ``place.anchor`` ends, on the written text's ``outline``.
+
+    The search tested the leader from the anchor to the nearest point of the mark's box
+    (:func:`.label_spots.record`); outside the box the drawn leader keeps to that line, or
+    it could cross a mark the search saw clear of it (a group tag over a wider fill block:
+    the hull's corner is cut, far from the box's).  So the leader ends at the outline's
+    point nearest to the anchor when that line meets the box within ``tolerance`` of the
+    tested one (straight lines from one point part the most where they meet the box);
+    else where the tested line, carried on into the box at most ``inside``, meets the
+    outline; else at the tested line's own end on the box.
+    """
+    anchor = Point(place.anchor)
+    box = place.polygon
+    _, searched = nearest_points(anchor, box.exterior)
+    if outline is None:
+        return (searched.x, searched.y)
+    tested = LineString([anchor, searched])
+    _, end = nearest_points(anchor, outline.exterior)
+    meets = LineString([anchor, end]).intersection(box.exterior)
+    met = end if meets.is_empty else nearest_points(anchor, meets)[1]
+    if met.distance(tested) <= tolerance:
+        return (end.x, end.y)
+    length = tested.length
+    if length > 0.0:
+        ax, ay = place.anchor
+        reach = 1.0 + 2.0 * box.length / length  # past the far side of the box
+        ray = LineString([(ax, ay), (ax + (searched.x - ax) * reach, ay + (searched.y - ay) * reach)])
+        hits = ray.intersection(outline.exterior)
+        if not hits.is_empty:
+            _, first = nearest_points(anchor, hits)
+            if first.distance(searched) <= inside:
+                return (first.x, first.y)
+    return (searched.x, searched.y)
+
+
 def draw_leader(w: EntityWriter, place: Placement, entities: Sequence[Any], mark: Mark) -> LineString:
-    """A leader from ``place.anchor`` to the nearest point of the written text's box."""
+    """A leader from ``place.anchor`` to the written text's box, along the leader the search
+    tested (:func:`leader_end`)."""
     outline = text_outline(entities, w.mtext_heights)
-    target = place if outline is None else dataclasses.replace(place, polygon=outline)
-    return w.leader(target, place.z, mark)
+    end = leader_end(place, outline, LEADER_PLAY_H * w.height, LEADER_INSIDE_H * w.height)
+    return w.leader(place, place.z, mark, end=end)

@@ -23,7 +23,7 @@ from .group_tags import TaggedRun, place_group_tags, tagged_runs
 from .inputs import AnnotationInput
 from .labels import place_cable_labels
 from .linework import drawing_linework
-from .mark_rounds import MarkRound, place_in_rounds
+from .mark_rounds import MarkRound, no_repair_rounds, place_in_rounds
 from .note_keys import keyed_notes_list
 from .obstacles import DrawingScan, extents, keep_clear_boxes
 from .revision_marks import place_fill_marks
@@ -80,15 +80,19 @@ def _sketch(w: _RecordingWriter) -> Sketch:
 def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
                  config: AnnotateConfig, progress: ProgressHook | None,
                  select: MarkRound | None, runs: Sequence[TaggedRun]) -> tuple[Any, ...]:
-    """Every mark but the schedule, the least free first: cable labels (strict rule), group
+    """Every mark but the schedule, the least free first: (on a drawing too large for repair
+    rounds, the ids of short segments, :mod:`.segment_ids`), cable labels (strict rule), group
     tags (big blocks), segment ids (bound to their segment), fill notes, device and error
     notes (free to go further out with their leader); ``select``: a repair round's marks
     first, kind by kind (:mod:`.mark_rounds`); ``runs``: the runs that get group tags
     (:func:`.group_tags.tagged_runs`), their fills written under them."""
+    ids_first = config.segment_ids and no_repair_rounds(marks)
+    segment_ids = place_segment_ids(w, index, marks, select, short=True) if ids_first else 0
     labels, _, unlabelled = place_cable_labels(w, index, marks, progress, select)
     group_tags, _, fills_under_tags = (place_group_tags(w, index, marks, select, runs)
                                        if config.group_tags else (0, 0, 0))
-    segment_ids = place_segment_ids(w, index, marks, select) if config.segment_ids else 0
+    if config.segment_ids:
+        segment_ids += place_segment_ids(w, index, marks, select, short=False if ids_first else None)
     fill_notes = place_fill_marks(w, index, marks, select, runs) + fills_under_tags
     device_notes, error_notes, _ = place_equipment_notes(w, index, marks, select)
     return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes

@@ -23,7 +23,7 @@ from typing import TYPE_CHECKING, Any
 if TYPE_CHECKING:  # the index imports the placing modules' helpers; only its type here
     from .mark_index import LabelIndex
 
-__all__ = ["LONG_LEADER_H", "REPAIR_ROUNDS", "MarkRound", "place_in_rounds"]
+__all__ = ["LONG_LEADER_H", "REPAIR_ROUNDS", "MarkRound", "no_repair_rounds", "place_in_rounds"]
 
 #: A leader longer than this [text heights] sends its mark to the next round: 10 h is
 #: 25 mm at a 2.5 mm lettering, about as far as a reader follows a leader on a plot
@@ -38,6 +38,16 @@ REPAIR_ROUNDS = 4
 #: a re-run gives the same drawing; the last resorts are reported either way).
 REPAIR_MAX_MARKS = 40
 REPAIR_MAX_PLACED = 1000
+
+
+
+def no_repair_rounds(marks: Any) -> bool:
+    """True when a drawing surely gets no repair rounds: its circuits and segments alone
+    (``marks.outcomes``, ``marks.segments``: a label and an id each, about) are more than
+    :data:`REPAIR_MAX_PLACED` marks, so the order of the first round is all it gets
+    (:mod:`.segment_ids`)."""
+    return len(marks.outcomes) + len(marks.segments) > REPAIR_MAX_PLACED
+
 
 #: The marks under the strict rule (issue 12): a round that leaves one of them to a last
 #: resort is never kept over one that does not.

@@ -7,6 +7,13 @@ circuits run on it.  Each id is a mark like a cable label: along a straight stre
 of its segment within one text height of it, else tied to it by a short leader
 (:func:`.label_spots.place_on_route`), tried from the segment's ends inwards so that
 the middle of a short drop is left to the cable labels placed before.
+
+On a drawing too large for repair rounds (:data:`.mark_rounds.REPAIR_MAX_PLACED`), the
+ids of short segments (:data:`BOUND_SEGMENT_H`) are placed before the cable labels: an
+id can go only on its own segment, a label anywhere along its route, so the least free
+mark goes first (on the 2,000-circuit plant two labels took both sides of a 6 m tray
+stretch and left its id no place; benchmarks/RESULTS.md).  On a smaller drawing the
+rounds place such an id first when it needs it, and the usual order is kept.
 """
 
 from __future__ import annotations
@@ -20,7 +27,11 @@ from .mark_rounds import MarkRound
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .text import clean
 
-__all__ = ["place_segment_ids", "segment_order"]
+__all__ = ["BOUND_SEGMENT_H", "place_segment_ids", "segment_order"]
+
+#: A segment shorter than this [text heights] is "short": two cable labels (12-18 h each,
+#: :data:`.style.INDEX_CELL_H`) fill both its sides (our own choice).
+BOUND_SEGMENT_H = 30.0
 
 
 def segment_order(segment_id: str) -> tuple[int, str]:
@@ -48,13 +59,17 @@ def _id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
 
 
 def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
-                      select: MarkRound | None = None) -> int:
+                      select: MarkRound | None = None, short: bool | None = None) -> int:
     """One id per segment with a plan length, on the group-tag layer; the number written;
-    ``select`` as in :func:`.labels.place_cable_labels`."""
+    ``select`` as in :func:`.labels.place_cable_labels`; ``short`` True or False: only the
+    ids of segments shorter than :data:`BOUND_SEGMENT_H`, or only the others."""
     written = 0
     todo = _id_stretches(marks)
     sel = select or MarkRound()
+    bound = BOUND_SEGMENT_H * w.height
     for seg_id, stretches in todo:
+        if short is not None and (sum(s.length for s in stretches) < bound) != short:
+            continue
         if not sel.wants("segment-id", seg_id):
             continue
         text = clean(seg_id)
