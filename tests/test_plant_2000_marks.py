@@ -3,10 +3,10 @@
 The plant is generated (benchmarks/generate_plant.py, invented data) and sized with the
 defaults; the annotated DXF is read back with ezdxf and every added text's box checked
 with shapely (tests/drawing_audit.py, independent of the writer).  The counts are
-printed; the test holds the rules the writer can keep on a drawing this crowded: every
-cable label on its route or tied to it by a leader of at most 5 text heights, every
-segment id on its segment, and every crossing or overlap one the writer counted and
-reported as a last resort (schedule.json ``drawing_marks``), never silent.
+printed; the test holds the strict rule of the issue: no added text crosses the drawing's
+linework or our leaders, none overlaps another text, every cable label on its route or
+tied to it by a leader of at most 5 text heights, every segment id on its segment, and
+no mark left to a last resort (schedule.json ``drawing_marks``).
 """
 
 from __future__ import annotations
@@ -43,3 +43,5 @@ def test_plant_2000_marks_keep_the_rules_and_every_last_resort_is_counted(tmp_pa
     assert result.labels_off_route == [] and result.segment_ids_off == []
     assert result.segment_ids >= sum(1 for g in _segments(out).values() if g.length > 0)
     check_accounted(result, reported)
+    assert result.crossing_linework == [] and result.overlapping_text == [], result.summary()
+    assert reported["last_resort_marks"] == [], reported
