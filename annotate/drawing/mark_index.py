@@ -265,7 +265,7 @@ class LabelIndex:
             polys[idx] = box_polygons(boxes[idx])
             made[idx] = True
             return polys[idx]
-        rows = np.arange(len(boxes))[idx]
+        rows = np.arange(len(boxes))[idx] if isinstance(idx, slice) else idx
         missing = rows[~made[rows]]
         if len(missing):
             polys[missing] = box_polygons(boxes[missing])
@@ -300,14 +300,16 @@ class LabelIndex:
         ok = np.ones(len(boxes), dtype=bool)
         if len(boxes) == 0:
             return ok
-        if lines and self._lines is not None:
-            hit = self._lines.query(polys, predicate="intersects")
-            ok[hit[0]] = False
+        # the text and symbol boxes first: they refuse more than half the spots of a crowded
+        # drawing at a few tree candidates each, while a spot beside a route has several
+        # lines near it (the same result in either order; benchmarks/RESULTS.md, stop 27)
         if fixed and self._fixed_tree is not None:
+            # exact for two rectangles (a shared edge counts as a hit: on the safe side)
+            ok[self._fixed_tree.query(polys, predicate="intersects")[0]] = False
+        if lines and self._lines is not None:
             rest = np.flatnonzero(ok)
             if len(rest):
-                # exact for two rectangles (a shared edge counts as a hit: on the safe side)
-                hit = self._fixed_tree.query(polys[rest], predicate="intersects")
+                hit = self._lines.query(polys[rest], predicate="intersects")
                 ok[rest[hit[0]]] = False
         return ok
 
