@@ -262,8 +262,7 @@ class LabelIndex:
             self._poly_memo = [*self._poly_memo[-(POLY_MEMO - 1):], entry]
         _, polys, made = entry
         if isinstance(idx, slice) and not made[idx].any():
-            polys[idx] = box_polygons(boxes[idx])
-            made[idx] = True
+            polys[idx], made[idx] = box_polygons(boxes[idx]), True
             return polys[idx]
         rows = np.arange(len(boxes))[idx] if isinstance(idx, slice) else idx
         missing = rows[~made[rows]]
@@ -300,9 +299,8 @@ class LabelIndex:
         ok = np.ones(len(boxes), dtype=bool)
         if len(boxes) == 0:
             return ok
-        # the text and symbol boxes first: they refuse more than half the spots of a crowded
-        # drawing at a few tree candidates each, while a spot beside a route has several
-        # lines near it (the same result in either order; benchmarks/RESULTS.md, stop 27)
+        # text and symbol boxes first: they refuse over half the spots of a crowded drawing,
+        # cheaper than the lines near a route (either order, same result; RESULTS.md stop 27)
         if fixed and self._fixed_tree is not None:
             # exact for two rectangles (a shared edge counts as a hit: on the safe side)
             ok[self._fixed_tree.query(polys, predicate="intersects")[0]] = False
@@ -329,9 +327,9 @@ class LabelIndex:
             return False
         if self._fixed_tree is None:
             return True
-        start = Point(a[0], a[1])
-        for j in self._fixed_tree.query(poly, predicate="intersects"):
-            j = int(j)
+        start = None  # made only when a symbol box may hold it
+        for j in map(int, self._fixed_tree.query(poly, predicate="intersects")):
+            start = Point(a[0], a[1]) if from_symbol and start is None else start
             if from_symbol and self._fixed_polys[j].covers(start):
                 continue
             if boxes_overlap(thin, self._fixed[j], max(self._eps, graze)):
