@@ -146,11 +146,11 @@ class LabelIndex:
                 yield (i, j)
 
     # -- recording -----------------------------------------------------------------
-    def add(self, box: Box) -> None:
-        """Record a placed box."""
+    def add(self, box: Box, polygon: Polygon | None = None) -> None:
+        """Record a placed box (``polygon``: its :func:`.boxes._polygon`, when made already)."""
         idx = len(self._boxes)
         self._boxes.append(box)
-        self._mark_geoms.append(_polygon(box))
+        self._mark_geoms.append(_polygon(box) if polygon is None else polygon)
         self._geom_box.append(idx)
         if idx == len(self._box_rows):
             self._box_rows = np.concatenate([self._box_rows, np.empty_like(self._box_rows)])
