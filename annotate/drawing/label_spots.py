@@ -136,8 +136,8 @@ def _placement(spot: Spot, overlaps: bool = False) -> Placement:
 def record(index: LabelIndex, spot: Spot, text_height: float, *, leader: bool,
             how: str) -> RouteSpot:
     """Record the spot in the index (box, leader) and in the counts; the result."""
-    index.add(spot.box)
     place = _placement(spot, overlaps=how == "overlapping")
+    index.add(spot.box, place.polygon)  # the same polygon, made once
     line = None
     if leader:
         near = _nearest_on_box(spot.box, spot.anchor)

@@ -71,19 +71,17 @@ def stretch_spots(s: Stretch, width: float, height: float, gaps: Sequence[float]
     # the anchor (where a leader leaves the route) on the stretch itself, also for a box
     # hanging over the stretch's end
     ta = np.clip(t, -n / 2.0, n / 2.0)
-    qx = np.broadcast_to((mx + ux * ta)[None, :, None], (len(g), len(t), 2))
-    qy = np.broadcast_to((my + uy * ta)[None, :, None], (len(g), len(t), 2))
-    shape = (len(g), len(t), 2)
-    rows = np.empty(shape + (len(COLUMNS),))
+    # each column assigned by broadcasting (no broadcast copies made first)
+    rows = np.empty((len(g), len(t), 2, len(COLUMNS)))
     rows[..., 0] = px + vx * off
     rows[..., 1] = py + vy * off
     rows[..., 2] = math.cos(a)
     rows[..., 3] = math.sin(a)
     rows[..., 4] = width / 2.0
     rows[..., 5] = height / 2.0
-    rows[..., 6] = qx
-    rows[..., 7] = qy
-    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
+    rows[..., 6] = (mx + ux * ta)[None, :, None]
+    rows[..., 7] = (my + uy * ta)[None, :, None]
+    rows[..., 8] = g[:, None, None]
     rows[..., 9] = s.z
     return rows.reshape(-1, len(COLUMNS))
 
@@ -102,16 +100,15 @@ def ring_spots(points: Sequence[tuple[float, float, float]], width: float, heigh
     pts = np.asarray(points, dtype=float)  # (P, 3)
     g = np.asarray(gaps, dtype=float)
     d = g[:, None, None] + reach[None, None, :]  # (G, 1, D)
-    shape = (len(g), len(pts), directions)
-    rows = np.empty(shape + (len(COLUMNS),))
+    rows = np.empty((len(g), len(pts), directions, len(COLUMNS)))
     rows[..., 0] = pts[None, :, 0, None] + c * d
     rows[..., 1] = pts[None, :, 1, None] + sn * d
     rows[..., 2] = 1.0
     rows[..., 3] = 0.0
     rows[..., 4] = width / 2.0
     rows[..., 5] = height / 2.0
-    rows[..., 6] = np.broadcast_to(pts[None, :, 0, None], shape)
-    rows[..., 7] = np.broadcast_to(pts[None, :, 1, None], shape)
-    rows[..., 8] = np.broadcast_to(g[:, None, None], shape)
-    rows[..., 9] = np.broadcast_to(pts[None, :, 2, None], shape)
+    rows[..., 6] = pts[None, :, 0, None]
+    rows[..., 7] = pts[None, :, 1, None]
+    rows[..., 8] = g[:, None, None]
+    rows[..., 9] = pts[None, :, 2, None]
     return rows.reshape(-1, len(COLUMNS))
