@@ -174,6 +174,9 @@ def test_colours_chosen_from_a_drawing_with_other_layer_colours(runs, tmp_path):
     print("recoloured:", result.summary(), _reported(out))
     assert result.labels >= 19
     check_accounted(result, _reported(out))
+    # the same geometry as the sample, which keeps the strict rule: so must this copy
+    assert result.crossing_linework == [] and result.overlapping_text == [], result.summary()
+    assert _reported(out)["last_resort_marks"] == []
 
 
 def test_demo_labels_carry_what_the_installer_needs(runs):
