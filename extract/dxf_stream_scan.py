@@ -77,6 +77,8 @@ class StreamObstacles:
         The layer table as written.
     linetypes, styles, appids : list of str
         Names in those tables.
+    style_fonts : dict of str
+        Text style name -> its primary font file (STYLE group 3), where it names one.
     box : (xmin, ymin, xmax, ymax) or None
         Extents of the entities measured from their points [drawing units].
     entities : list of Record
@@ -102,6 +104,7 @@ class StreamObstacles:
     linetypes: list[str] = field(default_factory=list)
     styles: list[str] = field(default_factory=list)
     appids: list[str] = field(default_factory=list)
+    style_fonts: dict[str, str] = field(default_factory=dict)
     box: tuple[float, float, float, float] | None = None
     entities: list[Record] = field(default_factory=list)
     lines: array[float] = field(default_factory=lambda: array("d"))
@@ -188,6 +191,9 @@ class ObstacleCollector:
             r.layers.append((name, int(float(first_value(tags, 62, "7"))), ours))
         else:
             {"LTYPE": r.linetypes, "STYLE": r.styles, "APPID": r.appids}[kind].append(name)
+            font = first_value(tags, 3) if kind == "STYLE" else ""
+            if font:
+                r.style_fonts[name] = font
 
     def block(self, kind: str, tags: Tags) -> None:
         """A record of the BLOCKS section, in order."""

@@ -17,16 +17,17 @@ from ezdxf import bbox as ezbbox
 
 from .boxes import Box, bounds_box, oriented_box
 from .style import BOX_SIDES_PER_HALF, LINE_PITCH, AnnotateConfig
+from .style_fonts import StyleMeasures
 
 __all__ = ["DrawingScan", "scan_modelspace", "extents", "keep_clear_boxes"]
 
 log = logging.getLogger(__name__)
 
 
-#: The drawing's own texts are measured with our font, not their style's: their boxes are
-#: widened by 5 % so a mark keeps clear of the text as CAD programs draw it (ezdxf's own
-#: MTEXT measure ran 1 % wider than the font's advance on the benchmark plant's title;
-#: our own choice, measuring every style's font is left to do).
+#: The drawing's own texts are measured with our font, or their style's where it is here and
+#: wider (:mod:`.style_fonts`): their boxes are widened by 5 % so a mark keeps clear of the
+#: text as CAD programs draw it (ezdxf's own MTEXT measure ran 1 % wider than the font's
+#: advance on the benchmark plant's title; our own choice).
 FOREIGN_TEXT_WIDTH = 1.05
 
 
@@ -131,6 +132,9 @@ class DrawingScan:
 def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
     """One pass over modelspace: extents, text boxes and equipment symbol boxes.
 
+    ``measure`` is our font's advance width at height 1; a text whose style's font is
+    here and wider is measured by that font (:class:`.style_fonts.StyleMeasures`).
+
     Cheap cases are measured directly (LINE, LWPOLYLINE and POLYLINE vertices,
     CIRCLE/ARC circles, HATCH polyline paths, TEXT/MTEXT/ATTRIB boxes from the
     font's advance widths, INSERT as its block's box - measured once per block
@@ -138,6 +142,7 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
     back to ``ezdxf.bbox.extents(fast=True)``.
     """
     scan = DrawingScan()
+    measures = StyleMeasures(doc, measure)
     # blocks that insert themselves, nest too deep or are undefined get no box (ezdxf's
     # bounding box would recurse without end); the reader reports them
     block_boxes: dict[str, Any] = dict.fromkeys(block_problems(doc))
@@ -146,7 +151,7 @@ def scan_modelspace(doc: Any, measure: Callable[[str], float]) -> DrawingScan:
         if e.dxftype() == "INSERT" and e.dxf.name in block_boxes and block_boxes[e.dxf.name] is None:
             continue
         try:
-            if not _scan_entity(doc, e, measure, scan, block_boxes):
+            if not _scan_entity(doc, e, measures, scan, block_boxes):
                 fallback.append(e)
         except (AttributeError, ValueError, ArithmeticError, ezdxf.DXFError) as exc:
             log.debug("entity %s (%s) not measured: %s", e.dxf.get("handle", "?"), e.dxftype(), exc)
@@ -214,7 +219,7 @@ _TEXT_BOXES: dict[str, Callable[[Any, Callable[[str], float]], Box | None]] = {
 def _scan_entity(
     doc: Any,
     e: Any,
-    measure: Callable[[str], float],
+    measures: StyleMeasures,
     scan: DrawingScan,
     block_boxes: dict[str, Any],
 ) -> bool:
@@ -226,13 +231,13 @@ def _scan_entity(
         return True
     box_of = _TEXT_BOXES.get(t)
     if box_of is not None:
-        box = box_of(e, measure)
+        box = box_of(e, measures.of(e))
         if box is not None:
             scan.texts.append(box)
             scan.take_box(box)
         return True
     if t == "INSERT":
-        _scan_insert(doc, e, measure, scan, block_boxes)
+        _scan_insert(doc, e, measures, scan, block_boxes)
         return True
     if t == "HATCH" and all(hasattr(p, "vertices") for p in e.paths):
         _take_hatch(e, scan)
@@ -243,7 +248,7 @@ def _scan_entity(
 def _scan_insert(
     doc: Any,
     insert: Any,
-    measure: Callable[[str], float],
+    measures: StyleMeasures,
     scan: DrawingScan,
     block_boxes: dict[str, Any],
 ) -> None:
@@ -273,7 +278,7 @@ def _scan_insert(
     for attrib in insert.attribs:
         if attrib.is_invisible:
             continue
-        box = _text_box(attrib, measure)
+        box = _text_box(attrib, measures.of(attrib))
         if box is not None:
             scan.texts.append(box)
             scan.take_box(box)
