@@ -3,10 +3,12 @@
 from __future__ import annotations
 
 import argparse
+import sys
 import textwrap
+from collections.abc import Iterable
 from pathlib import Path
 
-from cablewright.annotate.jsonout import dumps
+from cablewright.annotate.jsonout import dump_pieces
 from cablewright.annotate.model import CircuitOutcome
 from cablewright.annotate.rows import length_unit, rows, rule_set_cautions
 
@@ -93,7 +95,7 @@ def run_routes(args: argparse.Namespace) -> int:
     _issues(measurement)
     _report_errors(outcomes)
     if args.json:
-        print(dumps(outcomes, kind="routes", extra=_extra(measurement)))
+        _print_json(dump_pieces(outcomes, kind="routes", extra=_extra(measurement)))
     else:
         unit = _unit(settings)
         table = [
@@ -117,6 +119,15 @@ def default_out(drawing: Path) -> Path:
     return _default_out(drawing)
 
 
+def _print_json(pieces: Iterable[str]) -> None:
+    """The JSON document on stdout piece by piece (a circuit's line at a time), the same
+    text as ``print(dumps(...))``: the 15 MB document of 2,000 circuits is never held whole."""
+    write = sys.stdout.write
+    for piece in pieces:
+        write(piece)
+    write("\n")
+
+
 def run_size(args: argparse.Namespace) -> int:
     """The whole job: measure, size, write the annotated DXF, schedule and report."""
     settings = settings_for(args)  # validated before any drawing is read, batch too
@@ -132,7 +143,7 @@ def run_size(args: argparse.Namespace) -> int:
     _issues(run.measurement)
     _report_errors(job.outcomes)
     if args.json:
-        print(dumps(job.outcomes, kind="size", extra=extras))
+        _print_json(dump_pieces(job.outcomes, kind="size", extra=extras))
     else:
         unit = _unit(settings)
         table = [

@@ -44,6 +44,14 @@ def sized(tmp_path_factory):
     return code, json.loads(stdout.getvalue()), stderr.getvalue(), out, before
 
 
+def test_size_json_on_stdout_is_the_schedule_files_circuits(sized):
+    """stdout is written piece by piece (commands_drawing._print_json): the same circuits as
+    schedule.json, whole JSON ending in one newline."""
+    _, doc, _, out, _ = sized
+    written = json.loads((out / "schedule.json").read_text(encoding="utf-8"))
+    assert doc["circuits"] == written["circuits"] and len(doc["circuits"]) >= 15
+
+
 def test_size_json_follows_the_contract(sized):
     code, doc, _, _, _ = sized
     circuits = doc["circuits"]
