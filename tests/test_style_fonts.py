@@ -21,7 +21,7 @@ from cablewright.extract.model import DEFAULT_ROUTE_LAYERS
 from ezdxf import disassemble
 from ezdxf.fonts import fonts
 
-MONO = "DejaVuSansMono.ttf"  # installed with the matplotlib of our dependencies (DejaVu fonts)
+MONO = "DejaVuSansMono.ttf"  # a system font here (Debian fonts-dejavu); skipped where ezdxf finds none
 TEXT = "iiiiiiiiii 1111"  # narrow letters: a monospaced font sets them far wider
 H = 2.5
 ROUTE_LAYER = next(iter(DEFAULT_ROUTE_LAYERS))
@@ -49,7 +49,7 @@ def _width(box) -> float:
 
 @pytest.fixture(autouse=True)
 def _mono_here():
-    if not fonts.font_manager.has_font(MONO):  # pragma: no cover - fonts come with matplotlib
+    if not fonts.font_manager.has_font(MONO):  # pragma: no cover - a machine without DejaVu
         pytest.skip(f"{MONO} not on this machine")
 
 
