@@ -286,3 +286,35 @@ def test_streamed_linework_is_the_parsed_drawings(plant):
     streamed = keys([*linework_geometries(scratch.doc, APPID, h), *scratch.lines])
     assert len(scratch.lines) == len(doc.modelspace().query("LINE")) > 0
     assert streamed == parsed
+
+
+def test_a_drawing_saved_during_the_annotation_is_refused_in_one_line(tmp_path, monkeypatch, capsys):
+    """The appending writer reads the drawing's bytes after placing the marks (memory); when
+    the drawing was saved in between, our handles and marks belong to the old one: one clear
+    line, exit 2 (contract), and no annotated copy half-written."""
+    import os
+
+    from cablewright.annotate.drawing import append_writer
+    from cablewright.cli import main
+
+    dxf = _small_drawing(tmp_path / "saved.dxf", "AC1032")
+    placed = append_writer.add_marks
+
+    def save_meanwhile(*args, **kwargs):
+        counts = placed(*args, **kwargs)
+        with open(dxf, "ab") as f:  # the engineer saves the drawing while we work
+            f.write(b"")
+        stat = dxf.stat()
+        os.utime(dxf, ns=(stat.st_atime_ns, stat.st_mtime_ns + 1_000_000_000))
+        return counts
+
+    monkeypatch.setattr(append_writer, "add_marks", save_meanwhile)
+    out = tmp_path / "out"
+    code = main(["size", str(dxf), "--circuits", str(_schedule(tmp_path / "c.csv")), "--out", str(out)])
+    err = capsys.readouterr().err.strip().splitlines()
+    assert code == 2
+    assert [line for line in err if "saved while it was being annotated" in line] == \
+        [line for line in err if "saved.dxf" in line and "annotated" in line]
+    assert len([line for line in err if "saved while" in line]) == 1
+    assert "Traceback" not in "\n".join(err)
+    assert not (out / "saved_annotated.dxf").exists()

@@ -14,11 +14,13 @@ takes them.
 from __future__ import annotations
 
 import logging
+import os
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from cablewright.core.errors import DrawingReadError
 from ezdxf.fonts import fonts
 
 from ..atomic import atomic_path
@@ -31,6 +33,9 @@ from .style import AnnotateConfig
 __all__ = ["AppendDeclined", "AppendRequest", "append_annotated_dxf"]
 
 log = logging.getLogger(__name__)
+
+#: The first bytes of a binary DXF file (DXF reference, "Binary DXF Files"): declined.
+_BINARY_SENTINEL = b"AutoCAD Binary DXF"
 
 
 @dataclass(frozen=True)
@@ -93,18 +98,30 @@ def append_annotated_dxf(
         raise AppendDeclined("the drawing was not streamed for this application id")
     if not obstacles.dxfversion or obstacles.dxfversion <= "AC1012":
         raise AppendDeclined(f"DXF version {obstacles.dxfversion or 'unknown'} (R12 and older)")
-    data = src.read_bytes()
-    if data.startswith(b"AutoCAD Binary DXF"):
-        raise AppendDeclined("binary DXF")
+    with open(src, "rb") as f:  # the bytes themselves only after the placement (memory)
+        if f.read(len(_BINARY_SENTINEL)) == _BINARY_SENTINEL:
+            raise AppendDeclined("binary DXF")
+        before = os.fstat(f.fileno())
     measure = fonts.make_font(config.font, 1.0).text_width
     route_layers = sorted({str(getattr(s, "layer", "")) for s in marks.segments.values()} - {""})
     scratch = scratch_drawing(obstacles, config, measure, route_layers)
     counts = add_marks(scratch.doc, scratch.scan, marks, config, measure, str(src), progress,
                        lines=scratch.lines)
-    out, removed = splice_marks(data, scratch, obstacles, header)
+    out, removed = splice_marks(_same_bytes(src, before), scratch, obstacles, header)
     if removed:
         log.info("%s: removed %d marks of an earlier run", src, removed)
     with atomic_path(dst) as tmp:
         Path(tmp).write_bytes(out)
     return counts, removed, scratch
 
+
+def _same_bytes(src: Path, before: os.stat_result) -> bytes:
+    """The bytes of ``src``, read after the placement; refused when the file was saved
+    over since it was read (its size or modification time changed): our marks and their
+    handles belong to the drawing as it was streamed."""
+    with open(src, "rb") as f:
+        now = os.fstat(f.fileno())
+        if (now.st_size, now.st_mtime_ns) != (before.st_size, before.st_mtime_ns):
+            raise DrawingReadError(file=src, problem="the drawing was saved while it was being annotated",
+                                   fix="run cablewright again on the saved drawing")
+        return f.read()
