@@ -295,6 +295,7 @@ def test_a_drawing_saved_during_the_annotation_is_refused_in_one_line(tmp_path, 
     import os
 
     from cablewright.annotate.drawing import append_writer
+
     from cablewright.cli import main
 
     dxf = _small_drawing(tmp_path / "saved.dxf", "AC1032")
