@@ -23,7 +23,7 @@ import gc
 from collections.abc import Iterator
 from contextlib import contextmanager
 
-__all__ = ["RUN_THRESHOLDS", "tuned_collector", "collect_between"]
+__all__ = ["RUN_THRESHOLDS", "tuned_collector", "collect_between", "settle"]
 
 #: Collector thresholds during a run (generation 0, 1, 2), set from the figures
 #: in benchmarks/RESULTS.md (our own choice: large enough that the collector is
@@ -70,3 +70,16 @@ def tuned_collector(thresholds: tuple[int, int, int] | None = RUN_THRESHOLDS) ->
 def collect_between() -> int:
     """A full collection (between the drawings of a batch); returns what it found unreachable."""
     return gc.collect()
+
+
+def settle() -> bool:
+    """Inside a tuned run, freeze what is alive now (after a stage whose results live to the
+    end of the run: the measurement, the sized job), after collecting the young garbage, so
+    the collector never walks those objects again; True when it froze.  Outside a run (a
+    library call, a test) it does nothing.  The run's end unfreezes them
+    (:func:`tuned_collector`); batch mode collects between drawings as before."""
+    if not _depth:
+        return False
+    gc.collect(1)
+    gc.freeze()
+    return True

@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING
 
 from cablewright.annotate.model import CircuitOutcome
 
+from .collector import settle
 from .config import Settings, load_settings
 from .outputs import job_document, job_takeoff, output_session, write_outputs
 from .pipeline import JobResult, measure_drawing, size_measurement
@@ -144,11 +145,13 @@ def size_drawing(drawing: str | Path, circuits: str | None, config: str | None, 
                                       marks_appid=settings.annotate.appid if SIZE_STREAMS else None)
         if circuits is None:
             _attributes_note(drawing, measurement)
+        settle()  # the measurement lives to the end: never walked by the collector again
         stage("sizing")
         with _progress(len(measurement.rows), quiet, "sizing") as tick:
             job = size_measurement(measurement, settings, tick)
         stage("writing the annotated drawing, schedule and report")
         takeoff, extras = job_takeoff(job, drawing, settings)
+        settle()  # the sized job and the quantities, likewise
         changes = None
         if previous_doc is not None:
             from cablewright.annotate.changes import compare_documents

@@ -27,7 +27,7 @@ from cablewright.extract.model import DrawingConfig
 from conftest import compare_readers
 from shapely.geometry import LineString
 
-from cablewright.collector import RUN_THRESHOLDS, collect_between, tuned_collector
+from cablewright.collector import RUN_THRESHOLDS, collect_between, settle, tuned_collector
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLE = ROOT / "sample_drawings" / "pumping_station.dxf"
@@ -204,6 +204,19 @@ def test_collector_thresholds_are_raised_during_a_run_and_restored_after():
     with tuned_collector(None):
         assert gc.get_threshold() == before
     assert collect_between() >= 0
+
+
+def test_settle_freezes_what_lives_only_inside_a_run():
+    """``settle`` (after the measurement and the sizing) freezes the live objects inside a
+    tuned run, so the collector never walks them again; outside one it does nothing; the
+    run's end unfreezes them (Python docs, gc.freeze / get_freeze_count)."""
+    assert settle() is False and gc.get_freeze_count() == 0
+    with tuned_collector():
+        frozen = gc.get_freeze_count()
+        kept = [[i] for i in range(10_000)]  # long-lived results of a stage
+        assert settle() is True
+        assert gc.get_freeze_count() >= frozen + len(kept)
+    assert gc.get_freeze_count() == 0
 
 
 def _modules_after(code: str) -> set[str]:
