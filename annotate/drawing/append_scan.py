@@ -208,10 +208,10 @@ def _tables(doc: Any, obstacles: StreamObstacles) -> None:
             doc.linetypes.add(name, pattern=[0.0])
     for name in obstacles.styles:  # with their fonts: the drawing's texts are measured by them
         font = obstacles.style_fonts.get(name) or "txt"
-        if not doc.styles.has_entry(name):
-            doc.styles.add(name, font=font)
-        elif name.upper() != "STANDARD" or font != "txt":
+        if doc.styles.has_entry(name):  # STANDARD, made by ezdxf.new
             doc.styles.get(name).dxf.font = font
+        else:
+            doc.styles.add(name, font=font)
     for name in obstacles.appids:
         if not doc.appids.has_entry(name):
             doc.appids.add(name)

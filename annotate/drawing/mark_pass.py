@@ -28,7 +28,7 @@ from .note_keys import keyed_notes_list
 from .obstacles import DrawingScan, extents, keep_clear_boxes
 from .revision_marks import place_fill_marks
 from .schedule_table import schedule_table
-from .segment_ids import place_segment_ids
+from .segment_ids import id_stretches, place_segment_ids
 from .stretches import route_obstacles, scaled
 from .style import INDEX_CELL_H, SCHEDULE_GAP_H, TITLE_TO_TABLE_H, AnnotateConfig
 from .text_height import choose_text_height_m
@@ -87,12 +87,14 @@ def _place_marks(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
     first, kind by kind (:mod:`.mark_rounds`); ``runs``: the runs that get group tags
     (:func:`.group_tags.tagged_runs`), their fills written under them."""
     ids_first = config.segment_ids and no_repair_rounds(marks)
-    segment_ids = place_segment_ids(w, index, marks, select, short=True) if ids_first else 0
+    ids = id_stretches(marks) if config.segment_ids else []  # once for both passes
+    segment_ids = place_segment_ids(w, index, marks, select, short=True, todo=ids) if ids_first else 0
     labels, _, unlabelled = place_cable_labels(w, index, marks, progress, select)
     group_tags, _, fills_under_tags = (place_group_tags(w, index, marks, select, runs)
                                        if config.group_tags else (0, 0, 0))
     if config.segment_ids:
-        segment_ids += place_segment_ids(w, index, marks, select, short=False if ids_first else None)
+        segment_ids += place_segment_ids(w, index, marks, select, short=False if ids_first else None,
+                                         todo=ids)
     fill_notes = place_fill_marks(w, index, marks, select, runs) + fills_under_tags
     device_notes, error_notes, _ = place_equipment_notes(w, index, marks, select)
     return labels, unlabelled, group_tags, device_notes, error_notes, segment_ids, fill_notes

@@ -40,7 +40,6 @@ REPAIR_MAX_MARKS = 40
 REPAIR_MAX_PLACED = 1000
 
 
-
 def no_repair_rounds(marks: Any) -> bool:
     """True when a drawing surely gets no repair rounds: its circuits and segments alone
     (``marks.outcomes``, ``marks.segments``: a label and an id each, about) are more than

@@ -27,7 +27,7 @@ from .mark_rounds import MarkRound
 from .stretches import Stretch, rank_stretches, scaled, straight_stretches
 from .text import clean
 
-__all__ = ["BOUND_SEGMENT_H", "place_segment_ids", "segment_order"]
+__all__ = ["BOUND_SEGMENT_H", "id_stretches", "place_segment_ids", "segment_order"]
 
 #: A segment shorter than this [text heights] is "short": two cable labels (12-18 h each,
 #: :data:`.style.INDEX_CELL_H`) fill both its sides (our own choice).
@@ -45,7 +45,7 @@ def segment_order(segment_id: str) -> tuple[int, str]:
     return (len(segment_id), segment_id)
 
 
-def _id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
+def id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
     """Each segment with a plan length and its straight stretches, in id order."""
     k = float(marks.units_per_m)
     out = []
@@ -59,12 +59,14 @@ def _id_stretches(marks: AnnotationInput) -> list[tuple[str, list[Stretch]]]:
 
 
 def place_segment_ids(w: EntityWriter, index: LabelIndex, marks: AnnotationInput,
-                      select: MarkRound | None = None, short: bool | None = None) -> int:
+                      select: MarkRound | None = None, short: bool | None = None,
+                      todo: list[tuple[str, list[Stretch]]] | None = None) -> int:
     """One id per segment with a plan length, on the group-tag layer; the number written;
     ``select`` as in :func:`.labels.place_cable_labels`; ``short`` True or False: only the
-    ids of segments shorter than :data:`BOUND_SEGMENT_H`, or only the others."""
+    ids of segments shorter than :data:`BOUND_SEGMENT_H`, or only the others; ``todo``:
+    :func:`id_stretches` of ``marks``, when worked out already."""
     written = 0
-    todo = _id_stretches(marks)
+    todo = id_stretches(marks) if todo is None else todo
     sel = select or MarkRound()
     bound = BOUND_SEGMENT_H * w.height
     for seg_id, stretches in todo:
