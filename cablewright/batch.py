@@ -34,6 +34,7 @@ from cablewright.annotate.jsonout import document as outcomes_document
 from cablewright.core.errors import CableRouteError, ConfigError, DrawingReadError
 
 from .exits import EXIT_INPUT, exit_code_for, internal_error_line
+from .outputs import make_parents
 from .size_run import error_lines, issue_lines, settings_from, size_drawing
 
 __all__ = ["expand_drawings", "run_batch", "BatchItem", "BatchSchedulerError", "output_folders"]
@@ -196,13 +197,24 @@ def run_batch(args: argparse.Namespace) -> int:
         print(f"cablewright: {note}", file=sys.stderr)
     call = [(str(d), args.circuits, args.config, str(f), args.recover, getattr(args, "units", None))
             for d, f in zip(drawings, folders, strict=True)]
-    if getattr(args, "scheduler", None):
-        items = _on_cluster(args.scheduler, call)
-    elif jobs == 1 or len(drawings) == 1:
-        items = [_one(*c) for c in call]
-    else:
-        with ProcessPoolExecutor(max_workers=min(jobs, len(drawings))) as pool:
-            items = list(pool.map(_one, *zip(*call, strict=False)))
+    # the common --out folder made here, before the drawings run side by side: a drawing's run
+    # removes the folders it made when it wrote nothing (outputs.output_session), and would
+    # take this one from under a neighbour that is about to write into it
+    made = make_parents(Path(args.out).resolve()) if args.out else []
+    try:
+        if getattr(args, "scheduler", None):
+            items = _on_cluster(args.scheduler, call)
+        elif jobs == 1 or len(drawings) == 1:
+            items = [_one(*c) for c in call]
+        else:
+            with ProcessPoolExecutor(max_workers=min(jobs, len(drawings))) as pool:
+                items = list(pool.map(_one, *zip(*call, strict=False)))
+    finally:
+        for folder in reversed(made):
+            try:
+                folder.rmdir()  # only when empty: no drawing wrote anything
+            except OSError:
+                break
     for item in items:
         for line in item.lines:
             print(f"cablewright: {line}", file=sys.stderr)

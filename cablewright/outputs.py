@@ -212,7 +212,7 @@ def _clean_stale(out: Path) -> None:
                 shutil.rmtree(entry, ignore_errors=True)
 
 
-def _make_parents(folder: Path) -> list[Path]:
+def make_parents(folder: Path) -> list[Path]:
     """Create ``folder`` and its missing parents; return those created (outermost first)."""
     missing = []
     probe = folder
@@ -242,7 +242,7 @@ def output_session(out_dir: str | os.PathLike[str],
     """
     out = _absolute(out_dir)
     check_inputs_not_outputs(out, inputs)
-    created = _make_parents(out.parent)
+    created = make_parents(out.parent)
     try:
         with _locked(out):
             _clean_stale(out)
