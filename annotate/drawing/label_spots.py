@@ -20,6 +20,7 @@ tested against the drawing's fixed obstacles in one bulk query (:mod:`.mark_inde
 from __future__ import annotations
 
 import dataclasses
+import itertools
 import logging
 import math
 from collections.abc import Callable, Sequence
@@ -202,7 +203,6 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         raise ValueError("no stretch to place a label on")
     h = text_height
     tried = list(stretches[:MAX_STRETCHES])
-    out = [g * h for g in _leader_gaps(max_leader_h)]
     found = _clear_on_route(index, tried, width, height, h, max_leader_h, ends_first)
     if found is None and key_size is not None:
         key_w, key_h = key_size() if callable(key_size) else key_size
@@ -210,6 +210,7 @@ def place_on_route(index: LabelIndex, stretches: Sequence[Stretch], width: float
         found = None if found is None else dataclasses.replace(found, keyed=True)
     if found is not None:
         return found
+    out = [g * h for g in _leader_gaps(max_leader_h)]
     rings = ring_spots(_ring_points(tried, h), width, height, out)
     return _last_resort(index, tried, rings, width, height, h)
 
@@ -223,9 +224,11 @@ def _clear_on_route(index: LabelIndex, tried: Sequence[Stretch], width: float, h
         spot = pick(index, stretch_spots(s, width, height, beside, ends_first), h, leader_lines=None)
         if spot is not None:
             return record(index, spot, h, leader=False, how="beside")
-    rings = ring_spots(_ring_points(tried, h), width, height, out)
     loose: Spot | None = None  # the first spot whose leader crosses a line of the drawing
-    for spots in [*(stretch_spots(s, width, height, out) for s in tried), rings]:
+    # each stretch's spots, then the rings, built only when the ones before found nothing
+    arrays = itertools.chain((stretch_spots(s, width, height, out) for s in tried),
+                             (ring_spots(_ring_points(tried, h), width, height, out) for _ in (0,)))
+    for spots in arrays:
         spot, over_line = _pick_leader(index, spots, h, max_leader_h * h)
         if spot is not None:
             return record(index, spot, h, leader=True, how="leader")

@@ -111,12 +111,12 @@ def crossing_marks(index: Any, a: np.ndarray, b: np.ndarray, shorten_a: float) -
         return out
     p0, p1, margin = rows.p0[which], rows.p1[which], rows.margin[which]
     segs = shapely.linestrings(np.stack([p0, p1], axis=1))
-    # candidate boxes: the tree of our marks (its boxes), and those added since
+    # candidate boxes: the trees of our marks (their boxes), and those added since
     parts_l, parts_b = [], []
     first = index._in_tree[0]
-    if index._mark_tree is not None:
-        li, gi = index._mark_tree.query(segs)
-        bi = index._tree_geom_box[gi]
+    for level in index._levels:  # as the search took them (not rebuilt here)
+        li, gi = level.tree.query(segs)
+        bi = level.box_of[gi]
         parts_l.append(li[bi >= 0])
         parts_b.append(bi[bi >= 0])
     since = index._since_tree(first)
