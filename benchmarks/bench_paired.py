@@ -20,7 +20,13 @@ end: interpreter start, imports and the command) and peak RSS
   network, routing, sizing, the annotated copy; no schedule files, preview or
   reports), ``reader`` = ``full`` or ``append`` as above.
 
-Run: ``python benchmarks/bench_paired.py --sizes 2000 8000 --repeats 3 [--work DIR] [--json FILE]``.
+* ``base:<variant>``: the variant run by another checkout (``--baseline DIR``: its own
+  ``benchmarks/bench_paired.py`` with its own ``.venv``), e.g. main before a change, paired
+  with the same variant of this checkout in every repeat.
+
+Run: ``python benchmarks/bench_paired.py --sizes 2000 8000 --repeats 3 [--work DIR] [--json FILE]``;
+before/after: ``git worktree add /tmp/before main``, ``make .venv/.installed-stamp`` there, then
+``--baseline /tmp/before --variants floor base:size:append:tuned size:append:tuned``.
 Prints min / median / max per variant and the ratio of the minima to the floor.
 """
 
@@ -112,9 +118,15 @@ def _child(variant: str, drawing: Path, schedule: Path) -> dict:
     return result
 
 
-def _run_child(variant: str, drawing: Path, schedule: Path) -> dict:
-    cmd = [sys.executable, str(Path(__file__).resolve()), "--child", variant,
-           "--drawing", str(drawing), "--schedule", str(schedule)]
+def _run_child(variant: str, drawing: Path, schedule: Path, baseline: Path | None = None) -> dict:
+    python, script = sys.executable, str(Path(__file__).resolve())
+    if variant.startswith("base:"):
+        if baseline is None:
+            raise SystemExit(f"{variant}: give the other checkout with --baseline DIR")
+        variant = variant.removeprefix("base:")
+        python = str(baseline / ".venv" / "bin" / "python")
+        script = str(baseline / "benchmarks" / "bench_paired.py")
+    cmd = [python, script, "--child", variant, "--drawing", str(drawing), "--schedule", str(schedule)]
     proc = subprocess.run(cmd, capture_output=True, text=True, check=False)
     if proc.returncode != 0:
         raise RuntimeError(f"{variant} child failed on {drawing}:\n{proc.stderr[-4000:]}")
@@ -134,6 +146,8 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--work", default=str(Path(tempfile.gettempdir()) / "cablewright-bench"))
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--json", dest="json_out", default=None)
+    parser.add_argument("--baseline", type=Path, default=None,
+                        help="another checkout (with its .venv) for the base:<variant> variants")
     parser.add_argument("--child", help=argparse.SUPPRESS)
     parser.add_argument("--drawing", help=argparse.SUPPRESS)
     parser.add_argument("--schedule", help=argparse.SUPPRESS)
@@ -153,7 +167,7 @@ def main(argv: list[str] | None = None) -> int:
         runs: dict[str, list[dict]] = {v: [] for v in args.variants}
         for r in range(args.repeats):
             for v in args.variants:
-                runs[v].append(_run_child(v, drawing, schedule))
+                runs[v].append(_run_child(v, drawing, schedule, args.baseline))
                 print(f"{n} repeat {r + 1} {v}: {runs[v][-1]['cpu_s']:.2f} s cpu, "
                       f"{runs[v][-1]['maxrss_mib']:.0f} MiB", file=sys.stderr, flush=True)
         results[str(n)] = runs

@@ -113,3 +113,45 @@ def test_first_free_with_chunks_and_screen_equals_one_by_one_search():
         assert (None if got is None else got) == (None if want is None else _spot(spots, want))
         found += want is not None
     assert 0 < found < 40
+
+
+def test_first_free_equals_one_by_one_search_as_the_trees_of_marks_grow():
+    """Marks added one at a time past many rebuilds (REBUILD_AFTER) and merges of the small
+    tree into the large one (MERGE_SHARE): the trees hold exactly the marks up to the last
+    rebuild, in order, and every search gives the one-by-one spot."""
+    from cablewright.annotate.drawing import mark_index
+    from shapely.geometry import LineString
+
+    rng = np.random.default_rng(11)
+    index = LabelIndex(cell=12.0)
+    side = 400.0
+    shapes_seen = set()
+    found = 0
+    for step in range(1600):
+        cx, cy = rng.uniform(0.0, side, 2)
+        index.add(oriented_box(float(cx), float(cy), rng.uniform(2.0, 12.0), 1.7,
+                               rng.choice([0.0, 30.0, 90.0, -45.0])))
+        if step % 3 == 0:  # a leader of ours now and then
+            index.add_line(LineString([(cx, cy), (cx + rng.uniform(-20, 20), cy + rng.uniform(-20, 20))]))
+        if step % 40 == 39:
+            spots = _rows(rng, int(rng.integers(50, 300)), 1.0)
+            spots[:, :2] = rng.uniform(0.0, side, (1, 2)) + rng.uniform(-30.0, 30.0, (len(spots), 2))
+            spots[:, 6:8] = spots[0, :2] + rng.uniform(-3.0, 3.0, 2)
+            spots[:, 8] = rng.uniform(0.0, 3.0, len(spots))
+            want = _one_by_one(index, spots, 0.05)
+            got = pick(index, spots, 1.0, leader_lines=True)
+            assert (None if got is None else got) == (None if want is None else _spot(spots, want))
+            found += want is not None
+            levels = index.mark_levels()
+            shapes_seen.add(len(levels))
+            if not levels:  # fewer marks than a rebuild: all of them in the grid
+                assert index._mark_geoms.n < mark_index.REBUILD_AFTER
+                continue
+            # contiguous from the first mark, ending where the grid of the marks since begins
+            assert [lv.start for lv in levels] == [0, *[lv.stop for lv in levels[:-1]]]
+            assert levels[-1].stop == sum(index._in_tree)
+            assert 0 <= index._mark_geoms.n - levels[-1].stop < mark_index.REBUILD_AFTER
+            for lv in levels:
+                assert len(lv.tree) == lv.stop - lv.start
+    assert shapes_seen == {0, 1, 2}  # both a lone large tree and a large one with a small one
+    assert 0 < found < 40
