@@ -23,10 +23,11 @@ import re
 from collections.abc import Sequence
 from typing import Any
 
+import shapely
 from ezdxf import disassemble
 from ezdxf.tools import text_size
 from ezdxf.tools.text import estimate_mtext_extents
-from shapely.geometry import LineString, MultiPoint, Point, Polygon
+from shapely.geometry import LineString, Point, Polygon
 from shapely.ops import nearest_points
 
 from .entities import EntityWriter, Mark
@@ -104,7 +105,7 @@ def text_outline(entities: Sequence[Any], heights: dict[tuple, float] | None = N
         pts += [(v.x, v.y) for v in prim.vertices()]
     if len(pts) < 3:
         return None
-    hull = MultiPoint(pts).convex_hull
+    hull = shapely.multipoints(pts).convex_hull  # as MultiPoint(pts), built in one call
     return hull if isinstance(hull, Polygon) and hull.area > 0.0 else None
 
 
@@ -126,15 +127,15 @@ def leader_end(place: Placement, outline: Polygon | None, tolerance: float,
     _, searched = nearest_points(anchor, box.exterior)
     if outline is None:
         return (searched.x, searched.y)
-    tested = LineString([anchor, searched])
+    ax, ay = place.anchor
+    tested = LineString([(ax, ay), (searched.x, searched.y)])
     _, end = nearest_points(anchor, outline.exterior)
-    meets = LineString([anchor, end]).intersection(box.exterior)
+    meets = LineString([(ax, ay), (end.x, end.y)]).intersection(box.exterior)
     met = end if meets.is_empty else nearest_points(anchor, meets)[1]
     if met.distance(tested) <= tolerance:
         return (end.x, end.y)
     length = tested.length
     if length > 0.0:
-        ax, ay = place.anchor
         reach = 1.0 + 2.0 * box.length / length  # past the far side of the box
         ray = LineString([(ax, ay), (ax + (searched.x - ax) * reach, ay + (searched.y - ay) * reach)])
         hits = ray.intersection(outline.exterior)
