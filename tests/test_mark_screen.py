@@ -145,12 +145,12 @@ def test_first_free_equals_one_by_one_search_as_the_trees_of_marks_grow():
             levels = index.mark_levels()
             shapes_seen.add(len(levels))
             if not levels:  # fewer marks than a rebuild: all of them in the grid
-                assert index._mark_geoms.n < mark_index.REBUILD_AFTER
+                assert len(index._marks) < mark_index.REBUILD_AFTER
                 continue
             # contiguous from the first mark, ending where the grid of the marks since begins
             assert [lv.start for lv in levels] == [0, *[lv.stop for lv in levels[:-1]]]
             assert levels[-1].stop == sum(index._in_tree)
-            assert 0 <= index._mark_geoms.n - levels[-1].stop < mark_index.REBUILD_AFTER
+            assert 0 <= len(index._marks) - levels[-1].stop < mark_index.REBUILD_AFTER
             for lv in levels:
                 assert len(lv.tree) == lv.stop - lv.start
     assert shapes_seen == {0, 1, 2}  # both a lone large tree and a large one with a small one

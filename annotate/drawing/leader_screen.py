@@ -114,7 +114,7 @@ def crossing_marks(index: Any, a: np.ndarray, b: np.ndarray, shorten_a: float) -
     # candidate boxes: the trees of our marks (their boxes), and those added since
     parts_l, parts_b = [], []
     first = index._in_tree[0]
-    for level in index._levels:  # as the search took them (not rebuilt here)
+    for level in index._marks.levels:  # as the search took them (not rebuilt here)
         li, gi = level.tree.query(segs)
         bi = level.box_of[gi]
         parts_l.append(li[bi >= 0])

@@ -8,16 +8,10 @@ obstacles, a parsed document or a streamed one, can hand them in):
   a batch of candidate spots is tested against them in one bulk query
   (``STRtree.query`` with an array of polygons);
 * our marks placed so far (label boxes, leaders, revision diamonds), which change with
-  every mark: those up to the last :data:`REBUILD_AFTER` in shapely trees (tested in
-  bulk, as the fixed ones), the last ones in a uniform grid of oriented boxes, tested by
-  the separating axis test (:func:`.boxes.boxes_overlap`), only for the spots the bulk
-  queries left free, in the order of preference, up to the first free one.
-
-The marks in the trees are held by two trees, a large one rebuilt seldom and a small one
-of the marks since, rebuilt every :data:`REBUILD_AFTER` marks (:class:`MarkTrees`): one
-tree of them all, rebuilt as often, cost a time growing with the square of the marks
-(4 s of the 8,000-circuit plant's marks, benchmarks/RESULTS.md).  The two hold exactly
-the marks the one tree held, so the same spots are refused.
+  every mark: those up to the last rebuild (every :data:`REBUILD_AFTER`) in shapely trees
+  (:mod:`.mark_trees`), tested in bulk; the last ones in a uniform grid of oriented
+  boxes, tested by the separating axis test (:func:`.boxes.boxes_overlap`), only for
+  the spots the bulk queries left free, in order of preference, up to the first free one.
 
 A candidate array is taken a chunk at a time (:data:`FIRST_CHUNK`, growing), so spots
 after the first free one are never built; leaders are screened in bulk against our boxes
@@ -43,6 +37,7 @@ from shapely.geometry import Point, Polygon
 from .box_arrays import box_polygons, row_box, thin_box, tree_of
 from .boxes import Box, _polygon, boxes_overlap
 from .leader_screen import crossing_marks
+from .mark_trees import MarkLevel, MarkTrees
 from .placement_stats import PlacementStats
 
 __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"]
@@ -51,10 +46,6 @@ __all__ = ["LabelIndex", "PlacementStats", "box_polygons", "row_box", "thin_box"
 #: Marks added before the tree of our marks is rebuilt: a rebuild costs about as much as
 #: a few hundred grid tests (measured on the benchmark plant, benchmarks/RESULTS.md).
 REBUILD_AFTER = 200
-#: The small tree of our marks (those since the large one) is merged into the large one when
-#: it would hold more than this share of it: each mark is then put in a large tree a few
-#: times in all, and in a small one a few dozen (our own choice, benchmarks/RESULTS.md).
-MERGE_SHARE = 0.25
 POLY_MEMO = 4  #: candidate arrays whose polygons are kept (tiers and last resorts reuse some)
 #: Boxes of a candidate array tested in bulk at first, the next chunk :data:`CHUNK_GROWTH`
 #: times as many: half the first free boxes are among the first 6-12 of a few hundred,
@@ -64,34 +55,6 @@ FIRST_CHUNK = 32
 CHUNK_GROWTH = 8
 #: Spots left from which leaders are screened in bulk first (fewer: the screen costs more).
 SCREEN_FROM = 4
-
-
-@dataclass(frozen=True)
-class MarkLevel:
-    """A tree of our marks number ``start:stop`` (boxes and leaders in the order placed),
-    and each one's box number (-1 for a leader)."""
-
-    tree: shapely.STRtree
-    box_of: np.ndarray
-    start: int
-    stop: int
-
-
-class _Grown:
-    """An array appended to one item at a time (its capacity doubled when full)."""
-
-    def __init__(self, dtype: Any) -> None:
-        self._data = np.empty(64, dtype=dtype)
-        self.n = 0
-
-    def append(self, item: Any) -> None:
-        if self.n == len(self._data):
-            self._data = np.concatenate([self._data, np.empty_like(self._data)])
-        self._data[self.n] = item
-        self.n += 1
-
-    def view(self, start: int, stop: int) -> np.ndarray:
-        return self._data[start:stop]
 
 
 @dataclass
@@ -138,13 +101,11 @@ class LabelIndex:
         self.stats = PlacementStats()
         # our marks so far in a tree (boxes and leaders), rebuilt every REBUILD_AFTER marks;
         # those added since are tested through the grid
-        self._mark_geoms = _Grown(object)
-        self._levels: list[MarkLevel] = []  # the large tree, then the small one
+        self._marks = MarkTrees(REBUILD_AFTER)
         self._in_tree = (0, 0)  # boxes, lines in the trees
         # for the leader screen: the placed boxes as rows, each mark geometry's box number
         # (-1 for a line), the tree's numbers and a small tree of the boxes added since
         self._box_rows = np.empty((64, 6))
-        self._geom_box = _Grown(np.int64)
         self._since: tuple[int, int, shapely.STRtree | None] = (0, 0, None)
         # polygons of the last few candidate arrays, held with the array (identity is safe)
         self._poly_memo: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = []
@@ -188,8 +149,7 @@ class LabelIndex:
         """Record a placed box (``polygon``: its :func:`.boxes._polygon`, when made already)."""
         idx = len(self._boxes)
         self._boxes.append(box)
-        self._mark_geoms.append(_polygon(box) if polygon is None else polygon)
-        self._geom_box.append(idx)
+        self._marks.add(_polygon(box) if polygon is None else polygon, idx)
         if idx == len(self._box_rows):
             self._box_rows = np.concatenate([self._box_rows, np.empty_like(self._box_rows)])
         self._box_rows[idx] = box[:6]
@@ -200,8 +160,7 @@ class LabelIndex:
         """Record one of our own lines (a leader) that later boxes must not cross."""
         idx = len(self._own_lines)
         self._own_lines.append(line)
-        self._mark_geoms.append(line)
-        self._geom_box.append(-1)
+        self._marks.add(line, -1)
         for key in self._cells(*line.bounds):
             self._line_grid.setdefault(key, []).append(idx)
 
@@ -434,20 +393,8 @@ class LabelIndex:
         return self._since[2]
 
     def mark_levels(self) -> list[MarkLevel]:
-        """The trees of our marks (:class:`MarkLevel`, the large one first), rebuilt when
-        :data:`REBUILD_AFTER` marks were added since: the small one, or both merged into
-        the large one when the small one would hold more than :data:`MERGE_SHARE` of it."""
-        n_geom = self._mark_geoms.n
-        stop = self._levels[-1].stop if self._levels else 0
-        if n_geom - stop >= REBUILD_AFTER:
-            large = self._levels[0] if self._levels else None
-            if large is None or n_geom - large.stop > MERGE_SHARE * large.stop:
-                self._levels = [self._level(0, n_geom)]
-            else:
-                self._levels = [large, self._level(large.stop, n_geom)]
+        """The trees of our marks (:class:`.mark_trees.MarkLevel`, the large one first),
+        rebuilt when :data:`REBUILD_AFTER` marks were added since (:class:`.mark_trees.MarkTrees`)."""
+        if self._marks.rebuild():
             self._in_tree = (len(self._boxes), len(self._own_lines))
-        return self._levels
-
-    def _level(self, start: int, stop: int) -> MarkLevel:
-        return MarkLevel(shapely.STRtree(self._mark_geoms.view(start, stop)),
-                         self._geom_box.view(start, stop).copy(), start, stop)
+        return self._marks.levels
