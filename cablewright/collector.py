@@ -23,7 +23,7 @@ import gc
 from collections.abc import Iterator
 from contextlib import contextmanager
 
-__all__ = ["RUN_THRESHOLDS", "tuned_collector", "collect_between", "settle"]
+__all__ = ["RUN_THRESHOLDS", "tuned_collector", "collect_between", "release", "settle"]
 
 #: Collector thresholds during a run (generation 0, 1, 2), set from the figures
 #: in benchmarks/RESULTS.md (our own choice: large enough that the collector is
@@ -83,3 +83,13 @@ def settle() -> bool:
     gc.collect(1)
     gc.freeze()
     return True
+
+
+def release() -> int:
+    """Inside a tuned run, a full collection now (a stage's large cyclic garbage, such as a
+    drawing document no longer used, freed before the next stage's peak instead of at the
+    collector's next oldest-generation pass, which the raised thresholds make rare);
+    returns what it found unreachable, 0 outside a run (where it does nothing)."""
+    if not _depth:
+        return 0
+    return gc.collect()

@@ -329,6 +329,8 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     )
     from cablewright.annotate.takeoff import xlsx_sheets
 
+    from .collector import release
+
     names = output_names(drawing)
     measurement = job.measurement
     standard = settings.sizing.standard
@@ -361,6 +363,7 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
     # the parsed drawing (the full writer's): the preview's background on a small drawing;
     # an appended copy has none (its scratch document holds the LINEs as shapely lines only)
     document = None if summary.appended else summary.document
+    summary = dataclasses.replace(summary, document=None)  # its marks are written: let it go
     # how the marks were placed, the last resorts counted (issue 12: never silent)
     extras = {**extras, "drawing_marks": {"text_height": summary.text_height,
                                           "segment_ids": summary.segment_ids,
@@ -376,6 +379,8 @@ def _write_all(job, drawing: Path, stage: Path, settings: Settings, takeoff, ext
         sections.insert(0, changes_section(changes, previous_name, unit))
     png = _preview(measurement, summary, document, units_per_m)
     (stage / names["png"]).write_bytes(png)
+    document = None
+    release()  # the drawing documents' cycles, before the reports (the run's memory peak)
     report_cfg = report_config(settings)
     version = extras.get("tool", {}).get("version", "")
     write_report_html(stage / names["html"], job.outcomes, title=f"Cable sizing: {drawing.name}",

@@ -28,3 +28,32 @@ def test_one_drawing_runs_tuned_and_is_collected_after(monkeypatch, tmp_path):
     assert seen == [RUN_THRESHOLDS]
     assert len(collected) == 1
     assert gc.get_threshold() == before  # restored after the drawing
+
+
+class _Node:
+    def __init__(self) -> None:
+        self.other: _Node | None = None
+
+
+def _cycle():
+    import weakref
+
+    a, b = _Node(), _Node()
+    a.other, b.other = b, a  # freed only by the cyclic collector (Python docs, ``gc``)
+    return weakref.ref(a)
+
+
+def test_release_frees_cyclic_garbage_inside_a_run_only():
+    gc.disable()  # no automatic pass may free the cycle first
+    try:
+        outside = _cycle()
+        assert collector.release() == 0 and outside() is not None  # not in a run: nothing done
+        with collector.tuned_collector():
+            gc.disable()
+            inside = _cycle()
+            assert inside() is not None
+            assert collector.release() >= 2  # the two nodes of the cycle at least
+            assert inside() is None
+    finally:
+        gc.enable()
+        gc.collect()
